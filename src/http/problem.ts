@@ -1,0 +1,45 @@
+import type { FastifyReply } from "fastify";
+import type { z } from "zod";
+
+/** RFC 9457 problem details. `errors` names each offending field by its dotted path. */
+export interface Problem {
+  type: string;
+  title: string;
+  status: number;
+  detail: string;
+  instance?: string;
+  errors?: { path: string; message: string }[];
+}
+
+export const PROBLEM_BASE = "https://pfc-sizing.invalid/problems/";
+
+export class ProblemError extends Error {
+  constructor(readonly problem: Problem) {
+    super(problem.detail);
+  }
+}
+
+export function problem(status: number, slug: string, title: string, detail: string, errors?: Problem["errors"]): Problem {
+  return { type: PROBLEM_BASE + slug, title, status, detail, ...(errors ? { errors } : {}) };
+}
+
+export function sendProblem(reply: FastifyReply, p: Problem): FastifyReply {
+  return reply.code(p.status).type("application/problem+json").send({ ...p, instance: reply.request.url });
+}
+
+export function pathOf(path: readonly PropertyKey[]): string {
+  return path.map((k) => String(k)).join(".");
+}
+
+export function validationProblem(errors: { path: string; message: string }[]): Problem {
+  const first = errors[0];
+  const detail =
+    errors.length === 1 && first ? `${first.path || "body"}: ${first.message}` : `${errors.length} fields are invalid; see errors`;
+  return problem(400, "validation", "The request is not valid", detail, errors);
+}
+
+export function zodErrors(error: z.ZodError, prefix: (string | number)[] = []): { path: string; message: string }[] {
+  return error.issues.map((i) => ({ path: pathOf([...prefix, ...i.path]), message: i.message }));
+}
+
+export const notFound = (what: string) => problem(404, "not-found", "Not found", `${what} was not found`);

@@ -1,0 +1,13 @@
+import type { FastifyInstance } from "fastify";
+import { size } from "../../core/sizing.js";
+import { sizingRequestSchema } from "../schemas/sizing.js";
+import { engineIssuesTo400, parseOr400 } from "../validate.js";
+
+export async function sizingRoutes(app: FastifyInstance): Promise<void> {
+  app.post("/v1/sizing", async (request) => {
+    const input = parseOr400(sizingRequestSchema, request.body);
+    const outcome = size(input);
+    if (!outcome.ok) throw engineIssuesTo400(outcome.issues);
+    return outcome.result;
+  });
+}

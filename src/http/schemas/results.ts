@@ -1,0 +1,121 @@
+import { z } from "zod";
+
+/** Response schemas: documentation and contract tests only; responses are plain objects built in code. */
+
+const sense = z.enum(["lagging", "leading", "unity"]);
+const triangle = {
+  kW: z.number(),
+  kvar: z.number().describe("signed: > 0 lagging, < 0 leading"),
+  kVA: z.number(),
+  displacementPF: z.number(),
+  sense,
+};
+
+export const warningSchema = z.object({ code: z.string(), message: z.string(), path: z.string().optional() });
+export const cautionSchema = z.object({ code: z.string(), title: z.string(), text: z.string(), reference: z.string().optional() });
+
+export const loadResultSchema = z.object({
+  label: z.string(),
+  kind: z.string(),
+  method: z.string(),
+  quantity: z.number(),
+  phases: z.number(),
+  ...triangle,
+  measuredKVA: z.number().optional(),
+  truePF: z.number().optional(),
+  lineCurrentA: z.number(),
+});
+
+export const siteResultSchema = z.object({
+  ...triangle,
+  basis: z.enum(["sum_of_loads", "service_entrance"]),
+  lineCurrentA: z.number(),
+  sumOfLoads: z.object(triangle),
+  unmetered: z.object({ kW: z.number(), kvar: z.number() }).optional(),
+});
+
+export const correctionSchema = z.object({
+  targetPF: z.number(),
+  kvarRequired: z.number(),
+  kvarPerKW: z.number(),
+  leadingExcessKvar: z.number(),
+  pfAfter: z.number(),
+  kvarAfter: z.number(),
+  kVABefore: z.number(),
+  kVAAfter: z.number(),
+  kVAReleased: z.number(),
+  lineCurrentBeforeA: z.number(),
+  lineCurrentAfterA: z.number(),
+  lossReductionPct: z.number(),
+});
+
+export const bankStageSchema = z.object({
+  stage: z.number(),
+  cumulativeNameplateKvar: z.number(),
+  cumulativeCapacitorKvar: z.number(),
+  cumulativeKvar: z.number(),
+  resonanceOrder: z.number().nullable(),
+  resonanceHz: z.number().nullable(),
+  nearHarmonic: z.number().nullable(),
+  voltageRisePct: z.number().nullable(),
+});
+
+export const bankAnalysisSchema = z.object({
+  ratedVoltageV: z.number(),
+  ratedFrequencyHz: z.number(),
+  reactorPct: z.number(),
+  steps: z.array(z.object({ kvar: z.number() })),
+  nameplateKvar: z.number(),
+  capacitorKvar: z.number(),
+  effectiveKvar: z.number(),
+  capacitorVoltageV: z.number(),
+  capacitorVoltagePctOfRated: z.number(),
+  tuningOrder: z.number().nullable(),
+  tuningHz: z.number().nullable(),
+  ratedCurrentA: z.number(),
+  capacitancePerPhase: z.object({ deltaUF: z.number(), wyeUF: z.number() }),
+  reactancePerPhaseOhm: z.number(),
+  stages: z.array(bankStageSchema),
+});
+
+export const recommendedBankSchema = bankAnalysisSchema.extend({
+  arrangement: z.enum(["fixed", "automatic"]),
+  reason: z.string(),
+  belowTarget: z.boolean(),
+});
+
+export const resonanceSchema = z.object({
+  shortCircuitKVA: z.number(),
+  transformerShortCircuitKVA: z.number().nullable(),
+  utilityShortCircuitKVA: z.number().nullable(),
+  harmonicOrdersPresent: z.array(z.number()),
+  nonlinearKVA: z.number(),
+  nonlinearSharePct: z.number().nullable(),
+  harmonicStudyAdvised: z.boolean(),
+  recommendedBankVoltageRisePct: z.number().nullable(),
+  proposedBankVoltageRisePct: z.number().nullable(),
+});
+
+export const sizingResultSchema = z.object({
+  engineVersion: z.string(),
+  system: z.object({ voltageV: z.number(), frequencyHz: z.number(), phases: z.number() }),
+  loads: z.array(loadResultSchema),
+  site: siteResultSchema,
+  correction: correctionSchema,
+  recommendedBank: recommendedBankSchema.nullable(),
+  proposedBank: bankAnalysisSchema.optional(),
+  resonance: resonanceSchema.optional(),
+  warnings: z.array(warningSchema),
+  cautions: z.array(cautionSchema),
+});
+
+export const problemSchema = z.object({
+  type: z.string(),
+  title: z.string(),
+  status: z.number(),
+  detail: z.string(),
+  instance: z.string().optional(),
+  errors: z.array(z.object({ path: z.string(), message: z.string() })).optional(),
+});
+
+export const healthSchema = z.object({ status: z.literal("ok") });

@@ -1,0 +1,109 @@
+import { z } from "zod";
+import {
+  MAX_LOADS,
+  TARGET_PF_MAX,
+  TARGET_PF_MIN,
+  VOLTS_MAX,
+  VOLTS_MIN,
+  type SizingInput,
+} from "../../core/inputs.js";
+
+/** Request schemas. They produce the engine's input types; results have their own schemas in ./results.ts. */
+
+const positive = (what: string) => z.number({ error: `${what} must be a number` }).positive(`${what} must be greater than 0`);
+const volts = z
+  .number({ error: "volts must be a number" })
+  .min(VOLTS_MIN, `volts must be between ${VOLTS_MIN} and ${VOLTS_MAX} V`)
+  .max(VOLTS_MAX, `volts must be between ${VOLTS_MIN} and ${VOLTS_MAX} V`);
+const pf = z
+  .number({ error: "pf must be a number" })
+  .gt(0, "pf must be greater than 0 and at most 1")
+  .max(1, "pf must be greater than 0 and at most 1");
+const sense = z.enum(["lagging", "leading", "unity"]);
+
+const common = {
+  pfType: z.enum(["displacement", "true"]).optional().describe('"displacement" (default) or "true" when the meter PF includes harmonics'),
+  currentTHDPct: z.number().min(0).max(300).optional().describe("current THD in percent, with a true-PF reading"),
+};
+
+export const measurementSchema = z.discriminatedUnion(
+  "method",
+  [
+    z.strictObject({ method: z.literal("kw_kva"), kW: positive("kW"), kVA: positive("kVA"), sense: sense.optional(), ...common }),
+    z.strictObject({ method: z.literal("kw_kvar"), kW: positive("kW"), kvar: z.number().describe("signed: > 0 lagging, < 0 leading"), ...common }),
+    z.strictObject({ method: z.literal("kw_pf"), kW: positive("kW"), pf, sense, ...common }),
+    z.strictObject({ method: z.literal("v_i_kw"), volts, amps: positive("amps"), kW: positive("kW"), sense: sense.optional(), ...common }),
+    z.strictObject({ method: z.literal("v_i_pf"), volts, amps: positive("amps"), pf, sense, ...common }),
+  ],
+  { error: "method must be one of kw_kva, kw_kvar, kw_pf, v_i_kw, v_i_pf" },
+);
+
+export const harmonicSpectrumSchema = z
+  .array(
+    z.strictObject({
+      order: z.number().int("order must be a whole number").min(2, "order must be 2 to 50").max(50, "order must be 2 to 50"),
+      pct: z.number().min(0, "pct must not be negative").max(300),
+    }),
+  )
+  .max(49)
+  .refine((s) => s.reduce((a, c) => a + c.pct, 0) <= 300, "the spectrum sums to more than 300 %, which no real load produces")
+  .describe("measured current spectrum, percent of the load's fundamental current");
+
+const phases = z.union([z.literal(1), z.literal(3)], { error: "phases must be 1 or 3" });
+
+export const loadSchema = z.strictObject({
+  label: z.string().trim().min(1, "label must not be empty").max(200),
+  kind: z.enum(["motor", "drive", "lighting", "hvac", "welder", "other"]).optional(),
+  phases: phases.optional(),
+  quantity: z.number().int("quantity must be a whole number").min(1).max(10_000).optional(),
+  measurement: measurementSchema,
+  harmonics: harmonicSpectrumSchema.optional(),
+});
+
+export const systemSchema = z.strictObject({
+  voltageV: volts.describe("nominal bus voltage, line-to-line on three-phase"),
+  frequencyHz: z.union([z.literal(50), z.literal(60)], { error: "frequencyHz must be 50 or 60" }),
+  phases,
+});
+
+export const transformerSchema = z.strictObject({
+  kVA: positive("kVA").max(1_000_000),
+  impedancePct: z.number().gt(0.5, "impedancePct must be above 0.5 %").max(25, "impedancePct must be at most 25 %"),
+  xOverR: z.number().positive().max(100).optional(),
+});
+
+export const utilitySchema = z.strictObject({ faultMVA: positive("faultMVA").max(1_000_000) });
+
+export const bankSchema = z.strictObject({
+  ratedVoltageV: volts,
+  ratedFrequencyHz: z.union([z.literal(50), z.literal(60)]).optional(),
+  steps: z.array(z.strictObject({ kvar: positive("kvar").max(100_000) })).min(1, "a bank needs at least one step").max(64),
+  reactorPct: z.number().min(0).max(20, "reactorPct must be 0 to 20 %").optional(),
+});
+
+export const harmonicSourcesSchema = z.array(z.enum(["six_pulse", "twelve_pulse", "single_phase_electronic"])).max(3);
+
+export const targetPFSchema = z
+  .number({ error: "targetPF must be a number" })
+  .min(TARGET_PF_MIN, `targetPF must be between ${TARGET_PF_MIN} and ${TARGET_PF_MAX}`)
+  .max(TARGET_PF_MAX, `targetPF must be between ${TARGET_PF_MIN} and ${TARGET_PF_MAX}`);
+
+export const loadsSchema = z.array(loadSchema).min(1, "at least one load is needed").max(MAX_LOADS, `at most ${MAX_LOADS} loads`);
+export const serviceEntranceSchema = z.strictObject({ label: z.string().max(200).optional(), measurement: measurementSchema });
+
+export const sizingRequestSchema = z.strictObject({
+  system: systemSchema,
+  targetPF: targetPFSchema.optional(),
+  loads: loadsSchema,
+  serviceEntrance: serviceEntranceSchema.optional(),
+  transformer: transformerSchema.optional(),
+  utility: utilitySchema.optional(),
+  proposedBank: bankSchema.optional(),
+  harmonicSources: harmonicSourcesSchema.optional(),
+});
+
+export type SizingRequest = z.infer<typeof sizingRequestSchema>;
+
+// Compile-time check: a parsed request is an engine input.
+const _assignable: (r: SizingRequest) => SizingInput = (r) => r;
+void _assignable;

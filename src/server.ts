@@ -1,0 +1,34 @@
+import { buildApp } from "./app.js";
+import { loadConfig } from "./config.js";
+
+let config;
+try {
+  config = loadConfig(process.env);
+} catch (err) {
+  process.stderr.write(`pfc-sizing: ${(err as Error).message}\n`);
+  process.exit(2);
+}
+
+const app = await buildApp({ config });
+let closing = false;
+for (const signal of ["SIGTERM", "SIGINT"] as const) {
+  process.on(signal, () => {
+    if (closing) return;
+    closing = true;
+    app.log.info({ signal }, "shutting down");
+    app.close().then(
+      () => process.exit(0),
+      (err) => {
+        app.log.error({ err }, "error during shutdown");
+        process.exit(1);
+      },
+    );
+  });
+}
+
+try {
+  await app.listen({ port: config.PORT, host: config.HOST });
+} catch (err) {
+  app.log.fatal({ err }, "could not start");
+  process.exit(1);
+}
