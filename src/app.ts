@@ -1,18 +1,58 @@
 import { randomUUID } from "node:crypto";
 import Fastify, { type FastifyInstance, type FastifyServerOptions } from "fastify";
 import type { Config } from "./config.js";
+import { seedDemo } from "./demo/seed.js";
+import { installActor } from "./http/actor.js";
+import { auditRoutes } from "./http/routes/audit.js";
+import { buildingsRoutes } from "./http/routes/buildings.js";
 import { docsRoutes } from "./http/routes/docs.js";
+import { harmonicsRoutes } from "./http/routes/harmonics.js";
+import { intervalAnalysesRoutes } from "./http/routes/interval-analyses.js";
 import { sizingRoutes } from "./http/routes/sizing.js";
+import { surveyReadRoutes } from "./http/routes/survey-reads.js";
+import { surveysRoutes } from "./http/routes/surveys.js";
 import { problem, ProblemError, sendProblem } from "./http/problem.js";
+import { openStore, type Store } from "./store/store.js";
+
+declare module "fastify" {
+  interface FastifyInstance {
+    /** The database behind the app; closed by app.close(). */
+    store: Store;
+  }
+}
 
 export interface AppOptions {
   config: Config;
   /** pino options or false; tests pass false or a silent level. */
   logger?: FastifyServerOptions["logger"];
+  /** An already-open store (the app takes ownership and closes it); otherwise config.DATABASE_PATH is opened. */
+  store?: Store;
+  /** Migrations directory, for tests; the project's migrations/ by default. */
+  migrationsDir?: string;
+  /** Clock for stored timestamps, for tests. */
+  now?: () => Date;
 }
 
 /** Build the application. It never listens: src/server.ts does. */
 export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
+  const { config } = options;
+  const store =
+    options.store ??
+    openStore({
+      path: config.DATABASE_PATH,
+      ...(options.migrationsDir ? { migrationsDir: options.migrationsDir } : {}),
+      ...(options.now ? { now: options.now } : {}),
+    });
+  try {
+    if (config.DEMO_DATA === "on") seedDemo(store);
+    return await assemble(options, store);
+  } catch (err) {
+    store.close();
+    throw err;
+  }
+}
+
+async function assemble(options: AppOptions, store: Store): Promise<FastifyInstance> {
   const { config } = options;
   const app = Fastify({
     logger: options.logger ?? { level: config.LOG_LEVEL },
@@ -23,6 +63,9 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     },
   });
 
+  // JSON only by default: a text/plain body is a 415, not a string handed to a JSON route.
+  app.removeContentTypeParser("text/plain");
+
   app.addHook("onSend", async (request, reply) => {
     reply.header("x-request-id", request.id);
   });
@@ -31,10 +74,13 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     if (error instanceof ProblemError) return sendProblem(reply, error.problem);
     const status = error.statusCode ?? 500;
     if (error.code === "FST_ERR_CTP_BODY_TOO_LARGE" || status === 413) {
-      return sendProblem(reply, problem(413, "too-large", "Request body too large", `the body exceeds ${config.BODY_LIMIT_BYTES} bytes`));
+      const limit = request.routeOptions?.bodyLimit ?? config.BODY_LIMIT_BYTES;
+      const detail = `the body exceeds ${limit} bytes`;
+      return sendProblem(reply, problem(413, "too-large", "Request body too large", detail, [{ path: "", message: detail }]));
     }
     if (error.code === "FST_ERR_CTP_INVALID_MEDIA_TYPE" || status === 415) {
-      return sendProblem(reply, problem(415, "unsupported-media-type", "Unsupported media type", "send the body as application/json"));
+      const detail = `content type ${JSON.stringify(request.headers["content-type"] ?? "")} is not accepted here; send application/json`;
+      return sendProblem(reply, problem(415, "unsupported-media-type", "Unsupported media type", detail, [{ path: "", message: detail }]));
     }
     if (status >= 400 && status < 500) {
       const detail = error.code === "FST_ERR_CTP_EMPTY_JSON_BODY" ? "the body is empty; send a JSON object" : error.message;
@@ -48,8 +94,18 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     sendProblem(reply, problem(404, "not-found", "Not found", `no route ${request.method} ${request.url.split("?")[0]}`)),
   );
 
+  app.decorate("store", store);
+  app.addHook("onClose", async () => store.close());
+  installActor(app);
+
   app.get("/health", async () => ({ status: "ok" }));
   await app.register(sizingRoutes);
+  await app.register(intervalAnalysesRoutes);
+  await app.register(harmonicsRoutes);
+  await app.register(buildingsRoutes, { store });
+  await app.register(surveysRoutes, { store });
+  await app.register(surveyReadRoutes, { store });
+  await app.register(auditRoutes, { store });
   await app.register(docsRoutes);
   return app;
 }

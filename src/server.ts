@@ -9,7 +9,14 @@ try {
   process.exit(2);
 }
 
-const app = await buildApp({ config });
+let app: Awaited<ReturnType<typeof buildApp>>;
+try {
+  app = await buildApp({ config });
+} catch (err) {
+  // e.g. a database from a newer version, a failed migration, an unwritable DATABASE_PATH
+  process.stderr.write(`pfc-sizing: cannot start with the database at ${config.DATABASE_PATH}: ${(err as Error).message}\n`);
+  process.exit(1);
+}
 let closing = false;
 for (const signal of ["SIGTERM", "SIGINT"] as const) {
   process.on(signal, () => {

@@ -1,6 +1,7 @@
 import {
   bankReactanceOhm,
   capacitancePerPhase,
+  capacitanceSinglePhaseUF,
   capacitorCurrentA,
   capacitorVoltageWithReactorV,
   effectiveKvarWithReactor,
@@ -144,11 +145,19 @@ export function analyseBank(
     tuningOrder: ht,
     tuningHz: ht === null ? null : ht * system.frequencyHz,
     ratedCurrentA: capacitorCurrentA(effectiveKvar, system.voltageV, system.phases),
-    capacitancePerPhase: capacitancePerPhase(nameplateKvar, bank.ratedVoltageV, ratedFrequencyHz),
+    capacitancePerPhase:
+      system.phases === 3
+        ? capacitancePerPhase(nameplateKvar, bank.ratedVoltageV, ratedFrequencyHz)
+        : singlePhase(capacitanceSinglePhaseUF(nameplateKvar, bank.ratedVoltageV, ratedFrequencyHz)),
     reactancePerPhaseOhm: bankReactanceOhm(capacitorKvar, system.voltageV),
     stages,
   };
   return { analysis, warnings };
+}
+
+/** A single-phase bank is one capacitor: both fields carry its value. */
+function singlePhase(uF: number): { deltaUF: number; wyeUF: number } {
+  return { deltaUF: uF, wyeUF: uF };
 }
 
 function ordinal(n: number): string {

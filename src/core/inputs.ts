@@ -84,6 +84,8 @@ export interface SizingInput {
   utility?: UtilityInput;
   proposedBank?: ProposedBankInput;
   harmonicSources?: HarmonicSourceKind[];
+  /** Background voltage distortion at the bus from the utility, percent of the fundamental per order. */
+  backgroundVoltageDistortion?: HarmonicComponent[];
 }
 
 export const DEFAULT_TARGET_PF = 0.95;

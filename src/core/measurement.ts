@@ -137,7 +137,13 @@ export function triangleOf(m: Measurement, phases: Phases, at: (string | number)
     }
   }
 
-  const kvar = sense === "unity" || displacementPF >= 1 ? 0 : signOf(sense) * kW * tanPhi(displacementPF);
+  // A kvar reading is used as read unless a true-PF correction changed the PF.
+  const kvar =
+    m.method === "kw_kvar" && m.pfType !== "true"
+      ? m.kvar
+      : sense === "unity" || displacementPF >= 1
+        ? 0
+        : signOf(sense) * kW * tanPhi(displacementPF);
   const kVA = apparentKVA(kW, kvar);
   const triangle: MeasuredTriangle = {
     kW,

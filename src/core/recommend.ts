@@ -17,6 +17,8 @@ export interface BankChoice {
   bank: ProposedBankInput;
   /** True when the bank cannot reach the target without going leading at the reading's load. */
   belowTarget: boolean;
+  /** Anything about the choice the electrician must know (e.g. more steps than one controller has). */
+  notes: string[];
 }
 
 const LARGEST_UNIT = STANDARD_UNIT_KVAR[STANDARD_UNIT_KVAR.length - 1] as number;
@@ -47,6 +49,7 @@ export function recommendBank(
         reason: `${kvarRequired.toFixed(1)} kvar is at most one standard unit and ${(share * 100).toFixed(1)} % of the ${referenceName} kVA (≤ 15 %): one fixed unit, rounded up to ${up} kvar`,
         bank: { ...base, steps: [{ kvar: up }] },
         belowTarget: false,
+        notes: [],
       };
     }
     const down = [...STANDARD_UNIT_KVAR].reverse().find((s) => s <= site.kvar) ?? null;
@@ -56,6 +59,7 @@ export function recommendBank(
         reason: `the next standard unit up (${up} kvar) would make the site lead; ${down} kvar is the largest that does not, and falls short of the target`,
         bank: { ...base, steps: [{ kvar: down }] },
         belowTarget: true,
+        notes: [],
       };
     }
     return null;
@@ -73,6 +77,10 @@ export function recommendBank(
     const n = Math.ceil(kvarRequired / LARGEST_UNIT);
     best = { n, size: LARGEST_UNIT, excess: n * LARGEST_UNIT - kvarRequired };
   }
+  const notes =
+    best.n > AUTOMATIC_MAX_STEPS
+      ? [`${best.n} steps of ${best.size} kvar are more than one ${AUTOMATIC_MAX_STEPS}-step controller switches: split the bank, or combine units into larger steps`]
+      : [];
   const why =
     kvarRequired > LARGEST_UNIT
       ? `${kvarRequired.toFixed(1)} kvar is more than one standard unit`
@@ -82,5 +90,6 @@ export function recommendBank(
     reason: `${why}: an automatic bank of ${best.n} × ${best.size} kvar steps, switched by a PF controller so it follows the load`,
     bank: { ...base, steps: Array.from({ length: best.n }, () => ({ kvar: best.size })) },
     belowTarget: false,
+    notes,
   };
 }

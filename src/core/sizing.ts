@@ -9,6 +9,8 @@ import {
   voltageRisePct,
 } from "./resonance.js";
 import { shortCircuitAtBus } from "./short-circuit.js";
+import { studySiteHarmonics } from "./site-harmonics.js";
+import type { HarmonicStudyOptions, HarmonicStudyResult } from "./harmonics/index.js";
 import { evaluateSite, type LoadResult, type SiteResult } from "./site.js";
 import { ENGINE_VERSION } from "./version.js";
 import { warning, type InputIssue, type Warning } from "./warnings.js";
@@ -42,6 +44,8 @@ export interface SizingResult {
   recommendedBank: RecommendedBank | null;
   proposedBank?: BankAnalysis;
   resonance?: ResonanceSummary;
+  /** The harmonic study's figures, whenever the site has harmonic sources and the source strength is known. */
+  harmonics?: HarmonicStudyResult;
   warnings: Warning[];
   cautions: Caution[];
 }
@@ -49,7 +53,13 @@ export interface SizingResult {
 export type SizingOutcome = { ok: true; result: SizingResult } | { ok: false; issues: InputIssue[] };
 
 /** The whole stateless sizing: readings → triangles → site → correction → banks → resonance screen → cautions. */
-export function size(input: SizingInput): SizingOutcome {
+export interface SizingOptions {
+  harmonics?: HarmonicStudyOptions;
+  /** Run the harmonic study even without harmonic sources (the scan endpoint wants the impedance scan). */
+  forceHarmonicStudy?: boolean;
+}
+
+export function size(input: SizingInput, options: SizingOptions = {}): SizingOutcome {
   const { system } = input;
   const siteOutcome = evaluateSite(system, input.loads, input.serviceEntrance);
   if (siteOutcome.issues.length > 0 || !siteOutcome.site) return { ok: false, issues: siteOutcome.issues };
@@ -73,6 +83,15 @@ export function size(input: SizingInput): SizingOutcome {
     if (choice.belowTarget) {
       warnings.push(warning("recommended_bank_below_target", choice.reason, "recommendedBank"));
     }
+    for (const note of choice.notes) warnings.push(warning("recommended_bank_too_many_steps", note, "recommendedBank"));
+  } else if (correction.kvarRequired > 0) {
+    warnings.push(
+      warning(
+        "no_standard_unit_fits",
+        `${correction.kvarRequired.toFixed(2)} kvar is needed, but even the smallest standard unit would make the site lead at this load: no bank is recommended`,
+        "recommendedBank",
+      ),
+    );
   }
 
   let proposedBank: BankAnalysis | undefined;
@@ -123,6 +142,10 @@ export function size(input: SizingInput): SizingOutcome {
     );
   }
 
+  const h = studySiteHarmonics(input, loads, sc?.shortCircuitKVA ?? null, { recommended: recommendedBank, proposed: proposedBank }, options.harmonics, options.forceHarmonicStudy);
+  if (h.issues.length > 0) return { ok: false, issues: h.issues };
+  warnings.push(...h.warnings);
+
   return {
     ok: true,
     result: {
@@ -134,6 +157,7 @@ export function size(input: SizingInput): SizingOutcome {
       recommendedBank,
       ...(proposedBank ? { proposedBank } : {}),
       ...(resonance ? { resonance } : {}),
+      ...(h.study ? { harmonics: h.study } : {}),
       warnings,
       cautions: cautionsFor(),
     },

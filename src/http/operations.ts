@@ -1,6 +1,9 @@
 import type { z } from "zod";
-import { healthSchema, sizingResultSchema } from "./schemas/results.js";
+import { storeOperations } from "./operations-store.js";
+import { harmonicScanRequestSchema } from "./schemas/harmonics.js";
+import { harmonicScanResultSchema, healthSchema, sizingWithHarmonicsSchema } from "./schemas/results.js";
 import { sizingRequestSchema } from "./schemas/sizing.js";
+import { intervalOperation } from "./interval/schema.js";
 
 export interface Operation {
   method: "get" | "post" | "patch" | "delete";
@@ -38,7 +41,21 @@ export const operations: Operation[] = [
       "Each load's power triangle, the site's displacement PF, the kvar to the target, a recommended bank, the proposed bank's stages and a resonance screen against the supply transformer.",
     tags: ["sizing"],
     body: sizingRequestSchema,
-    responses: { "200": { description: "the sizing result", schema: sizingResultSchema } },
+    responses: { "200": { description: "the sizing result", schema: sizingWithHarmonicsSchema } },
     problems: [400, 413, 415],
   },
+  {
+    method: "post",
+    path: "/v1/harmonics/scan",
+    operationId: "harmonicScan",
+    summary: "Harmonic study with the impedance scan series per stage",
+    description:
+      "The sizing body plus scan options: |Z(h)| at the capacitor bus for the bus alone and every cumulative stage of the recommended and proposed banks, parallel-resonance peaks and series-tuned dips, harmonic voltages and THD_v against IEEE Std 519-2014 Table 1, capacitor duty against IEEE Std 18, and a detuned design when a stage fails.",
+    tags: ["harmonics"],
+    body: harmonicScanRequestSchema,
+    responses: { "200": { description: "the study with scan series", schema: harmonicScanResultSchema } },
+    problems: [400, 413, 415],
+  },
+  ...storeOperations,
+  intervalOperation,
 ];

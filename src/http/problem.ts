@@ -38,8 +38,13 @@ export function validationProblem(errors: { path: string; message: string }[]): 
   return problem(400, "validation", "The request is not valid", detail, errors);
 }
 
+/** One error per offending field; an unknown key is reported at its own path, not its parent's. */
 export function zodErrors(error: z.ZodError, prefix: (string | number)[] = []): { path: string; message: string }[] {
-  return error.issues.map((i) => ({ path: pathOf([...prefix, ...i.path]), message: i.message }));
+  return error.issues.flatMap((i) =>
+    i.code === "unrecognized_keys"
+      ? i.keys.map((k) => ({ path: pathOf([...prefix, ...i.path, k]), message: `unknown field "${k}"` }))
+      : [{ path: pathOf([...prefix, ...i.path]), message: i.message }],
+  );
 }
 
 export const notFound = (what: string) => problem(404, "not-found", "Not found", `${what} was not found`);

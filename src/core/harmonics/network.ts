@@ -131,3 +131,44 @@ export function drivingPointImpedanceOhm(model: BusModel, h: number): number {
   }
   return 1 / Math.sqrt(g * g + b * b);
 }
+
+/**
+ * Fills out[i] = |Z(from + i·step)| for a whole scan: the same admittance sum as drivingPointImpedanceOhm
+ * with every model field hoisted into locals, so the hot loop touches no objects and allocates nothing.
+ */
+export function fillImpedanceOhm(model: BusModel, fromOrder: number, stepOrder: number, ordersH: Float64Array, out: Float64Array): void {
+  const rs = model.source.resistanceOhm;
+  const xs1 = model.source.reactanceOhm;
+  const g0 = model.loadResistanceOhm === null ? 0 : 1 / model.loadResistanceOhm;
+  const m = model.branches.length;
+  const rr = new Float64Array(m);
+  const xl = new Float64Array(m);
+  const xc = new Float64Array(m);
+  model.branches.forEach((br, k) => {
+    rr[k] = br.reactorResistanceOhm;
+    xl[k] = br.reactorReactanceOhm;
+    xc[k] = br.capacitorReactanceOhm;
+  });
+  const n = out.length;
+  for (let i = 0; i < n; i++) {
+    const h = fromOrder + i * stepOrder;
+    ordersH[i] = h;
+    const xs = h * xs1;
+    const ds = rs * rs + xs * xs;
+    let g = rs / ds + g0;
+    let b = -xs / ds;
+    let shorted = false;
+    for (let k = 0; k < m; k++) {
+      const r = rr[k]!;
+      const x = h * xl[k]! - xc[k]! / h;
+      const d = r * r + x * x;
+      if (d === 0) {
+        shorted = true;
+        break;
+      }
+      g += r / d;
+      b -= x / d;
+    }
+    out[i] = shorted ? 0 : 1 / Math.sqrt(g * g + b * b);
+  }
+}

@@ -1,5 +1,5 @@
 /** Frequency scan of the driving-point impedance |Z(h)| with located resonance peaks and series dips. */
-import { drivingPointImpedanceOhm, sourceImpedanceOhmAt, type BusModel } from "./network.js";
+import { drivingPointImpedanceOhm, fillImpedanceOhm, sourceImpedanceOhmAt, type BusModel } from "./network.js";
 import type { Issue } from "./types.js";
 
 export interface ScanOptions {
@@ -104,11 +104,7 @@ export function scanImpedance(model: BusModel, options?: ScanOptions): Impedance
   const n = grid.points;
   const ordersH = new Float64Array(n);
   const impedanceOhm = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const h = grid.fromOrder + i * grid.stepOrder;
-    ordersH[i] = h;
-    impedanceOhm[i] = drivingPointImpedanceOhm(model, h);
-  }
+  fillImpedanceOhm(model, grid.fromOrder, grid.stepOrder, ordersH, impedanceOhm);
   const peaks: ResonancePeak[] = [];
   const dips: ImpedanceDip[] = [];
   for (let i = 1; i < n - 1; i++) {

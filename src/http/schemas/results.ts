@@ -119,3 +119,79 @@ export const problemSchema = z.object({
 });
 
 export const healthSchema = z.object({ status: z.literal("ok") });
+
+const limitCheck = z.object({ valuePct: z.number(), limitPct: z.number(), marginPct: z.number(), pass: z.boolean() });
+const dutyQuantity = limitCheck.extend({ aboveRating: z.boolean() });
+const peak = z.object({ order: z.number(), impedanceOhm: z.number(), timesSourceImpedance: z.number(), timesBaseImpedance: z.number() });
+const busStudy = {
+  peaks: z.array(peak),
+  dips: z.array(z.object({ order: z.number(), impedanceOhm: z.number() })),
+  series: z.object({ orders: z.array(z.number()), impedanceOhm: z.array(z.number()) }).optional().describe("only from /v1/harmonics/scan"),
+  distortion: z.looseObject({
+    lines: z.array(z.looseObject({ order: z.number(), currentA: z.number(), impedanceOhm: z.number(), voltagePct: z.number() })),
+    thdVPct: z.number(),
+    worstIndividual: z.object({ order: z.number(), pct: z.number() }).nullable(),
+  }),
+  ieee519: z.looseObject({ individual: limitCheck.extend({ order: z.number().nullable() }), thd: limitCheck, pass: z.boolean() }),
+  resonanceWithin10PctOf: z.array(z.number()),
+};
+const stageStudy = z.looseObject({
+  ...busStudy,
+  stageNumber: z.number(),
+  nameplateKvar: z.number(),
+  capacitorKvarAtSystem: z.number(),
+  effectiveKvar: z.number(),
+  tuningOrder: z.number().nullable(),
+  estimatedResonanceOrder: z.number(),
+  duty: z.looseObject({
+    rmsVoltage: dutyQuantity,
+    peakVoltage: dutyQuantity,
+    rmsCurrent: dutyQuantity,
+    reactivePower: dutyQuantity,
+    pass: z.boolean(),
+    aboveRating: z.boolean(),
+  }),
+});
+const bankStudy = z.object({
+  name: z.string(),
+  ratedVoltageV: z.number(),
+  ratedFrequencyHz: z.number(),
+  reactorPct: z.number(),
+  stages: z.array(stageStudy),
+});
+const finding = z.object({ code: z.string(), message: z.string(), bankName: z.string().optional(), stageNumber: z.number().optional() });
+
+export const harmonicStudySchema = z.looseObject({
+  source: z.looseObject({ baseImpedanceOhm: z.number(), resistanceOhm: z.number(), reactanceOhm: z.number(), xOverR: z.number(), xOverRBasis: z.string() }),
+  loadResistanceOhm: z.number().nullable(),
+  presentOrders: z.array(z.number()),
+  thirdHarmonicSignificant: z.boolean(),
+  withoutCapacitors: z.looseObject(busStudy),
+  banks: z.array(bankStudy),
+  findings: z.array(finding),
+  proposals: z.array(
+    z.object({
+      forBank: z.string(),
+      triggeredBy: z.array(z.string()),
+      design: z.looseObject({ reactorPct: z.number(), tuningOrder: z.number(), ratedVoltageV: z.number(), steps: z.array(z.looseObject({ nameplateKvar: z.number(), effectiveKvar: z.number() })) }),
+      study: bankStudy,
+      findings: z.array(finding),
+    }),
+  ),
+  assumptions: z.array(z.string()),
+});
+
+export const sizingWithHarmonicsSchema = sizingResultSchema.extend({ harmonics: harmonicStudySchema.optional() });
+
+export const harmonicScanResultSchema = z.object({
+  engineVersion: z.string(),
+  system: sizingResultSchema.shape.system,
+  site: siteResultSchema,
+  correction: correctionSchema,
+  resonance: resonanceSchema.optional(),
+  recommendedBank: recommendedBankSchema.nullable(),
+  proposedBank: bankAnalysisSchema.optional(),
+  study: harmonicStudySchema,
+  warnings: z.array(warningSchema),
+  cautions: z.array(cautionSchema),
+});

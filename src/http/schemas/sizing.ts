@@ -10,7 +10,13 @@ import {
 
 /** Request schemas. They produce the engine's input types; results have their own schemas in ./results.ts. */
 
-const positive = (what: string) => z.number({ error: `${what} must be a number` }).positive(`${what} must be greater than 0`);
+/** Upper bound of any single power or current figure: far above any real load, far below float overflow. */
+export const MAX_FIGURE = 1e6;
+const positive = (what: string) =>
+  z
+    .number({ error: `${what} must be a number` })
+    .positive(`${what} must be greater than 0`)
+    .max(MAX_FIGURE, `${what} must be at most ${MAX_FIGURE}`);
 const volts = z
   .number({ error: "volts must be a number" })
   .min(VOLTS_MIN, `volts must be between ${VOLTS_MIN} and ${VOLTS_MAX} V`)
@@ -30,7 +36,7 @@ export const measurementSchema = z.discriminatedUnion(
   "method",
   [
     z.strictObject({ method: z.literal("kw_kva"), kW: positive("kW"), kVA: positive("kVA"), sense: sense.optional(), ...common }),
-    z.strictObject({ method: z.literal("kw_kvar"), kW: positive("kW"), kvar: z.number().describe("signed: > 0 lagging, < 0 leading"), ...common }),
+    z.strictObject({ method: z.literal("kw_kvar"), kW: positive("kW"), kvar: z.number({ error: "kvar must be a number" }).min(-MAX_FIGURE, `kvar must be within ±${MAX_FIGURE}`).max(MAX_FIGURE, `kvar must be within ±${MAX_FIGURE}`).describe("signed: > 0 lagging, < 0 leading"), ...common }),
     z.strictObject({ method: z.literal("kw_pf"), kW: positive("kW"), pf, sense, ...common }),
     z.strictObject({ method: z.literal("v_i_kw"), volts, amps: positive("amps"), kW: positive("kW"), sense: sense.optional(), ...common }),
     z.strictObject({ method: z.literal("v_i_pf"), volts, amps: positive("amps"), pf, sense, ...common }),
@@ -47,6 +53,7 @@ export const harmonicSpectrumSchema = z
   )
   .max(49)
   .refine((s) => s.reduce((a, c) => a + c.pct, 0) <= 300, "the spectrum sums to more than 300 %, which no real load produces")
+  .refine((s) => new Set(s.map((c) => c.order)).size === s.length, "each harmonic order may appear only once")
   .describe("measured current spectrum, percent of the load's fundamental current");
 
 const phases = z.union([z.literal(1), z.literal(3)], { error: "phases must be 1 or 3" });
@@ -81,6 +88,17 @@ export const bankSchema = z.strictObject({
   reactorPct: z.number().min(0).max(20, "reactorPct must be 0 to 20 %").optional(),
 });
 
+export const backgroundDistortionSchema = z
+  .array(
+    z.strictObject({
+      order: z.number().int("order must be a whole number").min(2, "order must be 2 to 50").max(50, "order must be 2 to 50"),
+      pct: z.number().min(0, "pct must not be negative").max(20, "background distortion above 20 % of the fundamental is not plausible"),
+    }),
+  )
+  .max(49)
+  .refine((s) => new Set(s.map((c) => c.order)).size === s.length, "each harmonic order may appear only once")
+  .describe("background voltage distortion at the bus, percent of the fundamental per order");
+
 export const harmonicSourcesSchema = z.array(z.enum(["six_pulse", "twelve_pulse", "single_phase_electronic"])).max(3);
 
 export const targetPFSchema = z
@@ -100,6 +118,7 @@ export const sizingRequestSchema = z.strictObject({
   utility: utilitySchema.optional(),
   proposedBank: bankSchema.optional(),
   harmonicSources: harmonicSourcesSchema.optional(),
+  backgroundVoltageDistortion: backgroundDistortionSchema.optional(),
 });
 
 export type SizingRequest = z.infer<typeof sizingRequestSchema>;

@@ -1,0 +1,70 @@
+/**
+ * `npm run bench`: every section in turn, then one summary table.
+ * Knobs: BENCH_SECONDS (10), BENCH_CONNECTIONS (10), BENCH_WARMUP_SECONDS (3) for the HTTP sections;
+ * BENCH_ONLY=name,name to run some sections; BENCH_STRICT=1 exits 1 when a goal is missed.
+ * Add a section: a module exporting an async function (knobs) => SectionResult, listed in SECTIONS.
+ */
+import { benchHarmonicScan } from "./harmonic-scan.js";
+import { knobsFromEnv } from "./http.js";
+import type { BenchSection, SummaryRow } from "./section.js";
+import { benchSizing } from "./sizing.js";
+
+const SECTIONS: BenchSection[] = [
+  { name: "sizing", run: benchSizing },
+  {
+    name: "harmonic-scan",
+    run: async () => {
+      const r = await benchHarmonicScan();
+      return {
+        rows: [
+          {
+            section: "harmonic-scan",
+            metric: `scan ${r.points} points × ${r.stages} stages, median ms`,
+            value: r.msPerScan.toFixed(2),
+            goal: "≤ 20",
+            pass: r.msPerScan <= 20,
+          },
+        ],
+        notes: r.lines,
+      };
+    },
+  },
+];
+
+function table(rows: SummaryRow[]): string {
+  const head = ["section", "metric", "value", "goal", "ok", "detail"];
+  const cells = rows.map((r) => [r.section, r.metric, r.value, r.goal ?? "", r.pass === undefined ? "" : r.pass ? "yes" : "NO", r.detail ?? ""]);
+  const widths = head.map((h, i) => Math.max(h.length, ...cells.map((c) => (c[i] ?? "").length)));
+  const line = (c: string[]) => c.map((x, i) => x.padEnd(widths[i] ?? 0)).join("  ").trimEnd();
+  return [line(head), line(widths.map((w) => "-".repeat(w))), ...cells.map(line)].join("\n");
+}
+
+async function main(): Promise<number> {
+  const knobs = knobsFromEnv(process.env);
+  const only = process.env.BENCH_ONLY?.split(",").map((s) => s.trim()).filter(Boolean);
+  const chosen = only?.length ? SECTIONS.filter((s) => only.includes(s.name)) : SECTIONS;
+  if (only?.length && chosen.length !== only.length) {
+    process.stderr.write(`unknown section in BENCH_ONLY; known: ${SECTIONS.map((s) => s.name).join(", ")}\n`);
+    return 2;
+  }
+  const rows: SummaryRow[] = [];
+  const notes: string[] = [];
+  let failed = false;
+  for (const section of chosen) {
+    process.stdout.write(`running ${section.name}…\n`);
+    try {
+      const r = await section.run(knobs);
+      rows.push(...r.rows);
+      notes.push(...(r.notes ?? []).map((n) => `${section.name}: ${n}`));
+    } catch (err) {
+      failed = true;
+      rows.push({ section: section.name, metric: "error", value: "-", pass: false, detail: (err as Error).message });
+    }
+  }
+  process.stdout.write(`\n${table(rows)}\n`);
+  if (notes.length) process.stdout.write(`\n${notes.join("\n")}\n`);
+  const missed = rows.some((r) => r.pass === false);
+  return failed || (missed && process.env.BENCH_STRICT === "1") ? 1 : 0;
+}
+
+process.exitCode = await main();

@@ -1,0 +1,52 @@
+import { twentyLoadBody } from "./bodies.js";
+import { postLoad, startApp, type Knobs } from "./http.js";
+import type { SectionResult } from "./section.js";
+
+/** Bench-only baseline: the same HTTP stack and JSON body parsing, no validation or engine. */
+export const BARE_PATH = "/bench/bare";
+/** Goal: sizing throughput at least 60 % of the bare route's. */
+export const SIZING_RATIO_GOAL = 0.6;
+
+/**
+ * POST /v1/sizing with a 20-load body against a bare route that only parses the same body, on the real app,
+ * same duration and connections for both, each after its own warm-up.
+ */
+export async function benchSizing(knobs: Knobs): Promise<SectionResult> {
+  const running = await startApp((app) => {
+    app.post(BARE_PATH, async () => ({ ok: true }));
+  });
+  try {
+    const body = JSON.stringify(twentyLoadBody());
+    const sizingUrl = `${running.baseUrl}/v1/sizing`;
+    const bareUrl = `${running.baseUrl}${BARE_PATH}`;
+
+    // the body must be a valid request, or the bench would measure 400s
+    const probe = await fetch(sizingUrl, { method: "POST", headers: { "content-type": "application/json" }, body });
+    if (probe.status !== 200) throw new Error(`the bench body is rejected: ${probe.status} ${(await probe.text()).slice(0, 300)}`);
+
+    if (knobs.warmupSeconds > 0) {
+      await postLoad(sizingUrl, body, knobs.warmupSeconds, knobs.connections);
+      await postLoad(bareUrl, body, knobs.warmupSeconds, knobs.connections);
+    }
+    const sizing = await postLoad(sizingUrl, body, knobs.seconds, knobs.connections);
+    const bare = await postLoad(bareUrl, body, knobs.seconds, knobs.connections);
+    const ratio = sizing.reqPerSec / bare.reqPerSec;
+    const fmt = (n: number) => n.toFixed(0);
+    return {
+      rows: [
+        { section: "sizing", metric: "POST /v1/sizing (20 loads) req/s", value: fmt(sizing.reqPerSec), detail: `p50 ${sizing.p50Ms} ms, p99 ${sizing.p99Ms} ms` },
+        { section: "sizing", metric: `POST ${BARE_PATH} (same body) req/s`, value: fmt(bare.reqPerSec), detail: `p50 ${bare.p50Ms} ms, p99 ${bare.p99Ms} ms` },
+        {
+          section: "sizing",
+          metric: "sizing / bare ratio",
+          value: ratio.toFixed(3),
+          goal: `≥ ${SIZING_RATIO_GOAL}`,
+          pass: ratio >= SIZING_RATIO_GOAL,
+        },
+      ],
+      notes: [`${knobs.seconds} s, ${knobs.connections} connections each, after ${knobs.warmupSeconds} s warm-up; body ${body.length} bytes`],
+    };
+  } finally {
+    await running.close();
+  }
+}

@@ -1,0 +1,151 @@
+import { mkdtempSync, rmSync } from "node:fs";
+import { createRequire } from "node:module";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { buildApp } from "../src/app.js";
+import { defaultConfig } from "../src/config.js";
+import { size } from "../src/core/sizing.js";
+import { surveyInputsSchema } from "../src/http/schemas/surveys.js";
+import { computeRevision } from "../src/http/survey-sizing.js";
+import { parseOr400 } from "../src/http/validate.js";
+import { newId } from "../src/store/ids.js";
+import { DEFAULT_ORG_ID, openStore } from "../src/store/store.js";
+
+/**
+ * Survey writes: HTTP POST /v1/buildings/{id}/surveys with 20 loads (autocannon against the real
+ * app on 127.0.0.1 and a temp database), the bare rate of a route that only parses the same body,
+ * and the raw rate of one better-sqlite3 transaction per survey writing the same rows through the
+ * same repositories and pragmas. ratio = http / (the rate if parsing and writing were all it did).
+ */
+
+interface AutocannonResult {
+  requests: { average: number };
+  non2xx: number;
+  errors: number;
+  timeouts: number;
+}
+type Autocannon = (opts: Record<string, unknown>) => Promise<AutocannonResult>;
+const autocannon = createRequire(import.meta.url)("autocannon") as Autocannon;
+
+const BUILDING = {
+  name: "Bench hall",
+  system: { voltageV: 480, frequencyHz: 60 as const, phases: 3 as const },
+  transformer: { kVA: 1500, impedancePct: 5.75 },
+  utility: { faultMVA: 250 },
+};
+
+function surveyOf20Loads() {
+  const methods = [
+    (i: number) => ({ method: "kw_pf", kW: 10 + i, pf: 0.72 + (i % 6) * 0.03, sense: "lagging" }),
+    (i: number) => ({ method: "v_i_pf", volts: 480, amps: 20 + i * 3, pf: 0.8, sense: "lagging" }),
+    (i: number) => ({ method: "kw_kva", kW: 15 + i, kVA: 22 + i }),
+    (i: number) => ({ method: "kw_kvar", kW: 30, kvar: 12 + i }),
+  ];
+  return {
+    surveyedAt: "2024-04-02T09:00:00Z",
+    surveyor: "Bench surveyor",
+    targetPF: 0.95,
+    loads: Array.from({ length: 20 }, (_, i) => ({
+      label: `Feeder ${i + 1}`,
+      kind: i % 5 === 0 ? "drive" : "motor",
+      measurement: methods[i % methods.length]!(i),
+    })),
+  };
+}
+
+async function load(url: string, body: string, seconds: number, connections: number): Promise<AutocannonResult> {
+  // the load generator runs in a worker thread, so the server keeps the main thread to itself
+  return autocannon({ url, method: "POST", headers: { "content-type": "application/json" }, body, connections, duration: seconds, workers: 1 });
+}
+
+function rawTransactions(dir: string, seconds: number): number {
+  const store = openStore({ path: join(dir, "raw.sqlite") });
+  try {
+    const building = store.write(() =>
+      store.buildings.create(DEFAULT_ORG_ID, newId("bld"), { ...BUILDING, address: null, notes: null }, "bench", new Date().toISOString()),
+    );
+    const inputs = parseOr400(surveyInputsSchema, surveyOfLoadsParsed());
+    const template = computeRevision(building, inputs, { surveyId: "x", n: 1, reason: null, actor: "bench", at: new Date().toISOString() });
+    const until = performance.now() + seconds * 1000;
+    let n = 0;
+    const started = performance.now();
+    while (performance.now() < until) {
+      store.write(() => {
+        const at = new Date().toISOString();
+        const surveyId = newId("srv");
+        store.surveys.create(DEFAULT_ORG_ID, building.id, { ...template, surveyId, createdAt: at });
+        store.audit.record({ orgId: DEFAULT_ORG_ID, actor: "bench", action: "survey.create", resourceType: "survey", resourceId: surveyId, requestId: "bench", at });
+      });
+      n++;
+    }
+    return n / ((performance.now() - started) / 1000);
+  } finally {
+    store.close();
+  }
+}
+const surveyOfLoadsParsed = surveyOf20Loads;
+
+/** For the report only: how many times a second the engine alone sizes this survey. */
+function engineRate(seconds: number): number {
+  const inputs = parseOr400(surveyInputsSchema, surveyOf20Loads());
+  const { surveyedAt: _a, surveyor: _b, ...rest } = inputs;
+  const input = { ...rest, system: BUILDING.system, transformer: BUILDING.transformer, utility: BUILDING.utility };
+  const started = performance.now();
+  let n = 0;
+  while (performance.now() - started < seconds * 1000) {
+    if (!size(input).ok) throw new Error("the bench survey does not size");
+    n++;
+  }
+  return n / ((performance.now() - started) / 1000);
+}
+
+export async function benchSurveys(opts: { seconds: number; connections: number }): Promise<{
+  httpRps: number;
+  rawTxPerSec: number;
+  bareRps?: number;
+  ratio: number;
+  lines: string[];
+}> {
+  const dir = mkdtempSync(join(tmpdir(), "pfc-bench-"));
+  const app = await buildApp({
+    config: defaultConfig({ DATABASE_PATH: join(dir, "http.sqlite"), DEMO_DATA: "off", LOG_LEVEL: "silent" }),
+    logger: false,
+  });
+  app.post("/bench/bare", async (request) => {
+    parseOr400(surveyInputsSchema, request.body);
+    return { ok: true };
+  });
+  try {
+    const base = await app.listen({ port: 0, host: "127.0.0.1" });
+    const created = await app.inject({ method: "POST", url: "/v1/buildings", payload: BUILDING });
+    const buildingId = (created.json() as { id: string }).id;
+    const body = JSON.stringify(surveyOf20Loads());
+    const surveysUrl = `${base}/v1/buildings/${buildingId}/surveys`;
+
+    await load(surveysUrl, body, 1, opts.connections); // warm-up
+    const http = await load(surveysUrl, body, opts.seconds, opts.connections);
+    const bare = await load(`${base}/bench/bare`, body, opts.seconds, opts.connections);
+    const stored = (app.store.db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
+    const rawTxPerSec = rawTransactions(dir, opts.seconds);
+    const engineRps = engineRate(Math.min(2, opts.seconds));
+
+    const httpRps = http.requests.average;
+    const bareRps = bare.requests.average;
+    const ceiling = 1 / (1 / bareRps + 1 / rawTxPerSec);
+    const ratio = httpRps / ceiling;
+    const bad = http.non2xx + http.errors + http.timeouts + bare.non2xx + bare.errors + bare.timeouts;
+    const lines = [
+      `surveys: POST /v1/buildings/{id}/surveys, 20 loads, ${opts.connections} connections, ${opts.seconds} s each`,
+      `  http (parse + engine + one transaction): ${httpRps.toFixed(0)} req/s (${stored} surveys stored)`,
+      `  bare route (parse only):                 ${bareRps.toFixed(0)} req/s`,
+      `  raw better-sqlite3 transaction/survey:   ${rawTxPerSec.toFixed(0)} tx/s (WAL, synchronous=FULL)`,
+      `  engine size() alone (for context):       ${engineRps.toFixed(0)} /s`,
+      `  ratio http / (1/(1/bare + 1/raw)):        ${ratio.toFixed(2)}`,
+      ...(bad > 0 ? [`  WARNING: ${bad} non-2xx, errors or timeouts`] : []),
+    ];
+    return { httpRps, rawTxPerSec, bareRps, ratio, lines };
+  } finally {
+    await app.close();
+    rmSync(dir, { recursive: true, force: true });
+  }
+}

@@ -1,0 +1,113 @@
+import { periodCharge, type BillingState, type PeriodCharge, type Tariff } from "./tariff.js";
+
+export interface BillingPeriod {
+  /** e.g. "2026-03" or "typical month". */
+  label: string;
+  before: BillingState;
+  after: BillingState;
+}
+
+export interface LossSavingsInput {
+  /** Share of the site's energy lost as I²R in its own cables and transformer, percent (user's estimate). */
+  lossesPct: number;
+  /** Energy price per kWh, in the tariff's currency. */
+  energyPricePerKWh: number;
+}
+
+export interface InstalledCostInput {
+  perKvar?: number;
+  perStep?: number;
+  fixed?: number;
+}
+
+export interface EconomicsInput {
+  currency: string;
+  tariff: Tariff;
+  periods: BillingPeriod[];
+  /** How many of the given periods make a year (12 for monthly data covering a year; 12 for one typical month). */
+  periodsPerYear: number;
+  losses?: LossSavingsInput;
+  cost?: InstalledCostInput;
+  bank?: { installedKvar: number; steps: number };
+  /** Loss reduction fraction 1 − (PF₁/PF₂)² from the correction (0–1). */
+  lossReductionFraction?: number;
+  basis: "interval_data" | "survey_demand";
+  assumptions?: string[];
+}
+
+export interface PeriodSavings {
+  label: string;
+  before: PeriodCharge;
+  after: PeriodCharge;
+  tariffSaving: number;
+  lossSavingKWh: number;
+  lossSaving: number;
+  saving: number;
+}
+
+export interface EconomicsResult {
+  currency: string;
+  tariff: Tariff;
+  basis: EconomicsInput["basis"];
+  periods: PeriodSavings[];
+  /** Mean saving per period (a month). */
+  savingPerMonth: number;
+  savingPerYear: number;
+  installedCost: number | null;
+  costBreakdown: { perKvar: number; perStep: number; fixed: number } | null;
+  /** Simple payback = installed cost / yearly saving; null without cost or without a positive saving. */
+  simplePaybackYears: number | null;
+  assumptions: string[];
+}
+
+/**
+ * Savings per period and per year, installed cost and simple payback (cost / annual saving).
+ * Loss savings: kWh·losses%·(1 − (PF₁/PF₂)²) (losses scale with I², common practice).
+ */
+export function economics(input: EconomicsInput): EconomicsResult {
+  const assumptions = [...(input.assumptions ?? [])];
+  const lossFraction = input.lossReductionFraction ?? 0;
+  const periods = input.periods.map((p): PeriodSavings => {
+    const before = periodCharge(input.tariff, p.before);
+    const after = periodCharge(input.tariff, p.after);
+    const lossSavingKWh = input.losses ? p.before.kWh * (input.losses.lossesPct / 100) * lossFraction : 0;
+    const lossSaving = input.losses ? lossSavingKWh * input.losses.energyPricePerKWh : 0;
+    const tariffSaving = before.charge - after.charge;
+    return { label: p.label, before, after, tariffSaving, lossSavingKWh, lossSaving, saving: tariffSaving + lossSaving };
+  });
+  const total = periods.reduce((s, p) => s + p.saving, 0);
+  const savingPerMonth = periods.length > 0 ? total / periods.length : 0;
+  const savingPerYear = periods.length > 0 ? (total / periods.length) * input.periodsPerYear : 0;
+  if (input.losses) {
+    assumptions.push(
+      `I²R losses taken as ${input.losses.lossesPct} % of energy, reduced by ${(lossFraction * 100).toFixed(1)} % (1 − (PF₁/PF₂)²), at ${input.losses.energyPricePerKWh} ${input.currency}/kWh`,
+    );
+  }
+
+  let costBreakdown: EconomicsResult["costBreakdown"] = null;
+  let installedCost: number | null = null;
+  if (input.cost && input.bank) {
+    costBreakdown = {
+      perKvar: (input.cost.perKvar ?? 0) * input.bank.installedKvar,
+      perStep: (input.cost.perStep ?? 0) * input.bank.steps,
+      fixed: input.cost.fixed ?? 0,
+    };
+    installedCost = costBreakdown.perKvar + costBreakdown.perStep + costBreakdown.fixed;
+  } else if (input.cost && !input.bank) {
+    assumptions.push("no bank is needed, so no installed cost is counted");
+  }
+  const simplePaybackYears = installedCost !== null && savingPerYear > 0 ? installedCost / savingPerYear : null;
+  if (installedCost !== null && savingPerYear <= 0) assumptions.push("the bank saves nothing under this tariff: no payback");
+  return {
+    currency: input.currency,
+    tariff: { ...input.tariff },
+    basis: input.basis,
+    periods,
+    savingPerMonth,
+    savingPerYear,
+    installedCost,
+    costBreakdown,
+    simplePaybackYears,
+    assumptions,
+  };
+}

@@ -1,0 +1,184 @@
+/** Study of one bank, stage by stage (steps switched in cumulatively, in order), and its findings. */
+import { capacitorBranch, capacitorKvarAtSystem, effectiveKvar } from "./branch.js";
+import { busDistortion, type BusDistortion } from "./distortion.js";
+import { capacitorDuty, type CapacitorDutyCheck, type DutyQuantity } from "./duty.js";
+import type { InjectedCurrents } from "./injection.js";
+import { checkIeee519, type Ieee519Check } from "./limits.js";
+import { withBranches, type BusModel, type NetworkInput } from "./network.js";
+import { estimatedParallelResonanceOrder, ordersNearResonance, tuningOrder } from "./resonance.js";
+import { scanImpedance, type ImpedanceDip, type ResonancePeak, type ScanOptions } from "./scan.js";
+import type { SpectrumLine } from "./types.js";
+
+export interface CapacitorStepInput {
+  /** Nameplate 3-phase kvar at the bank's rated voltage and frequency. */
+  kvar: number;
+}
+
+export interface CapacitorBankInput {
+  name: string;
+  /** Nameplate voltage, line-to-line. */
+  ratedVoltageV: number;
+  /** Defaults to the system frequency. */
+  ratedFrequencyHz?: number;
+  /** Series reactor as percent of X_C; 0 for a plain bank. */
+  reactorPct: number;
+  steps: CapacitorStepInput[];
+}
+
+export interface StudyContext {
+  network: NetworkInput;
+  model: BusModel;
+  currents: InjectedCurrents;
+  background: readonly SpectrumLine[];
+  presentOrders: readonly number[];
+  scan: ScanOptions;
+  includeScanSeries: boolean;
+  reactorQualityFactor: number;
+}
+
+export interface ScanSeries {
+  orders: number[];
+  impedanceOhm: number[];
+}
+
+export interface BusStudy {
+  peaks: ResonancePeak[];
+  dips: ImpedanceDip[];
+  series?: ScanSeries;
+  distortion: BusDistortion;
+  ieee519: Ieee519Check;
+  resonanceWithin10PctOf: number[];
+}
+
+export interface StageStudy extends BusStudy {
+  stageNumber: number;
+  nameplateKvar: number;
+  capacitorKvarAtSystem: number;
+  effectiveKvar: number;
+  tuningOrder: number | null;
+  estimatedResonanceOrder: number;
+  duty: CapacitorDutyCheck;
+}
+
+export interface BankStudy {
+  name: string;
+  ratedVoltageV: number;
+  ratedFrequencyHz: number;
+  reactorPct: number;
+  stages: StageStudy[];
+}
+
+export type FindingCode =
+  | "thd_v_exceeds_limit"
+  | "individual_harmonic_exceeds_limit"
+  | "capacitor_duty_exceeds_limit"
+  | "capacitor_above_rating"
+  | "resonance_near_harmonic";
+
+export interface Finding {
+  code: FindingCode;
+  message: string;
+  bankName?: string;
+  stageNumber?: number;
+}
+
+export function studyBus(ctx: StudyContext, model: BusModel): BusStudy {
+  const scan = scanImpedance(model, ctx.scan);
+  const distortion = busDistortion(model, ctx.currents, ctx.background);
+  const study: BusStudy = {
+    peaks: scan.peaks,
+    dips: scan.dips,
+    distortion,
+    ieee519: checkIeee519(distortion, model.voltageV),
+    resonanceWithin10PctOf: ordersNearResonance(scan.peaks.map((p) => p.order), ctx.presentOrders),
+  };
+  if (ctx.includeScanSeries) study.series = { orders: Array.from(scan.ordersH), impedanceOhm: Array.from(scan.impedanceOhm) };
+  return study;
+}
+
+export function studyBank(ctx: StudyContext, bank: CapacitorBankInput): BankStudy {
+  const { voltageV, frequencyHz, shortCircuitKVA } = ctx.network;
+  const ratedFrequencyHz = bank.ratedFrequencyHz ?? frequencyHz;
+  const stages: StageStudy[] = [];
+  let nameplateKvar = 0;
+  bank.steps.forEach((step, i) => {
+    nameplateKvar += step.kvar;
+    const qc = capacitorKvarAtSystem(nameplateKvar, bank.ratedVoltageV, ratedFrequencyHz, voltageV, frequencyHz);
+    // Steps of one bank share p and voltage, so their parallel combination is one branch of ΣQ.
+    const branch = capacitorBranch(voltageV, qc, bank.reactorPct, ctx.reactorQualityFactor);
+    const bus = studyBus(ctx, withBranches(ctx.model, [branch]));
+    const duty = capacitorDuty({
+      voltageV,
+      frequencyHz,
+      rating: { ratedVoltageV: bank.ratedVoltageV, ratedKvar: nameplateKvar, ratedFrequencyHz },
+      reactorPct: bank.reactorPct,
+      reactorQualityFactor: ctx.reactorQualityFactor,
+      busHarmonics: bus.distortion.lines.map((l) => ({ order: l.order, pct: l.voltagePct })),
+    });
+    stages.push({
+      ...bus,
+      stageNumber: i + 1,
+      nameplateKvar,
+      capacitorKvarAtSystem: qc,
+      effectiveKvar: effectiveKvar(qc, bank.reactorPct),
+      tuningOrder: tuningOrder(bank.reactorPct),
+      estimatedResonanceOrder: estimatedParallelResonanceOrder(shortCircuitKVA, qc, bank.reactorPct),
+      duty,
+    });
+  });
+  return { name: bank.name, ratedVoltageV: bank.ratedVoltageV, ratedFrequencyHz, reactorPct: bank.reactorPct, stages };
+}
+
+const f1 = (x: number): string => x.toFixed(1);
+
+export function busFindings(bus: BusStudy, where: string, at: Pick<Finding, "bankName" | "stageNumber">): Finding[] {
+  const out: Finding[] = [];
+  const { thd, individual, limits } = bus.ieee519;
+  if (!thd.pass)
+    out.push({ code: "thd_v_exceeds_limit", message: `${where}: THD_v ${f1(thd.valuePct)} % exceeds the IEEE 519 limit of ${f1(thd.limitPct)} %`, ...at });
+  for (const line of bus.distortion.lines)
+    if (line.voltagePct > limits.individualPct)
+      out.push({
+        code: "individual_harmonic_exceeds_limit",
+        message: `${where}: order ${line.order} at ${f1(line.voltagePct)} % exceeds the IEEE 519 individual limit of ${f1(limits.individualPct)} %`,
+        ...at,
+      });
+  for (const n of bus.resonanceWithin10PctOf) {
+    const peak = bus.peaks.find((p) => Math.abs(p.order - n) <= 0.1 * n);
+    out.push({
+      code: "resonance_near_harmonic",
+      message: `${where}: parallel resonance at h = ${peak ? peak.order.toFixed(2) : "?"} is within ±10 % of present order ${n}`,
+      ...at,
+    });
+  }
+  return out;
+}
+
+const DUTY_NAMES: readonly [keyof Pick<CapacitorDutyCheck, "rmsVoltage" | "peakVoltage" | "rmsCurrent" | "reactivePower">, string][] = [
+  ["rmsVoltage", "rms voltage"],
+  ["peakVoltage", "peak voltage"],
+  ["rmsCurrent", "rms current"],
+  ["reactivePower", "kvar"],
+];
+
+/** A quantity over its IEEE 18 limit is one finding; one over 100 % but within the limit is flagged separately. */
+export function bankFindings(bank: BankStudy): Finding[] {
+  const out: Finding[] = [];
+  for (const stage of bank.stages) {
+    const at = { bankName: bank.name, stageNumber: stage.stageNumber };
+    const where = `bank "${bank.name}" stage ${stage.stageNumber} (${f1(stage.nameplateKvar)} kvar nameplate)`;
+    out.push(...busFindings(stage, where, at));
+    for (const [key, label] of DUTY_NAMES) {
+      const q: DutyQuantity = stage.duty[key];
+      if (!q.pass)
+        out.push({ code: "capacitor_duty_exceeds_limit", message: `${where}: capacitor ${label} ${f1(q.valuePct)} % of rating exceeds the IEEE 18 limit of ${q.limitPct} %`, ...at });
+      else if (q.aboveRating)
+        out.push({
+          code: "capacitor_above_rating",
+          message: `${where}: capacitor ${label} ${f1(q.valuePct)} % of rating is above 100 % (IEEE 18 limits are for contingencies, not a design basis)`,
+          ...at,
+        });
+    }
+  }
+  return out;
+}

@@ -1,0 +1,240 @@
+/**
+ * Allocation-free date-time parsing for interval rows. A parse writes the wall-clock time (as if UTC) and the
+ * offset found in the text into the parser object and returns an error code (0 = ok).
+ */
+
+export const MS_PER_MINUTE = 60_000;
+export const MS_PER_HOUR = 3_600_000;
+export const MS_PER_DAY = 86_400_000;
+
+/** Days since 1970-01-01 of a proleptic Gregorian date (H. Hinnant, "chrono-compatible low-level date algorithms"). */
+export function daysFromCivil(year: number, month: number, day: number): number {
+  const y = month <= 2 ? year - 1 : year;
+  const era = Math.floor(y / 400);
+  const yoe = y - era * 400;
+  const doy = Math.floor((153 * (month + (month > 2 ? -3 : 9)) + 2) / 5) + day - 1;
+  const doe = yoe * 365 + Math.floor(yoe / 4) - Math.floor(yoe / 100) + doy;
+  return era * 146097 + doe - 719468;
+}
+
+/** Month index year·12 + (month − 1) of a day count (inverse of daysFromCivil, same source). */
+export function monthIndexOfDays(days: number): number {
+  const z = days + 719468;
+  const era = Math.floor(z / 146097);
+  const doe = z - era * 146097;
+  const yoe = Math.floor((doe - Math.floor(doe / 1460) + Math.floor(doe / 36524) - Math.floor(doe / 146096)) / 365);
+  const doy = doe - (365 * yoe + Math.floor(yoe / 4) - Math.floor(yoe / 100));
+  const mp = Math.floor((5 * doy + 2) / 153);
+  const month = mp < 10 ? mp + 3 : mp - 9;
+  const year = yoe + era * 400 + (month <= 2 ? 1 : 0);
+  return year * 12 + month - 1;
+}
+
+export function monthLabel(monthIndex: number): string {
+  const year = Math.floor(monthIndex / 12);
+  const month = monthIndex - year * 12 + 1;
+  return `${year}-${month < 10 ? "0" : ""}${month}`;
+}
+
+function daysInMonth(year: number, month: number): number {
+  if (month === 2) return year % 4 === 0 && (year % 100 !== 0 || year % 400 === 0) ? 29 : 28;
+  return month === 4 || month === 6 || month === 9 || month === 11 ? 30 : 31;
+}
+
+/** ISO 8601 text of an instant shown in a fixed offset, e.g. "2026-03-01T14:15:00-06:00". */
+export function isoWithOffset(utcMs: number, offsetMs: number): string {
+  const local = new Date(utcMs + offsetMs).toISOString().slice(0, 19);
+  if (offsetMs === 0) return `${local}Z`;
+  const m = Math.round(Math.abs(offsetMs) / MS_PER_MINUTE);
+  const hh = String(Math.floor(m / 60)).padStart(2, "0");
+  const mm = String(m % 60).padStart(2, "0");
+  return `${local}${offsetMs < 0 ? "-" : "+"}${hh}:${mm}`;
+}
+
+export type DateOrder = "mdy" | "dmy";
+
+export const TS_OK = 0;
+export const TS_SYNTAX = 1;
+export const TS_RANGE = 2;
+export const TS_AMBIGUOUS_ORDER = 3;
+export const TS_REASONS: Record<number, string> = {
+  [TS_SYNTAX]: "unrecognised date-time (use e.g. 2026-03-01 14:15, 2026-03-01T14:15:00Z or 03/01/2026 14:15)",
+  [TS_RANGE]: "date or time out of range (month 1–12, day within the month, hour 0–23, minute and second 0–59)",
+  [TS_AMBIGUOUS_ORDER]: "the first date part is above 12, so the dates are day-first: set dateOrder=dmy",
+};
+
+const C0 = 48;
+const isDigit = (c: number) => c >= 48 && c <= 57;
+
+export class TimestampParser {
+  /** Wall-clock time of the last parse, ms, counted as if UTC. */
+  wallMs = 0;
+  /** Offset written in the text, ms east of UTC; NaN when the text carries none. */
+  offsetMs = Number.NaN;
+  private pos = 0;
+  private nDigits = 0;
+  private err = TS_OK;
+
+  /** dateOrder: the option given, or null (then month-first, and a first part above 12 is an error). */
+  constructor(private readonly dateOrder: DateOrder | null) {}
+
+  /** A date with an optional time and offset in s[start, end). */
+  parse(s: string, start: number, end: number): number {
+    this.offsetMs = Number.NaN;
+    const days = this.date(s, start, end);
+    if (Number.isNaN(days)) return this.err;
+    let timeMs = 0;
+    if (this.pos < end) {
+      const c = s.charCodeAt(this.pos);
+      if (c !== 84 && c !== 116 && c !== 32) return TS_SYNTAX; // 'T', 't' or space
+      let q = this.pos + 1;
+      while (q < end && s.charCodeAt(q) === 32) q++;
+      timeMs = this.time(s, q, end);
+      if (Number.isNaN(timeMs)) return this.err;
+    }
+    this.wallMs = days * MS_PER_DAY + timeMs;
+    return TS_OK;
+  }
+
+  /** A date in one column and a time of day in another. */
+  parseSplit(s: string, dStart: number, dEnd: number, t: string, tStart: number, tEnd: number): number {
+    this.offsetMs = Number.NaN;
+    const days = this.date(s, dStart, dEnd);
+    if (Number.isNaN(days)) return this.err;
+    if (this.pos !== dEnd) return TS_SYNTAX;
+    const timeMs = this.time(t, tStart, tEnd);
+    if (Number.isNaN(timeMs)) return this.err;
+    this.wallMs = days * MS_PER_DAY + timeMs;
+    return TS_OK;
+  }
+
+  private fail(code: number): number {
+    this.err = code;
+    return Number.NaN;
+  }
+
+  /** Up to `max` digits at this.pos; their value (−1 when none), their count in this.nDigits. */
+  private digits(s: string, end: number, max: number): number {
+    let v = 0;
+    let n = 0;
+    while (this.pos < end && n < max) {
+      const c = s.charCodeAt(this.pos);
+      if (!isDigit(c)) break;
+      v = v * 10 + c - C0;
+      this.pos++;
+      n++;
+    }
+    this.nDigits = n;
+    return n === 0 ? -1 : v;
+  }
+
+  /** Days since the epoch (NaN on error); leaves this.pos after the date. */
+  private date(s: string, start: number, end: number): number {
+    this.pos = start;
+    const a = this.digits(s, end, 4);
+    const aLen = this.nDigits;
+    if (a < 0 || this.pos >= end) return this.fail(TS_SYNTAX);
+    const sep = s.charCodeAt(this.pos);
+    if (sep !== 45 && sep !== 47 && sep !== 46) return this.fail(TS_SYNTAX); // '-', '/', '.'
+    this.pos++;
+    const b = this.digits(s, end, 2);
+    if (b < 0 || this.pos >= end || s.charCodeAt(this.pos) !== sep) return this.fail(TS_SYNTAX);
+    this.pos++;
+    let year: number;
+    let month: number;
+    let day: number;
+    if (aLen === 4) {
+      day = this.digits(s, end, 2);
+      if (day < 0) return this.fail(TS_SYNTAX);
+      year = a;
+      month = b;
+    } else {
+      year = this.digits(s, end, 4);
+      if (this.nDigits !== 4) return this.fail(TS_SYNTAX);
+      const dayFirst = sep === 46 || this.dateOrder === "dmy";
+      if (!dayFirst && this.dateOrder === null && a > 12 && b <= 12) return this.fail(TS_AMBIGUOUS_ORDER);
+      month = dayFirst ? b : a;
+      day = dayFirst ? a : b;
+    }
+    if (month < 1 || month > 12 || day < 1 || day > daysInMonth(year, month)) return this.fail(TS_RANGE);
+    return daysFromCivil(year, month, day);
+  }
+
+  /** Time of day in ms (24:00 allowed; NaN on error); reads an optional AM/PM and offset. */
+  private time(s: string, start: number, end: number): number {
+    this.pos = start;
+    let hour = this.digits(s, end, 2);
+    if (hour < 0 || this.pos >= end || s.charCodeAt(this.pos) !== 58) return this.fail(TS_SYNTAX);
+    this.pos++;
+    const minute = this.digits(s, end, 2);
+    if (this.nDigits !== 2) return this.fail(TS_SYNTAX);
+    let second = 0;
+    let ms = 0;
+    if (this.pos < end && s.charCodeAt(this.pos) === 58) {
+      this.pos++;
+      second = this.digits(s, end, 2);
+      if (this.nDigits !== 2) return this.fail(TS_SYNTAX);
+      const c = this.pos < end ? s.charCodeAt(this.pos) : 0;
+      if (c === 46 || c === 44) {
+        this.pos++;
+        let scale = 100;
+        const from = this.pos;
+        while (this.pos < end && isDigit(s.charCodeAt(this.pos))) {
+          ms += (s.charCodeAt(this.pos) - C0) * scale;
+          scale /= 10;
+          this.pos++;
+        }
+        if (this.pos === from) return this.fail(TS_SYNTAX);
+      }
+    }
+    this.spaces(s, end);
+    if (this.pos + 1 < end && (s.charCodeAt(this.pos + 1) | 32) === 109) {
+      const ap = s.charCodeAt(this.pos) | 32; // 'a' or 'p' before 'm'
+      if (ap === 97 || ap === 112) {
+        if (hour < 1 || hour > 12) return this.fail(TS_RANGE);
+        hour = (hour % 12) + (ap === 112 ? 12 : 0);
+        this.pos += 2;
+        this.spaces(s, end);
+      }
+    }
+    if (minute > 59 || second > 59 || hour > 24 || (hour === 24 && (minute > 0 || second > 0 || ms > 0))) {
+      return this.fail(TS_RANGE);
+    }
+    if (this.pos < end && !this.offset(s, end)) return this.fail(TS_SYNTAX);
+    this.spaces(s, end);
+    if (this.pos !== end) return this.fail(TS_SYNTAX);
+    return ((hour * 60 + minute) * 60 + second) * 1000 + Math.round(ms);
+  }
+
+  private spaces(s: string, end: number): void {
+    while (this.pos < end && s.charCodeAt(this.pos) === 32) this.pos++;
+  }
+
+  /** "Z", "UTC", ±hh, ±hhmm or ±hh:mm; sets this.offsetMs. */
+  private offset(s: string, end: number): boolean {
+    const c = s.charCodeAt(this.pos);
+    if (c === 90 || c === 122) {
+      this.pos++;
+      this.offsetMs = 0;
+      return true;
+    }
+    if (c === 85 && s.startsWith("UTC", this.pos)) {
+      this.pos += 3;
+      this.offsetMs = 0;
+      return true;
+    }
+    if (c !== 43 && c !== 45) return false;
+    this.pos++;
+    const hh = this.digits(s, end, 2);
+    if (this.nDigits !== 2) return false;
+    if (this.pos < end && s.charCodeAt(this.pos) === 58) this.pos++;
+    let mm = 0;
+    if (this.pos < end && isDigit(s.charCodeAt(this.pos))) {
+      mm = this.digits(s, end, 2);
+      if (this.nDigits !== 2) return false;
+    }
+    if (hh > 18 || mm > 59) return false;
+    this.offsetMs = (c === 45 ? -1 : 1) * (hh * 60 + mm) * MS_PER_MINUTE;
+    return true;
+  }
+}

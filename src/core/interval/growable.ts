@@ -1,0 +1,23 @@
+/** A Float64Array that doubles as it fills: amortised O(1) push, no per-element allocation. */
+export class GrowableF64 {
+  data: Float64Array;
+  length = 0;
+
+  constructor(initialCapacity = 4096) {
+    this.data = new Float64Array(Math.max(16, initialCapacity));
+  }
+
+  push(value: number): void {
+    if (this.length === this.data.length) {
+      const bigger = new Float64Array(this.data.length * 2);
+      bigger.set(this.data);
+      this.data = bigger;
+    }
+    this.data[this.length++] = value;
+  }
+
+  /** The filled part (a view, no copy). */
+  view(): Float64Array {
+    return this.data.subarray(0, this.length);
+  }
+}

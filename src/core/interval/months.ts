@@ -1,0 +1,96 @@
+import { daysFromCivil, isoWithOffset, MS_PER_DAY, monthIndexOfDays, monthLabel } from "./datetime.js";
+import type { IntervalSeries, MonthlyDemand } from "./types.js";
+import { UTC_ZONE, zoneFor, type Zone } from "./zone.js";
+
+/** A run of consecutive intervals in one calendar month of the series' zone. */
+export interface MonthRun {
+  monthIndex: number;
+  start: number;
+  end: number;
+}
+
+export function zoneOfSeries(series: IntervalSeries): Zone {
+  if (series.timeZone === undefined) return UTC_ZONE;
+  const zone = zoneFor(series.timeZone);
+  if (zone === null) throw new RangeError(`unknown time zone "${series.timeZone}"`);
+  return zone;
+}
+
+const runsCache = new WeakMap<Float64Array, { zone: string; runs: MonthRun[] }>();
+
+/** Split a sorted series into calendar months of its zone (local month of each interval's timestamp); memoised per series. */
+export function monthRuns(series: IntervalSeries, zone: Zone = zoneOfSeries(series)): MonthRun[] {
+  const hit = runsCache.get(series.timestampsMs);
+  if (hit && hit.zone === zone.name && hit.runs[hit.runs.length - 1]?.end === series.length) return hit.runs;
+  const runs = monthRunsOf(series, zone);
+  runsCache.set(series.timestampsMs, { zone: zone.name, runs });
+  return runs;
+}
+
+function monthRunsOf(series: IntervalSeries, zone: Zone): MonthRun[] {
+  const runs: MonthRun[] = [];
+  const t = series.timestampsMs;
+  let from = Infinity;
+  let to = -Infinity;
+  let current: MonthRun | null = null;
+  for (let i = 0; i < series.length; i++) {
+    const u = t[i] as number;
+    const local = u + zone.offsetMsAt(u);
+    if (local >= from && local < to) continue;
+    const m = monthIndexOfDays(Math.floor(local / MS_PER_DAY));
+    const y = Math.floor(m / 12);
+    from = daysFromCivil(y, m - y * 12 + 1, 1) * MS_PER_DAY;
+    const next = m + 1;
+    to = daysFromCivil(Math.floor(next / 12), next - Math.floor(next / 12) * 12 + 1, 1) * MS_PER_DAY;
+    if (current) current.end = i;
+    current = { monthIndex: m, start: i, end: series.length };
+    runs.push(current);
+  }
+  return runs;
+}
+
+/** Billing PF from energies: kWh / √(kWh² + kvarh²) (utility tariff definition of average PF). */
+export function billingPF(kWh: number, kvarh: number): number {
+  const s = Math.hypot(kWh, kvarh);
+  return s > 0 ? kWh / s : 1;
+}
+
+/**
+ * Peak kW and kVA demand and energies of each month. Energy of an interval = its average power × the interval
+ * length (demand-interval convention); `kvar` may be a corrected series.
+ */
+export function monthlyDemand(series: IntervalSeries, kvar: Float64Array, runs: MonthRun[], zone: Zone): MonthlyDemand[] {
+  const hours = series.intervalMinutes / 60;
+  const at = (i: number) => {
+    const u = series.timestampsMs[i] as number;
+    return isoWithOffset(u, zone.offsetMsAt(u));
+  };
+  return runs.map((run) => {
+    let peakKW = -Infinity, peakKWi = run.start, peakKVA = -Infinity, peakKVAi = run.start;
+    let kW = 0, lag = 0, lead = 0;
+    for (let i = run.start; i < run.end; i++) {
+      const p = series.kW[i] as number;
+      const q = kvar[i] as number;
+      const s = Math.sqrt(p * p + q * q); // S = √(P² + Q²)
+      if (p > peakKW) (peakKW = p), (peakKWi = i);
+      if (s > peakKVA) (peakKVA = s), (peakKVAi = i);
+      kW += p;
+      if (q > 0) lag += q;
+      else lead -= q;
+    }
+    const kWh = kW * hours;
+    return {
+      month: monthLabel(run.monthIndex),
+      intervals: run.end - run.start,
+      peakKW,
+      peakKWAt: at(peakKWi),
+      peakKVA,
+      peakKVAAt: at(peakKVAi),
+      kWh,
+      kvarhLagging: lag * hours,
+      kvarhLeading: lead * hours,
+      billingPF: billingPF(kWh, (lag - lead) * hours),
+      billingPFLaggingOnly: billingPF(kWh, lag * hours),
+    };
+  });
+}

@@ -1,0 +1,224 @@
+import { detectDelimiter, mapColumns, splitHeader, type ColumnMapping, type ColumnOverrides, type Delimiter, type MappingIssue } from "./columns.js";
+import { isoWithOffset, type DateOrder } from "./datetime.js";
+import { GrowableF64 } from "./growable.js";
+import { checkSteps, medianStepMinutes, sortAndDedupe, type DuplicateExample, type StepReport } from "./quality.js";
+import { RowDecoder, type SenseOption } from "./rows.js";
+import type { IntervalSeries, RowError } from "./types.js";
+import { fixedZone, UTC_ZONE, zoneFor, type Zone } from "./zone.js";
+
+export const DEFAULT_MAX_ROWS = 1_100_000;
+export const DEFAULT_MAX_BAD_ROW_FRACTION = 0.05;
+export const DEFAULT_MAX_REPORTED = 50;
+/** Lines before the header (a meter's preamble) searched for a header that maps. */
+export const HEADER_SEARCH_LINES = 20;
+export const MAX_LINE_CHARS = 10_000;
+
+export interface ParseOptions extends ColumnOverrides {
+  delimiter?: Delimiter;
+  dateOrder?: DateOrder;
+  /** IANA name or fixed offset for timestamps without one, and for calendar months. */
+  timeZone?: string;
+  sense?: SenseOption;
+  /** Interval length override, minutes (otherwise the median step). */
+  intervalMinutes?: number;
+  maxRows?: number;
+  maxBadRowFraction?: number;
+  maxReported?: number;
+}
+
+export type FatalKind = "options" | "header" | "line_too_long" | "too_many_rows" | "no_data" | "too_many_bad_rows" | "too_few_intervals";
+
+export interface ParseFatal {
+  kind: FatalKind;
+  message: string;
+  issues: MappingIssue[];
+}
+
+export interface ParseReport {
+  lines: number;
+  dataRows: number;
+  acceptedRows: number;
+  blankLines: number;
+  preambleLines: number;
+  delimiter: Delimiter;
+  header: string[];
+  columns: Record<string, string>;
+  method: ColumnMapping["method"] | null;
+  timeZone: string;
+  notes: string[];
+  badRows: { count: number; fraction: number; limitFraction: number; byReason: Record<string, number>; first: RowError[] };
+  outOfOrder: { count: number; first: { line: number; timestamp: string; previousTimestamp: string }[] };
+  duplicates: { count: number; first: DuplicateExample[] };
+  interval: { minutes: number; detectedMinutes: number; source: "detected" | "given" } | null;
+  steps: StepReport | null;
+}
+
+export type ParseOutcome = { ok: true; series: IntervalSeries; report: ParseReport } | { ok: false; fatal: ParseFatal; report: ParseReport };
+
+export interface IntervalParser {
+  /** Feed the next piece of text (any split, even mid-line); false once the upload is refused. */
+  push(chunk: string): boolean;
+  /** No more text: finish the last line and build the series. */
+  end(): ParseOutcome;
+}
+
+/** A streaming CSV parser: a state machine over lines (header search, then rows) fed string chunks. */
+export function createIntervalParser(options: ParseOptions = {}): IntervalParser {
+  const maxRows = options.maxRows ?? DEFAULT_MAX_ROWS;
+  const maxReported = options.maxReported ?? DEFAULT_MAX_REPORTED;
+  const givenZone = options.timeZone !== undefined ? zoneFor(options.timeZone) : null;
+  let zone: Zone = givenZone ?? UTC_ZONE;
+  const report: ParseReport = {
+    lines: 0, dataRows: 0, acceptedRows: 0, blankLines: 0, preambleLines: 0, delimiter: options.delimiter ?? ",", header: [],
+    columns: {}, method: null, timeZone: zone.name, notes: [],
+    badRows: { count: 0, fraction: 0, limitFraction: options.maxBadRowFraction ?? DEFAULT_MAX_BAD_ROW_FRACTION, byReason: {}, first: [] },
+    outOfOrder: { count: 0, first: [] }, duplicates: { count: 0, first: [] }, interval: null, steps: null,
+  };
+  let fatal: ParseFatal | null = null;
+  if (options.timeZone !== undefined && givenZone === null) {
+    fatal = { kind: "options", message: "timeZone is not an IANA zone name or an offset like +02:00", issues: [{ path: "timeZone", message: `unknown time zone "${options.timeZone}"` }] };
+  }
+  let decoder: RowDecoder | null = null;
+  let firstHeaderIssues: MappingIssue[] | null = null;
+  let firstHeaderLine = 0;
+  let candidates = 0;
+  const ts = new GrowableF64(), kW = new GrowableF64(), kvar = new GrowableF64(), lines = new GrowableF64();
+  let prevUtc = Number.NaN;
+  let withoutOffset = 0;
+  let firstOffsetMs = Number.NaN;
+  let carry = "";
+  const fmt = (u: number) => isoWithOffset(u, zone.offsetMsAt(u));
+
+  const header = (text: string): void => {
+    if (text.trim() === "") return void report.blankLines++;
+    candidates++;
+    const delimiter = options.delimiter ?? detectDelimiter(text);
+    const names = splitHeader(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text, delimiter);
+    const mapped = mapColumns(names, options);
+    if ("issues" in mapped) {
+      firstHeaderIssues ??= mapped.issues;
+      firstHeaderLine ||= report.lines;
+      if (candidates >= HEADER_SEARCH_LINES) {
+        fatal = { kind: "header", message: `no header line with the needed columns in the first ${HEADER_SEARCH_LINES} lines (line ${firstHeaderLine} shown)`, issues: firstHeaderIssues };
+      }
+      return;
+    }
+    report.preambleLines = candidates - 1;
+    report.delimiter = delimiter;
+    report.header = names;
+    report.columns = mapped.mapping.names;
+    report.method = mapped.mapping.method;
+    report.notes.push(...mapped.mapping.notes);
+    decoder = new RowDecoder(mapped.mapping, names.length, { delimiter, dateOrder: options.dateOrder ?? null, zone, sense: options.sense ?? null });
+  };
+
+  const badRow = (d: RowDecoder, s: string): void => {
+    const b = report.badRows;
+    b.count++;
+    const key = d.errReason.split(/[:(]/)[0]!.trim();
+    b.byReason[key] = (b.byReason[key] ?? 0) + 1;
+    if (b.first.length < maxReported) {
+      const column = d.errColumn >= 0 ? (report.header[d.errColumn] ?? "") : "";
+      const e: RowError = { line: report.lines, column, reason: d.errReason };
+      if (d.errColumn >= 0) e.value = s.slice(d.errStart, Math.min(d.errEnd, d.errStart + 40));
+      b.first.push(e);
+    }
+  };
+
+  const line = (s: string, start: number, end: number): void => {
+    report.lines++;
+    if (end > start && s.charCodeAt(end - 1) === 13) end--;
+    const d = decoder;
+    if (d === null) return header(s.slice(start, end));
+    if (start === end) return void report.blankLines++;
+    if (++report.dataRows > maxRows) {
+      fatal = { kind: "too_many_rows", message: `more than ${maxRows} data rows`, issues: [{ path: "body", message: `the upload has more than ${maxRows} data rows` }] };
+      return;
+    }
+    if (!d.decode(s, start, end, prevUtc)) return badRow(d, s);
+    const u = d.utcMs;
+    if (!d.hadOffset) withoutOffset++;
+    else if (Number.isNaN(firstOffsetMs)) firstOffsetMs = d.offsetMs;
+    if (u < prevUtc) {
+      const o = report.outOfOrder;
+      o.count++;
+      if (o.first.length < maxReported) o.first.push({ line: report.lines, timestamp: fmt(u), previousTimestamp: fmt(prevUtc) });
+    }
+    prevUtc = u;
+    ts.push(u);
+    kW.push(d.kW);
+    kvar.push(d.kvar);
+    lines.push(report.lines);
+  };
+
+  const push = (chunk: string): boolean => {
+    if (fatal) return false;
+    let pos = 0;
+    if (carry !== "") {
+      const nl = chunk.indexOf("\n");
+      if (nl < 0) {
+        carry += chunk;
+        if (carry.length > MAX_LINE_CHARS) fatal = { kind: "line_too_long", message: `line ${report.lines + 1} is longer than ${MAX_LINE_CHARS} characters`, issues: [{ path: `line.${report.lines + 1}`, message: "line too long" }] };
+        return !fatal;
+      }
+      const joined = carry + chunk.slice(0, nl);
+      carry = "";
+      line(joined, 0, joined.length);
+      pos = nl + 1;
+    }
+    while (!fatal) {
+      const nl = chunk.indexOf("\n", pos);
+      if (nl < 0) break;
+      line(chunk, pos, nl);
+      pos = nl + 1;
+    }
+    carry = pos < chunk.length ? chunk.slice(pos) : "";
+    return !fatal;
+  };
+
+  return { push, end: () => finish() };
+
+  function finish(): ParseOutcome {
+    if (!fatal && carry !== "") line(carry, 0, carry.length);
+    carry = "";
+    const fail = (kind: FatalKind, message: string, issues: MappingIssue[]): ParseOutcome => ({ ok: false, fatal: { kind, message, issues }, report });
+    if (fatal) return { ok: false, fatal, report };
+    if (decoder === null) {
+      if (candidates === 0) return fail("no_data", "the upload is empty", [{ path: "body", message: "no lines: send a CSV with a header line" }]);
+      return fail("header", `no header line with the needed columns (line ${firstHeaderLine} shown)`, firstHeaderIssues ?? []);
+    }
+    const b = report.badRows;
+    report.acceptedRows = ts.length;
+    b.fraction = report.dataRows > 0 ? b.count / report.dataRows : 0;
+    if (report.dataRows === 0) return fail("no_data", "no data rows after the header", [{ path: "body", message: "the header is followed by no rows" }]);
+    if (b.fraction > b.limitFraction) {
+      const message = `${b.count} of ${report.dataRows} rows (${(b.fraction * 100).toFixed(1)} %) are bad, above the ${(b.limitFraction * 100).toFixed(0)} % limit`;
+      return fail("too_many_bad_rows", message, b.first.map((e) => ({ path: `line.${e.line}${e.column ? `.${e.column}` : ""}`, message: e.reason })));
+    }
+    if (givenZone === null && withoutOffset === 0 && !Number.isNaN(firstOffsetMs)) zone = fixedZone(firstOffsetMs);
+    report.timeZone = zone.name;
+    if (givenZone !== null && withoutOffset > 0 && !/^(UTC|[+-])/.test(zone.name)) {
+      report.notes.push(`timestamps without an offset read as local time in ${zone.name}; a local hour repeated at the daylight-saving change is read in row order (first occurrence, then second)`);
+    }
+    if (givenZone === null) {
+      report.notes.push(
+        withoutOffset > 0
+          ? `timeZone not given: ${withoutOffset} timestamps without an offset were read as UTC, and months are UTC months`
+          : `timeZone not given: timestamps carry offsets; months are counted in the first row's offset (${zone.name})`,
+      );
+    }
+    const raw = { timestampsMs: ts.data, kW: kW.data, kvar: kvar.data, lines: lines.data, n: ts.length };
+    const { rows, duplicates } = sortAndDedupe(raw, report.outOfOrder.count === 0, fmt, maxReported);
+    report.duplicates = duplicates;
+    if (rows.n < 2) return fail("too_few_intervals", "fewer than two distinct timestamps", [{ path: "body", message: "at least two intervals are needed" }]);
+    const detected = medianStepMinutes(rows.timestampsMs, rows.n);
+    const minutes = options.intervalMinutes ?? detected;
+    report.interval = { minutes, detectedMinutes: detected, source: options.intervalMinutes !== undefined ? "given" : "detected" };
+    report.steps = checkSteps(rows, minutes, fmt, maxReported);
+    const series: IntervalSeries = {
+      timestampsMs: rows.timestampsMs.subarray(0, rows.n), kW: rows.kW.subarray(0, rows.n), kvar: rows.kvar.subarray(0, rows.n),
+      length: rows.n, intervalMinutes: minutes, timeZone: zone.name,
+    };
+    return { ok: true, series, report };
+  }
+}

@@ -1,0 +1,173 @@
+import type { ColumnMapping, Delimiter } from "./columns.js";
+import { TimestampParser, TS_REASONS, type DateOrder } from "./datetime.js";
+import { parseDecimal } from "./numbers.js";
+import type { Zone } from "./zone.js";
+
+export type SenseOption = "lagging" | "leading";
+
+/** Beyond this share above the kVA a kW reading is an error, not rounding (common practice, no source). */
+export const KW_ABOVE_KVA_TOLERANCE = 0.01;
+
+export interface RowDecoderOptions {
+  delimiter: Delimiter;
+  dateOrder: DateOrder | null;
+  /** Zone for timestamps written without an offset. */
+  zone: Zone;
+  /** Sense of PF / kVA rows without a sense column; null: PF signed (negative = leading), kVA lagging. */
+  sense: SenseOption | null;
+}
+
+/**
+ * Decodes one data row in place: splits it at the delimiter (double-quoted fields allowed), reads the timestamp
+ * and the powers, and leaves either the values (utcMs, kW, kvar) or an error (errColumn, errReason) on the object.
+ */
+export class RowDecoder {
+  utcMs = 0;
+  kW = 0;
+  kvar = 0;
+  hadOffset = false;
+  /** Offset written in the timestamp, ms (NaN when none). */
+  offsetMs = Number.NaN;
+  errColumn = -1;
+  errReason = "";
+  errStart = 0;
+  errEnd = 0;
+  fieldCount = 0;
+  private readonly starts: Int32Array;
+  private readonly ends: Int32Array;
+  private readonly ts: TimestampParser;
+  private readonly delim: string;
+  private readonly decimalComma: boolean;
+
+  constructor(
+    private readonly map: ColumnMapping,
+    private readonly columnCount: number,
+    private readonly opts: RowDecoderOptions,
+  ) {
+    this.starts = new Int32Array(columnCount);
+    this.ends = new Int32Array(columnCount);
+    this.ts = new TimestampParser(opts.dateOrder);
+    this.delim = opts.delimiter;
+    this.decimalComma = opts.delimiter !== ",";
+  }
+
+  private fail(column: number, reason: string): false {
+    this.errColumn = column;
+    this.errReason = reason;
+    if (column >= 0) {
+      this.errStart = this.starts[column] as number;
+      this.errEnd = this.ends[column] as number;
+    }
+    return false;
+  }
+
+  /** Split s[start, end) into fields; false on an unterminated quote. */
+  private split(s: string, start: number, end: number): boolean {
+    const delim = this.delim;
+    let pos = start;
+    let f = 0;
+    for (;;) {
+      let fs = pos;
+      let fe: number;
+      if (pos < end && s.charCodeAt(pos) === 34) {
+        let q = pos + 1;
+        for (;;) {
+          const k = s.indexOf('"', q);
+          if (k < 0 || k >= end) return false;
+          if (k + 1 < end && s.charCodeAt(k + 1) === 34) q = k + 2;
+          else {
+            fs = pos + 1;
+            fe = k;
+            break;
+          }
+        }
+        let k = s.indexOf(delim, fe + 1);
+        pos = k < 0 || k >= end ? end : k;
+      } else {
+        const k = s.indexOf(delim, pos);
+        pos = k < 0 || k >= end ? end : k;
+        fe = pos;
+      }
+      while (fs < fe && s.charCodeAt(fs) === 32) fs++;
+      while (fe > fs && s.charCodeAt(fe - 1) === 32) fe--;
+      if (f < this.columnCount) {
+        this.starts[f] = fs;
+        this.ends[f] = fe;
+      }
+      f++;
+      if (pos >= end) break;
+      pos++;
+    }
+    this.fieldCount = f;
+    return true;
+  }
+
+  private number(s: string, column: number): number {
+    return parseDecimal(s, this.starts[column] as number, this.ends[column] as number, this.decimalComma);
+  }
+
+  /** +1 lagging, −1 leading, 0 when the sense cell is absent or empty, NaN when unrecognised. */
+  private senseSign(s: string): number {
+    const col = this.map.sense;
+    if (col < 0) return 0;
+    const a = this.starts[col] as number;
+    if (a >= (this.ends[col] as number)) return 0;
+    const c = s.charCodeAt(a) | 32;
+    const c2 = a + 1 < (this.ends[col] as number) ? s.charCodeAt(a + 1) | 32 : 0;
+    if (c === 105 || (c === 108 && c2 === 97) || (c === 108 && c2 === 0)) return 1; // ind…, la…, L
+    if (c === 99 || (c === 108 && c2 === 101)) return -1; // cap…, le…
+    return Number.NaN;
+  }
+
+  /** Decode the row in s[start, end); `afterUtcMs` (previous row) resolves repeated local times. */
+  decode(s: string, start: number, end: number, afterUtcMs: number): boolean {
+    this.errColumn = -1;
+    if (!this.split(s, start, end)) return this.fail(-1, "unterminated double quote");
+    if (this.fieldCount !== this.columnCount) {
+      return this.fail(-1, `wrong column count: ${this.fieldCount} fields, the header has ${this.columnCount}`);
+    }
+    const m = this.map;
+    const code =
+      m.timestamp >= 0
+        ? this.ts.parse(s, this.starts[m.timestamp] as number, this.ends[m.timestamp] as number)
+        : this.ts.parseSplit(s, this.starts[m.date] as number, this.ends[m.date] as number, s, this.starts[m.time] as number, this.ends[m.time] as number);
+    const tsColumn = m.timestamp >= 0 ? m.timestamp : m.date;
+    if (code !== 0) return this.fail(tsColumn, `bad timestamp: ${TS_REASONS[code]}`);
+    this.offsetMs = this.ts.offsetMs;
+    this.hadOffset = !Number.isNaN(this.offsetMs);
+    this.utcMs = this.hadOffset ? this.ts.wallMs - this.ts.offsetMs : this.opts.zone.wallToUtc(this.ts.wallMs, afterUtcMs);
+    if (Number.isNaN(this.utcMs)) {
+      return this.fail(tsColumn, `bad timestamp: this local time does not exist in ${this.opts.zone.name} (skipped by the daylight-saving change)`);
+    }
+    const kW = this.number(s, m.kW);
+    if (Number.isNaN(kW)) return this.fail(m.kW, "unparseable number");
+    if (kW < 0) return this.fail(m.kW, "negative kW (export): this analysis covers imported power only");
+    const sign = this.senseSign(s);
+    if (Number.isNaN(sign)) return this.fail(m.sense, "unrecognised sense (use lagging/leading, lag/lead, L/C, inductive/capacitive)");
+    this.kW = kW;
+    if (m.method === "kW_kvar") {
+      const q = this.number(s, m.kvar);
+      if (Number.isNaN(q)) return this.fail(m.kvar, "unparseable number");
+      this.kvar = sign === 0 ? q : sign * Math.abs(q);
+      return true;
+    }
+    if (m.method === "kW_pf") {
+      const pf = this.number(s, m.pf);
+      if (Number.isNaN(pf)) return this.fail(m.pf, "unparseable number");
+      const mag = Math.abs(pf);
+      if (!(mag > 0 && mag <= 1)) return this.fail(m.pf, mag > 1 ? "PF outside (0, 1] (give PF as a fraction, not percent)" : "PF outside (0, 1]");
+      const s2 = sign !== 0 ? sign : this.opts.sense === "leading" ? -1 : this.opts.sense === "lagging" ? 1 : pf < 0 ? -1 : 1;
+      // Q = P·tan(acos PF) = P·√(1 − PF²)/PF (power triangle)
+      this.kvar = (s2 * kW * Math.sqrt(1 - mag * mag)) / mag + 0; // + 0: no −0 at PF 1
+      return true;
+    }
+    const kVA = this.number(s, m.kVA);
+    if (Number.isNaN(kVA)) return this.fail(m.kVA, "unparseable number");
+    if (kVA < 0) return this.fail(m.kVA, "negative kVA");
+    if (kW > kVA * (1 + KW_ABOVE_KVA_TOLERANCE)) return this.fail(m.kW, "kW above kVA by more than 1 %");
+    const s3 = sign !== 0 ? sign : this.opts.sense === "leading" ? -1 : 1;
+    // Q = √(S² − P²) (power triangle); kW within 1 % above kVA is rounding and gives 0
+    this.kvar = kVA > kW ? s3 * Math.sqrt(kVA * kVA - kW * kW) : 0;
+    return true;
+  }
+}

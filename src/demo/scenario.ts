@@ -1,0 +1,51 @@
+import type { BuildingData, SurveyInputs } from "../store/types.js";
+
+/**
+ * An invented site for the demo: a bottling hall at a fictional works, surveyed before an
+ * automatic capacitor bank was fitted and again a year later, when the main meter shows the
+ * power factor drifting back down (a failed step, and a third compressor added since).
+ */
+
+export const DEMO_BUILDING: BuildingData = {
+  name: "Quillmoor Bottling Works — Line 2 hall",
+  address: "Unit 4, Fernhollow Trading Estate (invented demo site)",
+  notes: "Demo data: an invented site. Fed from its own 1500 kVA transformer; main switchboard MSB-2.",
+  system: { voltageV: 480, frequencyHz: 60, phases: 3 },
+  transformer: { kVA: 1500, impedancePct: 5.75, xOverR: 6 },
+  utility: { faultMVA: 250 },
+};
+
+const commonLoads: SurveyInputs["loads"] = [
+  { label: "Filler carousel drive", kind: "drive", measurement: { method: "kw_pf", kW: 55, pf: 0.96, sense: "lagging" } },
+  { label: "Air compressor C1", kind: "motor", measurement: { method: "v_i_pf", volts: 480, amps: 118, pf: 0.82, sense: "lagging" } },
+  { label: "Air compressor C2", kind: "motor", measurement: { method: "v_i_pf", volts: 478, amps: 112, pf: 0.8, sense: "lagging" } },
+  { label: "Conveyor motors, hall 2", kind: "motor", quantity: 12, measurement: { method: "kw_pf", kW: 4.1, pf: 0.72, sense: "lagging" } },
+  { label: "Glycol chiller", kind: "hvac", measurement: { method: "kw_kva", kW: 148, kVA: 188 } },
+  { label: "Bottle washer pumps", kind: "motor", quantity: 3, measurement: { method: "kw_pf", kW: 15, pf: 0.78, sense: "lagging" } },
+  { label: "Hall lighting (LED)", kind: "lighting", measurement: { method: "kw_pf", kW: 38, pf: 0.93, sense: "lagging" } },
+  { label: "Labeller and capper", kind: "motor", measurement: { method: "v_i_kw", volts: 480, amps: 41, kW: 22 } },
+];
+
+export const DEMO_SURVEYS: SurveyInputs[] = [
+  {
+    surveyedAt: "2023-03-14T09:30:00-05:00",
+    surveyor: "T. Ashgrove (demo surveyor)",
+    notes: "Baseline before correction. Readings at each MCC feeder during the morning shift, line 2 at full rate.",
+    targetPF: 0.95,
+    loads: commonLoads,
+    proposedBank: { ratedVoltageV: 525, steps: [50, 50, 50, 50, 50].map((kvar) => ({ kvar })), reactorPct: 7 },
+  },
+  {
+    surveyedAt: "2024-03-19T10:15:00-05:00",
+    surveyor: "T. Ashgrove (demo surveyor)",
+    notes:
+      "Automatic bank (5 × 50 kvar at 525 V, 7 % detuned) in service since June 2023. Main meter read with the bank online: " +
+      "step 5 contactor found failed open. Compressor C3 added in January 2024.",
+    targetPF: 0.95,
+    loads: [
+      ...commonLoads,
+      { label: "Air compressor C3", kind: "motor", measurement: { method: "v_i_pf", volts: 479, amps: 104, pf: 0.81, sense: "lagging" } },
+    ],
+    serviceEntrance: { label: "MSB-2 main meter (bank online)", measurement: { method: "kw_kvar", kW: 603, kvar: 236 } },
+  },
+];

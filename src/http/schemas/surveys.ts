@@ -1,0 +1,128 @@
+import { z } from "zod";
+import { sizingResultSchema } from "./results.js";
+import {
+  bankSchema,
+  harmonicSourcesSchema,
+  loadsSchema,
+  serviceEntranceSchema,
+  targetPFSchema,
+} from "./sizing.js";
+import type { SurveyInputs } from "../../store/types.js";
+
+/** Request and response schemas of surveys and their revisions. */
+
+export const isoInstantSchema = z.union([z.iso.date(), z.iso.datetime({ offset: true })], {
+  error: "must be an ISO 8601 date (2024-03-05) or date-time with a zone (2024-03-05T09:30:00Z or …+01:00)",
+});
+
+export const surveyInputsSchema = z.strictObject({
+  surveyedAt: isoInstantSchema.describe("when the readings were taken"),
+  surveyor: z.string({ error: "surveyor must be a string" }).trim().min(1, "surveyor must not be empty").max(200),
+  notes: z.string({ error: "notes must be a string" }).max(5000, "notes must be at most 5000 characters").optional(),
+  targetPF: targetPFSchema,
+  loads: loadsSchema,
+  serviceEntrance: serviceEntranceSchema.optional(),
+  proposedBank: bankSchema.optional(),
+  harmonicSources: harmonicSourcesSchema.optional(),
+});
+
+export const revisionInputsSchema = surveyInputsSchema.extend({
+  reason: z
+    .string({ error: "reason is required: say why the survey is revised" })
+    .trim()
+    .min(1, "reason must not be empty: say why the survey is revised")
+    .max(1000, "reason must be at most 1000 characters"),
+});
+
+// Compile-time check: parsed survey inputs are what the store keeps.
+const _assignable: (r: z.infer<typeof surveyInputsSchema>) => SurveyInputs = (r) => r;
+void _assignable;
+
+export const surveyListQuerySchema = z.strictObject({
+  from: isoInstantSchema.optional().describe("inclusive; a date means from its start (UTC)"),
+  to: isoInstantSchema.optional().describe("inclusive; a date means to its end (UTC)"),
+  limit: z.string().optional(),
+  cursor: z.string().optional(),
+});
+
+export const trendQuerySchema = z.strictObject({ from: isoInstantSchema.optional(), to: isoInstantSchema.optional() });
+
+export const buildingSnapshotSchema = z.object({
+  buildingVersion: z.number().int(),
+  system: z.object({ voltageV: z.number(), frequencyHz: z.number(), phases: z.number() }),
+  transformer: z.object({ kVA: z.number(), impedancePct: z.number(), xOverR: z.number().optional() }).nullable(),
+  utility: z.object({ faultMVA: z.number() }).nullable(),
+});
+
+export const surveyCreatedSchema = z.object({
+  id: z.string(),
+  revision: z.number().int(),
+  buildingId: z.string(),
+  result: sizingResultSchema,
+});
+
+const revisionFields = {
+  buildingId: z.string(),
+  revision: z.number().int(),
+  createdAt: z.string().describe("when this revision was stored"),
+  actor: z.string(),
+  reason: z.string().nullable().describe("why this revision was made; null on revision 1"),
+  engineVersion: z.string(),
+  inputs: surveyInputsSchema,
+  result: sizingResultSchema.describe("as computed when the revision was stored, never recomputed"),
+  building: buildingSnapshotSchema.describe("the building's electrical data the result was computed with"),
+};
+
+export const revisionSchema = z.object({ surveyId: z.string(), ...revisionFields });
+
+export const surveySchema = z.object({
+  id: z.string(),
+  ...revisionFields,
+  revisions: z.array(z.object({ n: z.number().int(), createdAt: z.string(), reason: z.string().nullable() })),
+});
+
+export const surveySummarySchema = z.object({
+  id: z.string(),
+  revision: z.number().int(),
+  surveyedAt: z.string(),
+  surveyor: z.string(),
+  kW: z.number(),
+  kvar: z.number(),
+  displacementPF: z.number(),
+  kvarRequired: z.number(),
+  warningCount: z.number().int(),
+});
+
+export const surveyPageSchema = z.object({ items: z.array(surveySummarySchema), nextCursor: z.string().nullable() });
+
+export const trendSchema = z.object({
+  buildingId: z.string(),
+  order: z.literal("oldest_first"),
+  truncated: z.boolean().describe("true when more points exist than one response carries; narrow from/to"),
+  items: z.array(
+    z.object({
+      surveyId: z.string(),
+      revision: z.number().int(),
+      surveyedAt: z.string(),
+      kW: z.number(),
+      kvar: z.number(),
+      displacementPF: z.number(),
+      kvarRequired: z.number(),
+    }),
+  ),
+});
+
+export const auditPageSchema = z.object({
+  items: z.array(
+    z.object({
+      id: z.number().int(),
+      at: z.string(),
+      actor: z.string(),
+      action: z.string(),
+      resourceType: z.string(),
+      resourceId: z.string(),
+      requestId: z.string().nullable(),
+    }),
+  ),
+  nextCursor: z.string().nullable(),
+});

@@ -1,0 +1,62 @@
+import type { FastifyInstance } from "fastify";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Store } from "../../src/store/store.js";
+import { makeStoreApp, rowCounts } from "../helpers/db.js";
+import { buildingBody, surveyBody } from "../store/fixtures.js";
+
+let app: FastifyInstance;
+let store: Store;
+let buildingId: string;
+let surveyId: string;
+beforeAll(async () => {
+  ({ app, store } = await makeStoreApp({ BODY_LIMIT_BYTES: 64 * 1024 }));
+  buildingId = (await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody() })).json().id;
+  const s = await app.inject({ method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody(), headers: { "idempotency-key": "taken" } });
+  surveyId = s.json().id;
+});
+afterAll(() => app.close());
+
+describe("rejected requests change nothing", () => {
+  it("leaves every table's row count unchanged after a batch of bad requests, none a 500", async () => {
+    const before = rowCounts(store);
+    const json = { "content-type": "application/json" };
+    const implausible = surveyBody();
+    implausible.loads[2] = { label: "x", kind: "lighting", measurement: { method: "v_i_kw", volts: 400, amps: 1, kW: 99 } } as never;
+    const batch = [
+      { method: "POST", url: "/v1/buildings", payload: {} },
+      { method: "POST", url: "/v1/buildings", payload: "{not json", headers: json },
+      { method: "POST", url: "/v1/buildings", payload: "", headers: json },
+      { method: "POST", url: "/v1/buildings", payload: "name=x", headers: { "content-type": "application/x-www-form-urlencoded" } },
+      { method: "POST", url: "/v1/buildings", payload: JSON.stringify({ ...buildingBody(), notes: "x".repeat(70_000) }), headers: json },
+      { method: "POST", url: "/v1/buildings", payload: [buildingBody()] },
+      { method: "PATCH", url: `/v1/buildings/${buildingId}`, payload: { system: { voltageV: "400" } } },
+      { method: "PATCH", url: `/v1/buildings/${buildingId}`, payload: {} },
+      { method: "PATCH", url: "/v1/buildings/bld_none", payload: { name: "x" } },
+      { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: { ...surveyBody(), loads: [] } },
+      { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: implausible },
+      { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: { ...surveyBody(), result: { site: {} } } },
+      { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyor: "other" }), headers: { "idempotency-key": "taken" } },
+      { method: "POST", url: "/v1/buildings/bld_none/surveys", payload: surveyBody() },
+      { method: "POST", url: `/v1/surveys/${surveyId}/revisions`, payload: surveyBody() },
+      { method: "POST", url: `/v1/surveys/${surveyId}/revisions`, payload: { ...implausible, reason: "x" } },
+      { method: "POST", url: "/v1/surveys/srv_none/revisions", payload: { ...surveyBody(), reason: "x" } },
+      { method: "GET", url: `/v1/buildings/${buildingId}/surveys?limit=-1` },
+      { method: "GET", url: `/v1/buildings/${buildingId}/surveys?cursor=%00%01` },
+      { method: "GET", url: `/v1/surveys/${surveyId}/revisions/abc` },
+      { method: "DELETE", url: `/v1/surveys/${surveyId}` },
+    ] as const;
+    const statuses: number[] = [];
+    for (const req of batch) {
+      const res = await app.inject(req as never);
+      statuses.push(res.statusCode);
+      expect(res.statusCode, `${req.method} ${req.url}`).toBeGreaterThanOrEqual(400);
+      expect(res.statusCode, `${req.method} ${req.url}`).toBeLessThan(500);
+      expect(res.headers["content-type"], `${req.method} ${req.url}`).toMatch(/^application\/problem\+json/);
+      const p = res.json();
+      expect(typeof p.detail).toBe("string");
+      expect(p.status).toBe(res.statusCode);
+    }
+    expect(new Set(statuses)).toEqual(new Set([400, 404, 413, 415, 422]));
+    expect(rowCounts(store)).toEqual(before);
+  });
+});

@@ -1,0 +1,107 @@
+import type { FastifyInstance } from "fastify";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Store } from "../../src/store/store.js";
+import { makeStoreApp, rowCounts } from "../helpers/db.js";
+import { buildingBody, surveyBody } from "../store/fixtures.js";
+
+let app: FastifyInstance;
+let store: Store;
+let buildingId: string;
+let clock = Date.parse("2025-03-01T12:00:00.000Z");
+const HOUR = 3600_000;
+
+beforeAll(async () => {
+  ({ app, store } = await makeStoreApp({}, { now: () => new Date(clock) }));
+  buildingId = (await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody() })).json().id;
+});
+afterAll(() => app.close());
+
+const postSurvey = (key: string, payload: unknown) =>
+  app.inject({ method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: payload as object, headers: { "idempotency-key": key } });
+const surveyCount = () => (store.db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
+
+describe("Idempotency-Key", () => {
+  it("same key and same body: one survey, the first response again", async () => {
+    const n = surveyCount();
+    const first = await postSurvey("k-same", surveyBody());
+    expect(first.statusCode).toBe(201);
+    expect(first.headers["idempotent-replayed"]).toBe("false");
+    const counts = rowCounts(store);
+    // same content, keys in another order
+    const { loads, ...rest } = surveyBody();
+    const second = await postSurvey("k-same", { loads, ...Object.fromEntries(Object.entries(rest).reverse()) });
+    expect(second.statusCode).toBe(201);
+    expect(second.headers["idempotent-replayed"]).toBe("true");
+    expect(second.headers.location).toBe(first.headers.location);
+    expect(second.json()).toEqual(first.json());
+    expect(rowCounts(store)).toEqual(counts);
+    expect(surveyCount()).toBe(n + 1);
+  });
+
+  it("same key with a different body: 422 problem, nothing written", async () => {
+    await postSurvey("k-diff", surveyBody());
+    const counts = rowCounts(store);
+    const res = await postSurvey("k-diff", surveyBody({ surveyor: "Someone else" }));
+    expect(res.statusCode).toBe(422);
+    expect(res.headers["content-type"]).toMatch(/^application\/problem\+json/);
+    expect(res.json()).toMatchObject({ status: 422, errors: [{ path: "headers.idempotency-key" }] });
+    expect(rowCounts(store)).toEqual(counts);
+  });
+
+  it("the same key on another route is another request (422)", async () => {
+    await postSurvey("k-route", surveyBody());
+    const res = await app.inject({ method: "POST", url: "/v1/buildings", payload: surveyBody(), headers: { "idempotency-key": "k-route" } });
+    expect(res.statusCode).toBe(400); // validated first: the body is not a building
+    const b = await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody(), headers: { "idempotency-key": "k-route" } });
+    expect(b.statusCode).toBe(422);
+  });
+
+  it("replays building creation, PATCH and revisions too", async () => {
+    const h = { "idempotency-key": "k-building" };
+    const a = await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Once hall" }), headers: h });
+    const b = await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Once hall" }), headers: h });
+    expect(b.json()).toEqual(a.json());
+    expect((await app.inject("/v1/buildings?q=Once hall")).json().items).toHaveLength(1);
+
+    const p = { method: "PATCH" as const, url: `/v1/buildings/${a.json().id}`, payload: { notes: "x" }, headers: { "idempotency-key": "k-patch" } };
+    expect((await app.inject(p)).json().version).toBe(2);
+    expect((await app.inject(p)).json().version).toBe(2);
+
+    const s = (await postSurvey("k-for-rev", surveyBody())).json();
+    const rev = { method: "POST" as const, url: `/v1/surveys/${s.id}/revisions`, payload: { ...surveyBody(), reason: "r" }, headers: { "idempotency-key": "k-rev" } };
+    expect((await app.inject(rev)).json().revision).toBe(2);
+    expect((await app.inject(rev)).json().revision).toBe(2);
+    expect((await app.inject(`/v1/surveys/${s.id}`)).json().revisions).toHaveLength(2);
+  });
+
+  it("does not store a key for a rejected request", async () => {
+    const bad = surveyBody();
+    bad.loads[0] = { label: "x", kind: "motor", measurement: { method: "kw_kva", kW: 90, kVA: 10 } } as never;
+    expect((await postSurvey("k-rejected", bad)).statusCode).toBe(400);
+    expect((await postSurvey("k-rejected", surveyBody())).statusCode).toBe(201);
+  });
+
+  it("keeps keys at least 24 h, then forgets them once purged after 48 h", async () => {
+    const first = await postSurvey("k-old", surveyBody());
+    clock += 25 * HOUR;
+    const replay = await postSurvey("k-old", surveyBody());
+    expect(replay.json().id).toBe(first.json().id);
+    clock += 24 * HOUR; // 49 h after the first use
+    const n = surveyCount();
+    const fresh = await postSurvey("k-old", surveyBody({ surveyor: "new request after expiry" }));
+    expect(fresh.statusCode).toBe(201);
+    expect(fresh.json().id).not.toBe(first.json().id);
+    expect(surveyCount()).toBe(n + 1);
+    // lazily purged: records older than 48 h are gone
+    const old = store.db.prepare("SELECT count(*) AS n FROM idempotency_keys WHERE created_at < ?").get(new Date(clock - 48 * HOUR).toISOString()) as { n: number };
+    expect(old.n).toBe(0);
+  });
+
+  it("refuses a malformed key with 400", async () => {
+    for (const key of ["", "x".repeat(256), "tab\there", "ünï"]) {
+      const res = await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody(), headers: { "idempotency-key": key } });
+      expect(res.statusCode, JSON.stringify(key)).toBe(400);
+      expect(res.json().errors[0].path).toBe("headers.idempotency-key");
+    }
+  });
+});

@@ -1,0 +1,55 @@
+import { mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import type { FastifyInstance } from "fastify";
+import { afterAll } from "vitest";
+import { buildApp, type AppOptions } from "../../src/app.js";
+import { defaultConfig, type Config } from "../../src/config.js";
+import type { Store } from "../../src/store/store.js";
+
+const made: string[] = [];
+
+// Registered in the importing test file; after hooks run in reverse, so this runs after its own afterAll(app.close).
+afterAll(() => {
+  for (const dir of made.splice(0)) rmSync(dir, { recursive: true, force: true });
+});
+
+/** A fresh directory under the OS temp dir, removed after the test file. */
+export function tempDir(): string {
+  const dir = mkdtempSync(join(tmpdir(), "pfc-store-"));
+  made.push(dir);
+  return dir;
+}
+
+/** A database path (not yet created) in a fresh temp directory, removed after the test file. */
+export function tempDatabasePath(name = "pfc.sqlite"): string {
+  return join(tempDir(), name);
+}
+
+export interface StoreApp {
+  app: FastifyInstance;
+  store: Store;
+  path: string;
+}
+
+/** The app on a new temp database, demo data off, no logger; close `app` in afterAll. */
+export async function makeStoreApp(
+  overrides: Partial<Config> = {},
+  options: Omit<AppOptions, "config" | "logger"> = {},
+): Promise<StoreApp> {
+  const path = overrides.DATABASE_PATH ?? tempDatabasePath();
+  const config = defaultConfig({ DEMO_DATA: "off", ...overrides, DATABASE_PATH: path });
+  const app = await buildApp({ config, logger: false, ...options });
+  await app.ready();
+  return { app, store: app.store, path };
+}
+
+/** Row count of every table, to prove a rejected request changed nothing. */
+export function rowCounts(store: Store): Record<string, number> {
+  const tables = store.db
+    .prepare("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name")
+    .all() as { name: string }[];
+  return Object.fromEntries(
+    tables.map(({ name }) => [name, (store.db.prepare(`SELECT count(*) AS n FROM "${name}"`).get() as { n: number }).n]),
+  );
+}
