@@ -8,9 +8,25 @@ import { benchHarmonicScan } from "./harmonic-scan.js";
 import { knobsFromEnv } from "./http.js";
 import type { BenchSection, SummaryRow } from "./section.js";
 import { benchSizing } from "./sizing.js";
+import { benchSurveys } from "./surveys.js";
 
 const SECTIONS: BenchSection[] = [
   { name: "sizing", run: benchSizing },
+  {
+    name: "surveys",
+    run: async (knobs) => {
+      const r = await benchSurveys({ seconds: knobs.seconds, connections: knobs.connections });
+      return {
+        rows: [
+          { section: "surveys", metric: "POST surveys (20 loads) req/s", value: r.httpRps.toFixed(0) },
+          { section: "surveys", metric: "raw transaction per survey /s", value: r.rawTxPerSec.toFixed(0) },
+          { section: "surveys", metric: "bare route req/s", value: (r.bareRps ?? NaN).toFixed(0) },
+          { section: "surveys", metric: "http / combined ceiling", value: r.ratio.toFixed(2), goal: "≥ 0.6", pass: r.ratio >= 0.6 },
+        ],
+        notes: r.lines,
+      };
+    },
+  },
   {
     name: "harmonic-scan",
     run: async () => {

@@ -1,8 +1,10 @@
 import { twentyLoadBody } from "./bodies.js";
 import { postLoad, startApp, type Knobs } from "./http.js";
 import type { SectionResult } from "./section.js";
+import { sizingRequestSchema } from "../src/http/schemas/sizing.js";
+import { parseOr400 } from "../src/http/validate.js";
 
-/** Bench-only baseline: the same HTTP stack and JSON body parsing, no validation or engine. */
+/** Bench-only baseline: the same HTTP stack, JSON parsing and request validation (the route's own parse), no engine. */
 export const BARE_PATH = "/bench/bare";
 /** Goal: sizing throughput at least 60 % of the bare route's. */
 export const SIZING_RATIO_GOAL = 0.6;
@@ -13,7 +15,10 @@ export const SIZING_RATIO_GOAL = 0.6;
  */
 export async function benchSizing(knobs: Knobs): Promise<SectionResult> {
   const running = await startApp((app) => {
-    app.post(BARE_PATH, async () => ({ ok: true }));
+    app.post(BARE_PATH, async (request) => {
+      parseOr400(sizingRequestSchema, request.body);
+      return { ok: true };
+    });
   });
   try {
     const body = JSON.stringify(twentyLoadBody());

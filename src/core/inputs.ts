@@ -33,6 +33,16 @@ export interface HarmonicComponent {
   pct: number;
 }
 
+export type StartingMethod =
+  | "across_the_line"
+  | "star_delta"
+  | "soft_starter"
+  | "reduced_voltage"
+  | "jogging"
+  | "plugging"
+  | "reversing"
+  | "multi_speed";
+
 export interface LoadInput {
   label: string;
   kind?: LoadKind;
@@ -41,6 +51,40 @@ export interface LoadInput {
   measurement: Measurement;
   /** Measured current spectrum, percent of this load's fundamental current. */
   harmonics?: HarmonicComponent[];
+  /** How a motor is started: decides whether capacitors may go at its terminals. */
+  starting?: StartingMethod;
+  /** The terminal capacitor would have its own contactor, switched off while the motor starts or stops. */
+  separateCapacitorContactor?: boolean;
+  /** MCC or feeder the load is fed from, for group banks. */
+  group?: string;
+  /** No-load (uncoupled) line current of one motor, A: sets the self-excitation limit. */
+  noLoadAmps?: number;
+  /** false when the motor runs intermittently. */
+  continuousDuty?: boolean;
+}
+
+/** How to build the recommended bank; every field optional. */
+export interface BankDesignOptions {
+  /** Controller CT ratio, primary/secondary (1000/5 → 200), for C/k. */
+  ctRatio?: number;
+  /** Capacitor nameplate voltage; default the system voltage. */
+  ratedVoltageV?: number;
+  /** Series reactor of the bank, percent; default 0 (a harmonic study may propose one). */
+  reactorPct?: number;
+  /** Share of intervals the switched part covers (default 0.99). */
+  coverage?: number;
+  protectionDevice?: "fuse" | "breaker";
+  /** Overcurrent device as a multiple of rated current (≥ 1.35). */
+  ocpdFactor?: number;
+  capacitorConnection?: "delta" | "wye";
+  dischargeResistorConnection?: "across_each_capacitor" | "star_across_delta" | "two_across_delta" | "delta_across_wye";
+}
+
+/** Interval demand behind a design: kW and signed kvar per interval. */
+export interface IntervalDemandInput {
+  kW: ArrayLike<number>;
+  kvar: ArrayLike<number>;
+  intervalMinutes?: number;
 }
 
 export interface SystemInput {
@@ -86,6 +130,11 @@ export interface SizingInput {
   harmonicSources?: HarmonicSourceKind[];
   /** Background voltage distortion at the bus from the utility, percent of the fundamental per order. */
   backgroundVoltageDistortion?: HarmonicComponent[];
+  /** A reading at the main at light load (night shift, weekend): caps the fixed part of the bank. */
+  lightLoad?: ServiceEntranceInput;
+  bankDesign?: BankDesignOptions;
+  /** Interval demand (from an interval analysis) the bank design rests on instead of the readings. */
+  intervalDemand?: IntervalDemandInput;
 }
 
 export const DEFAULT_TARGET_PF = 0.95;

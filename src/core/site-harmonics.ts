@@ -44,7 +44,14 @@ function asStudyBank(name: string, bank: BankAnalysis): CapacitorBankInput {
   };
 }
 
+/**
+ * Grid of the figures-only study in sizing results: 0.1 order steps, each peak and dip then refined on the
+ * exact |Z(h)|, so the reported orders do not depend on the grid. /v1/harmonics/scan keeps the 0.01 default.
+ */
+export const FIGURES_SCAN_STEP_ORDER = 0.1;
+
 export interface SiteHarmonicsOutcome {
+  /** The full study (with series when asked); sizing results keep compactStudy(study). */
   study?: HarmonicStudyResult;
   issues: InputIssue[];
   warnings: Warning[];
@@ -92,7 +99,7 @@ export function studySiteHarmonics(
     sources,
     backgroundDistortion: background.map((c) => ({ order: c.order, pct: c.pct })),
     banks: studyBanks,
-    options,
+    options: options.includeScanSeries ? options : { ...options, scan: { stepOrder: FIGURES_SCAN_STEP_ORDER, ...options.scan } },
   });
   if (!outcome.ok) {
     // The study's own paths ("sources[2].spectrum[0].order") mapped back onto the request's loads.
@@ -107,9 +114,7 @@ export function studySiteHarmonics(
     return { issues, warnings: [] };
   }
   const study = outcome.result;
-  const warnings = study.findings
-    .filter((f) => f.code !== "resonance_near_harmonic" || f.bankName === undefined)
-    .map((f) => warning(f.code, f.message, f.bankName ? `${f.bankName}Bank` : undefined));
+  const warnings = findingsAsWarnings(study.findings.filter((f) => f.code !== "resonance_near_harmonic" || f.bankName === undefined));
   if (study.proposals.length > 0) {
     for (const p of study.proposals) {
       warnings.push(
@@ -122,4 +127,61 @@ export function studySiteHarmonics(
     }
   }
   return { study, issues: [], warnings };
+}
+
+/** One warning per failed limit, quantity and bank: the first stage's message, and which other stages fail it too. */
+function findingsAsWarnings(findings: HarmonicStudyResult["findings"]): Warning[] {
+  const groups = new Map<string, HarmonicStudyResult["findings"]>();
+  for (const f of findings) {
+    // Same limit, same bank, other stage: the message less its stage and figures.
+    const what = f.message.replace(/stage \d+ \([^)]*\)/g, "").replace(/\d+(\.\d+)?/g, "#");
+    const key = `${f.code}|${f.bankName ?? ""}|${what}`;
+    const g = groups.get(key);
+    if (g) g.push(f);
+    else groups.set(key, [f]);
+  }
+  return [...groups.values()].map((g) => {
+    const first = g[0]!;
+    const others = [...new Set(g.slice(1).map((f) => f.stageNumber).filter((n) => n !== undefined && n !== first.stageNumber))];
+    const message = others.length > 0 ? `${first.message}; also at stage${others.length > 1 ? "s" : ""} ${others.join(", ")}` : first.message;
+    return warning(first.code, message, first.bankName ? `${first.bankName}Bank` : "harmonics");
+  });
+}
+
+type Stage = HarmonicStudyResult["banks"][number]["stages"][number];
+
+/** A stage as the sizing result keeps it: the per-order bus voltages as {order, voltagePct}, no per-order duty rows. */
+export type CompactStage = Omit<Stage, "distortion" | "duty"> & {
+  distortion: Omit<Stage["distortion"], "lines"> & { lines: { order: number; voltagePct: number }[] };
+  duty: Omit<Stage["duty"], "orders">;
+};
+type CompactBank = Omit<HarmonicStudyResult["banks"][number], "stages"> & { stages: CompactStage[] };
+type Proposal = HarmonicStudyResult["proposals"][number];
+
+/** The harmonic section of a sizing result: the study's figures without series or per-order detail of each stage. */
+export type SizingHarmonics = Omit<HarmonicStudyResult, "banks" | "proposals"> & {
+  banks: CompactBank[];
+  proposals: (Omit<Proposal, "study"> & { study: CompactBank })[];
+};
+
+function compactStage(st: Stage): CompactStage {
+  const { orders: _orders, ...duty } = st.duty;
+  return {
+    ...st,
+    distortion: { ...st.distortion, lines: st.distortion.lines.map((l) => ({ order: l.order, voltagePct: l.voltagePct })) },
+    duty,
+  };
+}
+
+function compactBank(b: HarmonicStudyResult["banks"][number]): CompactBank {
+  return { ...b, stages: b.stages.map(compactStage) };
+}
+
+/** The figures-only form stored with surveys. */
+export function compactStudy(study: HarmonicStudyResult): SizingHarmonics {
+  return {
+    ...study,
+    banks: study.banks.map(compactBank),
+    proposals: study.proposals.map((p) => ({ ...p, study: compactBank(p.study) })),
+  };
 }

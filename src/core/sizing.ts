@@ -2,24 +2,21 @@ import { analyseBank, type BankAnalysis } from "./bank.js";
 import { cautionsFor, type Caution } from "./cautions.js";
 import { correctionFor, type CorrectionResult } from "./correction.js";
 import { DEFAULT_TARGET_PF, type SizingInput } from "./inputs.js";
-import { recommendBank, type BankArrangement } from "./recommend.js";
+import { designSiteCorrection, type RecommendedBank } from "./site-design.js";
+import type { PlacementPlan } from "./design/index.js";
 import {
   harmonicOrdersPresent,
   NONLINEAR_STUDY_SHARE,
   voltageRisePct,
 } from "./resonance.js";
 import { shortCircuitAtBus } from "./short-circuit.js";
-import { studySiteHarmonics } from "./site-harmonics.js";
+import { compactStudy, studySiteHarmonics, type SizingHarmonics } from "./site-harmonics.js";
 import type { HarmonicStudyOptions, HarmonicStudyResult } from "./harmonics/index.js";
 import { evaluateSite, type LoadResult, type SiteResult } from "./site.js";
 import { ENGINE_VERSION } from "./version.js";
 import { warning, type InputIssue, type Warning } from "./warnings.js";
 
-export interface RecommendedBank extends BankAnalysis {
-  arrangement: BankArrangement;
-  reason: string;
-  belowTarget: boolean;
-}
+export type { RecommendedBank };
 
 export interface ResonanceSummary {
   shortCircuitKVA: number;
@@ -41,16 +38,20 @@ export interface SizingResult {
   loads: LoadResult[];
   site: SiteResult;
   correction: CorrectionResult;
+  /** Where the correction goes: motor terminals, group banks, the central bank. */
+  placement?: PlacementPlan;
   recommendedBank: RecommendedBank | null;
   proposedBank?: BankAnalysis;
   resonance?: ResonanceSummary;
   /** The harmonic study's figures, whenever the site has harmonic sources and the source strength is known. */
-  harmonics?: HarmonicStudyResult;
+  harmonics?: SizingHarmonics;
   warnings: Warning[];
   cautions: Caution[];
 }
 
-export type SizingOutcome = { ok: true; result: SizingResult } | { ok: false; issues: InputIssue[] };
+export type SizingOutcome =
+  | { ok: true; result: SizingResult; /** the full harmonic study, for the scan endpoint */ study?: HarmonicStudyResult }
+  | { ok: false; issues: InputIssue[] };
 
 /** The whole stateless sizing: readings → triangles → site → correction → banks → resonance screen → cautions. */
 export interface SizingOptions {
@@ -74,25 +75,10 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
   const orders = harmonicOrdersPresent(input.loads, input.harmonicSources);
   const sourceCtx = { shortCircuitKVA: sc?.shortCircuitKVA ?? null, harmonicOrders: orders };
 
-  let recommendedBank: RecommendedBank | null = null;
-  const choice = recommendBank(correction.kvarRequired, site, system, input.transformer);
-  if (choice) {
-    const { analysis, warnings: w } = analyseBank(choice.bank, system, sourceCtx, "recommendedBank");
-    warnings.push(...w);
-    recommendedBank = { arrangement: choice.arrangement, reason: choice.reason, belowTarget: choice.belowTarget, ...analysis };
-    if (choice.belowTarget) {
-      warnings.push(warning("recommended_bank_below_target", choice.reason, "recommendedBank"));
-    }
-    for (const note of choice.notes) warnings.push(warning("recommended_bank_too_many_steps", note, "recommendedBank"));
-  } else if (correction.kvarRequired > 0) {
-    warnings.push(
-      warning(
-        "no_standard_unit_fits",
-        `${correction.kvarRequired.toFixed(2)} kvar is needed, but even the smallest standard unit would make the site lead at this load: no bank is recommended`,
-        "recommendedBank",
-      ),
-    );
-  }
+  const designed = designSiteCorrection(input, loads, site, correction, sourceCtx);
+  if (designed.issues.length > 0) return { ok: false, issues: designed.issues };
+  warnings.push(...designed.warnings);
+  const recommendedBank = designed.recommendedBank;
 
   let proposedBank: BankAnalysis | undefined;
   if (input.proposedBank) {
@@ -142,7 +128,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
     );
   }
 
-  const h = studySiteHarmonics(input, loads, sc?.shortCircuitKVA ?? null, { recommended: recommendedBank, proposed: proposedBank }, options.harmonics, options.forceHarmonicStudy);
+  const h = studySiteHarmonics(input, loads, sc?.shortCircuitKVA ?? null, { recommended: recommendedBank ? { ...recommendedBank, steps: designed.screenSteps } : null, proposed: proposedBank }, options.harmonics, options.forceHarmonicStudy);
   if (h.issues.length > 0) return { ok: false, issues: h.issues };
   warnings.push(...h.warnings);
 
@@ -154,12 +140,14 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       loads,
       site,
       correction,
+      ...(designed.placement ? { placement: designed.placement } : {}),
       recommendedBank,
       ...(proposedBank ? { proposedBank } : {}),
       ...(resonance ? { resonance } : {}),
-      ...(h.study ? { harmonics: h.study } : {}),
+      ...(h.study ? { harmonics: compactStudy(h.study) } : {}),
       warnings,
       cautions: cautionsFor(),
     },
+    ...(h.study ? { study: h.study } : {}),
   };
 }

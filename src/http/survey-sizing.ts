@@ -11,15 +11,12 @@ export function snapshotOf(b: BuildingRecord): BuildingSnapshot {
 }
 
 export function engineInputOf(snapshot: BuildingSnapshot, s: SurveyInputs): SizingInput {
+  const { surveyedAt: _at, surveyor: _by, notes: _notes, ...sizing } = s;
   return {
+    ...sizing,
     system: snapshot.system,
-    targetPF: s.targetPF,
-    loads: s.loads,
-    ...(s.serviceEntrance ? { serviceEntrance: s.serviceEntrance } : {}),
     ...(snapshot.transformer ? { transformer: snapshot.transformer } : {}),
     ...(snapshot.utility ? { utility: snapshot.utility } : {}),
-    ...(s.proposedBank ? { proposedBank: s.proposedBank } : {}),
-    ...(s.harmonicSources ? { harmonicSources: s.harmonicSources } : {}),
   };
 }
 

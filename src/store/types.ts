@@ -1,8 +1,5 @@
 import type {
-  HarmonicSourceKind,
-  LoadInput,
-  ProposedBankInput,
-  ServiceEntranceInput,
+  SizingInput,
   SystemInput,
   TransformerInput,
   UtilityInput,
@@ -35,15 +32,12 @@ export interface BuildingVersion {
 }
 
 /** A survey's inputs as the electrician submitted them (the revision's reason is kept beside, not inside). */
-export interface SurveyInputs {
+/** What a survey submits: the sizing body less the building's electrical data, plus who and when. */
+export interface SurveyInputs extends Omit<SizingInput, "system" | "transformer" | "utility" | "targetPF"> {
   surveyedAt: string;
   surveyor: string;
   notes?: string;
   targetPF: number;
-  loads: LoadInput[];
-  serviceEntrance?: ServiceEntranceInput;
-  proposedBank?: ProposedBankInput;
-  harmonicSources?: HarmonicSourceKind[];
 }
 
 /** The building's electrical data a revision was computed with. */

@@ -128,3 +128,29 @@ describe("harmonics in /v1/sizing", () => {
     expect(res.body.errors.map((e: { path: string }) => e.path)).toContain(path);
   });
 });
+
+describe("harmonics in stored surveys", () => {
+  it("stores the harmonics section with the survey and returns it unchanged", async () => {
+    const b = await request(app.server)
+      .post("/v1/buildings")
+      .send({ name: "Drive hall", system: site.system, transformer: site.transformer });
+    expect(b.status).toBe(201);
+    const s = await request(app.server)
+      .post(`/v1/buildings/${b.body.id}/surveys`)
+      .send({
+        surveyedAt: "2026-02-03T09:00:00Z",
+        surveyor: "Test surveyor",
+        targetPF: 0.95,
+        loads: site.loads,
+        backgroundVoltageDistortion: [{ order: 5, pct: 1 }],
+      });
+    expect(s.status).toBe(201);
+    expect(s.body.result.harmonics.withoutCapacitors.distortion.thdVPct).toBeGreaterThan(0);
+    const got = await request(app.server).get(`/v1/surveys/${s.body.id}`);
+    expect(got.status).toBe(200);
+    expect(got.body.result.harmonics).toEqual(s.body.result.harmonics);
+    expect(got.body.inputs.backgroundVoltageDistortion).toEqual([{ order: 5, pct: 1 }]);
+    const codes = got.body.result.warnings.map((w: { code: string }) => w.code);
+    expect(codes).toContain("detuned_bank_proposed");
+  });
+});

@@ -66,8 +66,14 @@ describe("POST /v1/sizing — the contract example", () => {
     expectClose(res.body.correction.kvarRequired, 36.854, TOL.powerQuoted, "kvar required");
     expectClose(res.body.correction.kvarPerKW, 0.474, TOL.kvarPerKW, "kvar per kW 0.78 → 0.95 (hand: 0.80228 − 0.32868)");
     expectClose(res.body.correction.pfAfter, 0.95, TOL.pf, "pf after");
-    expect(res.body.recommendedBank.arrangement).toBe("fixed");
-    expect(res.body.recommendedBank.steps).toEqual([{ kvar: 40 }]);
+    // Bank design rule (the project's own, README "Bank design"): without a light-load reading the fixed part is held
+    // under min(need 36.85 kvar, 5 % of the 1500 kVA transformer = 75 kvar) → the largest standard unit ≤ 36.85 is
+    // 30 kvar; the 6.85 kvar left is switched in the fewest (3) equal steps of a standard size: 3 × 2.5 kvar.
+    expect(res.body.recommendedBank.arrangement).toBe("fixed_and_automatic");
+    expect(res.body.recommendedBank.steps).toEqual([{ kvar: 30 }, { kvar: 2.5 }, { kvar: 2.5 }, { kvar: 2.5 }]);
+    expect(res.body.recommendedBank.fixedKvar).toBe(30);
+    const codes = res.body.warnings.map((w: { code: string }) => w.code);
+    expect(codes).toContain("light_load_unknown");
   });
 
   it("short circuit and the proposed bank's stages", () => {

@@ -1,7 +1,7 @@
 /** A bank designed from the reactive demand: fixed part, switched steps, controller C/k, protection and discharge. */
 import { capacitorCurrentA, effectiveKvarWithReactor, kvarAtVoltage } from "../capacitor.js";
 import { DEFAULT_TARGET_PF, TARGET_PF_MAX, TARGET_PF_MIN, type ProposedBankInput, type SystemInput } from "../inputs.js";
-import { STANDARD_UNIT_KVAR } from "../recommend.js";
+import { STANDARD_UNIT_KVAR } from "../unit-sizes.js";
 import { warning, type InputIssue, type Warning } from "../warnings.js";
 import { demandArrays, type ReactiveDemand } from "./demand.js";
 import { dischargeDesign, type DischargeDesign, type DischargeOptions } from "./discharge.js";

@@ -1,6 +1,6 @@
 /** Where each load is corrected: at its terminals, at its group (MCC/feeder) bank, centrally, or not at all. */
 import { tanPhi } from "../conventions.js";
-import { STANDARD_UNIT_KVAR } from "../recommend.js";
+import { STANDARD_UNIT_KVAR } from "../unit-sizes.js";
 import { warning, type Warning } from "../warnings.js";
 import {
   largestSizeAtMost,

@@ -1,6 +1,6 @@
 /** Fixed part and switched steps of a bank, chosen by simulating a controller over the reactive-demand samples. */
 import { SQRT3, type Phases } from "../conventions.js";
-import { STANDARD_UNIT_KVAR } from "../recommend.js";
+import { STANDARD_UNIT_KVAR } from "../unit-sizes.js";
 import { warning, type Warning } from "../warnings.js";
 import { chooseFixedPart, neededKvar, percentileNearestRank, type DemandArrays, type FixedPart } from "./demand.js";
 import { maxMultiple, simulateStepProgram, STEP_RATIOS, stepMultipliers, type SimulationResult, type StepRatio } from "./simulate.js";

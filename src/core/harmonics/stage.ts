@@ -6,7 +6,7 @@ import type { InjectedCurrents } from "./injection.js";
 import { checkIeee519, type Ieee519Check } from "./limits.js";
 import { withBranches, type BusModel, type NetworkInput } from "./network.js";
 import { estimatedParallelResonanceOrder, ordersNearResonance, tuningOrder } from "./resonance.js";
-import { scanImpedance, type ImpedanceDip, type ResonancePeak, type ScanOptions } from "./scan.js";
+import { scanImpedance, type ImpedanceDip, type ImpedanceScan, type ResonancePeak, type ScanOptions } from "./scan.js";
 import type { SpectrumLine } from "./types.js";
 
 export interface CapacitorStepInput {
@@ -82,15 +82,41 @@ export interface Finding {
   stageNumber?: number;
 }
 
+/** Below this grid step a detuned branch's close peak–dip pair is always resolved by the plain grid. */
+const FINE_STEP_ORDER = 0.01;
+
+/**
+ * A detuned branch puts its parallel peak just below its series dip at 1/√p (they close in as Q_C/S_sc → 0).
+ * On a coarse grid both are found again in a fine window [0.8, 1.02]·1/√p and replace what the grid saw there.
+ */
+function extremaOf(model: BusModel, scan: ImpedanceScan): { peaks: ResonancePeak[]; dips: ImpedanceDip[] } {
+  if (scan.grid.stepOrder <= FINE_STEP_ORDER) return { peaks: scan.peaks, dips: scan.dips };
+  let peaks = scan.peaks;
+  let dips = scan.dips;
+  for (const br of model.branches) {
+    if (br.reactorReactanceOhm <= 0) continue;
+    const ht = Math.sqrt(br.capacitorReactanceOhm / br.reactorReactanceOhm);
+    const from = Math.max(scan.grid.fromOrder, 0.8 * ht);
+    const to = Math.min(scan.grid.toOrder, 1.02 * ht);
+    if (to - from < 4 * FINE_STEP_ORDER) continue;
+    const fine = scanImpedance(model, { fromOrder: from, toOrder: to, stepOrder: (to - from) / 200 });
+    const outside = (h: number) => h < from || h > to;
+    peaks = [...peaks.filter((p) => outside(p.order)), ...fine.peaks].sort((a, b) => a.order - b.order);
+    dips = [...dips.filter((d) => outside(d.order)), ...fine.dips].sort((a, b) => a.order - b.order);
+  }
+  return { peaks, dips };
+}
+
 export function studyBus(ctx: StudyContext, model: BusModel): BusStudy {
   const scan = scanImpedance(model, ctx.scan);
+  const { peaks, dips } = extremaOf(model, scan);
   const distortion = busDistortion(model, ctx.currents, ctx.background);
   const study: BusStudy = {
-    peaks: scan.peaks,
-    dips: scan.dips,
+    peaks,
+    dips,
     distortion,
     ieee519: checkIeee519(distortion, model.voltageV),
-    resonanceWithin10PctOf: ordersNearResonance(scan.peaks.map((p) => p.order), ctx.presentOrders),
+    resonanceWithin10PctOf: ordersNearResonance(peaks.map((p) => p.order), ctx.presentOrders),
   };
   if (ctx.includeScanSeries) study.series = { orders: Array.from(scan.ordersH), impedanceOhm: Array.from(scan.impedanceOhm) };
   return study;

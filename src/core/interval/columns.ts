@@ -89,10 +89,18 @@ function roleOf(name: string): AutoRole | null {
   return null;
 }
 
-/** The preferred of several columns matching one role: the name that is only the role word, else the first. */
+const AVERAGE_WORDS = ["demand", "avg", "average", "mean", "total", "net"];
+const EXTREME_WORDS = ["max", "min", "peak", "maximum", "minimum", "limit", "setpoint"];
+
+/** The preferred of several columns matching one role: the bare role word, then an average, never an extreme first. */
 function pick(names: string[], candidates: number[], word: string): number {
-  const exact = candidates.find((i) => tokens(names[i] as string).join(" ") === word);
-  return exact ?? (candidates[0] as number);
+  const score = (i: number) => {
+    const t = tokens(names[i] as string);
+    if (t.join(" ") === word) return 3;
+    if (t.some((w) => EXTREME_WORDS.includes(w))) return 0;
+    return t.some((w) => AVERAGE_WORDS.includes(w)) ? 2 : 1;
+  };
+  return candidates.reduce((best, i) => (score(i) > score(best) ? i : best), candidates[0] as number);
 }
 
 function resolveOverride(names: string[], field: keyof ColumnOverrides, value: string, issues: MappingIssue[]): number {

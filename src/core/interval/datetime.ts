@@ -3,53 +3,9 @@
  * offset found in the text into the parser object and returns an error code (0 = ok).
  */
 
-export const MS_PER_MINUTE = 60_000;
-export const MS_PER_HOUR = 3_600_000;
-export const MS_PER_DAY = 86_400_000;
+import { daysFromCivil, daysInMonth, fastIsoWallMs, MS_PER_DAY, MS_PER_MINUTE } from "./calendar.js";
 
-/** Days since 1970-01-01 of a proleptic Gregorian date (H. Hinnant, "chrono-compatible low-level date algorithms"). */
-export function daysFromCivil(year: number, month: number, day: number): number {
-  const y = month <= 2 ? year - 1 : year;
-  const era = Math.floor(y / 400);
-  const yoe = y - era * 400;
-  const doy = Math.floor((153 * (month + (month > 2 ? -3 : 9)) + 2) / 5) + day - 1;
-  const doe = yoe * 365 + Math.floor(yoe / 4) - Math.floor(yoe / 100) + doy;
-  return era * 146097 + doe - 719468;
-}
-
-/** Month index year·12 + (month − 1) of a day count (inverse of daysFromCivil, same source). */
-export function monthIndexOfDays(days: number): number {
-  const z = days + 719468;
-  const era = Math.floor(z / 146097);
-  const doe = z - era * 146097;
-  const yoe = Math.floor((doe - Math.floor(doe / 1460) + Math.floor(doe / 36524) - Math.floor(doe / 146096)) / 365);
-  const doy = doe - (365 * yoe + Math.floor(yoe / 4) - Math.floor(yoe / 100));
-  const mp = Math.floor((5 * doy + 2) / 153);
-  const month = mp < 10 ? mp + 3 : mp - 9;
-  const year = yoe + era * 400 + (month <= 2 ? 1 : 0);
-  return year * 12 + month - 1;
-}
-
-export function monthLabel(monthIndex: number): string {
-  const year = Math.floor(monthIndex / 12);
-  const month = monthIndex - year * 12 + 1;
-  return `${year}-${month < 10 ? "0" : ""}${month}`;
-}
-
-function daysInMonth(year: number, month: number): number {
-  if (month === 2) return year % 4 === 0 && (year % 100 !== 0 || year % 400 === 0) ? 29 : 28;
-  return month === 4 || month === 6 || month === 9 || month === 11 ? 30 : 31;
-}
-
-/** ISO 8601 text of an instant shown in a fixed offset, e.g. "2026-03-01T14:15:00-06:00". */
-export function isoWithOffset(utcMs: number, offsetMs: number): string {
-  const local = new Date(utcMs + offsetMs).toISOString().slice(0, 19);
-  if (offsetMs === 0) return `${local}Z`;
-  const m = Math.round(Math.abs(offsetMs) / MS_PER_MINUTE);
-  const hh = String(Math.floor(m / 60)).padStart(2, "0");
-  const mm = String(m % 60).padStart(2, "0");
-  return `${local}${offsetMs < 0 ? "-" : "+"}${hh}:${mm}`;
-}
+export { daysFromCivil, isoWithOffset, monthIndexOfDays, monthLabel, MS_PER_DAY, MS_PER_HOUR, MS_PER_MINUTE } from "./calendar.js";
 
 export type DateOrder = "mdy" | "dmy";
 
@@ -80,6 +36,13 @@ export class TimestampParser {
 
   /** A date with an optional time and offset in s[start, end). */
   parse(s: string, start: number, end: number): number {
+    const fast = fastIsoWallMs(s, start, end);
+    if (!Number.isNaN(fast)) {
+      this.wallMs = fast;
+      const len = end - start;
+      this.offsetMs = len === 17 || len === 20 ? 0 : Number.NaN; // a trailing Z
+      return TS_OK;
+    }
     this.offsetMs = Number.NaN;
     const days = this.date(s, start, end);
     if (Number.isNaN(days)) return this.err;

@@ -16,6 +16,14 @@ export class GrowableF64 {
     this.data[this.length++] = value;
   }
 
+  /** Make room for at least `capacity` values in one step (avoids repeated doubling copies). */
+  reserve(capacity: number): void {
+    if (capacity <= this.data.length) return;
+    const bigger = new Float64Array(capacity);
+    bigger.set(this.data.subarray(0, this.length));
+    this.data = bigger;
+  }
+
   /** The filled part (a view, no copy). */
   view(): Float64Array {
     return this.data.subarray(0, this.length);

@@ -55,11 +55,22 @@ export function billingPF(kWh: number, kvarh: number): number {
   return s > 0 ? kWh / s : 1;
 }
 
+const demandCache = new WeakMap<Float64Array, { runs: MonthRun[]; minutes: number; result: MonthlyDemand[] }>();
+
 /**
  * Peak kW and kVA demand and energies of each month. Energy of an interval = its average power × the interval
- * length (demand-interval convention); `kvar` may be a corrected series.
+ * length (demand-interval convention); `kvar` may be a corrected series. Memoised for the series' own kvar
+ * (series are treated as immutable once built); each call gets its own copies.
  */
 export function monthlyDemand(series: IntervalSeries, kvar: Float64Array, runs: MonthRun[], zone: Zone): MonthlyDemand[] {
+  const hit = demandCache.get(kvar);
+  if (hit && hit.runs === runs && hit.minutes === series.intervalMinutes) return hit.result.map((m) => ({ ...m }));
+  const result = monthlyDemandOf(series, kvar, runs, zone);
+  if (kvar === series.kvar) demandCache.set(kvar, { runs, minutes: series.intervalMinutes, result: result.map((m) => ({ ...m })) });
+  return result;
+}
+
+function monthlyDemandOf(series: IntervalSeries, kvar: Float64Array, runs: MonthRun[], zone: Zone): MonthlyDemand[] {
   const hours = series.intervalMinutes / 60;
   const at = (i: number) => {
     const u = series.timestampsMs[i] as number;

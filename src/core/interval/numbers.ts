@@ -44,5 +44,6 @@ function slow(s: string, start: number, end: number, decimalComma: boolean): num
   let text = s.slice(start, end);
   if (decimalComma) text = text.replace(",", ".");
   if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(text)) return Number.NaN;
-  return Number(text);
+  const value = Number(text);
+  return Number.isFinite(value) ? value : Number.NaN; // "1e999" is not a reading
 }

@@ -12,6 +12,8 @@ export const DEFAULT_MAX_REPORTED = 50;
 /** Lines before the header (a meter's preamble) searched for a header that maps. */
 export const HEADER_SEARCH_LINES = 20;
 export const MAX_LINE_CHARS = 10_000;
+/** Data rows read before the arrays are sized from their mean length. */
+const SIZING_ROWS = 256;
 
 export interface ParseOptions extends ColumnOverrides {
   delimiter?: Delimiter;
@@ -22,6 +24,8 @@ export interface ParseOptions extends ColumnOverrides {
   /** Interval length override, minutes (otherwise the median step). */
   intervalMinutes?: number;
   maxRows?: number;
+  /** Expected upload size in characters (e.g. the Content-Length), to size the arrays once from the first rows. */
+  expectedChars?: number;
   maxBadRowFraction?: number;
   maxReported?: number;
 }
@@ -96,6 +100,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     const names = splitHeader(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text, delimiter);
     const mapped = mapColumns(names, options);
     if ("issues" in mapped) {
+      if (firstHeaderIssues === null) report.header = names; // shown with the header problem
       firstHeaderIssues ??= mapped.issues;
       firstHeaderLine ||= report.lines;
       if (candidates >= HEADER_SEARCH_LINES) {
@@ -110,6 +115,13 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     report.method = mapped.mapping.method;
     report.notes.push(...mapped.mapping.notes);
     decoder = new RowDecoder(mapped.mapping, names.length, { delimiter, dateOrder: options.dateOrder ?? null, zone, sense: options.sense ?? null });
+  };
+
+  let charsSoFar = 0; // characters of the first SIZING_ROWS data rows, for the size estimate
+  const reserve = (): void => {
+    const perRow = charsSoFar / SIZING_ROWS;
+    const rows = Math.min(maxRows, Math.ceil(((options.expectedChars as number) / perRow) * 1.02) + 16);
+    for (const g of [ts, kW, kvar, lines]) g.reserve(rows);
   };
 
   const badRow = (d: RowDecoder, s: string): void => {
@@ -131,10 +143,12 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     const d = decoder;
     if (d === null) return header(s.slice(start, end));
     if (start === end) return void report.blankLines++;
+    if (report.dataRows < SIZING_ROWS) charsSoFar += end - start + 1;
     if (++report.dataRows > maxRows) {
       fatal = { kind: "too_many_rows", message: `more than ${maxRows} data rows`, issues: [{ path: "body", message: `the upload has more than ${maxRows} data rows` }] };
       return;
     }
+    if (report.dataRows === SIZING_ROWS && options.expectedChars) reserve();
     if (!d.decode(s, start, end, prevUtc)) return badRow(d, s);
     const u = d.utcMs;
     if (!d.hadOffset) withoutOffset++;

@@ -32,7 +32,7 @@ export function valuesAtRanks(values: Float64Array, n: number, ranks: readonly n
     if (v > max) max = v;
   }
   if (min === max) return out.fill(min);
-  const buckets = Math.max(64, Math.min(65536, n >> 3));
+  const buckets = Math.max(64, Math.min(16384, n >> 3));
   const scale = buckets / (max - min);
   if (!(scale > 0 && scale < Infinity)) {
     // range too small (subnormal) or too large (overflow) for bucketing: sort everything

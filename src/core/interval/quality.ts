@@ -87,6 +87,11 @@ export function sortAndDedupe(
 
 /** The interval length: the median of the steps between consecutive timestamps, minutes (n ≥ 2). */
 export function medianStepMinutes(t: Float64Array, n: number): number {
+  // fast path: a value held by more than half the steps is their median
+  const first = (t[1] as number) - (t[0] as number);
+  let same = 0;
+  for (let i = 1; i < n; i++) if ((t[i] as number) - (t[i - 1] as number) === first) same++;
+  if (same * 2 > n - 1) return first / MS_PER_MINUTE;
   const steps = new Float64Array(n - 1);
   for (let i = 1; i < n; i++) steps[i - 1] = (t[i] as number) - (t[i - 1] as number);
   const [median] = valuesAtRanks(steps, n - 1, [nearestRank(50, n - 1)]);

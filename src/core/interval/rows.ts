@@ -5,6 +5,9 @@ import type { Zone } from "./zone.js";
 
 export type SenseOption = "lagging" | "leading";
 
+/** Largest |kW|, |kvar| or |kVA| read, 1 TW: anything larger is a unit or export error (plausibility bound, no source). */
+export const MAX_ABS_POWER = 1e9;
+
 /** Beyond this share above the kVA a kW reading is an error, not rounding (common practice, no source). */
 export const KW_ABOVE_KVA_TOLERANCE = 0.01;
 
@@ -33,6 +36,7 @@ export class RowDecoder {
   errStart = 0;
   errEnd = 0;
   fieldCount = 0;
+  private numberError = "";
   private readonly starts: Int32Array;
   private readonly ends: Int32Array;
   private readonly ts: TimestampParser;
@@ -102,9 +106,14 @@ export class RowDecoder {
     return true;
   }
 
+  /** The number in a column; NaN (with the reason in numberError) when unreadable or implausibly large. */
   private number(s: string, column: number): number {
-    return parseDecimal(s, this.starts[column] as number, this.ends[column] as number, this.decimalComma);
+    const v = parseDecimal(s, this.starts[column] as number, this.ends[column] as number, this.decimalComma);
+    if (v <= MAX_ABS_POWER && v >= -MAX_ABS_POWER) return v;
+    this.numberError = Number.isNaN(v) ? "unparseable number" : `number out of range (|value| > ${MAX_ABS_POWER})`;
+    return Number.NaN;
   }
+
 
   /** +1 lagging, −1 leading, 0 when the sense cell is absent or empty, NaN when unrecognised. */
   private senseSign(s: string): number {
@@ -124,7 +133,7 @@ export class RowDecoder {
     this.errColumn = -1;
     if (!this.split(s, start, end)) return this.fail(-1, "unterminated double quote");
     if (this.fieldCount !== this.columnCount) {
-      return this.fail(-1, `wrong column count: ${this.fieldCount} fields, the header has ${this.columnCount}`);
+      return this.fail(-1, `wrong column count: ${this.fieldCount} field${this.fieldCount === 1 ? "" : "s"}, the header has ${this.columnCount}`);
     }
     const m = this.map;
     const code =
@@ -137,23 +146,23 @@ export class RowDecoder {
     this.hadOffset = !Number.isNaN(this.offsetMs);
     this.utcMs = this.hadOffset ? this.ts.wallMs - this.ts.offsetMs : this.opts.zone.wallToUtc(this.ts.wallMs, afterUtcMs);
     if (Number.isNaN(this.utcMs)) {
-      return this.fail(tsColumn, `bad timestamp: this local time does not exist in ${this.opts.zone.name} (skipped by the daylight-saving change)`);
+      return this.fail(tsColumn, `bad timestamp: this local time does not exist in ${this.opts.zone.name} (skipped by the daylight-saving change; a meter on standard time all year needs a fixed offset such as -06:00)`);
     }
     const kW = this.number(s, m.kW);
-    if (Number.isNaN(kW)) return this.fail(m.kW, "unparseable number");
+    if (Number.isNaN(kW)) return this.fail(m.kW, this.numberError);
     if (kW < 0) return this.fail(m.kW, "negative kW (export): this analysis covers imported power only");
     const sign = this.senseSign(s);
     if (Number.isNaN(sign)) return this.fail(m.sense, "unrecognised sense (use lagging/leading, lag/lead, L/C, inductive/capacitive)");
     this.kW = kW;
     if (m.method === "kW_kvar") {
       const q = this.number(s, m.kvar);
-      if (Number.isNaN(q)) return this.fail(m.kvar, "unparseable number");
+      if (Number.isNaN(q)) return this.fail(m.kvar, this.numberError);
       this.kvar = sign === 0 ? q : sign * Math.abs(q);
       return true;
     }
     if (m.method === "kW_pf") {
       const pf = this.number(s, m.pf);
-      if (Number.isNaN(pf)) return this.fail(m.pf, "unparseable number");
+      if (Number.isNaN(pf)) return this.fail(m.pf, this.numberError);
       const mag = Math.abs(pf);
       if (!(mag > 0 && mag <= 1)) return this.fail(m.pf, mag > 1 ? "PF outside (0, 1] (give PF as a fraction, not percent)" : "PF outside (0, 1]");
       const s2 = sign !== 0 ? sign : this.opts.sense === "leading" ? -1 : this.opts.sense === "lagging" ? 1 : pf < 0 ? -1 : 1;
@@ -162,7 +171,7 @@ export class RowDecoder {
       return true;
     }
     const kVA = this.number(s, m.kVA);
-    if (Number.isNaN(kVA)) return this.fail(m.kVA, "unparseable number");
+    if (Number.isNaN(kVA)) return this.fail(m.kVA, this.numberError);
     if (kVA < 0) return this.fail(m.kVA, "negative kVA");
     if (kW > kVA * (1 + KW_ABOVE_KVA_TOLERANCE)) return this.fail(m.kW, "kW above kVA by more than 1 %");
     const s3 = sign !== 0 ? sign : this.opts.sense === "leading" ? -1 : 1;

@@ -3,7 +3,7 @@
  * kvar > 0 lagging, < 0 leading (src/core/conventions.ts).
  */
 
-/** A demand series, sorted by time with unique timestamps: one entry per interval. */
+/** A demand series, sorted by time with unique timestamps: one entry per interval. Treat it as immutable once built. */
 export interface IntervalSeries {
   /** Interval timestamps, epoch ms UTC, strictly increasing. */
   timestampsMs: Float64Array;

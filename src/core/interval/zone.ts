@@ -40,8 +40,19 @@ export function fixedZone(offsetMs: number): Zone {
 
 export const UTC_ZONE = fixedZone(0);
 
-/** The zone named by an IANA name or a fixed offset ("UTC", "Z", "+02:00"); null when it is not one. */
+const zones = new Map<string, Zone | null>();
+
+/** The zone named by an IANA name or a fixed offset ("UTC", "Z", "+02:00"); null when it is not one. Cached by name. */
 export function zoneFor(text: string): Zone | null {
+  let zone = zones.get(text);
+  if (zone === undefined) {
+    zone = makeZone(text);
+    if (zones.size < 1000) zones.set(text, zone);
+  }
+  return zone;
+}
+
+function makeZone(text: string): Zone | null {
   const t = text.trim();
   if (t === "") return null;
   if (/^(utc|gmt|z)$/i.test(t)) return UTC_ZONE;

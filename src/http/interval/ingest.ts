@@ -1,3 +1,4 @@
+import { isAscii } from "node:buffer";
 import type { FatalKind, IntervalParser, ParseOutcome } from "../../core/interval/parser.js";
 import { problem, ProblemError, type Problem } from "../problem.js";
 
@@ -16,11 +17,18 @@ export function tooLarge(detail: string): ProblemError {
  */
 export async function feedStream(stream: AsyncIterable<Buffer | string>, parser: IntervalParser, maxBytes: number): Promise<number> {
   const decoder = new TextDecoder("utf-8");
+  let ascii = true; // while every chunk so far is ASCII, a chunk is its own latin1 text (no decoder state pending)
   let bytes = 0;
   for await (const chunk of stream) {
     bytes += chunk.length;
     if (bytes > maxBytes) throw tooLarge(`the upload exceeds ${maxBytes} bytes (${maxBytes / 1048576} MiB)`);
-    const text = typeof chunk === "string" ? chunk : decoder.decode(chunk, { stream: true });
+    let text: string;
+    if (typeof chunk === "string") text = chunk;
+    else if (ascii && isAscii(chunk)) text = chunk.toString("latin1");
+    else {
+      ascii = false;
+      text = decoder.decode(chunk, { stream: true });
+    }
     if (!parser.push(text)) return bytes;
   }
   parser.push(decoder.decode());

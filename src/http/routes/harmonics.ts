@@ -30,7 +30,7 @@ export async function harmonicsRoutes(app: FastifyInstance): Promise<void> {
       resonance: r.resonance,
       recommendedBank: r.recommendedBank,
       ...(r.proposedBank ? { proposedBank: r.proposedBank } : {}),
-      study: r.harmonics,
+      study: outcome.study,
       warnings: r.warnings,
       cautions: r.cautions,
     };

@@ -16,41 +16,64 @@ function mediaType(request: FastifyRequest): string {
   return (request.headers["content-type"] ?? "").split(";")[0]!.trim().toLowerCase();
 }
 
-async function analyseStream(stream: AsyncIterable<Buffer | string>, o: IntervalRequestOptions) {
-  const parser = createIntervalParser({ ...o.parse, maxRows: INTERVAL_MAX_ROWS });
-  const bytes = await feedStream(stream, parser, INTERVAL_MAX_BYTES);
-  const outcome: ParseOutcome = parser.end();
+/** An error while reading the upload (never the analysis) as a 4xx problem. */
+function readProblem(err: unknown): ProblemError {
+  if (err instanceof ProblemError) return err;
+  const e = err as { code?: string; statusCode?: number; message?: string };
+  if (e.code === "FST_REQ_FILE_TOO_LARGE") return tooLarge(`the file exceeds ${INTERVAL_MAX_BYTES} bytes (${INTERVAL_MAX_BYTES / 1048576} MiB)`);
+  if (e.code === "FST_FILES_LIMIT") return new ProblemError(validationProblem([{ path: "file", message: "send one file" }]));
+  if (e.code === "FST_FIELDS_LIMIT" || e.code === "FST_PARTS_LIMIT") {
+    return new ProblemError(validationProblem([{ path: "body", message: `at most ${MAX_FORM_FIELDS} form fields` }]));
+  }
+  const detail = `the upload could not be read: ${e.message ?? "unknown error"}`;
+  return new ProblemError(problem(400, "bad-upload", "The upload could not be read", detail, [{ path: "body", message: detail }]));
+}
+
+type Read = { outcome: ParseOutcome; bytes: number };
+
+/** Stream phase: feed the upload to the parser; errors here are the client's. */
+async function readCsv(stream: AsyncIterable<Buffer | string>, o: IntervalRequestOptions, declaredBytes?: number): Promise<Read> {
+  const parser = createIntervalParser({ ...o.parse, maxRows: INTERVAL_MAX_ROWS, ...(declaredBytes ? { expectedChars: declaredBytes } : {}) });
+  try {
+    const bytes = await feedStream(stream, parser, INTERVAL_MAX_BYTES);
+    return { outcome: parser.end(), bytes };
+  } catch (err) {
+    throw readProblem(err);
+  }
+}
+
+/** Analysis phase: pure computation on the parsed series. */
+function analyse({ outcome, bytes }: Read, o: IntervalRequestOptions) {
   if (!outcome.ok) throw new ProblemError(fatalProblem(outcome));
   const analysis = analyseIntervals(outcome.series, o.targetPF);
-  const sim = o.bank ? simulateController(outcome.series, o.bank, o.targetPF, o.leadingLimitPF !== undefined ? { leadingLimitPF: o.leadingLimitPF } : {}) : null;
+  const opts = o.leadingLimitPF !== undefined ? { leadingLimitPF: o.leadingLimitPF } : {};
+  const sim = o.bank ? simulateController(outcome.series, o.bank, o.targetPF, opts) : null;
   return intervalResponse(bytes, outcome.report, analysis, sim, o);
 }
 
 /** Multipart: option fields first, then the file in field `file` (streamed straight into the parser). */
 async function analyseMultipart(request: FastifyRequest) {
   const form: Record<string, string> = {};
-  let result: Awaited<ReturnType<typeof analyseStream>> | null = null;
+  let read: Read | null = null;
+  let options: IntervalRequestOptions | null = null;
   try {
     const parts = request.parts({ limits: { fileSize: INTERVAL_MAX_BYTES, files: 1, fields: MAX_FORM_FIELDS, fieldSize: 1000 } });
     for await (const part of parts) {
       if (part.type === "field") {
-        if (result !== null) throw new ProblemError(validationProblem([{ path: part.fieldname, message: "form fields must come before the file field" }]));
+        if (read !== null) throw new ProblemError(validationProblem([{ path: part.fieldname, message: "form fields must come before the file field" }]));
         form[part.fieldname] = String(part.value);
         continue;
       }
       if (part.fieldname !== "file") throw new ProblemError(validationProblem([{ path: part.fieldname, message: 'the CSV goes in the form field "file"' }]));
-      result = await analyseStream(part.file, parseIntervalOptions(request.query as Record<string, unknown>, form));
+      options = parseIntervalOptions(request.query as Record<string, unknown>, form);
+      read = await readCsv(part.file, options);
       if (part.file.truncated) throw tooLarge(`the file exceeds ${INTERVAL_MAX_BYTES} bytes`);
     }
   } catch (err) {
-    const e = err as { code?: string };
-    if (e.code === "FST_REQ_FILE_TOO_LARGE") throw tooLarge(`the file exceeds ${INTERVAL_MAX_BYTES} bytes (${INTERVAL_MAX_BYTES / 1048576} MiB)`);
-    if (e.code === "FST_FILES_LIMIT") throw new ProblemError(validationProblem([{ path: "file", message: "send one file" }]));
-    if (e.code === "FST_FIELDS_LIMIT" || e.code === "FST_PARTS_LIMIT") throw new ProblemError(validationProblem([{ path: "body", message: `at most ${MAX_FORM_FIELDS} form fields` }]));
-    throw err;
+    throw readProblem(err);
   }
-  if (result === null) throw new ProblemError(validationProblem([{ path: "file", message: 'no file: upload the CSV in the form field "file"' }]));
-  return result;
+  if (read === null || options === null) throw new ProblemError(validationProblem([{ path: "file", message: 'no file: upload the CSV in the form field "file"' }]));
+  return analyse(read, options);
 }
 
 /** POST /v1/interval-analyses: a year of interval demand data in, reactive-demand figures (and a bank simulation) out. */
@@ -77,6 +100,6 @@ export async function intervalAnalysesRoutes(app: FastifyInstance): Promise<void
     if (!body || typeof (body as Partial<Readable>)[Symbol.asyncIterator] !== "function") {
       throw new ProblemError(problem(422, "csv-no-data", "The upload has no data", "the body is empty", [{ path: "body", message: "send the CSV as the body" }]));
     }
-    return analyseStream(body, options);
+    return analyse(await readCsv(body, options, declared > 0 ? declared : undefined), options);
   });
 }

@@ -78,10 +78,49 @@ export const bankAnalysisSchema = z.object({
   stages: z.array(bankStageSchema),
 });
 
+const protectionSchema = z
+  .object({
+    label: z.string(),
+    kvar: z.number(),
+    ratedCurrentA: z.number(),
+    conductorMinAmpacityA: z.number(),
+    disconnectMinA: z.number(),
+    device: z.string(),
+    ocpdFactor: z.number(),
+    ocpdMinA: z.number(),
+    ocpdRatingA: z.number().nullable().describe("null above the largest standard rating"),
+  })
+  .loose();
+
 export const recommendedBankSchema = bankAnalysisSchema.extend({
-  arrangement: z.enum(["fixed", "automatic"]),
+  arrangement: z.enum(["fixed", "automatic", "fixed_and_automatic"]),
   reason: z.string(),
   belowTarget: z.boolean(),
+  fixedKvar: z.number(),
+  switchedKvar: z.number(),
+  physicalSteps: z.array(z.object({ role: z.enum(["fixed", "switched"]), effectiveKvar: z.number(), nameplateKvar: z.number() })),
+  stepPlan: z.object({ source: z.string(), samples: z.number(), coverage: z.number(), metShare: z.number() }).loose(),
+  controller: z.object({ ctRatio: z.number(), smallestStepKvar: z.number(), responseA: z.number() }).nullable(),
+  protection: z.object({ steps: z.array(protectionSchema), bank: protectionSchema }).nullable(),
+  discharge: z.array(
+    z.object({ kvar: z.number(), ratedVoltageV: z.number(), maxResistanceOhm: z.number(), governingCitation: z.string() }).loose(),
+  ),
+  notes: z.array(z.string()),
+});
+
+export const placementSchema = z.object({
+  loads: z.array(
+    z
+      .object({ index: z.number(), label: z.string(), location: z.string(), reason: z.string(), needKvar: z.number() })
+      .loose(),
+  ),
+  locations: z.array(z.object({ location: z.string(), kvar: z.number(), loads: z.array(z.string()) })),
+  totalKvar: z.number(),
+  siteRequiredKvar: z.number(),
+  differenceKvar: z.number(),
+  balanceNote: z.string(),
+  notes: z.array(z.string()),
+  warnings: z.array(warningSchema),
 });
 
 export const resonanceSchema = z.object({
@@ -102,6 +141,7 @@ export const sizingResultSchema = z.object({
   loads: z.array(loadResultSchema),
   site: siteResultSchema,
   correction: correctionSchema,
+  placement: placementSchema.optional(),
   recommendedBank: recommendedBankSchema.nullable(),
   proposedBank: bankAnalysisSchema.optional(),
   resonance: resonanceSchema.optional(),
@@ -123,65 +163,95 @@ export const healthSchema = z.object({ status: z.literal("ok") });
 const limitCheck = z.object({ valuePct: z.number(), limitPct: z.number(), marginPct: z.number(), pass: z.boolean() });
 const dutyQuantity = limitCheck.extend({ aboveRating: z.boolean() });
 const peak = z.object({ order: z.number(), impedanceOhm: z.number(), timesSourceImpedance: z.number(), timesBaseImpedance: z.number() });
-const busStudy = {
-  peaks: z.array(peak),
-  dips: z.array(z.object({ order: z.number(), impedanceOhm: z.number() })),
-  series: z.object({ orders: z.array(z.number()), impedanceOhm: z.array(z.number()) }).optional().describe("only from /v1/harmonics/scan"),
-  distortion: z.looseObject({
-    lines: z.array(z.looseObject({ order: z.number(), currentA: z.number(), impedanceOhm: z.number(), voltagePct: z.number() })),
-    thdVPct: z.number(),
-    worstIndividual: z.object({ order: z.number(), pct: z.number() }).nullable(),
-  }),
-  ieee519: z.looseObject({ individual: limitCheck.extend({ order: z.number().nullable() }), thd: limitCheck, pass: z.boolean() }),
-  resonanceWithin10PctOf: z.array(z.number()),
-};
-const stageStudy = z.looseObject({
-  ...busStudy,
-  stageNumber: z.number(),
-  nameplateKvar: z.number(),
-  capacitorKvarAtSystem: z.number(),
-  effectiveKvar: z.number(),
-  tuningOrder: z.number().nullable(),
-  estimatedResonanceOrder: z.number(),
-  duty: z.looseObject({
+const fullLine = z.object({
+  order: z.number(),
+  currentA: z.number(),
+  impedanceOhm: z.number(),
+  injectedPhaseV: z.number(),
+  injectedPct: z.number(),
+  backgroundPct: z.number(),
+  voltagePct: z.number(),
+  voltagePhaseV: z.number(),
+});
+const compactLine = z.object({ order: z.number(), voltagePct: z.number() });
+const ieee519 = z.object({
+  limits: z.object({ individualPct: z.number(), thdPct: z.number() }).loose(),
+  thd: limitCheck,
+  individual: limitCheck.extend({ order: z.number().nullable() }),
+  pass: z.boolean(),
+});
+const finding = z.object({ code: z.string(), message: z.string(), bankName: z.string().optional(), stageNumber: z.number().optional() });
+
+function busStudy(line: z.ZodType) {
+  return {
+    peaks: z.array(peak),
+    dips: z.array(z.object({ order: z.number(), impedanceOhm: z.number() })),
+    series: z.object({ orders: z.array(z.number()), impedanceOhm: z.array(z.number()) }).optional().describe("only from /v1/harmonics/scan"),
+    distortion: z.object({ lines: z.array(line), thdVPct: z.number(), worstIndividual: z.object({ order: z.number(), pct: z.number() }).nullable() }),
+    ieee519,
+    resonanceWithin10PctOf: z.array(z.number()),
+  };
+}
+
+/** The study's schema; `compact` is the form kept in sizing results (per-order figures trimmed, no series). */
+function studySchema(compact: boolean) {
+  const duty = z.object({
+    ratedPhaseV: z.number(),
+    ratedCurrentA: z.number(),
+    ...(compact ? {} : { orders: z.array(z.object({ order: z.number(), voltagePhaseV: z.number(), currentA: z.number() })) }),
     rmsVoltage: dutyQuantity,
     peakVoltage: dutyQuantity,
     rmsCurrent: dutyQuantity,
     reactivePower: dutyQuantity,
     pass: z.boolean(),
     aboveRating: z.boolean(),
-  }),
-});
-const bankStudy = z.object({
-  name: z.string(),
-  ratedVoltageV: z.number(),
-  ratedFrequencyHz: z.number(),
-  reactorPct: z.number(),
-  stages: z.array(stageStudy),
-});
-const finding = z.object({ code: z.string(), message: z.string(), bankName: z.string().optional(), stageNumber: z.number().optional() });
+  });
+  const stage = z.object({
+    ...busStudy(compact ? compactLine : fullLine),
+    stageNumber: z.number(),
+    nameplateKvar: z.number(),
+    capacitorKvarAtSystem: z.number(),
+    effectiveKvar: z.number(),
+    tuningOrder: z.number().nullable(),
+    estimatedResonanceOrder: z.number(),
+    duty,
+  });
+  const bank = z.object({ name: z.string(), ratedVoltageV: z.number(), ratedFrequencyHz: z.number(), reactorPct: z.number(), stages: z.array(stage) });
+  return z.object({
+    source: z.object({ baseImpedanceOhm: z.number(), resistanceOhm: z.number(), reactanceOhm: z.number(), xOverR: z.number(), xOverRBasis: z.string() }),
+    loadResistanceOhm: z.number().nullable(),
+    presentOrders: z.array(z.number()),
+    thirdHarmonicSignificant: z.boolean(),
+    withoutCapacitors: z.object(busStudy(fullLine)),
+    banks: z.array(bank),
+    findings: z.array(finding),
+    proposals: z.array(
+      z.object({
+        forBank: z.string(),
+        triggeredBy: z.array(z.string()),
+        design: z
+          .object({
+            reactorPct: z.number(),
+            tuningOrder: z.number(),
+            ratedVoltageV: z.number(),
+            ratedFrequencyHz: z.number(),
+            capacitorFundamentalVoltageV: z.number(),
+            steps: z.array(z.object({ nameplateKvar: z.number(), effectiveKvar: z.number(), requiredEffectiveKvar: z.number() })),
+            rationale: z.array(z.string()),
+          })
+          .loose(),
+        study: bank,
+        findings: z.array(finding),
+      }),
+    ),
+    assumptions: z.array(z.string()),
+  });
+}
 
-export const harmonicStudySchema = z.looseObject({
-  source: z.looseObject({ baseImpedanceOhm: z.number(), resistanceOhm: z.number(), reactanceOhm: z.number(), xOverR: z.number(), xOverRBasis: z.string() }),
-  loadResistanceOhm: z.number().nullable(),
-  presentOrders: z.array(z.number()),
-  thirdHarmonicSignificant: z.boolean(),
-  withoutCapacitors: z.looseObject(busStudy),
-  banks: z.array(bankStudy),
-  findings: z.array(finding),
-  proposals: z.array(
-    z.object({
-      forBank: z.string(),
-      triggeredBy: z.array(z.string()),
-      design: z.looseObject({ reactorPct: z.number(), tuningOrder: z.number(), ratedVoltageV: z.number(), steps: z.array(z.looseObject({ nameplateKvar: z.number(), effectiveKvar: z.number() })) }),
-      study: bankStudy,
-      findings: z.array(finding),
-    }),
-  ),
-  assumptions: z.array(z.string()),
-});
+export const harmonicStudySchema = studySchema(false);
+export const sizingHarmonicsSchema = studySchema(true);
 
-export const sizingWithHarmonicsSchema = sizingResultSchema.extend({ harmonics: harmonicStudySchema.optional() });
+export const sizingWithHarmonicsSchema = sizingResultSchema.extend({ harmonics: sizingHarmonicsSchema.optional() });
 
 export const harmonicScanResultSchema = z.object({
   engineVersion: z.string(),

@@ -65,6 +65,14 @@ export const loadSchema = z.strictObject({
   quantity: z.number().int("quantity must be a whole number").min(1).max(10_000).optional(),
   measurement: measurementSchema,
   harmonics: harmonicSpectrumSchema.optional(),
+  starting: z
+    .enum(["across_the_line", "star_delta", "soft_starter", "reduced_voltage", "jogging", "plugging", "reversing", "multi_speed"])
+    .optional()
+    .describe("how a motor is started: decides whether capacitors may go at its terminals"),
+  separateCapacitorContactor: z.boolean().optional().describe("a terminal capacitor would have its own contactor"),
+  group: z.string().trim().min(1).max(100).optional().describe("MCC or feeder the load is fed from"),
+  noLoadAmps: z.number().positive("noLoadAmps must be greater than 0").max(MAX_FIGURE).optional().describe("no-load (uncoupled) line current of one motor, A"),
+  continuousDuty: z.boolean().optional(),
 });
 
 export const systemSchema = z.strictObject({
@@ -109,6 +117,17 @@ export const targetPFSchema = z
 export const loadsSchema = z.array(loadSchema).min(1, "at least one load is needed").max(MAX_LOADS, `at most ${MAX_LOADS} loads`);
 export const serviceEntranceSchema = z.strictObject({ label: z.string().max(200).optional(), measurement: measurementSchema });
 
+export const bankDesignSchema = z.strictObject({
+  ctRatio: z.number().positive("ctRatio must be greater than 0 (primary/secondary, e.g. 200 for 1000/5)").max(100_000).optional(),
+  ratedVoltageV: volts.optional(),
+  reactorPct: z.number().min(0).max(20, "reactorPct must be 0 to 20 %").optional(),
+  coverage: z.number().min(0.5, "coverage must be 0.5 to 1").max(1, "coverage must be 0.5 to 1").optional(),
+  protectionDevice: z.enum(["fuse", "breaker"]).optional(),
+  ocpdFactor: z.number().min(1, "ocpdFactor must be 1 to 3").max(3, "ocpdFactor must be 1 to 3").optional(),
+  capacitorConnection: z.enum(["delta", "wye"]).optional(),
+  dischargeResistorConnection: z.enum(["across_each_capacitor", "star_across_delta", "two_across_delta", "delta_across_wye"]).optional(),
+});
+
 export const sizingRequestSchema = z.strictObject({
   system: systemSchema,
   targetPF: targetPFSchema.optional(),
@@ -119,6 +138,8 @@ export const sizingRequestSchema = z.strictObject({
   proposedBank: bankSchema.optional(),
   harmonicSources: harmonicSourcesSchema.optional(),
   backgroundVoltageDistortion: backgroundDistortionSchema.optional(),
+  lightLoad: serviceEntranceSchema.optional().describe("a reading at the main at light load: caps the fixed part of the bank"),
+  bankDesign: bankDesignSchema.optional(),
 });
 
 export type SizingRequest = z.infer<typeof sizingRequestSchema>;

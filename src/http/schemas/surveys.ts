@@ -1,6 +1,8 @@
 import { z } from "zod";
 import { sizingResultSchema } from "./results.js";
 import {
+  backgroundDistortionSchema,
+  bankDesignSchema,
   bankSchema,
   harmonicSourcesSchema,
   loadsSchema,
@@ -24,6 +26,9 @@ export const surveyInputsSchema = z.strictObject({
   serviceEntrance: serviceEntranceSchema.optional(),
   proposedBank: bankSchema.optional(),
   harmonicSources: harmonicSourcesSchema.optional(),
+  backgroundVoltageDistortion: backgroundDistortionSchema.optional(),
+  lightLoad: serviceEntranceSchema.optional(),
+  bankDesign: bankDesignSchema.optional(),
 });
 
 export const revisionInputsSchema = surveyInputsSchema.extend({

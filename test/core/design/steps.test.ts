@@ -2,7 +2,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { chooseFixedPart, demandArrays, percentileNearestRank, type DemandPoint, type ReactiveDemand } from "../../../src/core/design/demand.js";
 import { controllerResponseA, planSteps } from "../../../src/core/design/steps.js";
-import { STANDARD_UNIT_KVAR } from "../../../src/core/recommend.js";
+import { STANDARD_UNIT_KVAR } from "../../../src/core/unit-sizes.js";
 import { expectClose, TOL } from "../../helpers/tolerance.js";
 import { DTOL } from "./tolerances.js";
 

@@ -90,3 +90,27 @@ describe("TimestampParser", () => {
     );
   });
 });
+
+describe("fast ISO path", () => {
+  it("agrees with the general parser on every shape it takes, and passes the rest on (random fields; oracle: Date.UTC)", () => {
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1970, max: 2099 }), fc.integer({ min: 1, max: 12 }), fc.integer({ min: 1, max: 31 }),
+        fc.integer({ min: 0, max: 24 }), fc.integer({ min: 0, max: 60 }), fc.integer({ min: 0, max: 60 }),
+        fc.constantFrom("T", " "), fc.constantFrom("", "Z"), fc.boolean(),
+        (y, mo, d, h, mi, s, sep, z, withSeconds) => {
+          const two = (v: number) => String(v).padStart(2, "0");
+          const text = `${y}-${two(mo)}-${two(d)}${sep}${two(h)}:${two(mi)}${withSeconds ? `:${two(s)}` : ""}${z}`;
+          const r = parse(text);
+          const valid = d <= new Date(Date.UTC(y, mo, 0)).getUTCDate() && mi <= 59 && (!withSeconds || s <= 59) && (h <= 23 || (h === 24 && mi === 0 && (!withSeconds || s === 0)));
+          expect(r.code === TS_OK, text).toBe(valid);
+          if (valid) {
+            expect(r.wallMs, text).toBe(Date.UTC(y, mo - 1, d, h, mi, withSeconds ? s : 0));
+            expect(Number.isNaN(r.offsetMs) ? "none" : r.offsetMs, text).toBe(z === "Z" ? 0 : "none");
+          }
+        },
+      ),
+      { numRuns: 3000 },
+    );
+  });
+});

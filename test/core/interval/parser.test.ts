@@ -255,4 +255,38 @@ describe("streaming", () => {
       { numRuns: 60 },
     );
   });
+
+  it("sizing the arrays from expectedChars changes nothing, whether the estimate is low or high", () => {
+    const text = rows15(1000);
+    const plain = ok(text);
+    for (const expectedChars of [10, text.length, 50 * text.length]) {
+      const sized = ok(text, { expectedChars });
+      expect(Array.from(sized.series.kvar)).toEqual(Array.from(plain.series.kvar));
+      expect(sized.series.length).toBe(1000);
+    }
+  });
+});
+
+describe("implausible numbers", () => {
+  it("an infinite or out-of-range number is a bad row with its reason", () => {
+    const out = parse("time,kW,kvar\n2026-03-01 00:00,1e999,1\n2026-03-01 00:15,5e12,1\n2026-03-01 00:30,1,1\n");
+    expect(!out.ok && out.report.badRows.first.map((e) => e.reason)).toEqual(["unparseable number", "number out of range (|value| > 1000000000)"]);
+  });
+
+});
+
+describe("robustness", () => {
+  it("never throws on arbitrary text: every upload ends as a series or a stated refusal", () => {
+    const alphabet = fc.constantFrom(..."0123456789,;.-:T Z\n\r\"abkWvarPF/".split(""));
+    fc.assert(
+      fc.property(fc.string({ unit: alphabet, maxLength: 400 }), fc.integer({ min: 1, max: 50 }), (body, chunk) => {
+        const out = parse("time,kW,kvar\n" + body, {}, chunk);
+        if (out.ok) {
+          expect(out.series.length).toBeGreaterThanOrEqual(2);
+          for (let i = 0; i < out.series.length; i++) expect(Number.isFinite(out.series.kvar[i])).toBe(true);
+        } else expect(out.fatal.message.length).toBeGreaterThan(0);
+      }),
+      { numRuns: 500 },
+    );
+  });
 });
