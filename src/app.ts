@@ -9,6 +9,7 @@ import { docsRoutes } from "./http/routes/docs.js";
 import { harmonicsRoutes } from "./http/routes/harmonics.js";
 import { intervalAnalysesRoutes } from "./http/routes/interval-analyses.js";
 import { sizingRoutes } from "./http/routes/sizing.js";
+import { reportRoutes } from "./report/routes.js";
 import { surveyReadRoutes } from "./http/routes/survey-reads.js";
 import { surveysRoutes } from "./http/routes/surveys.js";
 import { problem, ProblemError, sendProblem } from "./http/problem.js";
@@ -105,6 +106,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
   await app.register(buildingsRoutes, { store });
   await app.register(surveysRoutes, { store });
   await app.register(surveyReadRoutes, { store });
+  await app.register(reportRoutes, { store });
   await app.register(auditRoutes, { store });
   await app.register(docsRoutes);
   return app;

@@ -1,4 +1,5 @@
 import type { Phases, Sense } from "./conventions.js";
+import type { EconomicsSettings, MonthlyDemand } from "./site-economics.js";
 
 /** Typed inputs of the engine. The API's zod schemas produce values of these types. */
 
@@ -85,6 +86,8 @@ export interface IntervalDemandInput {
   kW: ArrayLike<number>;
   kvar: ArrayLike<number>;
   intervalMinutes?: number;
+  /** Monthly peaks and energies, for savings. */
+  months?: MonthlyDemand[];
 }
 
 export interface SystemInput {
@@ -135,6 +138,8 @@ export interface SizingInput {
   bankDesign?: BankDesignOptions;
   /** Interval demand (from an interval analysis) the bank design rests on instead of the readings. */
   intervalDemand?: IntervalDemandInput;
+  /** Tariff and costs, for savings and payback. */
+  economics?: EconomicsSettings;
 }
 
 export const DEFAULT_TARGET_PF = 0.95;

@@ -10,6 +10,8 @@ import {
   voltageRisePct,
 } from "./resonance.js";
 import { shortCircuitAtBus } from "./short-circuit.js";
+import { siteEconomics } from "./site-economics.js";
+import type { EconomicsResult } from "./economics/index.js";
 import { compactStudy, studySiteHarmonics, type SizingHarmonics } from "./site-harmonics.js";
 import type { HarmonicStudyOptions, HarmonicStudyResult } from "./harmonics/index.js";
 import { evaluateSite, type LoadResult, type SiteResult } from "./site.js";
@@ -43,6 +45,8 @@ export interface SizingResult {
   recommendedBank: RecommendedBank | null;
   proposedBank?: BankAnalysis;
   resonance?: ResonanceSummary;
+  /** Savings and payback of the recommended bank, when a tariff was given. */
+  economics?: EconomicsResult;
   /** The harmonic study's figures, whenever the site has harmonic sources and the source strength is known. */
   harmonics?: SizingHarmonics;
   warnings: Warning[];
@@ -132,6 +136,16 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
   if (h.issues.length > 0) return { ok: false, issues: h.issues };
   warnings.push(...h.warnings);
 
+  const econ = input.economics
+    ? siteEconomics(
+        input.economics,
+        site,
+        correction,
+        recommendedBank ? { installedKvar: recommendedBank.effectiveKvar, steps: recommendedBank.physicalSteps.length } : null,
+        input.intervalDemand?.months,
+      )
+    : undefined;
+
   return {
     ok: true,
     result: {
@@ -145,6 +159,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       ...(proposedBank ? { proposedBank } : {}),
       ...(resonance ? { resonance } : {}),
       ...(h.study ? { harmonics: compactStudy(h.study) } : {}),
+      ...(econ ? { economics: econ } : {}),
       warnings,
       cautions: cautionsFor(),
     },

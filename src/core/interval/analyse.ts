@@ -1,7 +1,7 @@
 import { tanPhi } from "../conventions.js";
 import { isoWithOffset } from "./datetime.js";
 import { billingPF, monthlyDemand, monthRuns, zoneOfSeries } from "./months.js";
-import { durationCurve, percentiles } from "./percentiles.js";
+import { durationCurve, percentiles, type ValueRange } from "./percentiles.js";
 import type { DurationCurve, IntervalSeries, LoadPoints, MonthlyDemand, Percentiles } from "./types.js";
 
 export const LOAD_POINT_KW_BINS = 16;
@@ -29,6 +29,12 @@ export interface IntervalAnalysis {
   monthly: MonthlyDemand[];
   total: { kWh: number; kvarhLagging: number; kvarhLeading: number; billingPF: number };
   loadPoints: LoadPoints;
+}
+
+/** Stretch a running range to include v. */
+export function widen(range: ValueRange, v: number): void {
+  if (v < range.min) range.min = v;
+  if (v > range.max) range.max = v;
 }
 
 /** PF of one interval: P / S, 1 when S = 0. */
@@ -88,21 +94,28 @@ export function analyseIntervals(series: IntervalSeries, targetPF: number): Inte
   const tanTarget = tanPhi(targetPF);
   const needed = new Float64Array(n);
   const pf = new Float64Array(n);
-  let sumP = 0, sumQ = 0, pMax = 0, below = 0, leading = 0;
+  let sumP = 0, sumQ = 0, below = 0, leading = 0;
+  const r = { p: { min: Infinity, max: -Infinity }, q: { min: Infinity, max: -Infinity }, need: { min: Infinity, max: -Infinity }, pf: { min: Infinity, max: -Infinity } };
   for (let i = 0; i < n; i++) {
     const p = kW[i] as number, q = kvar[i] as number;
     // kvar to hold the target at constant kW: Q − P·tan(acos PF₂) (power-triangle method, as in correction.ts)
     const need = q - p * tanTarget;
-    needed[i] = need > 0 ? need : 0;
+    const held = need > 0 ? need : 0;
+    needed[i] = held;
     if (need > 1e-9) below++; // PF below target ⇔ Q > P·tan(acos target)
-    pf[i] = intervalPF(p, q);
+    const f = intervalPF(p, q);
+    pf[i] = f;
     if (q < 0) leading++;
     sumP += p;
     sumQ += q;
-    if (p > pMax) pMax = p;
+    widen(r.p, p);
+    widen(r.q, q);
+    widen(r.need, held);
+    widen(r.pf, f);
   }
-  const neededP = percentiles(needed, n);
-  const { curve, percentiles: kvarP } = durationCurve(kvar, n); // CURVE_PERCENTILES include every whole percent
+  const pMax = r.p.max;
+  const neededP = percentiles(needed, n, undefined, r.need);
+  const { curve, percentiles: kvarP } = durationCurve(kvar, n, r.q); // CURVE_PERCENTILES include every whole percent
   const zone = zoneOfSeries(series);
   const monthly = monthlyDemand(series, kvar, monthRuns(series, zone), zone);
   const hours = series.intervalMinutes / 60;
@@ -119,7 +132,7 @@ export function analyseIntervals(series: IntervalSeries, targetPF: number): Inte
     lastTimestamp: iso(t[n - 1] as number),
     coveredDays: (n * hours) / 24,
     timeZone: zone.name,
-    kW: { percentiles: percentiles(kW, n), max: pMax, mean: sumP / n },
+    kW: { percentiles: percentiles(kW, n, undefined, r.p), max: pMax, mean: sumP / n },
     kvar: { percentiles: kvarP, mean: sumQ / n, durationCurve: curve },
     minimumReactiveDemand: { minKvar: kvarP.P0 as number, p1Kvar: kvarP.P1 as number, p5Kvar: kvarP.P5 as number },
     neededKvar: {
@@ -128,7 +141,7 @@ export function analyseIntervals(series: IntervalSeries, targetPF: number): Inte
       hold99PctKvar: neededP.P99 as number,
       hold100PctKvar: neededP.P100 as number,
     },
-    pf: { percentiles: percentiles(pf, n), intervalsBelowTarget: below, intervalsLeading: leading },
+    pf: { percentiles: percentiles(pf, n, undefined, r.pf), intervalsBelowTarget: below, intervalsLeading: leading },
     monthly,
     total: { kWh, kvarhLagging: lag, kvarhLeading: lead, billingPF: billingPF(kWh, lag - lead) },
     loadPoints: loadPointsOf(series),

@@ -6,17 +6,23 @@ export const DEFAULT_LEADING_LIMIT_PF = 0.98;
 export const MAX_STEPS = 16;
 const EPS = 1e-9;
 
+/** Response threshold as a share of the smallest step, by default (controller makers' ≈ 2/3 of C/k; common practice, no source). */
+export const DEFAULT_RESPONSE_THRESHOLD = 0.65;
+
 export const CONTROLLER_RULE =
-  "each interval the controller keeps the steps in service while the PF lies in its band (at or above the target " +
-  "lagging, and no more leading than the leading limit); outside the band it picks, among all combinations of steps " +
-  "(best combination, not in order), the least switched kvar that brings the PF into the band, or when none does, " +
-  "the most kvar that does not lead beyond the limit. Among combinations of equal kvar it takes the one needing the " +
+  "each interval the controller keeps the steps in service while the kvar left lies in its dead band: from the " +
+  "target PF (lagging) to unity, widened on both sides by the response threshold (a share of the smallest step), and " +
+  "never leading beyond the leading limit. Outside it the controller picks, among all combinations of steps (best " +
+  "combination, not in order), the least switched kvar that reaches the target without leading beyond the limit, or " +
+  "when none does, the most kvar within the limit. Among combinations of equal kvar it takes the one needing the " +
   "fewest step changes. Switching and discharge delays are ignored at the interval resolution; the fixed kvar is " +
   "always connected and the steps deliver their rated kvar.";
 
 export interface ControllerOptions {
   /** Leading PF the controller accepts (0.80–1; default 0.98): it never switches the site more leading than this. */
   leadingLimitPF?: number;
+  /** Response threshold, a share 0–1 of the smallest step (default 0.65; 0 switches at the band edges exactly). */
+  responseThreshold?: number;
 }
 
 export interface Controller {
@@ -25,6 +31,12 @@ export interface Controller {
   switchedKvar(mask: number): number;
   /** The combination for one interval of kW and kvar (before correction), given the one now switched in. */
   decide(kW: number, kvar: number, currentMask: number): number;
+  /** The largest switched kvar any combination gives without exceeding `kvar` (0 when none does). */
+  largestAtMost(kvar: number): number;
+  /** The least switched kvar any combination gives of at least `kvar` (the largest when none does). */
+  leastAtLeast(kvar: number): number;
+  /** The response threshold in kvar (share × smallest step). */
+  readonly thresholdKvar: number;
 }
 
 export function validateBank(bank: CapacitorBank): void {
@@ -61,6 +73,9 @@ export function createController(bank: CapacitorBank, targetPF: number, opts: Co
   const distinct = Float64Array.from(sums);
   const tanTarget = tanPhi(targetPF);
   const tanLead = tanPhi(opts.leadingLimitPF ?? DEFAULT_LEADING_LIMIT_PF);
+  const share = opts.responseThreshold ?? DEFAULT_RESPONSE_THRESHOLD;
+  if (!(share >= 0 && share <= 1)) throw new RangeError("responseThreshold must be within 0–1");
+  const threshold = steps.length > 0 ? share * Math.min(...steps) : 0;
   const memo = new Map<number, number>();
   const lowerBound = (x: number): number => {
     let lo = 0, hi = distinct.length;
@@ -87,11 +102,16 @@ export function createController(bank: CapacitorBank, targetPF: number, opts: Co
   return {
     fixedKvar: bank.fixedKvar,
     switchedKvar: (mask) => sumOfMask[mask] as number,
+    largestAtMost: (kvar) => distinct[Math.max(0, lowerBound(kvar + EPS) - 1)] as number,
+    leastAtLeast: (kvar) => distinct[Math.min(distinct.length - 1, lowerBound(kvar - EPS))] as number,
+    thresholdKvar: threshold,
     decide(kW, kvar, current) {
       const residual = kvar - bank.fixedKvar;
       const ceiling = residual + kW * tanLead + EPS; // most switched kvar without leading beyond the limit
       const now = sumOfMask[current] as number;
-      if (now <= ceiling && residual - now <= kW * tanTarget + EPS) return current; // inside the band: hold
+      const left = residual - now; // kvar left with the present steps
+      // inside the dead band (target to unity, ± the response threshold) and within the leading limit: hold
+      if (now <= ceiling && left <= kW * tanTarget + threshold + EPS && left >= -threshold - EPS) return current;
       let k = lowerBound(residual - kW * tanTarget - EPS); // least switched kvar reaching the target
       if (k >= distinct.length || (distinct[k] as number) > ceiling) k = Math.max(0, lowerBound(ceiling + EPS) - 1);
       while (k > 0 && (distinct[k] as number) > ceiling) k--;

@@ -27,6 +27,8 @@ export class TimestampParser {
   wallMs = 0;
   /** Offset written in the text, ms east of UTC; NaN when the text carries none. */
   offsetMs = Number.NaN;
+  /** Dates like 03/01/2026 read month-first because no dateOrder was given. */
+  monthFirstByDefault = 0;
   private pos = 0;
   private nDigits = 0;
   private err = TS_OK;
@@ -116,6 +118,7 @@ export class TimestampParser {
       if (this.nDigits !== 4) return this.fail(TS_SYNTAX);
       const dayFirst = sep === 46 || this.dateOrder === "dmy";
       if (!dayFirst && this.dateOrder === null && a > 12 && b <= 12) return this.fail(TS_AMBIGUOUS_ORDER);
+      if (!dayFirst && this.dateOrder === null) this.monthFirstByDefault++;
       month = dayFirst ? b : a;
       day = dayFirst ? a : b;
     }

@@ -76,11 +76,12 @@ function monthlyDemandOf(series: IntervalSeries, kvar: Float64Array, runs: Month
     const u = series.timestampsMs[i] as number;
     return isoWithOffset(u, zone.offsetMsAt(u));
   };
+  const kWs = series.kW;
   return runs.map((run) => {
     let peakKW = -Infinity, peakKWi = run.start, peakKVA = -Infinity, peakKVAi = run.start;
     let kW = 0, lag = 0, lead = 0;
-    for (let i = run.start; i < run.end; i++) {
-      const p = series.kW[i] as number;
+    for (let i = run.start, end = run.end; i < end; i++) {
+      const p = kWs[i] as number;
       const q = kvar[i] as number;
       const s = Math.sqrt(p * p + q * q); // S = √(P² + Q²)
       if (p > peakKW) (peakKW = p), (peakKWi = i);

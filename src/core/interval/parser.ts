@@ -211,6 +211,8 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     }
     if (givenZone === null && withoutOffset === 0 && !Number.isNaN(firstOffsetMs)) zone = fixedZone(firstOffsetMs);
     report.timeZone = zone.name;
+    const monthFirst = (decoder as RowDecoder).ts.monthFirstByDefault;
+    if (monthFirst > 0) report.notes.push(`dateOrder not given: ${monthFirst} slashed dates like 03/01/2026 were read month-first (set dateOrder=dmy for day-first)`);
     if (givenZone !== null && withoutOffset > 0 && !/^(UTC|[+-])/.test(zone.name)) {
       report.notes.push(`timestamps without an offset read as local time in ${zone.name}; a local hour repeated at the daylight-saving change is read in row order (first occurrence, then second)`);
     }

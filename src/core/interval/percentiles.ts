@@ -17,19 +17,27 @@ export function nearestRank(p: number, n: number): number {
   return Math.min(n - 1, Math.max(0, Math.ceil((p * n) / 100 - 1e-9) - 1));
 }
 
+/** The exact minimum and maximum of the values, when the caller already has them (saves a pass). */
+export interface ValueRange {
+  min: number;
+  max: number;
+}
+
 /**
  * Exact order statistics (values at 0-based ranks in sorted order) without sorting everything: a histogram over
  * [min, max] finds the bucket of each rank; only those buckets' values are gathered and sorted.
  */
-export function valuesAtRanks(values: Float64Array, n: number, ranks: readonly number[]): Float64Array {
+export function valuesAtRanks(values: Float64Array, n: number, ranks: readonly number[], range?: ValueRange): Float64Array {
   const out = new Float64Array(ranks.length);
   if (n === 0) return out.fill(Number.NaN);
-  let min = Infinity;
-  let max = -Infinity;
-  for (let i = 0; i < n; i++) {
-    const v = values[i] as number;
-    if (v < min) min = v;
-    if (v > max) max = v;
+  let min = range?.min ?? Infinity;
+  let max = range?.max ?? -Infinity;
+  if (!range) {
+    for (let i = 0; i < n; i++) {
+      const v = values[i] as number;
+      if (v < min) min = v;
+      if (v > max) max = v;
+    }
   }
   if (min === max) return out.fill(min);
   const buckets = Math.max(64, Math.min(16384, n >> 3));
@@ -93,8 +101,8 @@ export function percentileLabel(p: number): string {
 }
 
 /** Nearest-rank percentiles of the first n values, keyed "P0" … "P100". */
-export function percentiles(values: Float64Array, n: number, ps: readonly number[] = STANDARD_PERCENTILES): Percentiles {
-  const at = valuesAtRanks(values, n, ps.map((p) => nearestRank(p, n)));
+export function percentiles(values: Float64Array, n: number, ps: readonly number[] = STANDARD_PERCENTILES, range?: ValueRange): Percentiles {
+  const at = valuesAtRanks(values, n, ps.map((p) => nearestRank(p, n)), range);
   const out: Percentiles = {};
   ps.forEach((p, i) => (out[percentileLabel(p)] = at[i] as number));
   return out;
@@ -104,9 +112,9 @@ export function percentiles(values: Float64Array, n: number, ps: readonly number
  * The duration curve (the value reached or exceeded in e % of intervals is the (100 − e)th percentile), from
  * e = 0 (the peak) to 100 (the minimum), together with the standard percentiles, in one pass.
  */
-export function durationCurve(values: Float64Array, n: number): { curve: { exceedancePct: number[]; kvar: number[] }; percentiles: Percentiles } {
+export function durationCurve(values: Float64Array, n: number, range?: ValueRange): { curve: { exceedancePct: number[]; kvar: number[] }; percentiles: Percentiles } {
   const ps = [...CURVE_PERCENTILES].reverse();
-  const at = valuesAtRanks(values, n, ps.map((p) => nearestRank(p, n)));
+  const at = valuesAtRanks(values, n, ps.map((p) => nearestRank(p, n)), range);
   const byP = new Map(ps.map((p, i) => [p, at[i] as number]));
   const out: Percentiles = {};
   for (const p of STANDARD_PERCENTILES) out[percentileLabel(p)] = byP.get(p) as number;

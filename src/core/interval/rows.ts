@@ -39,7 +39,7 @@ export class RowDecoder {
   private numberError = "";
   private readonly starts: Int32Array;
   private readonly ends: Int32Array;
-  private readonly ts: TimestampParser;
+  readonly ts: TimestampParser;
   private readonly delim: string;
   private readonly decimalComma: boolean;
 

@@ -1,5 +1,5 @@
 import { tanPhi } from "../conventions.js";
-import { assertSeries, intervalPF } from "./analyse.js";
+import { assertSeries, intervalPF, widen } from "./analyse.js";
 import { CONTROLLER_RULE, createController, DEFAULT_LEADING_LIMIT_PF, type ControllerOptions } from "./controller.js";
 import { billingPF, monthlyDemand, monthRuns, zoneOfSeries } from "./months.js";
 import { percentiles } from "./percentiles.js";
@@ -22,6 +22,8 @@ export interface ControllerSimulation {
   bank: CapacitorBank;
   targetPF: number;
   leadingLimitPF: number;
+  /** Response threshold, kvar (a share of the smallest step). */
+  responseThresholdKvar: number;
   rule: string;
   intervals: number;
   /** PF magnitude P/S after correction, whatever its sense (leading intervals are counted separately). */
@@ -48,7 +50,7 @@ export function simulateController(series: IntervalSeries, bank: CapacitorBank, 
   assertSeries(series);
   if (!(targetPF > 0 && targetPF <= 1)) throw new RangeError("targetPF must be in (0, 1]");
   const leadingLimitPF = opts.leadingLimitPF ?? DEFAULT_LEADING_LIMIT_PF;
-  const controller = createController(bank, targetPF, { leadingLimitPF });
+  const controller = createController(bank, targetPF, { ...opts, leadingLimitPF });
   const n = series.length;
   const nSteps = bank.stepsKvar.length;
   const after = new Float64Array(n);
@@ -58,6 +60,7 @@ export function simulateController(series: IntervalSeries, bank: CapacitorBank, 
   const tanTarget = tanPhi(targetPF);
   const tanLead = tanPhi(leadingLimitPF);
   let mask = 0;
+  const qRange = { min: Infinity, max: -Infinity }, pfRange = { min: Infinity, max: -Infinity };
   let belowBefore = 0, belowAfter = 0, leadBefore = 0, leadAfter = 0, beyond = 0;
   for (let i = 0; i < n; i++) {
     const p = series.kW[i] as number, q = series.kvar[i] as number;
@@ -69,7 +72,10 @@ export function simulateController(series: IntervalSeries, bank: CapacitorBank, 
     for (let m = mask, s = 0; m; s++, m >>>= 1) if (m & 1) onCount[s]!++;
     const qa = q - controller.fixedKvar - controller.switchedKvar(mask);
     after[i] = qa;
-    pfAfter[i] = intervalPF(p, qa);
+    const f = intervalPF(p, qa);
+    pfAfter[i] = f;
+    widen(qRange, qa);
+    widen(pfRange, f);
     // below target: lagging beyond P·tan(acos target); leading beyond the limit: more than P·tan(acos limit)
     if (q > p * tanTarget + 1e-9) belowBefore++;
     if (qa > p * tanTarget + 1e-9) belowAfter++;
@@ -103,10 +109,11 @@ export function simulateController(series: IntervalSeries, bank: CapacitorBank, 
     bank: { fixedKvar: bank.fixedKvar, stepsKvar: [...bank.stepsKvar] },
     targetPF,
     leadingLimitPF,
+    responseThresholdKvar: controller.thresholdKvar,
     rule: CONTROLLER_RULE,
     intervals: n,
-    pfAfter: { percentiles: percentiles(pfAfter, n) },
-    kvarAfter: { percentiles: percentiles(after, n) },
+    pfAfter: { percentiles: percentiles(pfAfter, n, undefined, pfRange) },
+    kvarAfter: { percentiles: percentiles(after, n, undefined, qRange) },
     intervalsBelowTarget: { before: belowBefore, after: belowAfter },
     intervalsLeading: { before: leadBefore, after: leadAfter, afterBeyondLimit: beyond },
     switching: {

@@ -83,40 +83,62 @@ export interface RoughControllerEstimate {
   leadingPct: number;
   leadingBeyondLimitPct: number;
   billingPFBefore: number;
+  /** With the least kvar that meets the target in every load point (a fresh decision). */
   billingPFAfter: number;
+  /** Between the least and the most kvar the dead band may hold; the simulation lies about within these ranges. */
+  belowTargetPctRange: [number, number];
+  leadingPctRange: [number, number];
+  billingPFAfterRange: [number, number];
   note: string;
 }
 
 /**
  * A controller estimate from a summary alone: each load point (a histogram cell's mean kW and kvar, weighted by its
- * interval count) is corrected by the same rule as simulateController, as a fresh decision. Time order is lost: no
- * switching counts, and the controller's hold band (which keeps steps in as the load falls) is not seen, so the
- * leading share is a lower bound and the billing PF after a slight underestimate.
+ * interval count) gets the kvar a fresh controller decision switches (the least reaching the target within the
+ * leading limit), and, for ranges, the least and the most kvar its dead band would hold. Time order is lost (no
+ * switching counts, no way to know where in the band the controller sits) and so is the spread within a cell.
  */
 export function roughControllerEstimate(s: IntervalSummary, bank: CapacitorBank, targetPF: number, opts: ControllerOptions = {}): RoughControllerEstimate {
-  const controller = createController(bank, targetPF, opts);
+  const c = createController(bank, targetPF, opts);
   const tanTarget = tanPhi(targetPF);
   const tanLead = tanPhi(opts.leadingLimitPF ?? DEFAULT_LEADING_LIMIT_PF);
+  const th = c.thresholdKvar;
   const lp = s.loadPoints;
-  let total = 0, below = 0, lead = 0, beyond = 0, p = 0, qBefore = 0, qAfter = 0;
+  const acc = { total: 0, p: 0, q: 0, below: [0, 0, 0], lead: [0, 0, 0], beyond: 0, qAfter: [0, 0, 0] };
   for (let i = 0; i < lp.count.length; i++) {
     const w = lp.count[i] as number, kW = lp.kW[i] as number, kvar = lp.kvar[i] as number;
-    const qa = kvar - controller.fixedKvar - controller.switchedKvar(controller.decide(kW, kvar, 0));
-    total += w;
-    if (qa > kW * tanTarget + 1e-9) below += w;
-    if (qa < -1e-9) lead += w;
-    if (qa < -kW * tanLead - 1e-9) beyond += w;
-    p += w * kW;
-    qBefore += w * kvar;
-    qAfter += w * qa;
+    const residual = kvar - c.fixedKvar;
+    const target = kW * tanTarget; // kvar left at the target PF
+    const ceiling = residual + kW * tanLead; // most switched kvar within the leading limit
+    const pickWithin = (wanted: number) => {
+      const k = c.leastAtLeast(wanted);
+      return k <= ceiling + 1e-9 ? k : c.largestAtMost(ceiling);
+    };
+    const fresh = pickWithin(residual - target);
+    const least = Math.min(fresh, pickWithin(residual - target - th));
+    const most = Math.max(fresh, c.largestAtMost(Math.min(residual + th, ceiling)));
+    [fresh, least, most].forEach((kvarOn, j) => {
+      const left = residual - kvarOn;
+      if (left > target + 1e-9) acc.below[j]! += w;
+      if (left < -1e-9) acc.lead[j]! += w;
+      acc.qAfter[j]! += w * left;
+    });
+    if (residual - fresh < -kW * tanLead - 1e-9) acc.beyond += w;
+    acc.total += w;
+    acc.p += w * kW;
+    acc.q += w * kvar;
   }
-  const pct = (x: number) => (total > 0 ? (x / total) * 100 : 0);
+  const pct = (x: number) => (acc.total > 0 ? (x / acc.total) * 100 : 0);
+  const pf = (j: number) => billingPF(acc.p, acc.qAfter[j] as number);
   return {
-    belowTargetPct: pct(below),
-    leadingPct: pct(lead),
-    leadingBeyondLimitPct: pct(beyond),
-    billingPFBefore: billingPF(p, qBefore),
-    billingPFAfter: billingPF(p, qAfter),
-    note: `estimated from ${lp.count.length} load points (a ${lp.kWBins} × ${lp.kvarBins} kW × kvar histogram) without time order: no switching counts, leading share a lower bound; simulateController on the series is exact`,
+    belowTargetPct: pct(acc.below[0]!),
+    leadingPct: pct(acc.lead[0]!),
+    leadingBeyondLimitPct: pct(acc.beyond),
+    billingPFBefore: billingPF(acc.p, acc.q),
+    billingPFAfter: pf(0),
+    belowTargetPctRange: [pct(acc.below[0]!), pct(acc.below[1]!)],
+    leadingPctRange: [pct(acc.lead[0]!), pct(acc.lead[2]!)],
+    billingPFAfterRange: [pf(1), pf(2)],
+    note: `estimated from ${lp.count.length} load points (a ${lp.kWBins} × ${lp.kvarBins} kW × kvar histogram) without time order (no switching counts); simulateController on the series is exact`,
   };
 }

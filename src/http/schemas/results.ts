@@ -135,6 +135,30 @@ export const resonanceSchema = z.object({
   proposedBankVoltageRisePct: z.number().nullable(),
 });
 
+const billedCharge = z.object({ billedQuantity: z.number(), billedUnit: z.enum(["kVA", "kW", "kvarh", "none"]), charge: z.number() });
+export const economicsResultSchema = z.object({
+  currency: z.string(),
+  tariff: z.object({ form: z.string() }).loose(),
+  basis: z.enum(["interval_data", "survey_demand"]),
+  periods: z.array(
+    z.object({
+      label: z.string(),
+      before: billedCharge,
+      after: billedCharge,
+      tariffSaving: z.number(),
+      lossSavingKWh: z.number(),
+      lossSaving: z.number(),
+      saving: z.number(),
+    }),
+  ),
+  savingPerMonth: z.number(),
+  savingPerYear: z.number(),
+  installedCost: z.number().nullable(),
+  costBreakdown: z.object({ perKvar: z.number(), perStep: z.number(), fixed: z.number() }).nullable(),
+  simplePaybackYears: z.number().nullable(),
+  assumptions: z.array(z.string()),
+});
+
 export const sizingResultSchema = z.object({
   engineVersion: z.string(),
   system: z.object({ voltageV: z.number(), frequencyHz: z.number(), phases: z.number() }),
@@ -145,6 +169,7 @@ export const sizingResultSchema = z.object({
   recommendedBank: recommendedBankSchema.nullable(),
   proposedBank: bankAnalysisSchema.optional(),
   resonance: resonanceSchema.optional(),
+  economics: economicsResultSchema.optional(),
   warnings: z.array(warningSchema),
   cautions: z.array(cautionSchema),
 });

@@ -128,6 +128,40 @@ export const bankDesignSchema = z.strictObject({
   dischargeResistorConnection: z.enum(["across_each_capacitor", "star_across_delta", "two_across_delta", "delta_across_wye"]).optional(),
 });
 
+const money = (what: string) => z.number({ error: `${what} must be a number` }).min(0, `${what} must not be negative`).max(1e9);
+
+export const tariffSchema = z.discriminatedUnion(
+  "form",
+  [
+    z.strictObject({ form: z.literal("kva_demand"), chargePerKVA: money("chargePerKVA").describe("per kVA of billing demand, a month") }),
+    z.strictObject({
+      form: z.literal("kw_demand_pf_adjusted"),
+      chargePerKW: money("chargePerKW").describe("per billed kW, a month"),
+      basePF: z.number().min(0.7, "basePF must be 0.70 to 1.00").max(1, "basePF must be 0.70 to 1.00").describe("billed kW = kW·basePF/PF below it"),
+    }),
+    z.strictObject({
+      form: z.literal("kvarh_excess"),
+      chargePerKvarh: money("chargePerKvarh"),
+      allowanceRatio: z.number().min(0, "allowanceRatio must be 0 to 2").max(2, "allowanceRatio must be 0 to 2").describe("kvarh allowed per kWh"),
+    }),
+    z.strictObject({ form: z.literal("none") }),
+  ],
+  { error: "form must be one of kva_demand, kw_demand_pf_adjusted, kvarh_excess, none" },
+);
+
+export const economicsSchema = z.strictObject({
+  currency: z.string().regex(/^[A-Z]{3}$/, "currency must be an ISO 4217 code such as USD or EUR"),
+  tariff: tariffSchema,
+  operatingHoursPerMonth: z.number().positive().max(744, "a month has at most 744 hours").optional(),
+  losses: z
+    .strictObject({
+      lossesPct: z.number().min(0).max(20, "lossesPct must be 0 to 20 %"),
+      energyPricePerKWh: money("energyPricePerKWh"),
+    })
+    .optional(),
+  cost: z.strictObject({ perKvar: money("perKvar").optional(), perStep: money("perStep").optional(), fixed: money("fixed").optional() }).optional(),
+});
+
 export const sizingRequestSchema = z.strictObject({
   system: systemSchema,
   targetPF: targetPFSchema.optional(),
@@ -140,6 +174,7 @@ export const sizingRequestSchema = z.strictObject({
   backgroundVoltageDistortion: backgroundDistortionSchema.optional(),
   lightLoad: serviceEntranceSchema.optional().describe("a reading at the main at light load: caps the fixed part of the bank"),
   bankDesign: bankDesignSchema.optional(),
+  economics: economicsSchema.optional(),
 });
 
 export type SizingRequest = z.infer<typeof sizingRequestSchema>;

@@ -30,15 +30,38 @@ describe("controller decision", () => {
     expect(c3.decide(100, 200, 0)).toBe(0);
   });
 
-  it("holds the steps in service while the PF is inside the band", () => {
-    // 200 switched at 400 kW: Q 300 → 100 left (PF 0.970, in band); Q 250 → 50 left (in band): no change
-    expect(c.decide(400, 250, 0b111)).toBe(0b111);
-    // Q 150 with 200 switched → −50 kvar, within −400·0.2031 = −81.2 → hold
-    expect(c.decide(400, 150, 0b111)).toBe(0b111);
-    // Q 100 with 200 switched → −100, beyond −81.2 → re-decide: need ≥ 100 − 131.5 < 0 → all off
-    expect(c.decide(400, 100, 0b111)).toBe(0);
-    // 100 switched (step 3) at Q 250 leaves 150 > 131.5 (below target) → re-decide: need ≥ 118.5 → 150 = steps 1 + 3
-    expect(c.decide(400, 250, 0b100)).toBe(0b101);
+  it("holds the steps while the kvar left is in the dead band (target to unity ± 0.65 × the smallest step)", () => {
+    // 400 kW: target leaves 131.47 kvar; threshold 0.65 × 50 = 32.5 → band −32.5 … 163.97 kvar left
+    expect(c.thresholdKvar).toBe(32.5);
+    expect(c.decide(400, 300, 0b111)).toBe(0b111); // 100 left: hold
+    expect(c.decide(400, 250, 0b111)).toBe(0b111); // 50 left: hold
+    expect(c.decide(400, 250, 0b100)).toBe(0b100); // 150 left: a shortfall under the threshold, hold
+    // 100 switched, Q 280 → 180 left > 163.97 → need ≥ 148.5 → 150 = steps 1 + 3 (one change)
+    expect(c.decide(400, 280, 0b100)).toBe(0b101);
+    // 200 switched, Q 150 → −50 < −32.5 → need ≥ 18.5 → 50: steps 1 or 2 alone, two changes either way → the lower
+    expect(c.decide(400, 150, 0b111)).toBe(0b001);
+    expect(c.decide(400, 100, 0b111)).toBe(0); // −100 left → need < 0 → all off
+  });
+
+  it("with a zero response threshold the band is exactly target to unity", () => {
+    const z = createController({ fixedKvar: 0, stepsKvar: [50, 50, 100] }, 0.95, { responseThreshold: 0 });
+    expect(z.decide(400, 250, 0b100)).toBe(0b101); // 150 left > 131.47 → need ≥ 118.5 → 150
+    // 200 switched, Q 190 → −10 left (leading) → need ≥ 58.5 → 100: 50 + 50 (one change from all on) beats 100 alone (two)
+    expect(z.decide(400, 190, 0b111)).toBe(0b011);
+  });
+
+  it("a steady load with noise inside the band does not chatter", () => {
+    let m = c.decide(400, 281, 0); // need ≥ 149.5 → 150 → 131 left
+    expect(c.switchedKvar(m)).toBe(150);
+    for (const q of [281, 270, 240, 200, 160, 281]) {
+      const next = c.decide(400, q, m);
+      expect(next, `Q ${q}`).toBe(m); // left = q − 150 stays within [0, 131.47]
+      m = next;
+    }
+  });
+
+  it("largestAtMost: the achievable sums of 50, 50, 100 are 0, 50, 100, 150, 200 (hand enumeration)", () => {
+    expect([-5, 0, 49.9, 120, 200, 1000].map((q) => c.largestAtMost(q))).toEqual([0, 0, 0, 100, 200, 200]);
   });
 
   it("among equal kvar keeps the combination with the fewest changes", () => {
@@ -118,7 +141,7 @@ describe("simulateController — fixed bank on a sinusoidal demand (closed form)
     // Off → on when Q exceeds the target's 262.9 kvar and switching 500 leads no more than the limit allows;
     // on → off when Q − 500 leads beyond it. Both tests reduce to Q ≥ 500 − 800·tan(acos limit), which for
     // Q = 300 + 200·sin θ holds a share ½ − asin((threshold − 300)/200)/π of the time, once up and once down a day.
-    const lim = simulateController(s, { fixedKvar: 0, stepsKvar: [500] }, 0.95, { leadingLimitPF: limit });
+    const lim = simulateController(s, { fixedKvar: 0, stepsKvar: [500] }, 0.95, { leadingLimitPF: limit, responseThreshold: 0 });
     const threshold = 500 - P * (Math.sqrt(1 - limit ** 2) / limit); // 0.98 → 337.55; 0.99 → 385.99
     const share = 0.5 - Math.asin((threshold - A) / B) / Math.PI;
     expect(lim.leadingLimitPF).toBe(limit);

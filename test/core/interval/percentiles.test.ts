@@ -26,6 +26,8 @@ describe("nearest-rank percentiles", () => {
           const ranks = rs.map((r) => r % xs.length);
           const got = Array.from(valuesAtRanks(v, xs.length, ranks), (x) => x + 0); // + 0: −0 and 0 tie
           expect(got).toEqual(ranks.map((r) => sorted[r]! + 0));
+          const range = { min: sorted[0]!, max: sorted[sorted.length - 1]! }; // a caller that knows the range
+          expect(Array.from(valuesAtRanks(v, xs.length, ranks, range), (x) => x + 0)).toEqual(got);
         },
       ),
       { numRuns: 300 },

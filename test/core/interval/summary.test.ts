@@ -52,15 +52,17 @@ describe("IntervalSummary", () => {
     const sim = simulateController(series, bank, 0.95);
     const est = roughControllerEstimate(summary, bank, 0.95);
     const n = series.length;
-    // histogram cells are ~40 kW × ~16 kvar wide: allow 5 percentage points on shares (common practice, no source)
-    expectClose(est.belowTargetPct, (sim.intervalsBelowTarget.after / n) * 100, { abs: 5 }, "below target %");
-    // the hold band depends on time order, which a summary no longer has: from the cells the controller is never
-    // left holding steps into a light load, so the leading share within the limit is a lower bound
-    expect(est.leadingPct).toBeLessThanOrEqual((sim.intervalsLeading.after / n) * 100);
+    // where in its dead band the controller sits depends on time order, which a summary no longer has, and the
+    // spread within a cell is lost: the simulation lies within the estimate's ranges, widened by 5 points on
+    // shares and 0.005 on PF (cells are ~40 kW × ~16 kvar; common practice, no source)
+    const within = (v: number, [lo, hi]: [number, number], slack: number, label: string) => {
+      expect(v, `${label} ${v} in [${lo}, ${hi}]`).toBeGreaterThanOrEqual(Math.min(lo, hi) - slack);
+      expect(v, `${label} ${v} in [${lo}, ${hi}]`).toBeLessThanOrEqual(Math.max(lo, hi) + slack);
+    };
+    within((sim.intervalsBelowTarget.after / n) * 100, est.belowTargetPctRange, 5, "below target %");
+    within((sim.intervalsLeading.after / n) * 100, est.leadingPctRange, 5, "leading %");
+    within(sim.total.billingPFAfter, est.billingPFAfterRange, 0.005, "billing PF after");
     expectClose(est.leadingBeyondLimitPct, (sim.intervalsLeading.afterBeyondLimit / n) * 100, { abs: 1 }, "leading beyond the limit %");
-    // holding never keeps less kvar than a fresh decision, so the estimate's billing PF is a lower bound (here 0.968 vs 0.982)
-    expect(est.billingPFAfter).toBeLessThanOrEqual(sim.total.billingPFAfter + 1e-3);
-    expectClose(est.billingPFAfter, sim.total.billingPFAfter, { abs: 0.02 }, "billing PF after");
     expectClose(est.billingPFBefore, sim.total.billingPFBefore, { abs: 1e-6 }, "billing PF before (energy exact)");
   });
 
