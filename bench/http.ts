@@ -53,7 +53,7 @@ export interface LoadResult {
 }
 
 /** autocannon POSTing one JSON body; throws if any response was not 2xx or a connection failed. */
-export async function postLoad(url: string, body: string, seconds: number, connections: number, workers = 0): Promise<LoadResult> {
+export async function postLoad(url: string, body: string, seconds: number, connections: number, workers = 1): Promise<LoadResult> {
   const r = await autocannon({
     url,
     method: "POST",

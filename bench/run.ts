@@ -9,6 +9,7 @@ import { knobsFromEnv } from "./http.js";
 import type { BenchSection, SummaryRow } from "./section.js";
 import { benchSizing } from "./sizing.js";
 import { benchSurveys } from "./surveys.js";
+import { benchInterval } from "./interval.js";
 
 const SECTIONS: BenchSection[] = [
   { name: "sizing", run: benchSizing },
@@ -40,6 +41,20 @@ const SECTIONS: BenchSection[] = [
             goal: "≤ 20",
             pass: r.msPerScan <= 20,
           },
+        ],
+        notes: r.lines,
+      };
+    },
+  },
+  {
+    name: "interval",
+    run: async () => {
+      const r = await benchInterval();
+      return {
+        rows: [
+          { section: "interval", metric: "525,600-row upload end to end, ms", value: r.uploadMs.toFixed(0), goal: "≤ 1500", pass: r.uploadMs <= 1500 },
+          { section: "interval", metric: "peak RSS, MB", value: r.peakRssMB.toFixed(0), goal: "≤ 250", pass: r.peakRssMB <= 250 },
+          { section: "interval", metric: "upload / bare line split", value: r.ratio.toFixed(1), goal: "≤ 3", pass: r.ratio <= 3 },
         ],
         notes: r.lines,
       };

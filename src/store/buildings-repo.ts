@@ -1,3 +1,4 @@
+import type { EconomicsSettings } from "../core/site-economics.js";
 import type { Db } from "./database.js";
 import type { BuildingData, BuildingRecord, BuildingVersion } from "./types.js";
 
@@ -13,13 +14,14 @@ interface BuildingRow {
   transformer_impedance_pct: number | null;
   transformer_x_over_r: number | null;
   utility_fault_mva: number | null;
+  economics_json: string | null;
   version: number;
   created_at: string;
   updated_at: string;
 }
 
 const COLUMNS =
-  "id, name, address, notes, voltage_v, frequency_hz, phases, transformer_kva, transformer_impedance_pct, transformer_x_over_r, utility_fault_mva, version, created_at, updated_at";
+  "id, name, address, notes, voltage_v, frequency_hz, phases, transformer_kva, transformer_impedance_pct, transformer_x_over_r, utility_fault_mva, economics_json, version, created_at, updated_at";
 
 export function buildingFromRow(r: BuildingRow): BuildingRecord {
   return {
@@ -38,6 +40,7 @@ export function buildingFromRow(r: BuildingRow): BuildingRecord {
             ...(r.transformer_x_over_r === null ? {} : { xOverR: r.transformer_x_over_r }),
           },
     utility: r.utility_fault_mva === null ? null : { faultMVA: r.utility_fault_mva },
+    economics: r.economics_json === null ? null : (JSON.parse(r.economics_json) as EconomicsSettings),
     createdAt: r.created_at,
     updatedAt: r.updated_at,
   };
@@ -55,11 +58,12 @@ function columnsOf(d: BuildingData) {
     transformer_impedance_pct: d.transformer?.impedancePct ?? null,
     transformer_x_over_r: d.transformer?.xOverR ?? null,
     utility_fault_mva: d.utility?.faultMVA ?? null,
+    economics_json: d.economics ? JSON.stringify(d.economics) : null,
   };
 }
 
 export function dataOf(b: BuildingRecord): BuildingData {
-  return { name: b.name, address: b.address, notes: b.notes, system: b.system, transformer: b.transformer, utility: b.utility };
+  return { name: b.name, address: b.address, notes: b.notes, system: b.system, transformer: b.transformer, utility: b.utility, economics: b.economics };
 }
 
 export interface BuildingListQuery {
@@ -77,13 +81,13 @@ export function buildingsRepo(db: Db) {
   const insert = db.prepare(
     `INSERT INTO buildings (org_id, ${COLUMNS})
      VALUES (@org_id, @id, @name, @address, @notes, @voltage_v, @frequency_hz, @phases, @transformer_kva,
-             @transformer_impedance_pct, @transformer_x_over_r, @utility_fault_mva, 1, @at, @at)`,
+             @transformer_impedance_pct, @transformer_x_over_r, @utility_fault_mva, @economics_json, 1, @at, @at)`,
   );
   const update = db.prepare(
     `UPDATE buildings SET name = @name, address = @address, notes = @notes, voltage_v = @voltage_v,
        frequency_hz = @frequency_hz, phases = @phases, transformer_kva = @transformer_kva,
        transformer_impedance_pct = @transformer_impedance_pct, transformer_x_over_r = @transformer_x_over_r,
-       utility_fault_mva = @utility_fault_mva, version = version + 1, updated_at = @at
+       utility_fault_mva = @utility_fault_mva, economics_json = @economics_json, version = version + 1, updated_at = @at
      WHERE org_id = @org_id AND id = @id AND version = @version`,
   );
   const insertVersion = db.prepare(

@@ -4,6 +4,8 @@ import type {
   TransformerInput,
   UtilityInput,
 } from "../core/inputs.js";
+import type { IntervalSummary } from "../core/interval/summary.js";
+import type { EconomicsSettings } from "../core/site-economics.js";
 import type { SizingResult } from "../core/sizing.js";
 
 /** Records as the store hands them out. Inputs and results are kept apart, as they are stored. */
@@ -15,9 +17,12 @@ export interface BuildingData {
   system: SystemInput;
   transformer: TransformerInput | null;
   utility: UtilityInput | null;
+  /** Tariff and costs for savings; null when none. Absent in versions recorded before it existed (= null). */
+  economics?: EconomicsSettings | null;
 }
 
 export interface BuildingRecord extends BuildingData {
+  economics: EconomicsSettings | null;
   id: string;
   version: number;
   createdAt: string;
@@ -31,22 +36,50 @@ export interface BuildingVersion {
   actor: string;
 }
 
-/** A survey's inputs as the electrician submitted them (the revision's reason is kept beside, not inside). */
-/** What a survey submits: the sizing body less the building's electrical data, plus who and when. */
-export interface SurveyInputs extends Omit<SizingInput, "system" | "transformer" | "utility" | "targetPF"> {
+/**
+ * What a survey submits (the revision's reason is kept beside, not inside): the sizing body less the building's
+ * data (system, transformer, utility, economics, interval demand), plus who and when.
+ */
+export interface SurveyInputs extends Omit<SizingInput, "system" | "transformer" | "utility" | "targetPF" | "economics" | "intervalDemand"> {
   surveyedAt: string;
   surveyor: string;
   notes?: string;
   targetPF: number;
+  /** A stored interval analysis of the same building to size with; the building's newest when absent. */
+  intervalAnalysisId?: string;
 }
 
-/** The building's electrical data a revision was computed with. */
+/** The building's data a revision was computed with. */
 export interface BuildingSnapshot {
   buildingVersion: number;
   system: SystemInput;
   transformer: TransformerInput | null;
   utility: UtilityInput | null;
+  /** The tariff the result's economics rest on. Absent in snapshots stored before it existed (= null). */
+  economics?: EconomicsSettings | null;
+  /** The interval analysis the bank design rests on, null when none. Absent in older snapshots (= null). */
+  intervalAnalysisId?: string | null;
 }
+
+/** An interval analysis stored with a building: its summary and the figures lists show. */
+export interface IntervalAnalysisRecord {
+  id: string;
+  buildingId: string;
+  createdAt: string;
+  actor: string;
+  requestId: string | null;
+  targetPF: number;
+  intervalCount: number;
+  intervalMinutes: number;
+  firstTimestamp: string;
+  lastTimestamp: string;
+  hold99PctKvar: number;
+  minKvar: number;
+  summary: IntervalSummary;
+}
+
+/** A list entry: the record without its summary (read from columns, no JSON parsed). */
+export type IntervalAnalysisListEntry = Omit<IntervalAnalysisRecord, "summary" | "actor" | "requestId">;
 
 /** Figures from a result, kept in columns so lists and trends do not parse JSON. */
 export interface SurveySummary {

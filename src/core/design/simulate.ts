@@ -10,14 +10,23 @@ export const STEP_RATIOS: readonly StepRatio[] = ["1:1:1", "1:2:2", "1:2:4"];
 
 /** Multipliers of the base (smallest) step for a program with n steps. */
 export function stepMultipliers(ratio: StepRatio, n: number): number[] {
-  const head = ratio === "1:1:1" ? [1] : ratio === "1:2:2" ? [1, 2] : [1, 2, 4];
-  const tail = ratio === "1:1:1" ? 1 : ratio === "1:2:2" ? 2 : 4;
-  return Array.from({ length: n }, (_, i) => head[i] ?? tail);
+  const out = new Array<number>(n);
+  for (let i = 0; i < n; i++) out[i] = multiplierAt(ratio, i);
+  return out;
+}
+
+/** The i-th step's multiple: 1:1:1 → 1, 1, 1…; 1:2:2 → 1, 2, 2…; 1:2:4 → 1, 2, 4, 4…. */
+function multiplierAt(ratio: StepRatio, i: number): number {
+  if (ratio === "1:1:1" || i === 0) return 1;
+  if (ratio === "1:2:2" || i === 1) return 2;
+  return 4;
 }
 
 /** Largest multiple of the base the program reaches (all multiples 0…K are reachable with these programs). */
 export function maxMultiple(ratio: StepRatio, n: number): number {
-  return stepMultipliers(ratio, n).reduce((s, m) => s + m, 0);
+  let k = 0;
+  for (let i = 0; i < n; i++) k += multiplierAt(ratio, i);
+  return k;
 }
 
 /** Per-sample quantities after the fixed part, as typed arrays. */

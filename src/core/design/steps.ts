@@ -129,19 +129,25 @@ export function planSteps(input: StepsInput): StepPlan {
   if (switchedNeeded > 1e-9) {
     const sizes = stepSizes(units, switchedNeeded, minSteps);
     const has = new Set(sizes);
-    const seen = new Set<string>();
+    const seen = new Set<number>();
     for (const ratio of o.ratios ?? STEP_RATIOS) {
-      const mults = [...new Set(stepMultipliers(ratio, Math.max(3, minSteps)))];
-      const bases = sizes.filter((b) => mults.every((m) => has.has(m * b)));
-      for (let steps = Math.max(ratio === "1:2:4" ? 3 : 1, minSteps); steps <= maxSteps; steps++) {
-        const k = maxMultiple(ratio, steps);
-        const up = bases.find((b) => k * b >= switchedNeeded - 1e-9);
-        const down = [...bases].reverse().find((b) => k * b < switchedNeeded - 1e-9);
-        for (const [base, rounding] of [[up, "up"], [down, "down"]] as const) {
-          if (base === undefined || seen.has(`${ratio}/${steps}/${base}`)) continue;
-          seen.add(`${ratio}/${steps}/${base}`);
-          const stepsKvar = stepMultipliers(ratio, steps).map((m) => m * base);
-          candidates.push({ ratio, stepCount: steps, baseKvar: base, stepsKvar, totalKvar: k * base, rounding, simulation: simulateStepProgram(ratio, steps, base, samples) });
+      const mults = stepMultipliers(ratio, maxSteps);
+      const distinct = [...new Set(mults.slice(0, Math.max(3, minSteps)))];
+      const bases = sizes.filter((b) => distinct.every((m) => has.has(m * b)));
+      let k = 0;
+      for (let steps = 1; steps <= maxSteps; steps++) {
+        k += mults[steps - 1] as number; // maxMultiple(ratio, steps) as a running sum
+        if (steps < Math.max(ratio === "1:2:4" ? 3 : 1, minSteps)) continue;
+        // bases ascend: the first reaching the need (round up) and the one before it (round down)
+        let iUp = 0;
+        while (iUp < bases.length && k * (bases[iUp] as number) < switchedNeeded - 1e-9) iUp++;
+        for (const [i, rounding] of [[iUp, "up"], [iUp - 1, "down"]] as const) {
+          const base = bases[i];
+          if (base === undefined) continue;
+          const key = (STEP_RATIOS.indexOf(ratio) * 100 + steps) * 1e7 + base;
+          if (seen.has(key)) continue;
+          seen.add(key);
+          candidates.push({ ratio, stepCount: steps, baseKvar: base, stepsKvar: mults.slice(0, steps).map((m) => m * base), totalKvar: k * base, rounding, simulation: simulateStepProgram(ratio, steps, base, samples) });
         }
       }
     }
