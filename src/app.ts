@@ -101,7 +101,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
 
   app.get("/health", async () => ({ status: "ok" }));
   await app.register(sizingRoutes);
-  await app.register(intervalAnalysesRoutes);
+  await app.register(intervalAnalysesRoutes, { store });
   await app.register(harmonicsRoutes);
   await app.register(buildingsRoutes, { store });
   await app.register(surveysRoutes, { store });

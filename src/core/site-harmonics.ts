@@ -133,9 +133,7 @@ export function studySiteHarmonics(
 function findingsAsWarnings(findings: HarmonicStudyResult["findings"]): Warning[] {
   const groups = new Map<string, HarmonicStudyResult["findings"]>();
   for (const f of findings) {
-    // Same limit, same bank, other stage: the message less its stage and figures.
-    const what = f.message.replace(/stage \d+ \([^)]*\)/g, "").replace(/\d+(\.\d+)?/g, "#");
-    const key = `${f.code}|${f.bankName ?? ""}|${what}`;
+    const key = `${f.code}|${f.bankName ?? ""}|${f.subject}`;
     const g = groups.get(key);
     if (g) g.push(f);
     else groups.set(key, [f]);

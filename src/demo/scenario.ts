@@ -13,6 +13,14 @@ export const DEMO_BUILDING: BuildingData = {
   system: { voltageV: 480, frequencyHz: 60, phases: 3 },
   transformer: { kVA: 1500, impedancePct: 5.75, xOverR: 6 },
   utility: { faultMVA: 250 },
+  // Invented tariff and prices for the demo: a PF-adjusted kW demand charge, two shifts.
+  economics: {
+    currency: "USD",
+    tariff: { form: "kw_demand_pf_adjusted", chargePerKW: 14.5, basePF: 0.9 },
+    operatingHoursPerMonth: 400,
+    losses: { lossesPct: 2.5, energyPricePerKWh: 0.11 },
+    cost: { perKvar: 38, perStep: 350, fixed: 4200 },
+  },
 };
 
 const commonLoads: SurveyInputs["loads"] = [

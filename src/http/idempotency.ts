@@ -54,15 +54,22 @@ function purgeNowAndThen(store: Store, nowMs: number): void {
 /**
  * Run a write in one transaction with its Idempotency-Key, if the request sent one: a replay
  * (same key, same method, URL and canonical body) answers the stored response and writes
- * nothing; the same key with another request is a 422. The key record commits with the write.
+ * nothing; the same key with another request is a 422. The key record commits with the write. `hashedBody` stands
+ * for the body when that is a stream (a digest of what was read).
  */
-export function idempotentWrite(store: Store, request: FastifyRequest, reply: FastifyReply, write: () => WriteOutcome): unknown {
+export function idempotentWrite(
+  store: Store,
+  request: FastifyRequest,
+  reply: FastifyReply,
+  write: () => WriteOutcome,
+  hashedBody: unknown = request.body,
+): unknown {
   const key = idempotencyKeyOf(request);
   const { orgId } = request.actor;
   const outcome = store.write(() => {
     const nowMs = store.now().getTime();
     purgeNowAndThen(store, nowMs);
-    const hash = key === undefined ? "" : requestHash(request.method, request.url, request.body);
+    const hash = key === undefined ? "" : requestHash(request.method, request.url, hashedBody);
     if (key !== undefined) {
       const prior = store.idempotency.find(orgId, key);
       if (prior && Date.parse(prior.createdAt) > nowMs - PURGE_MS) {

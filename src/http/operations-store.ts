@@ -1,3 +1,7 @@
+import { z } from "zod";
+import { INTERVAL_MAX_BYTES } from "./interval/ingest.js";
+import { INTERVAL_OPTION_DOCS } from "./interval/options.js";
+import { intervalAnalysisCreatedSchema, intervalAnalysisPageSchema, storedIntervalAnalysisSchema } from "./interval/schema.js";
 import type { Operation } from "./operations.js";
 import {
   buildingCreateSchema,
@@ -48,7 +52,8 @@ export const storeOperations: Operation[] = [
   },
   {
     method: "patch", path: "/v1/buildings/{id}", operationId: "updateBuilding", summary: "Change a building (keeps history)", tags: ["buildings"],
-    description: "Omitted fields stay; null clears address, notes, transformer or utility. A change makes a new version; an unchanged body writes nothing.",
+    description:
+      "Omitted fields stay; null clears address, notes, transformer, utility or economics (economics is replaced whole). A change makes a new version; an unchanged body writes nothing.",
     body: buildingPatchSchema, headers: idempotency,
     responses: { "200": { description: "the new current version", schema: buildingSchema } }, problems: [400, 404, 413, 415, 422],
   },
@@ -58,7 +63,9 @@ export const storeOperations: Operation[] = [
   },
   {
     method: "post", path: "/v1/buildings/{id}/surveys", operationId: "createSurvey", summary: "Record and size a survey", tags: ["surveys"],
-    description: "Sized with the building's system, transformer and utility; inputs, result, engine version and a snapshot of the building are stored.",
+    description:
+      "Sized with the building's system, transformer, utility and economics, and — when the building has stored interval analyses — the bank designed from one " +
+      "(intervalAnalysisId, or the newest; null for none). Inputs, result, engine version and a snapshot of the building (naming the analysis used) are stored.",
     body: surveyInputsSchema, headers: idempotency,
     responses: { "201": { description: "the survey's id, revision 1 and its result", schema: surveyCreatedSchema } },
     problems: [400, 404, 413, 415, 422],
@@ -80,7 +87,8 @@ export const storeOperations: Operation[] = [
   },
   {
     method: "post", path: "/v1/surveys/{id}/revisions", operationId: "reviseSurvey", summary: "Store a new revision of a survey", tags: ["surveys"],
-    description: "Surveys are immutable: a correction is a new revision with a reason, sized with the building's current data.",
+    description:
+      "Surveys are immutable: a correction is a new revision with a reason, sized with the building's current data (its economics and, as for a new survey, an interval analysis).",
     body: revisionInputsSchema, headers: idempotency,
     responses: { "201": { description: "the new revision's number and result", schema: surveyCreatedSchema } },
     problems: [400, 404, 413, 415, 422],
@@ -93,6 +101,26 @@ export const storeOperations: Operation[] = [
     method: "get", path: "/v1/surveys/{id}/loads.csv", operationId: "surveyLoadsCsv", summary: "The latest revision's loads as CSV", tags: ["surveys"],
     responses: { "200": { description: "RFC 4180 CSV, one row per load: measured then computed values; units in the header", contentType: "text/csv" } },
     problems: [404],
+  },
+  {
+    method: "post", path: "/v1/buildings/{id}/interval-analyses", operationId: "storeIntervalAnalysis", summary: "Analyse interval data and store it with a building",
+    tags: ["interval data"],
+    description:
+      `The same upload and options as POST /v1/interval-analyses (text/csv, or multipart/form-data with the CSV in field "file"; up to ${INTERVAL_MAX_BYTES / 1048576} MiB). ` +
+      "The summary (not the file) is stored with the building; later surveys of the building design their bank from it. " +
+      "Idempotency-Key: a replay is recognised by the query, media type, form fields and the SHA-256 of the uploaded bytes.",
+    body: z.string().describe("CSV text with a header line"), bodyType: "text/csv", query: INTERVAL_OPTION_DOCS, headers: idempotency,
+    responses: { "201": { description: "the stored analysis's id and the full analysis", schema: intervalAnalysisCreatedSchema } },
+    problems: [400, 404, 413, 415, 422],
+  },
+  {
+    method: "get", path: "/v1/buildings/{id}/interval-analyses", operationId: "listIntervalAnalyses", summary: "A building's stored interval analyses, newest first",
+    tags: ["interval data"], query: paging,
+    responses: { "200": { description: "a page, newest first", schema: intervalAnalysisPageSchema } }, problems: [400, 404],
+  },
+  {
+    method: "get", path: "/v1/interval-analyses/{id}", operationId: "getIntervalAnalysis", summary: "A stored interval analysis", tags: ["interval data"],
+    responses: { "200": { description: "the analysis's summary as stored", schema: storedIntervalAnalysisSchema } }, problems: [404],
   },
   {
     method: "get", path: "/v1/audit-log", operationId: "auditLog", summary: "Every write, newest first", tags: ["audit"],

@@ -1,22 +1,34 @@
-import type { SizingInput } from "../core/inputs.js";
+import type { IntervalDemandInput, SizingInput } from "../core/inputs.js";
+import { intervalDemandOf } from "../core/interval-demand.js";
 import { size, type SizingResult } from "../core/sizing.js";
-import type { BuildingRecord, BuildingSnapshot, NewRevision, SurveyInputs, SurveySummary } from "../store/types.js";
+import type { BuildingRecord, BuildingSnapshot, IntervalAnalysisRecord, NewRevision, SurveyInputs, SurveySummary } from "../store/types.js";
 import { utcInstant } from "./paging.js";
 import { engineIssuesTo400 } from "./validate.js";
 
 /** The translation between a stored building + submitted survey and the pure engine. */
 
-export function snapshotOf(b: BuildingRecord): BuildingSnapshot {
-  return { buildingVersion: b.version, system: b.system, transformer: b.transformer, utility: b.utility };
+/** The building's data a revision is computed with, and the id of the interval analysis used (null: none). */
+export function snapshotOf(b: BuildingRecord, intervalAnalysisId: string | null = null): BuildingSnapshot {
+  return {
+    buildingVersion: b.version,
+    system: b.system,
+    transformer: b.transformer,
+    utility: b.utility,
+    economics: b.economics,
+    intervalAnalysisId,
+  };
 }
 
-export function engineInputOf(snapshot: BuildingSnapshot, s: SurveyInputs): SizingInput {
-  const { surveyedAt: _at, surveyor: _by, notes: _notes, ...sizing } = s;
+/** `intervalDemand` comes from the analysis the snapshot names (the snapshot keeps only its id). */
+export function engineInputOf(snapshot: BuildingSnapshot, s: SurveyInputs, intervalDemand?: IntervalDemandInput): SizingInput {
+  const { surveyedAt: _at, surveyor: _by, notes: _notes, intervalAnalysisId: _ia, ...sizing } = s;
   return {
     ...sizing,
     system: snapshot.system,
     ...(snapshot.transformer ? { transformer: snapshot.transformer } : {}),
     ...(snapshot.utility ? { utility: snapshot.utility } : {}),
+    ...(snapshot.economics ? { economics: snapshot.economics } : {}),
+    ...(intervalDemand ? { intervalDemand } : {}),
   };
 }
 
@@ -39,10 +51,13 @@ export interface RevisionMeta {
   at: string;
 }
 
-/** Size the survey with the building's current data; the engine's plausibility issues are a 400. */
-export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta): NewRevision {
-  const snapshot = snapshotOf(building);
-  const outcome = size(engineInputOf(snapshot, inputs));
+/**
+ * Size the survey with the building's current data (and `analysis`, an interval analysis of the building, when
+ * given); the engine's plausibility issues are a 400.
+ */
+export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): NewRevision {
+  const snapshot = snapshotOf(building, analysis?.id ?? null);
+  const outcome = size(engineInputOf(snapshot, inputs, analysis ? intervalDemandOf(analysis.summary) : undefined));
   if (!outcome.ok) throw engineIssuesTo400(outcome.issues);
   return {
     surveyId: meta.surveyId,

@@ -1,4 +1,13 @@
-import type { BuildingRecord, BuildingVersion, RevisionRecord, RevisionListEntry, SurveyHead } from "../store/types.js";
+import type {
+  BuildingRecord,
+  BuildingSnapshot,
+  BuildingVersion,
+  IntervalAnalysisListEntry,
+  IntervalAnalysisRecord,
+  RevisionListEntry,
+  RevisionRecord,
+  SurveyHead,
+} from "../store/types.js";
 
 /** Store records → response bodies (field order fixed here, nothing computed). */
 
@@ -12,13 +21,19 @@ export function buildingView(b: BuildingRecord) {
     system: b.system,
     transformer: b.transformer,
     utility: b.utility,
+    economics: b.economics,
     createdAt: b.createdAt,
     updatedAt: b.updatedAt,
   };
 }
 
 export function buildingVersionView(v: BuildingVersion) {
-  return { version: v.version, recordedAt: v.recordedAt, actor: v.actor, ...v.data };
+  return { version: v.version, recordedAt: v.recordedAt, actor: v.actor, ...v.data, economics: v.data.economics ?? null };
+}
+
+/** Snapshots stored before economics and interval analyses existed lack those keys: they had none. */
+function snapshotView(s: BuildingSnapshot) {
+  return { ...s, economics: s.economics ?? null, intervalAnalysisId: s.intervalAnalysisId ?? null };
 }
 
 function revisionFields(r: RevisionRecord) {
@@ -31,7 +46,7 @@ function revisionFields(r: RevisionRecord) {
     engineVersion: r.engineVersion,
     inputs: r.inputs,
     result: r.result,
-    building: r.building,
+    building: snapshotView(r.building),
   };
 }
 
@@ -66,5 +81,34 @@ export function trendPointView(h: SurveyHead) {
     kvar: h.kvar,
     displacementPF: h.displacementPF,
     kvarRequired: h.kvarRequired,
+  };
+}
+
+export function intervalAnalysisView(a: IntervalAnalysisRecord) {
+  return {
+    id: a.id,
+    buildingId: a.buildingId,
+    createdAt: a.createdAt,
+    actor: a.actor,
+    targetPF: a.targetPF,
+    intervalCount: a.intervalCount,
+    intervalMinutes: a.intervalMinutes,
+    firstTimestamp: a.firstTimestamp,
+    lastTimestamp: a.lastTimestamp,
+    summary: a.summary,
+  };
+}
+
+export function intervalAnalysisListView(e: IntervalAnalysisListEntry) {
+  return {
+    id: e.id,
+    createdAt: e.createdAt,
+    targetPF: e.targetPF,
+    intervalCount: e.intervalCount,
+    intervalMinutes: e.intervalMinutes,
+    firstTimestamp: e.firstTimestamp,
+    lastTimestamp: e.lastTimestamp,
+    hold99PctKvar: e.hold99PctKvar,
+    minKvar: e.minKvar,
   };
 }

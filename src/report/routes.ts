@@ -39,10 +39,13 @@ function revisionOf(store: Store, orgId: string, id: string, n?: string): Revisi
   return latest;
 }
 
+/** The revision, its building's data at the snapshot, and the interval analysis the snapshot names (its duration curve). */
 function reportInputOf(store: Store, orgId: string, r: RevisionRecord): ReportInput {
   const current = store.buildings.get(orgId, r.buildingId);
   const atSnapshot = current && store.buildings.history(orgId, r.buildingId).find((v) => v.version === r.building.buildingVersion)?.data;
-  return surveyReportInput(r, atSnapshot ?? current);
+  const analysisId = r.building.intervalAnalysisId;
+  const interval = analysisId ? store.intervalAnalyses.get(orgId, analysisId)?.summary : undefined;
+  return { ...surveyReportInput(r, atSnapshot ?? current), ...(interval ? { interval } : {}) };
 }
 
 function sendHtml(reply: FastifyReply, html: string): FastifyReply {

@@ -1,14 +1,9 @@
 import type { Db } from "./database.js";
 import type { AuditEntry } from "./types.js";
 
-export interface AuditEvent {
+/** What a write records; the stored entry adds its row id. */
+export interface AuditEvent extends Omit<AuditEntry, "id"> {
   orgId: string;
-  actor: string;
-  action: string;
-  resourceType: string;
-  resourceId: string;
-  requestId: string | null;
-  at: string;
 }
 
 export type AuditRepo = ReturnType<typeof auditRepo>;

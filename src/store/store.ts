@@ -2,6 +2,7 @@ import { auditRepo } from "./audit-repo.js";
 import { buildingsRepo } from "./buildings-repo.js";
 import { enableWal, openDatabase, type Db } from "./database.js";
 import { idempotencyRepo } from "./idempotency-repo.js";
+import { intervalAnalysesRepo } from "./interval-analyses-repo.js";
 import { DEFAULT_MIGRATIONS_DIR, migrate, type MigrationReport } from "./migrate.js";
 import { surveysRepo } from "./surveys-repo.js";
 
@@ -21,6 +22,7 @@ export interface Store {
   now(): Date;
   readonly buildings: ReturnType<typeof buildingsRepo>;
   readonly surveys: ReturnType<typeof surveysRepo>;
+  readonly intervalAnalyses: ReturnType<typeof intervalAnalysesRepo>;
   readonly idempotency: ReturnType<typeof idempotencyRepo>;
   readonly audit: ReturnType<typeof auditRepo>;
   /** Run `fn` in one IMMEDIATE transaction: everything it writes commits together or not at all. */
@@ -51,6 +53,7 @@ export function openStore(options: StoreOptions): Store {
     now,
     buildings: buildingsRepo(db),
     surveys: surveysRepo(db),
+    intervalAnalyses: intervalAnalysesRepo(db),
     idempotency: idempotencyRepo(db),
     audit: auditRepo(db),
     write<T>(fn: () => T): T {

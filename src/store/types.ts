@@ -45,8 +45,8 @@ export interface SurveyInputs extends Omit<SizingInput, "system" | "transformer"
   surveyor: string;
   notes?: string;
   targetPF: number;
-  /** A stored interval analysis of the same building to size with; the building's newest when absent. */
-  intervalAnalysisId?: string;
+  /** A stored interval analysis of the same building to size with; the building's newest when absent; null: none. */
+  intervalAnalysisId?: string | null;
 }
 
 /** The building's data a revision was computed with. */
@@ -78,8 +78,10 @@ export interface IntervalAnalysisRecord {
   summary: IntervalSummary;
 }
 
-/** A list entry: the record without its summary (read from columns, no JSON parsed). */
-export type IntervalAnalysisListEntry = Omit<IntervalAnalysisRecord, "summary" | "actor" | "requestId">;
+/** A list entry: the record without its summary (read from columns, no JSON parsed); seq is the list position. */
+export interface IntervalAnalysisListEntry extends Omit<IntervalAnalysisRecord, "summary" | "actor" | "requestId"> {
+  seq: number;
+}
 
 /** Figures from a result, kept in columns so lists and trends do not parse JSON. */
 export interface SurveySummary {

@@ -16,6 +16,7 @@ const data: BuildingData = {
   system: { voltageV: 400, frequencyHz: 50, phases: 3 },
   transformer: { kVA: 800, impedancePct: 5, xOverR: 7 },
   utility: null,
+  economics: null,
 };
 const inputs = surveyBody() as unknown as SurveyInputs;
 const at = "2025-06-01T10:00:00.000Z";
@@ -82,7 +83,7 @@ describe("surveys repository", () => {
     expect(r?.inputs).toEqual(inputs);
     const expected = size({ ...inputs, system: data.system, transformer: data.transformer! });
     expect(expected.ok && r?.result).toEqual(expected.ok ? expected.result : null);
-    expect(r?.building).toEqual({ buildingVersion: 1, system: data.system, transformer: data.transformer, utility: null });
+    expect(r?.building).toEqual({ buildingVersion: 1, system: data.system, transformer: data.transformer, utility: null, economics: null, intervalAnalysisId: null });
     const head = store.surveys.head(ORG, id);
     expect(head).toMatchObject({ revision: 1, surveyedAtUtc: "2024-05-02T08:00:00.000Z", kW: r?.result.site.kW, kvarRequired: r?.result.correction.kvarRequired });
     expect(r?.inputs).not.toHaveProperty("result");

@@ -1,17 +1,8 @@
 /** Rules for capacitors at a motor's terminals: which starters forbid them, the self-excitation limit, new current. */
 import { SQRT3, type Phases } from "../conventions.js";
-import type { LoadKind } from "../inputs.js";
+import type { LoadKind, StartingMethod } from "../inputs.js";
 
-/** How a motor is started and run. Proposed field for loads (`starting`). */
-export type StartingMethod =
-  | "across_the_line"
-  | "star_delta"
-  | "soft_starter"
-  | "reduced_voltage"
-  | "jogging"
-  | "plugging"
-  | "reversing"
-  | "multi_speed";
+export type { StartingMethod };
 
 export const STARTING_METHODS: readonly StartingMethod[] = [
   "across_the_line",

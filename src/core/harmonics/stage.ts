@@ -78,6 +78,8 @@ export type FindingCode =
 export interface Finding {
   code: FindingCode;
   message: string;
+  /** What failed, stable across stages (e.g. "thd", "order 13", "rmsCurrent"), for grouping. */
+  subject: string;
   bankName?: string;
   stageNumber?: number;
 }
@@ -161,11 +163,12 @@ export function busFindings(bus: BusStudy, where: string, at: Pick<Finding, "ban
   const out: Finding[] = [];
   const { thd, individual, limits } = bus.ieee519;
   if (!thd.pass)
-    out.push({ code: "thd_v_exceeds_limit", message: `${where}: THD_v ${f1(thd.valuePct)} % exceeds the IEEE 519 limit of ${f1(thd.limitPct)} %`, ...at });
+    out.push({ code: "thd_v_exceeds_limit", subject: "thd", message: `${where}: THD_v ${f1(thd.valuePct)} % exceeds the IEEE 519 limit of ${f1(thd.limitPct)} %`, ...at });
   for (const line of bus.distortion.lines)
     if (line.voltagePct > limits.individualPct)
       out.push({
         code: "individual_harmonic_exceeds_limit",
+        subject: `order ${line.order}`,
         message: `${where}: order ${line.order} at ${f1(line.voltagePct)} % exceeds the IEEE 519 individual limit of ${f1(limits.individualPct)} %`,
         ...at,
       });
@@ -173,6 +176,7 @@ export function busFindings(bus: BusStudy, where: string, at: Pick<Finding, "ban
     const peak = bus.peaks.find((p) => Math.abs(p.order - n) <= 0.1 * n);
     out.push({
       code: "resonance_near_harmonic",
+      subject: `order ${n}`,
       message: `${where}: parallel resonance at h = ${peak ? peak.order.toFixed(2) : "?"} is within ±10 % of present order ${n}`,
       ...at,
     });
@@ -197,10 +201,11 @@ export function bankFindings(bank: BankStudy): Finding[] {
     for (const [key, label] of DUTY_NAMES) {
       const q: DutyQuantity = stage.duty[key];
       if (!q.pass)
-        out.push({ code: "capacitor_duty_exceeds_limit", message: `${where}: capacitor ${label} ${f1(q.valuePct)} % of rating exceeds the IEEE 18 limit of ${q.limitPct} %`, ...at });
+        out.push({ code: "capacitor_duty_exceeds_limit", subject: key, message: `${where}: capacitor ${label} ${f1(q.valuePct)} % of rating exceeds the IEEE 18 limit of ${q.limitPct} %`, ...at });
       else if (q.aboveRating)
         out.push({
           code: "capacitor_above_rating",
+          subject: key,
           message: `${where}: capacitor ${label} ${f1(q.valuePct)} % of rating is above 100 % (IEEE 18 limits are for contingencies, not a design basis)`,
           ...at,
         });

@@ -64,3 +64,44 @@ export const intervalOperation: Operation = {
   responses: { "200": { description: "the analysis", schema: intervalResultSchema } },
   problems: [400, 413, 415, 422],
 };
+
+/** Responses of the analyses stored with a building (documentation; the answers are built in src/http/views.ts). */
+const summaryDoc = intervalResultSchema.shape.summary;
+
+export const intervalAnalysisCreatedSchema = z.object({
+  id: z.string(),
+  buildingId: z.string(),
+  createdAt: z.string(),
+  ...intervalResultSchema.shape,
+});
+
+export const storedIntervalAnalysisSchema = z.object({
+  id: z.string(),
+  buildingId: z.string(),
+  createdAt: z.string(),
+  actor: z.string(),
+  targetPF: z.number(),
+  intervalCount: z.number().int(),
+  intervalMinutes: z.number(),
+  firstTimestamp: z.string(),
+  lastTimestamp: z.string(),
+  summary: summaryDoc,
+});
+
+export const intervalAnalysisPageSchema = z.object({
+  buildingId: z.string(),
+  items: z.array(
+    z.object({
+      id: z.string(),
+      createdAt: z.string(),
+      targetPF: z.number(),
+      intervalCount: z.number().int(),
+      intervalMinutes: z.number(),
+      firstTimestamp: z.string(),
+      lastTimestamp: z.string(),
+      hold99PctKvar: z.number().describe("kvar that holds the target PF in 99 % of intervals"),
+      minKvar: z.number().describe("minimum reactive demand: the fixed-part limit"),
+    }),
+  ),
+  nextCursor: z.string().nullable().describe("pass as ?cursor= for the next page; null on the last page"),
+});

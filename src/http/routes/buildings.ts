@@ -23,6 +23,7 @@ function normalised(d: BuildingData): BuildingData {
     system: { voltageV: d.system.voltageV, frequencyHz: d.system.frequencyHz, phases: d.system.phases },
     transformer: d.transformer,
     utility: d.utility,
+    economics: d.economics ?? null,
   };
 }
 
@@ -35,6 +36,7 @@ function patched(current: BuildingRecord, p: BuildingPatch): BuildingData {
     system: p.system ?? d.system,
     transformer: p.transformer === undefined ? d.transformer : p.transformer,
     utility: p.utility === undefined ? d.utility : p.utility,
+    economics: p.economics === undefined ? d.economics : p.economics,
   });
 }
 
@@ -59,6 +61,7 @@ export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store
         system: body.system,
         transformer: body.transformer ?? null,
         utility: body.utility ?? null,
+        economics: body.economics ?? null,
       });
       const b = store.buildings.create(orgId, newId("bld"), data, actorId, at);
       store.audit.record({ orgId, actor: actorId, action: "building.create", resourceType: "building", resourceId: b.id, requestId: request.id, at });

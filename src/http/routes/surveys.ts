@@ -2,14 +2,28 @@ import type { FastifyInstance } from "fastify";
 import { z } from "zod";
 import { newId } from "../../store/ids.js";
 import type { Store } from "../../store/store.js";
+import type { IntervalAnalysisRecord } from "../../store/types.js";
 import { idempotentWrite } from "../idempotency.js";
-import { notFound, ProblemError } from "../problem.js";
+import { notFound, ProblemError, validationProblem } from "../problem.js";
 import { revisionInputsSchema, surveyInputsSchema } from "../schemas/surveys.js";
 import { computeRevision } from "../survey-sizing.js";
 import { parseOr400 } from "../validate.js";
 import { findBuilding } from "./buildings.js";
 
 const idParams = z.object({ id: z.string() });
+
+/**
+ * The interval analysis a survey of the building is sized with: the one named (it must be the same building's),
+ * none when null, else the building's newest (none when it has none).
+ */
+export function analysisFor(store: Store, orgId: string, buildingId: string, requested: string | null | undefined): IntervalAnalysisRecord | undefined {
+  if (requested === null) return undefined;
+  if (requested === undefined) return store.intervalAnalyses.newestOf(orgId, buildingId);
+  const a = store.intervalAnalyses.get(orgId, requested);
+  if (a && a.buildingId === buildingId) return a;
+  const message = `building ${buildingId} has no interval analysis ${requested}; see GET /v1/buildings/${buildingId}/interval-analyses`;
+  throw new ProblemError(validationProblem([{ path: "intervalAnalysisId", message }]));
+}
 
 /** Writes of surveys: a new survey, and new revisions of one (nothing is ever changed in place). */
 export async function surveysRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
@@ -23,7 +37,8 @@ export async function surveysRoutes(app: FastifyInstance, opts: { store: Store }
       const building = findBuilding(store, orgId, buildingId);
       const at = store.now().toISOString();
       const surveyId = newId("srv");
-      const first = computeRevision(building, inputs, { surveyId, n: 1, reason: null, actor: actorId, at });
+      const analysis = analysisFor(store, orgId, buildingId, inputs.intervalAnalysisId);
+      const first = computeRevision(building, inputs, { surveyId, n: 1, reason: null, actor: actorId, at }, analysis);
       store.surveys.create(orgId, buildingId, first);
       store.audit.record({ orgId, actor: actorId, action: "survey.create", resourceType: "survey", resourceId: surveyId, requestId: request.id, at });
       return {
@@ -44,7 +59,8 @@ export async function surveysRoutes(app: FastifyInstance, opts: { store: Store }
       const building = findBuilding(store, orgId, head.buildingId);
       const at = store.now().toISOString();
       const n = head.revision + 1;
-      const next = computeRevision(building, inputs, { surveyId, n, reason, actor: actorId, at });
+      const analysis = analysisFor(store, orgId, head.buildingId, inputs.intervalAnalysisId);
+      const next = computeRevision(building, inputs, { surveyId, n, reason, actor: actorId, at }, analysis);
       if (!store.surveys.revise(orgId, next)) throw new Error(`survey ${surveyId} moved inside its own transaction`);
       store.audit.record({ orgId, actor: actorId, action: "survey.revise", resourceType: "survey", resourceId: surveyId, requestId: request.id, at });
       return {

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { systemSchema, transformerSchema, utilitySchema } from "./sizing.js";
+import { economicsSchema, systemSchema, transformerSchema, utilitySchema } from "./sizing.js";
 
 /** Request and response schemas of /v1/buildings. */
 
@@ -14,6 +14,7 @@ export const buildingCreateSchema = z.strictObject({
   system: systemSchema,
   transformer: transformerSchema.optional(),
   utility: utilitySchema.optional(),
+  economics: economicsSchema.optional().describe("tariff and costs: surveys of the building get savings and payback"),
 });
 
 /** Partial update: omitted fields stay; null clears an optional one. */
@@ -25,6 +26,7 @@ export const buildingPatchSchema = z
     system: systemSchema.optional(),
     transformer: transformerSchema.nullable().optional(),
     utility: utilitySchema.nullable().optional(),
+    economics: economicsSchema.nullable().optional().describe("replaces the whole settings; null clears them"),
   })
   .refine((p) => Object.keys(p).length > 0, "send at least one field to change");
 
@@ -37,10 +39,20 @@ export const buildingListQuerySchema = z.strictObject({
   cursor: z.string().optional(),
 });
 
+/** The stored EconomicsSettings as responses show them (documentation; the request side is economicsSchema). */
+export const economicsSettingsViewSchema = z.object({
+  currency: z.string(),
+  tariff: z.object({ form: z.string() }).loose(),
+  operatingHoursPerMonth: z.number().optional(),
+  losses: z.object({ lossesPct: z.number(), energyPricePerKWh: z.number() }).optional(),
+  cost: z.object({ perKvar: z.number().optional(), perStep: z.number().optional(), fixed: z.number().optional() }).optional(),
+});
+
 const electrical = {
   system: z.object({ voltageV: z.number(), frequencyHz: z.number(), phases: z.number() }),
   transformer: z.object({ kVA: z.number(), impedancePct: z.number(), xOverR: z.number().optional() }).nullable(),
   utility: z.object({ faultMVA: z.number() }).nullable(),
+  economics: economicsSettingsViewSchema.nullable().describe("tariff and costs; null when none"),
 };
 
 export const buildingSchema = z.object({

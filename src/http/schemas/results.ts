@@ -205,7 +205,7 @@ const ieee519 = z.object({
   individual: limitCheck.extend({ order: z.number().nullable() }),
   pass: z.boolean(),
 });
-const finding = z.object({ code: z.string(), message: z.string(), bankName: z.string().optional(), stageNumber: z.number().optional() });
+const finding = z.object({ code: z.string(), message: z.string(), subject: z.string(), bankName: z.string().optional(), stageNumber: z.number().optional() });
 
 function busStudy(line: z.ZodType) {
   return {

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { economicsSettingsViewSchema } from "./buildings.js";
 import { sizingResultSchema } from "./results.js";
 import {
   backgroundDistortionSchema,
@@ -29,6 +30,14 @@ export const surveyInputsSchema = z.strictObject({
   backgroundVoltageDistortion: backgroundDistortionSchema.optional(),
   lightLoad: serviceEntranceSchema.optional(),
   bankDesign: bankDesignSchema.optional(),
+  intervalAnalysisId: z
+    .string({ error: "intervalAnalysisId must be a string or null" })
+    .trim()
+    .min(1, "intervalAnalysisId must not be empty")
+    .max(100, "intervalAnalysisId must be at most 100 characters")
+    .nullable()
+    .optional()
+    .describe("a stored interval analysis of this building to design the bank from; absent: the building's newest, if any; null: none"),
 });
 
 export const revisionInputsSchema = surveyInputsSchema.extend({
@@ -57,6 +66,8 @@ export const buildingSnapshotSchema = z.object({
   system: z.object({ voltageV: z.number(), frequencyHz: z.number(), phases: z.number() }),
   transformer: z.object({ kVA: z.number(), impedancePct: z.number(), xOverR: z.number().optional() }).nullable(),
   utility: z.object({ faultMVA: z.number() }).nullable(),
+  economics: economicsSettingsViewSchema.nullable().describe("the building's tariff and costs the economics were computed with"),
+  intervalAnalysisId: z.string().nullable().describe("the interval analysis the bank design rests on; null when none"),
 });
 
 export const surveyCreatedSchema = z.object({
@@ -75,7 +86,7 @@ const revisionFields = {
   engineVersion: z.string(),
   inputs: surveyInputsSchema,
   result: sizingResultSchema.describe("as computed when the revision was stored, never recomputed"),
-  building: buildingSnapshotSchema.describe("the building's electrical data the result was computed with"),
+  building: buildingSnapshotSchema.describe("the building's data the result was computed with"),
 };
 
 export const revisionSchema = z.object({ surveyId: z.string(), ...revisionFields });

@@ -1,0 +1,57 @@
+import type { FastifyInstance } from "fastify";
+import { z } from "zod";
+import { newId } from "../../store/ids.js";
+import type { Store } from "../../store/store.js";
+import { idempotencyKeyOf, idempotentWrite } from "../idempotency.js";
+import { INTERVAL_MAX_BYTES } from "../interval/ingest.js";
+import { analyseUpload } from "../interval/upload.js";
+import { decodeCursor, encodeCursor, pageOf, parseLimit } from "../paging.js";
+import { notFound, ProblemError } from "../problem.js";
+import { parseOr400 } from "../validate.js";
+import { intervalAnalysisListView, intervalAnalysisView } from "../views.js";
+import { findBuilding } from "./buildings.js";
+
+const idParams = z.object({ id: z.string() });
+const listQuery = z.strictObject({ limit: z.string().optional(), cursor: z.string().optional() });
+const analysisCursor = z.object({ k: z.literal("ia"), s: z.number().int().positive() });
+
+/** Interval analyses stored with a building: upload (analysed as POST /v1/interval-analyses does), read, list. */
+export function storedIntervalRoutes(app: FastifyInstance, store: Store): void {
+  app.post("/v1/buildings/:id/interval-analyses", { bodyLimit: INTERVAL_MAX_BYTES }, async (request, reply) => {
+    const { id: buildingId } = parseOr400(idParams, request.params);
+    const { orgId, actorId } = request.actor;
+    // Header and building first: neither needs the upload, which may be 64 MiB.
+    const key = idempotencyKeyOf(request);
+    findBuilding(store, orgId, buildingId);
+    const { answer, digest } = await analyseUpload(request, { digest: key !== undefined });
+    const write = () => {
+      findBuilding(store, orgId, buildingId);
+      const at = store.now().toISOString();
+      const id = newId("iva");
+      store.intervalAnalyses.create(orgId, { id, buildingId, createdAt: at, actor: actorId, requestId: request.id, summary: answer.summary });
+      store.audit.record({ orgId, actor: actorId, action: "interval_analysis.create", resourceType: "interval_analysis", resourceId: id, requestId: request.id, at });
+      return { status: 201, body: { id, buildingId, createdAt: at, ...answer }, location: `/v1/interval-analyses/${id}` };
+    };
+    // The body was a stream: a replay is recognised by the upload's digest (media type, form fields, SHA-256 of the bytes).
+    return idempotentWrite(store, request, reply, write, digest ?? null);
+  });
+
+  app.get("/v1/interval-analyses/:id", async (request) => {
+    const { id } = parseOr400(idParams, request.params);
+    const a = store.intervalAnalyses.get(request.actor.orgId, id);
+    if (!a) throw new ProblemError(notFound(`interval analysis ${id}`));
+    return intervalAnalysisView(a);
+  });
+
+  app.get("/v1/buildings/:id/interval-analyses", async (request) => {
+    const { id } = parseOr400(idParams, request.params);
+    const query = parseOr400(listQuery, request.query);
+    const limit = parseLimit(query.limit);
+    const before = decodeCursor("ia", analysisCursor, query.cursor);
+    const { orgId } = request.actor;
+    findBuilding(store, orgId, id);
+    const rows = store.intervalAnalyses.listByBuilding(orgId, id, { ...(before ? { beforeSeq: before.s } : {}), limit: limit + 1 });
+    const page = pageOf(rows, limit, (last) => encodeCursor("ia", { s: last.seq }));
+    return { buildingId: id, items: page.items.map(intervalAnalysisListView), nextCursor: page.nextCursor };
+  });
+}
