@@ -19,6 +19,8 @@ declare module "autocannon" {
     duration?: number;
     pipelining?: number;
     timeout?: number;
+    /** Each connection sends these in turn, round and round. */
+    requests?: { method?: "GET" | "POST" | "PUT" | "PATCH" | "DELETE"; path?: string; headers?: Record<string, string>; body?: string }[];
     /** Run the load generator in this many worker threads instead of the calling thread. */
     workers?: number;
   }

@@ -1,7 +1,14 @@
 import autocannon from "autocannon";
 import type { FastifyInstance } from "fastify";
 import { buildApp } from "../src/app.js";
+import { generateKey } from "../src/auth/keys.js";
 import { defaultConfig, type Config } from "../src/config.js";
+
+/** The admin key every bench app bootstraps with (PFC_BOOTSTRAP_KEY); bench requests send AUTH. */
+export const BENCH_KEY = generateKey().key;
+export const AUTH = { authorization: `Bearer ${BENCH_KEY}` } as const;
+/** Bench config: the bench key, and no rate limit in the way of the load generator. */
+export const BENCH_CONFIG: Partial<Config> = { PFC_BOOTSTRAP_KEY: BENCH_KEY, RATE_LIMIT_PER_MINUTE: 10_000_000 };
 
 /** Knobs shared by every HTTP section; read once from the environment by bench/run.ts. */
 export interface Knobs {
@@ -36,7 +43,7 @@ export interface RunningApp {
  * without demo data. `extend` may register bench-only routes before the app starts.
  */
 export async function startApp(extend?: (app: FastifyInstance) => void, overrides: Partial<Config> = {}): Promise<RunningApp> {
-  const config = defaultConfig({ LOG_LEVEL: "silent", DATABASE_PATH: ":memory:", DEMO_DATA: "off", ...overrides });
+  const config = defaultConfig({ LOG_LEVEL: "silent", DATABASE_PATH: ":memory:", DEMO_DATA: "off", ...BENCH_CONFIG, ...overrides });
   const app = await buildApp({ config, logger: { level: "silent" } });
   extend?.(app);
   const baseUrl = await app.listen({ host: "127.0.0.1", port: 0 });
@@ -57,7 +64,7 @@ export async function postLoad(url: string, body: string, seconds: number, conne
   const r = await autocannon({
     url,
     method: "POST",
-    headers: { "content-type": "application/json" },
+    headers: { "content-type": "application/json", ...AUTH },
     body,
     connections,
     duration: seconds,

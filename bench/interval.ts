@@ -12,6 +12,7 @@ import { join } from "node:path";
 import { pathToFileURL } from "node:url";
 import { buildApp } from "../src/app.js";
 import { defaultConfig } from "../src/config.js";
+import { AUTH, BENCH_CONFIG } from "./http.js";
 
 const ROWS = 525_600;
 const RUNS = 3;
@@ -63,7 +64,7 @@ async function bare(path: string): Promise<number> {
 function upload(port: number, path: string): Promise<{ status: number; body: string }> {
   return new Promise((resolve, reject) => {
     const req = request(
-      { host: "127.0.0.1", port, method: "POST", path: `/v1/interval-analyses?${QUERY}`, headers: { "content-type": "text/csv", "content-length": statSync(path).size } },
+      { host: "127.0.0.1", port, method: "POST", path: `/v1/interval-analyses?${QUERY}`, headers: { "content-type": "text/csv", "content-length": statSync(path).size, ...AUTH } },
       (res) => {
         const chunks: Buffer[] = [];
         res.on("data", (c: Buffer) => chunks.push(c));
@@ -81,7 +82,7 @@ const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.len
 export async function benchInterval(): Promise<{ lines: string[]; uploadMs: number; bareMs: number; ratio: number; peakRssMB: number }> {
   const dir = mkdtempSync(join(tmpdir(), "pfc-bench-interval-"));
   const file = join(dir, "year.csv");
-  const app = await buildApp({ config: defaultConfig({ DATABASE_PATH: join(dir, "bench.sqlite"), DEMO_DATA: "off", LOG_LEVEL: "silent" }), logger: false });
+  const app = await buildApp({ config: defaultConfig({ DATABASE_PATH: join(dir, "bench.sqlite"), DEMO_DATA: "off", LOG_LEVEL: "silent", ...BENCH_CONFIG }), logger: false });
   try {
     await writeYear(file);
     const sizeMB = statSync(file).size / 1e6;

@@ -1,6 +1,7 @@
 /**
  * `npm run bench`: every section in turn, then one summary table.
  * Knobs: BENCH_SECONDS (10), BENCH_CONNECTIONS (10), BENCH_WARMUP_SECONDS (3) for the HTTP sections;
+ * BENCH_LOAD_SECONDS (60) for the mixed load at 100 connections;
  * BENCH_ONLY=name,name to run some sections; BENCH_STRICT=1 exits 1 when a goal is missed.
  * Add a section: a module exporting an async function (knobs) => SectionResult, listed in SECTIONS.
  */
@@ -10,6 +11,15 @@ import type { BenchSection, SummaryRow } from "./section.js";
 import { benchSizing } from "./sizing.js";
 import { benchSurveys } from "./surveys.js";
 import { benchInterval } from "./interval.js";
+import { benchLoad } from "./load.js";
+
+function loadSeconds(env: NodeJS.ProcessEnv): number {
+  const raw = env.BENCH_LOAD_SECONDS;
+  if (raw === undefined || raw === "") return 60;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 1) throw new Error(`BENCH_LOAD_SECONDS must be an integer ≥ 1, got ${JSON.stringify(raw)}`);
+  return n;
+}
 
 const SECTIONS: BenchSection[] = [
   { name: "sizing", run: benchSizing },
@@ -60,6 +70,7 @@ const SECTIONS: BenchSection[] = [
       };
     },
   },
+  { name: "load", run: () => benchLoad({ seconds: loadSeconds(process.env) }) },
 ];
 
 function table(rows: SummaryRow[]): string {

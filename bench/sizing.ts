@@ -1,5 +1,5 @@
 import { twentyLoadBody } from "./bodies.js";
-import { postLoad, startApp, type Knobs } from "./http.js";
+import { AUTH, postLoad, startApp, type Knobs } from "./http.js";
 import type { SectionResult } from "./section.js";
 import { sizingRequestSchema } from "../src/http/schemas/sizing.js";
 import { parseOr400 } from "../src/http/validate.js";
@@ -34,7 +34,7 @@ export async function benchSizing(knobs: Knobs): Promise<SectionResult> {
     const bareUrl = `${running.baseUrl}${BARE_PATH}`;
 
     // the body must be a valid request, or the bench would measure 400s
-    const probe = await fetch(sizingUrl, { method: "POST", headers: { "content-type": "application/json" }, body });
+    const probe = await fetch(sizingUrl, { method: "POST", headers: { "content-type": "application/json", ...AUTH }, body });
     if (probe.status !== 200) throw new Error(`the bench body is rejected: ${probe.status} ${(await probe.text()).slice(0, 300)}`);
     const answer = await probe.text();
     stored = JSON.parse(answer);

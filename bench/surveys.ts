@@ -4,6 +4,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { buildApp } from "../src/app.js";
 import { defaultConfig } from "../src/config.js";
+import { AUTH, BENCH_CONFIG } from "./http.js";
 import { size } from "../src/core/sizing.js";
 import { surveyInputsSchema } from "../src/http/schemas/surveys.js";
 import { computeRevision } from "../src/http/survey-sizing.js";
@@ -55,7 +56,7 @@ function surveyOf20Loads() {
 
 async function load(url: string, body: string, seconds: number, connections: number): Promise<AutocannonResult> {
   // the load generator runs in a worker thread, so the server keeps the main thread to itself
-  return autocannon({ url, method: "POST", headers: { "content-type": "application/json" }, body, connections, duration: seconds, workers: 1 });
+  return autocannon({ url, method: "POST", headers: { "content-type": "application/json", ...AUTH }, body, connections, duration: seconds, workers: 1 });
 }
 
 function rawTransactions(dir: string, seconds: number): number {
@@ -108,7 +109,7 @@ export async function benchSurveys(opts: { seconds: number; connections: number 
 }> {
   const dir = mkdtempSync(join(tmpdir(), "pfc-bench-"));
   const app = await buildApp({
-    config: defaultConfig({ DATABASE_PATH: join(dir, "http.sqlite"), DEMO_DATA: "off", LOG_LEVEL: "silent" }),
+    config: defaultConfig({ DATABASE_PATH: join(dir, "http.sqlite"), DEMO_DATA: "off", LOG_LEVEL: "silent", ...BENCH_CONFIG }),
     logger: false,
   });
   app.post("/bench/bare", async (request) => {
@@ -117,7 +118,7 @@ export async function benchSurveys(opts: { seconds: number; connections: number 
   });
   try {
     const base = await app.listen({ port: 0, host: "127.0.0.1" });
-    const created = await app.inject({ method: "POST", url: "/v1/buildings", payload: BUILDING });
+    const created = await app.inject({ method: "POST", url: "/v1/buildings", payload: BUILDING, headers: AUTH });
     const buildingId = (created.json() as { id: string }).id;
     const body = JSON.stringify(surveyOf20Loads());
     const surveysUrl = `${base}/v1/buildings/${buildingId}/surveys`;

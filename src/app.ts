@@ -2,7 +2,10 @@ import { randomUUID } from "node:crypto";
 import Fastify, { type FastifyInstance, type FastifyServerOptions } from "fastify";
 import type { Config } from "./config.js";
 import { seedDemo } from "./demo/seed.js";
+import { bootstrapAdminKey } from "./auth/bootstrap.js";
 import { installActor } from "./http/actor.js";
+import { installSecurity } from "./http/security.js";
+import { keysRoutes } from "./http/routes/keys.js";
 import { auditRoutes } from "./http/routes/audit.js";
 import { buildingsRoutes } from "./http/routes/buildings.js";
 import { docsRoutes } from "./http/routes/docs.js";
@@ -32,7 +35,15 @@ export interface AppOptions {
   migrationsDir?: string;
   /** Clock for stored timestamps, for tests. */
   now?: () => Date;
+  /**
+   * Called once with the admin key generated for a database without keys (PFC_BOOTSTRAP_KEY unset).
+   * Default: one dedicated line on stdout — the only place a key is ever written; never the request log.
+   */
+  onGeneratedKey?: (key: string) => void;
 }
+
+const printKey = (key: string) =>
+  process.stdout.write(`pfc-sizing: no API key existed; the first admin key (shown this once, store it now): ${key}\n`);
 
 /** Build the application. It never listens: src/server.ts does. */
 export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
@@ -46,6 +57,8 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     });
   try {
     if (config.DEMO_DATA === "on") seedDemo(store);
+    const boot = bootstrapAdminKey(store, config.PFC_BOOTSTRAP_KEY);
+    if (boot.generated) (options.onGeneratedKey ?? printKey)(boot.generated);
     return await assemble(options, store);
   } catch (err) {
     store.close();
@@ -56,8 +69,10 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
 async function assemble(options: AppOptions, store: Store): Promise<FastifyInstance> {
   const { config } = options;
   const app = Fastify({
-    logger: options.logger ?? { level: config.LOG_LEVEL },
+    logger: options.logger ?? { level: config.LOG_LEVEL, redact: ["req.headers.authorization"] },
     bodyLimit: config.BODY_LIMIT_BYTES,
+    requestTimeout: config.REQUEST_TIMEOUT_MS,
+    connectionTimeout: config.REQUEST_TIMEOUT_MS,
     genReqId: (req) => {
       const given = req.headers["x-request-id"];
       return typeof given === "string" && /^[\w.:-]{1,128}$/.test(given) ? given : randomUUID();
@@ -72,7 +87,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
   });
 
   app.setErrorHandler((error: Error & { code?: string; statusCode?: number }, request, reply) => {
-    if (error instanceof ProblemError) return sendProblem(reply, error.problem);
+    if (error instanceof ProblemError) return sendProblem(reply.headers(error.headers), error.problem);
     const status = error.statusCode ?? 500;
     if (error.code === "FST_ERR_CTP_BODY_TOO_LARGE" || status === 413) {
       const limit = request.routeOptions?.bodyLimit ?? config.BODY_LIMIT_BYTES;
@@ -97,7 +112,8 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
 
   app.decorate("store", store);
   app.addHook("onClose", async () => store.close());
-  installActor(app);
+  installActor(app, store);
+  await installSecurity(app, config);
 
   app.get("/health", async () => ({ status: "ok" }));
   await app.register(sizingRoutes);
@@ -108,6 +124,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
   await app.register(surveyReadRoutes, { store });
   await app.register(reportRoutes, { store });
   await app.register(auditRoutes, { store });
+  await app.register(keysRoutes, { store });
   await app.register(docsRoutes);
   return app;
 }

@@ -1,4 +1,11 @@
 import { z } from "zod";
+import { KEY_PATTERN } from "./auth/keys.js";
+
+/** "https://a.example, http://localhost:5173" → origins; each must be scheme://host[:port] without a path. */
+export function corsOrigins(value: string): string[] {
+  return value.split(",").map((o) => o.trim()).filter((o) => o !== "");
+}
+const ORIGIN = /^https?:\/\/[A-Za-z0-9.-]+(:\d{1,5})?$/;
 
 const schema = z.object({
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
@@ -7,6 +14,15 @@ const schema = z.object({
   DATABASE_PATH: z.string().min(1).default("./data/pfc.sqlite"),
   DEMO_DATA: z.enum(["on", "off"]).default("on"),
   BODY_LIMIT_BYTES: z.coerce.number().int().min(1024).max(64 * 1024 * 1024).default(1024 * 1024),
+  /** The first admin key, used only when the database has no key yet; otherwise one is generated and printed once. */
+  PFC_BOOTSTRAP_KEY: z.string().regex(KEY_PATTERN, "must look like pfc_<8 characters>_<43 base64url characters>").optional(),
+  RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).max(10_000_000).default(600),
+  /** Comma-separated origins allowed by CORS; empty: no cross-origin access. */
+  CORS_ORIGINS: z
+    .string()
+    .refine((v) => corsOrigins(v).every((o) => ORIGIN.test(o)), "must be a comma-separated list of origins such as https://app.example")
+    .default(""),
+  REQUEST_TIMEOUT_MS: z.coerce.number().int().min(1000).max(600_000).default(30_000),
 });
 
 export type Config = z.infer<typeof schema>;

@@ -20,7 +20,8 @@ function operationObject(op: Operation): Json {
       ...(r.contentType && !r.schema ? { content: { [r.contentType]: { schema: { type: "string" } } } } : {}),
     };
   }
-  for (const status of op.problems ?? [400]) {
+  const secured = op.path.startsWith("/v1/");
+  for (const status of [...(op.problems ?? [400]), ...(secured ? [401, 403, 429] : [])]) {
     responses[String(status)] = {
       description: "problem details (RFC 9457)",
       content: { "application/problem+json": { schema: { $ref: "#/components/schemas/Problem" } } },
@@ -46,6 +47,7 @@ function operationObject(op: Operation): Json {
       ? { requestBody: { required: true, content: { [op.bodyType ?? "application/json"]: { schema: schemaOf(op.body, "input") } } } }
       : {}),
     responses,
+    ...(secured ? { security: [{ apiKey: [] }] } : {}),
   };
 }
 
@@ -65,6 +67,11 @@ export function openapiDocument(): Json {
         "Sizes power-factor correction from field readings: kvar to a target PF, a bank of standard steps, resonance with the supply, and the safety cautions. kvar > 0 is lagging, < 0 leading.",
     },
     paths,
-    components: { schemas: { Problem: schemaOf(problemSchema, "output") } },
+    components: {
+      schemas: { Problem: schemaOf(problemSchema, "output") },
+      securitySchemes: {
+        apiKey: { type: "http", scheme: "bearer", description: "An API key: Authorization: Bearer pfc_<prefix>_<secret>. admin: keys, buildings, surveys; surveyor: create buildings and surveys, read; auditor: read, including history and the audit log." },
+      },
+    },
   };
 }

@@ -3,6 +3,7 @@ import { INTERVAL_MAX_BYTES } from "./interval/ingest.js";
 import { INTERVAL_OPTION_DOCS } from "./interval/options.js";
 import { intervalAnalysisCreatedSchema, intervalAnalysisPageSchema, storedIntervalAnalysisSchema } from "./interval/schema.js";
 import type { Operation } from "./operations.js";
+import { keyCreatedSchema, keyCreateSchema, keyListSchema } from "./routes/keys.js";
 import {
   buildingCreateSchema,
   buildingHistorySchema,
@@ -126,5 +127,20 @@ export const storeOperations: Operation[] = [
     method: "get", path: "/v1/audit-log", operationId: "auditLog", summary: "Every write, newest first", tags: ["audit"],
     query: paging,
     responses: { "200": { description: "a page of audit entries", schema: auditPageSchema } },
+  },
+  {
+    method: "post", path: "/v1/keys", operationId: "createKey", summary: "Create an API key in the caller's organisation (admin)", tags: ["keys"],
+    description: "The key is in the answer this once; only its SHA-256 and public prefix are stored.",
+    body: keyCreateSchema,
+    responses: { "201": { description: "the key, shown once", schema: keyCreatedSchema } }, problems: [400, 413, 415],
+  },
+  {
+    method: "get", path: "/v1/keys", operationId: "listKeys", summary: "The organisation's API keys, without secrets (admin)", tags: ["keys"],
+    responses: { "200": { description: "every key, revoked ones included, oldest first", schema: keyListSchema } }, problems: [],
+  },
+  {
+    method: "delete", path: "/v1/keys/{id}", operationId: "revokeKey", summary: "Revoke an API key (admin)", tags: ["keys"],
+    description: "A revoked key is refused from then on (401); revoking it again changes nothing. The last active admin key cannot be revoked (409).",
+    responses: { "204": { description: "revoked" } }, problems: [404, 409],
   },
 ];

@@ -14,7 +14,11 @@ export interface Problem {
 export const PROBLEM_BASE = "https://pfc-sizing.invalid/problems/";
 
 export class ProblemError extends Error {
-  constructor(readonly problem: Problem) {
+  constructor(
+    readonly problem: Problem,
+    /** Headers the answer carries, e.g. WWW-Authenticate on a 401. */
+    readonly headers: Record<string, string> = {},
+  ) {
     super(problem.detail);
   }
 }

@@ -3,7 +3,7 @@ import { randomBytes } from "node:crypto";
 const ALPHABET = "0123456789abcdefghjkmnpqrstvwxyz"; // Crockford base32, lower case
 
 /** An opaque id such as "bld_4k9x…": a prefix naming the resource and 80 random bits. */
-export function newId(prefix: "bld" | "srv" | "iva"): string {
+export function newId(prefix: "bld" | "srv" | "iva" | "key" | "org"): string {
   const bytes = randomBytes(10);
   let bits = 0;
   let value = 0;

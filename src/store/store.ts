@@ -3,6 +3,7 @@ import { buildingsRepo } from "./buildings-repo.js";
 import { enableWal, openDatabase, type Db } from "./database.js";
 import { idempotencyRepo } from "./idempotency-repo.js";
 import { intervalAnalysesRepo } from "./interval-analyses-repo.js";
+import { keysRepo } from "./keys-repo.js";
 import { DEFAULT_MIGRATIONS_DIR, migrate, type MigrationReport } from "./migrate.js";
 import { surveysRepo } from "./surveys-repo.js";
 
@@ -25,12 +26,13 @@ export interface Store {
   readonly intervalAnalyses: ReturnType<typeof intervalAnalysesRepo>;
   readonly idempotency: ReturnType<typeof idempotencyRepo>;
   readonly audit: ReturnType<typeof auditRepo>;
+  readonly keys: ReturnType<typeof keysRepo>;
   /** Run `fn` in one IMMEDIATE transaction: everything it writes commits together or not at all. */
   write<T>(fn: () => T): T;
   close(): void;
 }
 
-/** The organisation every request belongs to until access control lands. */
+/** The first organisation (created by the first migration); the bootstrap admin key belongs to it. */
 export const DEFAULT_ORG_ID = "org_default";
 
 /** Open the database, bring it to the latest schema, and build the repositories. */
@@ -56,6 +58,7 @@ export function openStore(options: StoreOptions): Store {
     intervalAnalyses: intervalAnalysesRepo(db),
     idempotency: idempotencyRepo(db),
     audit: auditRepo(db),
+    keys: keysRepo(db),
     write<T>(fn: () => T): T {
       return db.transaction(fn).immediate();
     },

@@ -1,9 +1,10 @@
+import type request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import request from "supertest";
 import type { FastifyInstance } from "fastify";
 import { sizingWithHarmonicsSchema } from "../../src/http/schemas/results.js";
 import { makeStoreApp } from "../helpers/db.js";
 import { expectClose } from "../helpers/tolerance.js";
+import { api } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -38,7 +39,7 @@ const body = {
 describe("bank design through /v1/sizing", () => {
   let res: request.Response;
   beforeAll(async () => {
-    res = await request(app.server).post("/v1/sizing").send(body);
+    res = await api(app).post("/v1/sizing").send(body);
   });
 
   it("answers 200 with placement and a designed bank", () => {
@@ -97,7 +98,7 @@ describe("bank design through /v1/sizing", () => {
   });
 
   it("rejects bad design options with their paths", async () => {
-    const bad = await request(app.server)
+    const bad = await api(app)
       .post("/v1/sizing")
       .send({ ...body, bankDesign: { ctRatio: -5, coverage: 2 }, loads: [{ ...body.loads[0], noLoadAmps: 0 }] });
     expect(bad.status).toBe(400);

@@ -6,6 +6,7 @@ import type { Store } from "../../src/store/store.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { expectClose } from "../helpers/tolerance.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
+import { inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let store: Store;
@@ -17,9 +18,9 @@ afterAll(() => app.close());
 /** Invented tariff: 8.00 a kVA of monthly billing demand; the bank costs 40 a kvar plus 2 000. */
 const kvaTariff = { currency: "EUR", tariff: { form: "kva_demand", chargePerKVA: 8 }, cost: { perKvar: 40, fixed: 2000 } };
 
-const postBuilding = (payload: unknown) => app.inject({ method: "POST", url: "/v1/buildings", payload: payload as object });
-const patch = (id: string, payload: unknown) => app.inject({ method: "PATCH", url: `/v1/buildings/${id}`, payload: payload as object });
-const postSurvey = (id: string, payload: unknown = surveyBody()) => app.inject({ method: "POST", url: `/v1/buildings/${id}/surveys`, payload: payload as object });
+const postBuilding = (payload: unknown) => inject(app, { method: "POST", url: "/v1/buildings", payload: payload as object });
+const patch = (id: string, payload: unknown) => inject(app, { method: "PATCH", url: `/v1/buildings/${id}`, payload: payload as object });
+const postSurvey = (id: string, payload: unknown = surveyBody()) => inject(app, { method: "POST", url: `/v1/buildings/${id}/surveys`, payload: payload as object });
 
 describe("a building's economics", () => {
   it("is stored on POST, returned on GET, and used by its surveys (basis survey_demand)", async () => {
@@ -27,7 +28,7 @@ describe("a building's economics", () => {
     expect(created.statusCode).toBe(201);
     const b = created.json();
     expect(b.economics).toEqual(kvaTariff);
-    expect((await app.inject(`/v1/buildings/${b.id}`)).json().economics).toEqual(kvaTariff);
+    expect((await inject(app, `/v1/buildings/${b.id}`)).json().economics).toEqual(kvaTariff);
 
     const res = await postSurvey(b.id);
     expect(res.statusCode).toBe(201);
@@ -44,7 +45,7 @@ describe("a building's economics", () => {
     const direct = size({ ...sizing, ...buildingBody(), economics: kvaTariff } as never);
     expect(direct.ok && direct.result.economics).toEqual(r.economics);
 
-    const stored = (await app.inject(`/v1/surveys/${res.json().id}`)).json();
+    const stored = (await inject(app, `/v1/surveys/${res.json().id}`)).json();
     expect(stored.building.economics).toEqual(kvaTariff);
     expect(stored.building.intervalAnalysisId).toBeNull();
   });
@@ -61,23 +62,23 @@ describe("a building's economics", () => {
     const cleared = await patch(b.id, { economics: null });
     expect(cleared.statusCode).toBe(200);
     expect(cleared.json()).toMatchObject({ version: 3, economics: null });
-    expect((await app.inject(`/v1/buildings/${b.id}`)).json().economics).toBeNull();
+    expect((await inject(app, `/v1/buildings/${b.id}`)).json().economics).toBeNull();
 
-    const history = (await app.inject(`/v1/buildings/${b.id}/history`)).json();
+    const history = (await inject(app, `/v1/buildings/${b.id}/history`)).json();
     expect(history.items.map((v: { economics: unknown }) => v.economics)).toEqual([kvaTariff, other, null]);
 
     const later = (await postSurvey(b.id)).json();
     expect(later.result).not.toHaveProperty("economics");
 
     // the first survey was computed with, and still shows, the kVA tariff
-    const firstStored = (await app.inject(`/v1/surveys/${first.id}`)).json();
+    const firstStored = (await inject(app, `/v1/surveys/${first.id}`)).json();
     expect(firstStored.building).toMatchObject({ buildingVersion: 1, economics: kvaTariff });
     expect(firstStored.result.economics.basis).toBe("survey_demand");
     // a revision made now is sized with the building's current data: no economics
-    const rev = await app.inject({ method: "POST", url: `/v1/surveys/${first.id}/revisions`, payload: { ...surveyBody(), reason: "tariff removed" } });
+    const rev = await inject(app, { method: "POST", url: `/v1/surveys/${first.id}/revisions`, payload: { ...surveyBody(), reason: "tariff removed" } });
     expect(rev.statusCode).toBe(201);
     expect(rev.json().result).not.toHaveProperty("economics");
-    const revStored = (await app.inject(`/v1/surveys/${first.id}/revisions/2`)).json();
+    const revStored = (await inject(app, `/v1/surveys/${first.id}/revisions/2`)).json();
     expect(revStored.building).toMatchObject({ buildingVersion: 3, economics: null });
     // recomputing revision 1 from its snapshot gives the stored result
     const again = size(engineInputOf(firstStored.building, firstStored.inputs));
@@ -108,6 +109,6 @@ describe("a building's economics", () => {
     expect(unknownForm.statusCode).toBe(400);
     expect(unknownForm.json().errors[0].path).toBe("economics.tariff.form");
     expect(rowCounts(store)).toEqual(before);
-    expect((await app.inject(`/v1/buildings/${b.id}`)).json()).toMatchObject({ version: 1, economics: null });
+    expect((await inject(app, `/v1/buildings/${b.id}`)).json()).toMatchObject({ version: 1, economics: null });
   });
 });

@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Store } from "../../src/store/store.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody } from "../store/fixtures.js";
+import { inject, keyIdOf } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let store: Store;
@@ -11,8 +12,8 @@ beforeAll(async () => {
 });
 afterAll(() => app.close());
 
-const post = (payload: unknown, headers: Record<string, string> = {}) => app.inject({ method: "POST", url: "/v1/buildings", payload: payload as object, headers });
-const patch = (id: string, payload: unknown) => app.inject({ method: "PATCH", url: `/v1/buildings/${id}`, payload: payload as object });
+const post = (payload: unknown, headers: Record<string, string> = {}) => inject(app, { method: "POST", url: "/v1/buildings", payload: payload as object, headers });
+const patch = (id: string, payload: unknown) => inject(app, { method: "PATCH", url: `/v1/buildings/${id}`, payload: payload as object });
 
 describe("POST /v1/buildings", () => {
   it("creates a building, version 1, with a Location", async () => {
@@ -31,7 +32,7 @@ describe("POST /v1/buildings", () => {
     expect(b.id).toMatch(/^bld_/);
     expect(b.createdAt).toBe(b.updatedAt);
     expect(res.headers.location).toBe(`/v1/buildings/${b.id}`);
-    expect((await app.inject(`/v1/buildings/${b.id}`)).json()).toEqual(b);
+    expect((await inject(app, `/v1/buildings/${b.id}`)).json()).toEqual(b);
   });
 
   it("stores absent optional parts as null", async () => {
@@ -66,7 +67,7 @@ describe("GET /v1/buildings", () => {
     let pages = 0;
     do {
       const url: string = `/v1/buildings?q=paged%20block&limit=10${cursor ? `&cursor=${encodeURIComponent(cursor)}` : ""}`;
-      const res = await app.inject(url);
+      const res = await inject(app, url);
       expect(res.statusCode).toBe(200);
       const body = res.json();
       expect(body.items.length).toBeLessThanOrEqual(10);
@@ -79,9 +80,9 @@ describe("GET /v1/buildings", () => {
   });
 
   it("searches by name, case-insensitively, and defaults to 20 per page", async () => {
-    const res = (await app.inject("/v1/buildings?q=PAGED BLOCK 1")).json();
+    const res = (await inject(app, "/v1/buildings?q=PAGED BLOCK 1")).json();
     expect(res.items.map((b: { name: string }) => b.name)).toEqual(Array.from({ length: 10 }, (_, i) => `Paged block 1${i}`));
-    expect((await app.inject("/v1/buildings")).json().items).toHaveLength(20);
+    expect((await inject(app, "/v1/buildings")).json().items).toHaveLength(20);
   });
 
   it("refuses a bad limit, a forged cursor and unknown parameters with 400", async () => {
@@ -93,7 +94,7 @@ describe("GET /v1/buildings", () => {
       [`/v1/buildings?cursor=${Buffer.from(JSON.stringify({ k: "s", t: "x", i: "y" })).toString("base64url")}`, "cursor"],
       ["/v1/buildings?name=x", "name"],
     ] as const) {
-      const res = await app.inject(url);
+      const res = await inject(app, url);
       expect(res.statusCode, url).toBe(400);
       expect(res.json().errors[0].path, url).toBe(path);
     }
@@ -107,7 +108,7 @@ describe("GET/PATCH /v1/buildings/{id} and history", () => {
       { method: "GET" as const, url: "/v1/buildings/bld_nope/history" },
       { method: "PATCH" as const, url: "/v1/buildings/bld_nope", payload: { name: "x" } },
     ]) {
-      const res = await app.inject(req);
+      const res = await inject(app, req);
       expect(res.statusCode, req.url).toBe(404);
       expect(res.json()).toMatchObject({ status: 404, detail: "building bld_nope was not found" });
     }
@@ -121,13 +122,13 @@ describe("GET/PATCH /v1/buildings/{id} and history", () => {
     const r2 = await patch(created.id, { utility: null, address: null, name: "History hall (east)" });
     expect(r2.json()).toMatchObject({ version: 3, utility: null, address: null, name: "History hall (east)", createdAt: created.createdAt });
 
-    const history = (await app.inject(`/v1/buildings/${created.id}/history`)).json();
+    const history = (await inject(app, `/v1/buildings/${created.id}/history`)).json();
     expect(history.order).toBe("oldest_first");
     expect(history.items.map((v: { version: number }) => v.version)).toEqual([1, 2, 3]);
-    expect(history.items[0]).toMatchObject({ name: "History hall", notes: null, transformer: { kVA: 630 }, utility: { faultMVA: 150 }, actor: "local" });
+    expect(history.items[0]).toMatchObject({ name: "History hall", notes: null, transformer: { kVA: 630 }, utility: { faultMVA: 150 }, actor: keyIdOf(app) });
     expect(history.items[1]).toMatchObject({ notes: "MCC-3 replaced", transformer: { kVA: 1000 } });
     expect(history.items[2]).toMatchObject({ utility: null, name: "History hall (east)" });
-    expect((await app.inject(`/v1/buildings/${created.id}`)).json()).toEqual(r2.json());
+    expect((await inject(app, `/v1/buildings/${created.id}`)).json()).toEqual(r2.json());
   });
 
   it("writes no new version when a PATCH changes nothing", async () => {
@@ -149,20 +150,20 @@ describe("GET/PATCH /v1/buildings/{id} and history", () => {
     expect(bad.statusCode).toBe(400);
     expect(bad.json().errors.map((e: { path: string }) => e.path)).toEqual(expect.arrayContaining(["system.phases", "name", "colour"]));
     expect(rowCounts(store)).toEqual(before);
-    expect((await app.inject(`/v1/buildings/${created.id}`)).json()).toEqual(created);
+    expect((await inject(app, `/v1/buildings/${created.id}`)).json()).toEqual(created);
   });
 
   it("records each write in the audit log with the request id", async () => {
-    const res = await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Audited hall" }), headers: { "x-request-id": "req-audit-1" } });
+    const res = await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Audited hall" }), headers: { "x-request-id": "req-audit-1" } });
     const id = res.json().id;
-    await app.inject({ method: "PATCH", url: `/v1/buildings/${id}`, payload: { notes: "n" }, headers: { "x-request-id": "req-audit-2" } });
-    const log = (await app.inject("/v1/audit-log?limit=2")).json();
+    await inject(app, { method: "PATCH", url: `/v1/buildings/${id}`, payload: { notes: "n" }, headers: { "x-request-id": "req-audit-2" } });
+    const log = (await inject(app, "/v1/audit-log?limit=2")).json();
     expect(log.items).toMatchObject([
-      { action: "building.update", resourceType: "building", resourceId: id, actor: "local", requestId: "req-audit-2" },
-      { action: "building.create", resourceType: "building", resourceId: id, actor: "local", requestId: "req-audit-1" },
+      { action: "building.update", resourceType: "building", resourceId: id, actor: keyIdOf(app), requestId: "req-audit-2" },
+      { action: "building.create", resourceType: "building", resourceId: id, actor: keyIdOf(app), requestId: "req-audit-1" },
     ]);
     expect(log.nextCursor).toEqual(expect.any(String));
-    const next = (await app.inject(`/v1/audit-log?limit=2&cursor=${log.nextCursor}`)).json();
+    const next = (await inject(app, `/v1/audit-log?limit=2&cursor=${log.nextCursor}`)).json();
     expect(next.items[0].id).toBeLessThan(log.items[1].id);
   });
 });

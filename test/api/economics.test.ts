@@ -1,9 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import request from "supertest";
 import type { FastifyInstance } from "fastify";
 import { sizingWithHarmonicsSchema } from "../../src/http/schemas/results.js";
 import { makeStoreApp } from "../helpers/db.js";
 import { expectClose } from "../helpers/tolerance.js";
+import { api } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -23,7 +23,7 @@ const base = {
 
 describe("economics through /v1/sizing", () => {
   it("a kVA demand tariff: saving = (kVA before − kVA after) × rate, payback = cost / yearly saving", async () => {
-    const res = await request(app.server)
+    const res = await api(app)
       .post("/v1/sizing")
       .send({ ...base, economics: { currency: "USD", tariff: { form: "kva_demand", chargePerKVA: 8 }, cost: { perKvar: 40, fixed: 2000 } } });
     expect(res.status).toBe(200);
@@ -42,7 +42,7 @@ describe("economics through /v1/sizing", () => {
   });
 
   it("a site already at the target saves nothing and has no payback", async () => {
-    const res = await request(app.server)
+    const res = await api(app)
       .post("/v1/sizing")
       .send({
         ...base,
@@ -55,7 +55,7 @@ describe("economics through /v1/sizing", () => {
   });
 
   it("rejects a bad tariff with its path", async () => {
-    const res = await request(app.server)
+    const res = await api(app)
       .post("/v1/sizing")
       .send({ ...base, economics: { currency: "dollars", tariff: { form: "kvarh_excess", chargePerKvarh: -1, allowanceRatio: 0.5 } } });
     expect(res.status).toBe(400);

@@ -1,8 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import request from "supertest";
 import type { FastifyInstance } from "fastify";
 import { harmonicScanResultSchema, sizingWithHarmonicsSchema } from "../../src/http/schemas/results.js";
 import { makeStoreApp } from "../helpers/db.js";
+import { api } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -29,7 +29,7 @@ const S_SC_KVA = 1500 / 0.0575;
 
 describe("POST /v1/harmonics/scan", () => {
   it("returns the |Z(h)| series for the bus and every stage, with peaks near the closed form", async () => {
-    const res = await request(app.server).post("/v1/harmonics/scan").send({ ...site, scan: { stepOrder: 0.01 } });
+    const res = await api(app).post("/v1/harmonics/scan").send({ ...site, scan: { stepOrder: 0.01 } });
     expect(res.status).toBe(200);
     expect(() => harmonicScanResultSchema.parse(res.body)).not.toThrow();
     const study = res.body.study;
@@ -46,7 +46,7 @@ describe("POST /v1/harmonics/scan", () => {
   });
 
   it("honours the scan options", async () => {
-    const res = await request(app.server)
+    const res = await api(app)
       .post("/v1/harmonics/scan")
       .send({ ...site, scan: { fromOrder: 2, toOrder: 20, stepOrder: 0.1 } });
     expect(res.status).toBe(200);
@@ -57,7 +57,7 @@ describe("POST /v1/harmonics/scan", () => {
 
   it("needs the source strength", async () => {
     const { transformer: _t, ...noSource } = site;
-    const res = await request(app.server).post("/v1/harmonics/scan").send(noSource);
+    const res = await api(app).post("/v1/harmonics/scan").send(noSource);
     expect(res.status).toBe(400);
     expect(res.headers["content-type"]).toMatch(/application\/problem\+json/);
     expect(res.body.errors[0].path).toBe("transformer");
@@ -69,7 +69,7 @@ describe("POST /v1/harmonics/scan", () => {
     [{ toOrder: 60 }, "scan.toOrder"],
     [{ points: 3 }, "scan.points"],
   ])("rejects scan options %j at %s", async (scan, path) => {
-    const res = await request(app.server).post("/v1/harmonics/scan").send({ ...site, scan });
+    const res = await api(app).post("/v1/harmonics/scan").send({ ...site, scan });
     expect(res.status).toBe(400);
     expect(res.body.errors.map((e: { path: string }) => e.path)).toContain(path);
   });
@@ -77,7 +77,7 @@ describe("POST /v1/harmonics/scan", () => {
 
 describe("harmonics in /v1/sizing", () => {
   it("adds the study's figures, not the series, when the site has drives", async () => {
-    const res = await request(app.server).post("/v1/sizing").send(site);
+    const res = await api(app).post("/v1/sizing").send(site);
     expect(res.status).toBe(200);
     expect(() => sizingWithHarmonicsSchema.parse(res.body)).not.toThrow();
     const h = res.body.harmonics;
@@ -96,7 +96,7 @@ describe("harmonics in /v1/sizing", () => {
   });
 
   it("has no harmonics section for a site with no harmonic source", async () => {
-    const res = await request(app.server)
+    const res = await api(app)
       .post("/v1/sizing")
       .send({ ...site, loads: [site.loads[1]] });
     expect(res.status).toBe(200);
@@ -104,10 +104,10 @@ describe("harmonics in /v1/sizing", () => {
   });
 
   it("adds background distortion arithmetically to the bus's own", async () => {
-    const withBg = await request(app.server)
+    const withBg = await api(app)
       .post("/v1/sizing")
       .send({ ...site, backgroundVoltageDistortion: [{ order: 5, pct: 2 }] });
-    const without = await request(app.server).post("/v1/sizing").send(site);
+    const without = await api(app).post("/v1/sizing").send(site);
     const line = (b: typeof withBg.body) =>
       b.harmonics.withoutCapacitors.distortion.lines.find((l: { order: number }) => l.order === 5).voltagePct;
     // the stated model: background + injected, arithmetic (worst case)
@@ -121,7 +121,7 @@ describe("harmonics in /v1/sizing", () => {
     [[{ order: 5, pct: 200 }, { order: 7, pct: 150 }], "loads.0.harmonics"],
     [[{ order: 5, pct: 20 }, { order: 5, pct: 10 }], "loads.0.harmonics"],
   ])("rejects the spectrum %j at %s", async (harmonics, path) => {
-    const res = await request(app.server)
+    const res = await api(app)
       .post("/v1/sizing")
       .send({ ...site, loads: [{ ...site.loads[0], harmonics }, site.loads[1]] });
     expect(res.status).toBe(400);
@@ -131,11 +131,11 @@ describe("harmonics in /v1/sizing", () => {
 
 describe("harmonics in stored surveys", () => {
   it("stores the harmonics section with the survey and returns it unchanged", async () => {
-    const b = await request(app.server)
+    const b = await api(app)
       .post("/v1/buildings")
       .send({ name: "Drive hall", system: site.system, transformer: site.transformer });
     expect(b.status).toBe(201);
-    const s = await request(app.server)
+    const s = await api(app)
       .post(`/v1/buildings/${b.body.id}/surveys`)
       .send({
         surveyedAt: "2026-02-03T09:00:00Z",
@@ -146,7 +146,7 @@ describe("harmonics in stored surveys", () => {
       });
     expect(s.status).toBe(201);
     expect(s.body.result.harmonics.withoutCapacitors.distortion.thdVPct).toBeGreaterThan(0);
-    const got = await request(app.server).get(`/v1/surveys/${s.body.id}`);
+    const got = await api(app).get(`/v1/surveys/${s.body.id}`);
     expect(got.status).toBe(200);
     expect(got.body.result.harmonics).toEqual(s.body.result.harmonics);
     expect(got.body.inputs.backgroundVoltageDistortion).toEqual([{ order: 5, pct: 1 }]);

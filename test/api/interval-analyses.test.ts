@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { expectClose } from "../helpers/tolerance.js";
 import { CSV, makeIntervalApp } from "../core/interval/app-fixture.js";
 import { csvOfSeries, ITOL, syntheticYear } from "../core/interval/fixtures.js";
+import { inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let close: () => Promise<void>;
@@ -14,7 +15,7 @@ const TAN95 = Math.sqrt(1 - 0.95 ** 2) / 0.95;
 const january = csvOfSeries(syntheticYear(96, (k) => (k < 32 ? { kW: 200, kvar: 100 } : { kW: 600, kvar: 450 }), 31), "Interval Start,Demand kW,kVAr");
 
 const post = (query: string, payload: string, headers: Record<string, string> = CSV) =>
-  app.inject({ method: "POST", url: `/v1/interval-analyses${query}`, headers, payload });
+  inject(app, { method: "POST", url: `/v1/interval-analyses${query}`, headers, payload });
 
 describe("POST /v1/interval-analyses (text/csv)", () => {
   it("answers the analysis with its documented top-level keys", async () => {

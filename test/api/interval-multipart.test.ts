@@ -1,9 +1,9 @@
 import type { FastifyInstance } from "fastify";
-import request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { expectClose } from "../helpers/tolerance.js";
 import { makeIntervalApp } from "../core/interval/app-fixture.js";
 import { csvOfSeries, ITOL, syntheticYear } from "../core/interval/fixtures.js";
+import { api, inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let close: () => Promise<void>;
@@ -16,7 +16,7 @@ const week = Buffer.from(csvOfSeries(syntheticYear(96, (k) => (k < 32 ? { kW: 20
 
 describe("POST /v1/interval-analyses (multipart/form-data)", () => {
   it("reads the file field with the options given as form fields before it", async () => {
-    const r = await request(app.server)
+    const r = await api(app)
       .post(URL)
       .field("targetPF", "0.9")
       .field("timeZone", "UTC")
@@ -33,32 +33,32 @@ describe("POST /v1/interval-analyses (multipart/form-data)", () => {
   });
 
   it("merges query options with form fields", async () => {
-    const r = await request(app.server).post(`${URL}?targetPF=0.92`).field("kWColumn", "kW").attach("file", week, "week.csv");
+    const r = await api(app).post(`${URL}?targetPF=0.92`).field("kWColumn", "kW").attach("file", week, "week.csv");
     expect(r.status).toBe(200);
     expect(r.body.targetPF).toBe(0.92);
   });
 
   it("400 when an option comes both in the query and as a form field", async () => {
-    const r = await request(app.server).post(`${URL}?targetPF=0.92`).field("targetPF", "0.9").attach("file", week, "week.csv");
+    const r = await api(app).post(`${URL}?targetPF=0.92`).field("targetPF", "0.9").attach("file", week, "week.csv");
     expect(r.status).toBe(400);
     expect(r.body.errors).toEqual([{ path: "targetPF", message: expect.stringMatching(/both in the query and as a form field/) }]);
   });
 
   it("400 for a form field after the file, a file under another name, or no file", async () => {
-    const after = await request(app.server).post(URL).attach("file", week, "week.csv").field("targetPF", "0.9");
+    const after = await api(app).post(URL).attach("file", week, "week.csv").field("targetPF", "0.9");
     expect(after.status).toBe(400);
     expect(after.body.errors[0]).toEqual({ path: "targetPF", message: "form fields must come before the file field" });
-    const other = await request(app.server).post(URL).attach("data", week, "week.csv");
+    const other = await api(app).post(URL).attach("data", week, "week.csv");
     expect(other.status).toBe(400);
     expect(other.body.errors[0].path).toBe("data");
-    const none = await request(app.server).post(URL).field("targetPF", "0.9");
+    const none = await api(app).post(URL).field("targetPF", "0.9");
     expect(none.status).toBe(400);
     expect(none.body.errors[0]).toMatchObject({ path: "file" });
     expect(none.headers["content-type"]).toMatch(/^application\/problem\+json/);
   });
 
   it("a bad option in a form field is a 400 naming it", async () => {
-    const r = await request(app.server).post(URL).field("bankSteps", "fifty").attach("file", week, "week.csv");
+    const r = await api(app).post(URL).field("bankSteps", "fifty").attach("file", week, "week.csv");
     expect(r.status).toBe(400);
     expect(r.body.errors[0].path).toBe("bankSteps");
   });
@@ -66,7 +66,7 @@ describe("POST /v1/interval-analyses (multipart/form-data)", () => {
   it("bad rows in an uploaded file give a 422 with line numbers", async () => {
     const text = week.toString().split("\n");
     for (const k of [3, 5, 7, 9, 11, 13, 15, 17, 19, 21, 23, 25, 27, 29, 31, 33, 35, 37, 39, 41, 43, 45, 47, 49, 51, 53, 55, 57, 59, 61, 63, 65, 67, 69]) text[k] = "oops";
-    const r = await request(app.server).post(URL).attach("file", Buffer.from(text.join("\n")), "bad.csv");
+    const r = await api(app).post(URL).attach("file", Buffer.from(text.join("\n")), "bad.csv");
     expect(r.status).toBe(422);
     expect(r.body.errors[0]).toEqual({ path: "line.4", message: "wrong column count: 1 field, the header has 3" });
   });
@@ -76,7 +76,7 @@ describe("POST /v1/interval-analyses (multipart/form-data)", () => {
       ["multipart/form-data", "no boundary parameter"],
       ["multipart/form-data; boundary=xyz", '--xyz\r\nContent-Disposition: form-data; name="file"; filename="a.csv"\r\n\r\ntime,kW,kvar\n'],
     ]) {
-      const r = await app.inject({ method: "POST", url: URL, headers: { "content-type": type! }, payload: body! });
+      const r = await inject(app, { method: "POST", url: URL, headers: { "content-type": type! }, payload: body! });
       expect(r.statusCode, body).toBe(400);
       expect(r.json().type).toMatch(/bad-upload$/);
     }

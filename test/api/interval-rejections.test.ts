@@ -2,6 +2,7 @@ import { Readable } from "node:stream";
 import type { FastifyInstance } from "fastify";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { CSV, makeIntervalApp } from "../core/interval/app-fixture.js";
+import { inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let close: () => Promise<void>;
@@ -10,7 +11,7 @@ afterAll(async () => close());
 
 const URL = "/v1/interval-analyses";
 const good = "time,kW,kvar\n2026-03-01 00:00,100,50\n2026-03-01 00:15,100,50\n2026-03-01 00:30,100,50\n";
-const post = (query: string, payload: string | Readable, headers: Record<string, string> = CSV) => app.inject({ method: "POST", url: URL + query, headers, payload });
+const post = (query: string, payload: string | Readable, headers: Record<string, string> = CSV) => inject(app, { method: "POST", url: URL + query, headers, payload });
 
 function expectProblem(r: { statusCode: number; headers: Record<string, unknown>; json: () => any }, status: number) {
   expect(r.statusCode).toBe(status);
@@ -76,7 +77,7 @@ describe("POST /v1/interval-analyses — 400/422: the CSV", () => {
 
 describe("POST /v1/interval-analyses — 413 and 415", () => {
   it("413 when the declared length is above 64 MiB (nothing read)", async () => {
-    const r = await app.inject({ method: "POST", url: URL, headers: { ...CSV, "content-length": String(64 * 1024 * 1024 + 1) }, payload: good });
+    const r = await inject(app, { method: "POST", url: URL, headers: { ...CSV, "content-length": String(64 * 1024 * 1024 + 1) }, payload: good });
     const p = expectProblem(r, 413);
     expect(p.detail).toMatch(/limit is 67108864 bytes \(64 MiB\)/);
   });
@@ -97,13 +98,13 @@ describe("POST /v1/interval-analyses — 413 and 415", () => {
   }, 60_000);
 
   it("415 for JSON or no content type, saying what to send", async () => {
-    const p = expectProblem(await app.inject({ method: "POST", url: URL, payload: { a: 1 } }), 415);
+    const p = expectProblem(await inject(app, { method: "POST", url: URL, payload: { a: 1 } }), 415);
     expect(p.detail).toMatch(/text\/csv or as multipart\/form-data/);
-    expectProblem(await app.inject({ method: "POST", url: URL, headers: { "content-type": "application/xml" }, payload: "<a/>" }), 415);
+    expectProblem(await inject(app, { method: "POST", url: URL, headers: { "content-type": "application/xml" }, payload: "<a/>" }), 415);
   });
 
   it("the rest of the API keeps its JSON parser", async () => {
-    const r = await app.inject({ method: "POST", url: "/v1/sizing", payload: {} });
+    const r = await inject(app, { method: "POST", url: "/v1/sizing", payload: {} });
     expect(r.statusCode).toBe(400);
   });
 });

@@ -1,10 +1,10 @@
 import type { FastifyInstance } from "fastify";
-import request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Store } from "../../src/store/store.js";
 import { csvOfSeries, syntheticYear } from "../core/interval/fixtures.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
+import { api, inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let store: Store;
@@ -12,7 +12,7 @@ let path: string;
 let buildingId: string;
 beforeAll(async () => {
   ({ app, store, path } = await makeStoreApp());
-  buildingId = (await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Upload hall" }) })).json().id;
+  buildingId = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Upload hall" }) })).json().id;
 });
 afterAll(() => app.close());
 
@@ -22,7 +22,7 @@ const twoDays = csvOfSeries(syntheticYear(24, () => ({ kW: 250, kvar: 180 }), 2)
 const twoDaysOther = csvOfSeries(syntheticYear(24, () => ({ kW: 250, kvar: 190 }), 2));
 const url = (b = buildingId, q = "") => `/v1/buildings/${b}/interval-analyses${q}`;
 const attach = (payload: string, headers: Record<string, string> = CSV, q = "", b = buildingId) =>
-  app.inject({ method: "POST", url: url(b, q), headers, payload });
+  inject(app, { method: "POST", url: url(b, q), headers, payload });
 const analysisRows = () => (store.db.prepare("SELECT count(*) AS n FROM interval_analyses").get() as { n: number }).n;
 
 describe("rejected uploads change nothing", () => {
@@ -46,7 +46,7 @@ describe("rejected uploads change nothing", () => {
 
   it("a multipart form without a file", async () => {
     const before = rowCounts(store);
-    const res = await request(app.server).post(url()).field("targetPF", "0.9");
+    const res = await api(app).post(url()).field("targetPF", "0.9");
     expect(res.status).toBe(400);
     expect(res.body.errors[0].path).toBe("file");
     expect(rowCounts(store)).toEqual(before);
@@ -79,7 +79,7 @@ describe("Idempotency-Key on uploads (digest of the bytes read)", () => {
     expect(rowCounts(store)).toEqual(before);
 
     const form = (targetPF: string) =>
-      request(app.server).post(url()).set("idempotency-key", "upload-3").field("targetPF", targetPF).attach("file", Buffer.from(twoDays), "d.csv");
+      api(app).post(url()).set("idempotency-key", "upload-3").field("targetPF", targetPF).attach("file", Buffer.from(twoDays), "d.csv");
     const m1 = await form("0.9");
     expect(m1.status).toBe(201);
     const m2 = await form("0.9");
@@ -92,17 +92,17 @@ describe("Idempotency-Key on uploads (digest of the bytes read)", () => {
 describe("restart", () => {
   it("a stored analysis, and the survey that used it, survive closing and reopening the database file", async () => {
     const a = (await attach(twoDays)).json();
-    const survey = (await app.inject({ method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody() })).json();
-    const list = (await app.inject(url())).json();
+    const survey = (await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody() })).json();
+    const list = (await inject(app, url())).json();
     await app.close();
 
     ({ app, store } = await makeStoreApp({ DATABASE_PATH: path }));
-    const again = await app.inject(`/v1/interval-analyses/${a.id}`);
+    const again = await inject(app, `/v1/interval-analyses/${a.id}`);
     expect(again.statusCode).toBe(200);
     expect(again.json().summary).toEqual(a.summary);
-    expect((await app.inject(url())).json()).toEqual(list);
-    expect((await app.inject(`/v1/surveys/${survey.id}`)).json().building.intervalAnalysisId).toBe(a.id);
-    const next = (await app.inject({ method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody() })).json();
+    expect((await inject(app, url())).json()).toEqual(list);
+    expect((await inject(app, `/v1/surveys/${survey.id}`)).json().building.intervalAnalysisId).toBe(a.id);
+    const next = (await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody() })).json();
     expect(next.result.recommendedBank.stepPlan.source).toBe("intervals");
   });
 });

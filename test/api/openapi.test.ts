@@ -1,9 +1,9 @@
 import { readFileSync } from "node:fs";
 import type { FastifyInstance } from "fastify";
-import request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { OPENAPI_PATH, openapiText } from "../../scripts/write-openapi.js";
 import { makeTestApp } from "../helpers/app.js";
+import { api } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -42,17 +42,17 @@ describe("OpenAPI document", () => {
   });
 
   it("GET /openapi.json serves the same document", async () => {
-    const r = await request(app.server).get("/openapi.json");
+    const r = await api(app).get("/openapi.json");
     expect(r.status).toBe(200);
     expect(r.headers["content-type"]).toMatch(/^application\/json/);
     expect(r.body).toEqual(JSON.parse(openapiText()));
   });
 
   it("GET /docs answers with a redirect or an HTML page", async () => {
-    const r = await request(app.server).get("/docs");
+    const r = await api(app).get("/docs");
     if (r.status >= 300 && r.status < 400) {
       expect(r.headers.location).toBeTruthy();
-      const next = await request(app.server).get(new URL(r.headers.location as string, "http://x/docs").pathname);
+      const next = await api(app).get(new URL(r.headers.location as string, "http://x/docs").pathname);
       expect(next.status).toBe(200);
       expect(next.headers["content-type"]).toMatch(/text\/html/);
     } else {

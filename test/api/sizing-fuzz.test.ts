@@ -5,6 +5,7 @@ import { operations } from "../../src/http/operations.js";
 import { sizingResultSchema } from "../../src/http/schemas/results.js";
 import { makeTestApp } from "../helpers/app.js";
 import { exampleSizingBody } from "../helpers/bodies.js";
+import { inject } from "../helpers/auth.js";
 
 /** Robustness: no body, however wrong, gets a 500; every 200 is a schema-valid result. Deterministic seeds. */
 const SEED = Number(process.env.FC_SEED ?? 0xf022);
@@ -21,7 +22,7 @@ afterAll(async () => {
 const declared = operations.find((o) => o.method === "post" && o.path === "/v1/sizing")?.responses["200"]?.schema;
 
 async function post(payload: string, contentType = "application/json") {
-  return app.inject({ method: "POST", url: "/v1/sizing", payload, headers: { "content-type": contentType } });
+  return inject(app, { method: "POST", url: "/v1/sizing", payload, headers: { "content-type": contentType } });
 }
 
 function allNumbersFinite(v: unknown): boolean {

@@ -1,9 +1,10 @@
+import type request from "supertest";
 import type { FastifyInstance } from "fastify";
-import request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { problemSchema } from "../../src/http/schemas/results.js";
 import { makeTestApp } from "../helpers/app.js";
 import { exampleSizingBody } from "../helpers/bodies.js";
+import { api, inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -88,7 +89,7 @@ function expectProblem(r: request.Response, status: number): void {
 
 describe("400 validation problems name the field", () => {
   it.each(REJECTIONS)("$name → 400 at '$path'", async ({ body, path, message }) => {
-    const r = await request(app.server).post("/v1/sizing").send(body());
+    const r = await api(app).post("/v1/sizing").send(body());
     expectProblem(r, 400);
     expect(Array.isArray(r.body.errors)).toBe(true);
     for (const e of r.body.errors) {
@@ -105,7 +106,7 @@ describe("400 validation problems name the field", () => {
     const b = exampleSizingBody();
     b.system.frequencyHz = 55;
     b.targetPF = 0.5;
-    const r = await request(app.server).post("/v1/sizing").send(b);
+    const r = await api(app).post("/v1/sizing").send(b);
     expectProblem(r, 400);
     expect(r.body.errors.map((e: { path: string }) => e.path)).toEqual(expect.arrayContaining(["system.frequencyHz", "targetPF"]));
     expect(r.body.detail).toMatch(/2 fields are invalid/);
@@ -114,44 +115,44 @@ describe("400 validation problems name the field", () => {
 
 describe("transport-level rejections", () => {
   it("empty body → 400 problem with errors", async () => {
-    const r = await request(app.server).post("/v1/sizing").set("content-type", "application/json").send("");
+    const r = await api(app).post("/v1/sizing").set("content-type", "application/json").send("");
     expectProblem(r, 400);
     expect(r.body.errors).toEqual([{ path: "", message: expect.stringMatching(/empty/) }]);
   });
 
   it("invalid JSON → 400 problem with errors", async () => {
-    const r = await request(app.server).post("/v1/sizing").set("content-type", "application/json").send('{"system": {');
+    const r = await api(app).post("/v1/sizing").set("content-type", "application/json").send('{"system": {');
     expectProblem(r, 400);
     expect(r.body.errors).toHaveLength(1);
     expect(r.body.errors[0].path).toBe("");
   });
 
   it("JSON null → 400 at the body", async () => {
-    const r = await request(app.server).post("/v1/sizing").set("content-type", "application/json").send("null");
+    const r = await api(app).post("/v1/sizing").set("content-type", "application/json").send("null");
     expectProblem(r, 400);
     expect(r.body.errors[0].path).toBe("");
   });
 
   it("a prototype-poisoning key → 400, not accepted", async () => {
-    const r = await request(app.server).post("/v1/sizing").set("content-type", "application/json").send('{"__proto__": {"x": 1}}');
+    const r = await api(app).post("/v1/sizing").set("content-type", "application/json").send('{"__proto__": {"x": 1}}');
     expectProblem(r, 400);
   });
 
   it("wrong content type (application/xml) → 415 problem", async () => {
-    const r = await request(app.server).post("/v1/sizing").set("content-type", "application/xml").send("<sizing/>");
+    const r = await api(app).post("/v1/sizing").set("content-type", "application/xml").send("<sizing/>");
     expectProblem(r, 415);
     expect(r.body.type).toMatch(/unsupported-media-type$/);
   });
 
   it("form-encoded body → 415 problem", async () => {
-    const r = await request(app.server).post("/v1/sizing").type("form").send({ a: "1" });
+    const r = await api(app).post("/v1/sizing").type("form").send({ a: "1" });
     expectProblem(r, 415);
   });
 
   it("body over 1 MiB → 413 problem", async () => {
     const b = exampleSizingBody();
     b.loads[0].label = "x".repeat(1024 * 1024 + 16);
-    const r = await app.inject({ method: "POST", url: "/v1/sizing", payload: JSON.stringify(b), headers: { "content-type": "application/json" } });
+    const r = await inject(app, { method: "POST", url: "/v1/sizing", payload: JSON.stringify(b), headers: { "content-type": "application/json" } });
     expect(r.statusCode).toBe(413);
     expect(r.headers["content-type"]).toMatch(/^application\/problem\+json/);
     const body = r.json();
@@ -166,7 +167,7 @@ describe("transport-level rejections", () => {
     try {
       const b = exampleSizingBody();
       b.loads[0].label = "y".repeat(3000);
-      const r = await request(small.server).post("/v1/sizing").send(b);
+      const r = await api(small).post("/v1/sizing").send(b);
       expectProblem(r, 413);
     } finally {
       await small.close();
@@ -174,12 +175,12 @@ describe("transport-level rejections", () => {
   });
 
   it("415 problems carry errors[{path,message}] like every other rejection", async () => {
-    const r = await request(app.server).post("/v1/sizing").set("content-type", "application/xml").send("<x/>");
+    const r = await api(app).post("/v1/sizing").set("content-type", "application/xml").send("<x/>");
     expect(r.body.errors).toEqual([{ path: "", message: expect.any(String) }]);
   });
 
   it("a text/plain body is answered 415, not 400", async () => {
-    const r = await request(app.server).post("/v1/sizing").set("content-type", "text/plain").send("hello");
+    const r = await api(app).post("/v1/sizing").set("content-type", "text/plain").send("hello");
     expect(r.status).toBe(415);
   });
 });

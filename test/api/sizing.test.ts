@@ -1,11 +1,12 @@
+import type request from "supertest";
 import type { FastifyInstance } from "fastify";
-import request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { operations } from "../../src/http/operations.js";
 import { sizingResultSchema } from "../../src/http/schemas/results.js";
 import { makeTestApp } from "../helpers/app.js";
 import { exampleSizingBody } from "../helpers/bodies.js";
 import { expectClose, TOL } from "../helpers/tolerance.js";
+import { api } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -38,7 +39,7 @@ describe("POST /v1/sizing — the contract example", () => {
   const S = (Math.sqrt(3) * 480 * 120) / 1000;
   let res: request.Response;
   beforeAll(async () => {
-    res = await request(app.server).post("/v1/sizing").send(exampleSizingBody());
+    res = await api(app).post("/v1/sizing").send(exampleSizingBody());
   });
 
   it("answers 200 application/json that validates against sizingResultSchema", () => {
@@ -104,7 +105,7 @@ describe("POST /v1/sizing — the contract example", () => {
   });
 
   it("echoes a valid x-request-id", async () => {
-    const r = await request(app.server).post("/v1/sizing").set("x-request-id", "survey-42").send(exampleSizingBody());
+    const r = await api(app).post("/v1/sizing").set("x-request-id", "survey-42").send(exampleSizingBody());
     expect(r.headers["x-request-id"]).toBe("survey-42");
   });
 });
@@ -189,7 +190,7 @@ describe("POST /v1/sizing — other valid requests", () => {
   ];
 
   it.each(VALID)("$name → 200 and schema-valid", async ({ body, check }) => {
-    const r = await request(app.server).post("/v1/sizing").send(body());
+    const r = await api(app).post("/v1/sizing").send(body());
     expect(r.status, JSON.stringify(r.body).slice(0, 500)).toBe(200);
     expectValidResult(r.body);
     check?.(r.body);
@@ -198,13 +199,13 @@ describe("POST /v1/sizing — other valid requests", () => {
 
 describe("service routes", () => {
   it("GET /health → {status: ok}", async () => {
-    const r = await request(app.server).get("/health");
+    const r = await api(app).get("/health");
     expect(r.status).toBe(200);
     expect(r.body).toEqual({ status: "ok" });
   });
 
   it("an unknown route → 404 problem", async () => {
-    const r = await request(app.server).get("/v1/nothing-here?x=1");
+    const r = await api(app).get("/v1/nothing-here?x=1");
     expect(r.status).toBe(404);
     expect(r.headers["content-type"]).toMatch(/^application\/problem\+json/);
     expect(r.body).toMatchObject({ status: 404, title: "Not found", instance: "/v1/nothing-here?x=1" });
@@ -213,7 +214,7 @@ describe("service routes", () => {
   });
 
   it("GET /v1/sizing (wrong method) → 404 problem", async () => {
-    const r = await request(app.server).get("/v1/sizing");
+    const r = await api(app).get("/v1/sizing");
     expect(r.status).toBe(404);
     expect(r.headers["content-type"]).toMatch(/^application\/problem\+json/);
   });

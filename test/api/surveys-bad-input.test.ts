@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Store } from "../../src/store/store.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
+import { inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let store: Store;
@@ -10,8 +11,8 @@ let buildingId: string;
 let surveyId: string;
 beforeAll(async () => {
   ({ app, store } = await makeStoreApp({ BODY_LIMIT_BYTES: 64 * 1024 }));
-  buildingId = (await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody() })).json().id;
-  const s = await app.inject({ method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody(), headers: { "idempotency-key": "taken" } });
+  buildingId = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody() })).json().id;
+  const s = await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody(), headers: { "idempotency-key": "taken" } });
   surveyId = s.json().id;
 });
 afterAll(() => app.close());
@@ -47,7 +48,7 @@ describe("rejected requests change nothing", () => {
     ] as const;
     const statuses: number[] = [];
     for (const req of batch) {
-      const res = await app.inject(req as never);
+      const res = await inject(app, req as never);
       statuses.push(res.statusCode);
       expect(res.statusCode, `${req.method} ${req.url}`).toBeGreaterThanOrEqual(400);
       expect(res.statusCode, `${req.method} ${req.url}`).toBeLessThan(500);

@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Store } from "../../src/store/store.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
+import { inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let store: Store;
@@ -12,12 +13,12 @@ const HOUR = 3600_000;
 
 beforeAll(async () => {
   ({ app, store } = await makeStoreApp({}, { now: () => new Date(clock) }));
-  buildingId = (await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody() })).json().id;
+  buildingId = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody() })).json().id;
 });
 afterAll(() => app.close());
 
 const postSurvey = (key: string, payload: unknown) =>
-  app.inject({ method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: payload as object, headers: { "idempotency-key": key } });
+  inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: payload as object, headers: { "idempotency-key": key } });
 const surveyCount = () => (store.db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
 
 describe("Idempotency-Key", () => {
@@ -50,28 +51,28 @@ describe("Idempotency-Key", () => {
 
   it("the same key on another route is another request (422)", async () => {
     await postSurvey("k-route", surveyBody());
-    const res = await app.inject({ method: "POST", url: "/v1/buildings", payload: surveyBody(), headers: { "idempotency-key": "k-route" } });
+    const res = await inject(app, { method: "POST", url: "/v1/buildings", payload: surveyBody(), headers: { "idempotency-key": "k-route" } });
     expect(res.statusCode).toBe(400); // validated first: the body is not a building
-    const b = await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody(), headers: { "idempotency-key": "k-route" } });
+    const b = await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody(), headers: { "idempotency-key": "k-route" } });
     expect(b.statusCode).toBe(422);
   });
 
   it("replays building creation, PATCH and revisions too", async () => {
     const h = { "idempotency-key": "k-building" };
-    const a = await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Once hall" }), headers: h });
-    const b = await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Once hall" }), headers: h });
+    const a = await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Once hall" }), headers: h });
+    const b = await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Once hall" }), headers: h });
     expect(b.json()).toEqual(a.json());
-    expect((await app.inject("/v1/buildings?q=Once hall")).json().items).toHaveLength(1);
+    expect((await inject(app, "/v1/buildings?q=Once hall")).json().items).toHaveLength(1);
 
     const p = { method: "PATCH" as const, url: `/v1/buildings/${a.json().id}`, payload: { notes: "x" }, headers: { "idempotency-key": "k-patch" } };
-    expect((await app.inject(p)).json().version).toBe(2);
-    expect((await app.inject(p)).json().version).toBe(2);
+    expect((await inject(app, p)).json().version).toBe(2);
+    expect((await inject(app, p)).json().version).toBe(2);
 
     const s = (await postSurvey("k-for-rev", surveyBody())).json();
     const rev = { method: "POST" as const, url: `/v1/surveys/${s.id}/revisions`, payload: { ...surveyBody(), reason: "r" }, headers: { "idempotency-key": "k-rev" } };
-    expect((await app.inject(rev)).json().revision).toBe(2);
-    expect((await app.inject(rev)).json().revision).toBe(2);
-    expect((await app.inject(`/v1/surveys/${s.id}`)).json().revisions).toHaveLength(2);
+    expect((await inject(app, rev)).json().revision).toBe(2);
+    expect((await inject(app, rev)).json().revision).toBe(2);
+    expect((await inject(app, `/v1/surveys/${s.id}`)).json().revisions).toHaveLength(2);
   });
 
   it("does not store a key for a rejected request", async () => {
@@ -99,7 +100,7 @@ describe("Idempotency-Key", () => {
 
   it("refuses a malformed key with 400", async () => {
     for (const key of ["", "x".repeat(256), "tab\there", "ünï"]) {
-      const res = await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody(), headers: { "idempotency-key": key } });
+      const res = await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody(), headers: { "idempotency-key": key } });
       expect(res.statusCode, JSON.stringify(key)).toBe(400);
       expect(res.json().errors[0].path).toBe("headers.idempotency-key");
     }

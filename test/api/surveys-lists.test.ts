@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { LOADS_CSV_HEADER } from "../../src/http/loads-csv.js";
 import { makeStoreApp } from "../helpers/db.js";
 import { buildingBody, loads, surveyBody } from "../store/fixtures.js";
+import { inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let buildingId: string;
@@ -13,10 +14,10 @@ const created: { id: string; surveyedAt: string }[] = [];
 
 beforeAll(async () => {
   ({ app } = await makeStoreApp());
-  buildingId = (await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody() })).json().id;
+  buildingId = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody() })).json().id;
   // posted out of order, so the order of the list comes from surveyedAt, not from insertion
   for (const i of [...dates.keys()].sort((a, b) => ((a * 7) % 25) - ((b * 7) % 25))) {
-    const res = await app.inject({
+    const res = await inject(app, {
       method: "POST",
       url: `/v1/buildings/${buildingId}/surveys`,
       payload: surveyBody({ surveyedAt: dates[i], loads: loads(2 + (i % 4)) }),
@@ -34,7 +35,7 @@ async function allPages(query: string, limit: number): Promise<{ items: { id: st
   let cursor: string | null = null;
   do {
     const url: string = `/v1/buildings/${buildingId}/surveys?limit=${limit}${query}${cursor ? `&cursor=${cursor}` : ""}`;
-    const res = await app.inject(url);
+    const res = await inject(app, url);
     expect(res.statusCode).toBe(200);
     const body: { items: { id: string }[]; nextCursor: string | null } = res.json();
     pages.push(body.items);
@@ -51,9 +52,9 @@ describe("GET /v1/buildings/{id}/surveys", () => {
   });
 
   it("gives summaries from the stored columns", async () => {
-    const first = (await app.inject(`/v1/buildings/${buildingId}/surveys?limit=1`)).json().items[0];
+    const first = (await inject(app, `/v1/buildings/${buildingId}/surveys?limit=1`)).json().items[0];
     expect(Object.keys(first).sort()).toEqual(["displacementPF", "id", "kW", "kvar", "kvarRequired", "revision", "surveyedAt", "surveyor", "warningCount"]);
-    const full = (await app.inject(`/v1/surveys/${first.id}`)).json();
+    const full = (await inject(app, `/v1/surveys/${first.id}`)).json();
     expect(first).toEqual({
       id: full.id,
       revision: 1,
@@ -69,7 +70,7 @@ describe("GET /v1/buildings/{id}/surveys", () => {
 
   it("reflects a revision in the summary", async () => {
     const target = created[3]!;
-    const res = await app.inject({ method: "POST", url: `/v1/surveys/${target.id}/revisions`, payload: { ...surveyBody({ surveyedAt: target.surveyedAt, surveyor: "Reviser" }), reason: "name" } });
+    const res = await inject(app, { method: "POST", url: `/v1/surveys/${target.id}/revisions`, payload: { ...surveyBody({ surveyedAt: target.surveyedAt, surveyor: "Reviser" }), reason: "name" } });
     expect(res.statusCode).toBe(201);
     const { items } = await allPages("", 100);
     expect(items.flat().find((s) => s.id === target.id)).toMatchObject({ revision: 2, surveyor: "Reviser", kW: res.json().result.site.kW });
@@ -95,18 +96,18 @@ describe("GET /v1/buildings/{id}/surveys", () => {
       [`cursor=${Buffer.from(JSON.stringify({ k: "b", n: "x", i: "y" })).toString("base64url")}`, "cursor"],
       ["colour=red", "colour"],
     ] as const) {
-      const res = await app.inject(`/v1/buildings/${buildingId}/surveys?${q}`);
+      const res = await inject(app, `/v1/buildings/${buildingId}/surveys?${q}`);
       expect(res.statusCode, q).toBe(400);
       expect(res.json().errors[0].path, q).toBe(path);
     }
-    expect((await app.inject("/v1/buildings/bld_none/surveys")).statusCode).toBe(404);
-    expect((await app.inject("/v1/buildings/bld_none/trend")).statusCode).toBe(404);
+    expect((await inject(app, "/v1/buildings/bld_none/surveys")).statusCode).toBe(404);
+    expect((await inject(app, "/v1/buildings/bld_none/trend")).statusCode).toBe(404);
   });
 });
 
 describe("GET /v1/buildings/{id}/trend", () => {
   it("gives one point per survey, oldest first, from the latest revisions", async () => {
-    const res = await app.inject(`/v1/buildings/${buildingId}/trend`);
+    const res = await inject(app, `/v1/buildings/${buildingId}/trend`);
     expect(res.statusCode).toBe(200);
     const trend = res.json();
     expect(trend).toMatchObject({ buildingId, order: "oldest_first", truncated: false });
@@ -116,7 +117,7 @@ describe("GET /v1/buildings/{id}/trend", () => {
       const s = list.find((x) => x.id === p.surveyId)!;
       expect(p).toEqual({ surveyId: s.id, revision: s.revision, surveyedAt: s.surveyedAt, kW: s.kW, kvar: s.kvar, displacementPF: s.displacementPF, kvarRequired: s.kvarRequired });
     }
-    const narrowed = (await app.inject(`/v1/buildings/${buildingId}/trend?from=2023-06-01&to=2023-06-30`)).json();
+    const narrowed = (await inject(app, `/v1/buildings/${buildingId}/trend?from=2023-06-01&to=2023-06-30`)).json();
     expect(narrowed.items.map((p: { surveyedAt: string }) => p.surveyedAt)).toEqual(dates.filter((d) => d.startsWith("2023-06")));
   });
 });
@@ -131,8 +132,8 @@ describe("GET /v1/surveys/{id}/loads.csv", () => {
         { label: "Lights", kind: "lighting", measurement: { method: "kw_pf", kW: 5, pf: 0.9, sense: "lagging", pfType: "true", currentTHDPct: 20 } },
       ],
     });
-    const s = (await app.inject({ method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: body })).json();
-    const res = await app.inject(`/v1/surveys/${s.id}/loads.csv`);
+    const s = (await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: body })).json();
+    const res = await inject(app, `/v1/surveys/${s.id}/loads.csv`);
     expect(res.statusCode).toBe(200);
     expect(res.headers["content-type"]).toMatch(/^text\/csv; charset=utf-8/);
     expect(res.headers["content-disposition"]).toBe(`attachment; filename="${s.id}-r1-loads.csv"`);

@@ -5,19 +5,20 @@ import { ENGINE_VERSION } from "../../src/core/version.js";
 import type { Store } from "../../src/store/store.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
+import { inject, keyIdOf } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let store: Store;
 let buildingId: string;
 beforeAll(async () => {
   ({ app, store } = await makeStoreApp());
-  buildingId = (await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody() })).json().id;
+  buildingId = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody() })).json().id;
 });
 afterAll(() => app.close());
 
 const postSurvey = (payload: unknown, b = buildingId) =>
-  app.inject({ method: "POST", url: `/v1/buildings/${b}/surveys`, payload: payload as object });
-const revise = (id: string, payload: unknown) => app.inject({ method: "POST", url: `/v1/surveys/${id}/revisions`, payload: payload as object });
+  inject(app, { method: "POST", url: `/v1/buildings/${b}/surveys`, payload: payload as object });
+const revise = (id: string, payload: unknown) => inject(app, { method: "POST", url: `/v1/surveys/${id}/revisions`, payload: payload as object });
 
 describe("POST /v1/buildings/{id}/surveys", () => {
   it("sizes with the building's system, transformer and utility, and answers 201 {id, revision, buildingId, result}", async () => {
@@ -36,7 +37,7 @@ describe("POST /v1/buildings/{id}/surveys", () => {
 
   it("returns the stored latest revision with its inputs, result, engine version and building snapshot", async () => {
     const created = (await postSurvey(surveyBody({ notes: "first visit" }))).json();
-    const res = await app.inject(`/v1/surveys/${created.id}`);
+    const res = await inject(app, `/v1/surveys/${created.id}`);
     expect(res.statusCode).toBe(200);
     const s = res.json();
     expect(s).toMatchObject({
@@ -44,7 +45,7 @@ describe("POST /v1/buildings/{id}/surveys", () => {
       buildingId,
       revision: 1,
       reason: null,
-      actor: "local",
+      actor: keyIdOf(app),
       engineVersion: ENGINE_VERSION,
       inputs: surveyBody({ notes: "first visit" }),
       result: created.result,
@@ -54,11 +55,11 @@ describe("POST /v1/buildings/{id}/surveys", () => {
   });
 
   it("keeps the result as stored when the building changes later (no recomputation on read)", async () => {
-    const b = (await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Audit hall" }) })).json();
+    const b = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Audit hall" }) })).json();
     const created = (await postSurvey(surveyBody(), b.id)).json();
-    const patched = await app.inject({ method: "PATCH", url: `/v1/buildings/${b.id}`, payload: { transformer: { kVA: 2500, impedancePct: 8 }, system: { voltageV: 415, frequencyHz: 50, phases: 3 } } });
+    const patched = await inject(app, { method: "PATCH", url: `/v1/buildings/${b.id}`, payload: { transformer: { kVA: 2500, impedancePct: 8 }, system: { voltageV: 415, frequencyHz: 50, phases: 3 } } });
     expect(patched.statusCode).toBe(200);
-    const s = (await app.inject(`/v1/surveys/${created.id}`)).json();
+    const s = (await inject(app, `/v1/surveys/${created.id}`)).json();
     expect(s.result).toEqual(created.result);
     expect(s.building).toMatchObject({ buildingVersion: 1, system: { voltageV: 400 }, transformer: { kVA: 630 } });
 
@@ -67,7 +68,7 @@ describe("POST /v1/buildings/{id}/surveys", () => {
     expect(r2.json()).toMatchObject({ id: created.id, revision: 2, buildingId: b.id });
     expect(r2.json().result.system.voltageV).toBe(415);
     expect(r2.json().result.resonance.shortCircuitKVA).not.toBe(created.result.resonance.shortCircuitKVA);
-    const rev2 = (await app.inject(`/v1/surveys/${created.id}/revisions/2`)).json();
+    const rev2 = (await inject(app, `/v1/surveys/${created.id}/revisions/2`)).json();
     expect(rev2.building).toMatchObject({ buildingVersion: 2, system: { voltageV: 415 }, transformer: { kVA: 2500 } });
   });
 
@@ -114,7 +115,7 @@ describe("revisions", () => {
     const r3 = await revise(created.id, { ...surveyBody({ surveyor: "Second surveyor" }), reason: "wrong surveyor name" });
     expect(r3.json().revision).toBe(3);
 
-    const s = (await app.inject(`/v1/surveys/${created.id}`)).json();
+    const s = (await inject(app, `/v1/surveys/${created.id}`)).json();
     expect(s.revision).toBe(3);
     expect(s.inputs.surveyor).toBe("Second surveyor");
     expect(s.inputs).not.toHaveProperty("reason");
@@ -124,9 +125,9 @@ describe("revisions", () => {
       [2, "customer asked for 0.98"],
       [3, "wrong surveyor name"],
     ]);
-    const first = (await app.inject(`/v1/surveys/${created.id}/revisions/1`)).json();
+    const first = (await inject(app, `/v1/surveys/${created.id}/revisions/1`)).json();
     expect(first).toMatchObject({ surveyId: created.id, revision: 1, inputs: surveyBody(), result: created.result });
-    const second = (await app.inject(`/v1/surveys/${created.id}/revisions/2`)).json();
+    const second = (await inject(app, `/v1/surveys/${created.id}/revisions/2`)).json();
     expect(second.result.correction.targetPF).toBe(0.98);
     expect(second.result.correction.kvarRequired).toBeGreaterThan(first.result.correction.kvarRequired);
   });
@@ -144,13 +145,13 @@ describe("revisions", () => {
 
   it("404s unknown surveys and revisions, 400s a revision number that is not one", async () => {
     const created = (await postSurvey(surveyBody())).json();
-    expect((await app.inject("/v1/surveys/srv_missing")).statusCode).toBe(404);
-    expect((await app.inject("/v1/surveys/srv_missing/loads.csv")).statusCode).toBe(404);
-    expect((await app.inject("/v1/surveys/srv_missing/revisions/1")).json().detail).toBe("survey srv_missing was not found");
-    expect((await app.inject(`/v1/surveys/${created.id}/revisions/2`)).json().detail).toBe(`revision 2 of survey ${created.id} was not found`);
+    expect((await inject(app, "/v1/surveys/srv_missing")).statusCode).toBe(404);
+    expect((await inject(app, "/v1/surveys/srv_missing/loads.csv")).statusCode).toBe(404);
+    expect((await inject(app, "/v1/surveys/srv_missing/revisions/1")).json().detail).toBe("survey srv_missing was not found");
+    expect((await inject(app, `/v1/surveys/${created.id}/revisions/2`)).json().detail).toBe(`revision 2 of survey ${created.id} was not found`);
     expect((await revise("srv_missing", { ...surveyBody(), reason: "x" })).statusCode).toBe(404);
     for (const n of ["0", "-1", "1.5", "two"]) {
-      const res = await app.inject(`/v1/surveys/${created.id}/revisions/${n}`);
+      const res = await inject(app, `/v1/surveys/${created.id}/revisions/${n}`);
       expect(res.statusCode, n).toBe(400);
       expect(res.json().errors[0].path).toBe("n");
     }
@@ -159,8 +160,8 @@ describe("revisions", () => {
   it("has no route that deletes", async () => {
     const created = (await postSurvey(surveyBody())).json();
     for (const url of [`/v1/surveys/${created.id}`, `/v1/buildings/${buildingId}`]) {
-      expect((await app.inject({ method: "DELETE", url })).statusCode).toBe(404);
+      expect((await inject(app, { method: "DELETE", url })).statusCode).toBe(404);
     }
-    expect((await app.inject(`/v1/surveys/${created.id}`)).statusCode).toBe(200);
+    expect((await inject(app, `/v1/surveys/${created.id}`)).statusCode).toBe(200);
   });
 });

@@ -2,7 +2,7 @@ import Database from "better-sqlite3";
 import { afterEach, describe, expect, it } from "vitest";
 import { tempDatabasePath } from "../helpers/db.js";
 import { buildingBody, loads, surveyBody } from "../store/fixtures.js";
-import { postJson, startServer, stopServer, type ServerProcess } from "./server-process.js";
+import { authFetch, postJson, startServer, stopServer, type ServerProcess } from "./server-process.js";
 
 let running: ServerProcess | undefined;
 afterEach(() => {
@@ -62,7 +62,7 @@ describe("kill -9 under concurrent writes", () => {
 
     running = await startServer(path);
     for (const a of accepted) {
-      const res = await fetch(`${running.base}/v1/surveys/${a.id}`);
+      const res = await authFetch(`${running.base}/v1/surveys/${a.id}`);
       expect(res.status).toBe(200);
       const s = (await res.json()) as { inputs: unknown; result: unknown };
       expect(s.inputs).toEqual(a.body);

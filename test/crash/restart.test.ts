@@ -4,7 +4,7 @@ import { afterEach, describe, expect, it } from "vitest";
 import { openStore } from "../../src/store/store.js";
 import { tempDatabasePath } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
-import { freePort, postJson, spawnServer, startServer, stopServer, type ServerProcess } from "./server-process.js";
+import { authFetch, freePort, postJson, spawnServer, startServer, stopServer, type ServerProcess } from "./server-process.js";
 
 let running: ServerProcess | undefined;
 afterEach(() => {
@@ -13,7 +13,7 @@ afterEach(() => {
 });
 
 const getJson = async (url: string) => {
-  const res = await fetch(url);
+  const res = await authFetch(url);
   return { status: res.status, body: (await res.json()) as any };
 };
 
@@ -23,7 +23,7 @@ describe("server restarts", () => {
     running = await startServer(path);
     let base = running.base;
     const b = (await postJson(`${base}/v1/buildings`, buildingBody({ name: "Restart hall" }))).body;
-    const patch = await fetch(`${base}/v1/buildings/${b.id}`, { method: "PATCH", headers: { "content-type": "application/json" }, body: JSON.stringify({ notes: "bank fitted" }) });
+    const patch = await authFetch(`${base}/v1/buildings/${b.id}`, { method: "PATCH", headers: { "content-type": "application/json" }, body: JSON.stringify({ notes: "bank fitted" }) });
     expect(patch.status).toBe(200);
     const surveys = [];
     for (let i = 0; i < 3; i++) {
@@ -56,7 +56,7 @@ describe("server restarts", () => {
     expect((await getJson(`${base}/v1/audit-log`)).body).toEqual(before.audit);
     expect(before.list.items).toHaveLength(3);
     expect(before.survey.revisions).toHaveLength(2);
-    expect((await fetch(`${base}/v1/sizing`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ system: buildingBody().system, loads: surveyBody().loads }) })).status).toBe(200);
+    expect((await authFetch(`${base}/v1/sizing`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ system: buildingBody().system, loads: surveyBody().loads }) })).status).toBe(200);
   }, 60_000);
 
   it("seeds the demo on the first start only", async () => {

@@ -1,10 +1,20 @@
 import { spawn, type ChildProcess } from "node:child_process";
 import { createServer } from "node:net";
 import { fileURLToPath } from "node:url";
+import { generateKey } from "../../src/auth/keys.js";
 
 /** The real server as a child process (node --import tsx src/server.ts), for crash and restart tests. */
 
 const root = fileURLToPath(new URL("../../", import.meta.url));
+
+/** The admin key every spawned server bootstraps with (PFC_BOOTSTRAP_KEY); postJson and authFetch send it. */
+export const TEST_KEY = generateKey().key;
+const AUTH = { authorization: `Bearer ${TEST_KEY}` };
+
+/** fetch with Authorization: Bearer TEST_KEY. */
+export function authFetch(url: string, init: RequestInit = {}): Promise<Response> {
+  return fetch(url, { ...init, headers: { ...AUTH, ...((init.headers as Record<string, string> | undefined) ?? {}) } });
+}
 
 export function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
@@ -29,7 +39,7 @@ export interface ServerProcess {
 export function spawnServer(databasePath: string, port: number, env: Record<string, string> = {}): Omit<ServerProcess, "base"> & { port: number } {
   const child = spawn(process.execPath, ["--import", "tsx", "src/server.ts"], {
     cwd: root,
-    env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", DATABASE_PATH: databasePath, DEMO_DATA: "off", LOG_LEVEL: "warn", ...env },
+    env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", DATABASE_PATH: databasePath, DEMO_DATA: "off", LOG_LEVEL: "warn", PFC_BOOTSTRAP_KEY: TEST_KEY, ...env },
     stdio: ["ignore", "ignore", "pipe"],
   });
   let err = "";
@@ -68,6 +78,6 @@ export async function stopServer(s: ServerProcess): Promise<{ code: number | nul
 }
 
 export async function postJson(url: string, body: unknown, headers: Record<string, string> = {}): Promise<{ status: number; body: any }> {
-  const res = await fetch(url, { method: "POST", headers: { "content-type": "application/json", ...headers }, body: JSON.stringify(body) });
+  const res = await fetch(url, { method: "POST", headers: { "content-type": "application/json", ...AUTH, ...headers }, body: JSON.stringify(body) });
   return { status: res.status, body: await res.json() };
 }

@@ -6,6 +6,7 @@ import { afterAll } from "vitest";
 import { buildApp, type AppOptions } from "../../src/app.js";
 import { defaultConfig, type Config } from "../../src/config.js";
 import type { Store } from "../../src/store/store.js";
+import { newBootstrapKey, registerAdminKey } from "./auth.js";
 
 const made: string[] = [];
 
@@ -30,18 +31,27 @@ export interface StoreApp {
   app: FastifyInstance;
   store: Store;
   path: string;
+  /** An admin key of the first organisation (PFC_BOOTSTRAP_KEY); api(app) and inject(app, …) use it by default. */
+  key: string;
+  /** { authorization: "Bearer <key>" } */
+  auth: { authorization: string };
 }
 
-/** The app on a new temp database, demo data off, no logger; close `app` in afterAll. */
+/**
+ * The app on a new temp database, demo data off, no logger, a fresh bootstrap admin key and a rate limit
+ * too high to matter (tests of the limit set their own); close `app` in afterAll.
+ */
 export async function makeStoreApp(
   overrides: Partial<Config> = {},
   options: Omit<AppOptions, "config" | "logger"> = {},
 ): Promise<StoreApp> {
   const path = overrides.DATABASE_PATH ?? tempDatabasePath();
-  const config = defaultConfig({ DEMO_DATA: "off", ...overrides, DATABASE_PATH: path });
+  const key = overrides.PFC_BOOTSTRAP_KEY ?? newBootstrapKey();
+  const config = defaultConfig({ DEMO_DATA: "off", RATE_LIMIT_PER_MINUTE: 10_000_000, ...overrides, DATABASE_PATH: path, PFC_BOOTSTRAP_KEY: key });
   const app = await buildApp({ config, logger: false, ...options });
   await app.ready();
-  return { app, store: app.store, path };
+  registerAdminKey(app, key);
+  return { app, store: app.store, path, key, auth: { authorization: `Bearer ${key}` } };
 }
 
 /** Row count of every table, to prove a rejected request changed nothing. */

@@ -5,6 +5,7 @@ import { getDocument } from "pdfjs-dist/legacy/build/pdf.mjs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { exampleSizingBody } from "../helpers/bodies.js";
 import { makeStoreApp } from "../helpers/db.js";
+import { inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let surveyId: string;
@@ -39,20 +40,20 @@ async function pdfText(buf: Buffer): Promise<{ text: string; width: number }> {
 
 beforeAll(async () => {
   ({ app } = await makeStoreApp());
-  const b = await app.inject({ method: "POST", url: "/v1/buildings", payload: building });
+  const b = await inject(app, { method: "POST", url: "/v1/buildings", payload: building });
   expect(b.statusCode).toBe(201);
-  const s = await app.inject({ method: "POST", url: `/v1/buildings/${b.json().id}/surveys`, payload: survey });
+  const s = await inject(app, { method: "POST", url: `/v1/buildings/${b.json().id}/surveys`, payload: survey });
   expect(s.statusCode).toBe(201);
   surveyId = s.json().id;
   result = s.json().result;
-  const r2 = await app.inject({ method: "POST", url: `/v1/surveys/${surveyId}/revisions`, payload: { ...survey, reason: "second compressor", loads: [...survey.loads, { ...survey.loads[1], label: "Compressor 2" }] } });
+  const r2 = await inject(app, { method: "POST", url: `/v1/surveys/${surveyId}/revisions`, payload: { ...survey, reason: "second compressor", loads: [...survey.loads, { ...survey.loads[1], label: "Compressor 2" }] } });
   expect(r2.statusCode).toBe(201);
 });
 afterAll(() => app.close());
 
 describe("GET /v1/surveys/{id}/report", () => {
   it("answers the latest revision as a self-contained HTML document", async () => {
-    const res = await app.inject(`/v1/surveys/${surveyId}/report`);
+    const res = await inject(app, `/v1/surveys/${surveyId}/report`);
     expect(res.statusCode).toBe(200);
     expect(res.headers["content-type"]).toBe("text/html; charset=utf-8");
     expect(res.headers["content-security-policy"]).toContain("default-src 'none'");
@@ -67,18 +68,18 @@ describe("GET /v1/surveys/{id}/report", () => {
   });
 
   it("answers an earlier revision when asked, and 404 problems for unknown surveys and revisions", async () => {
-    const r1 = await app.inject(`/v1/surveys/${surveyId}/report?revision=1`);
+    const r1 = await inject(app, `/v1/surveys/${surveyId}/report?revision=1`);
     expect(r1.statusCode).toBe(200);
     const text = parse(r1.body).text.replace(/\s+/g, " ");
     expect(text).toContain(`revision 1`);
     expect(text).toContain(`${result.correction.kvarRequired.toFixed(1)} kvar to PF 0.950`);
     for (const url of ["/v1/surveys/srv_nope/report", `/v1/surveys/${surveyId}/report?revision=9`, "/v1/surveys/srv_nope/report.pdf"]) {
-      const res = await app.inject(url);
+      const res = await inject(app, url);
       expect(res.statusCode, url).toBe(404);
       expect(res.headers["content-type"]).toContain("application/problem+json");
       expect(res.json().type).toMatch(/not-found$/);
     }
-    const bad = await app.inject(`/v1/surveys/${surveyId}/report?revision=zero`);
+    const bad = await inject(app, `/v1/surveys/${surveyId}/report?revision=zero`);
     expect(bad.statusCode).toBe(400);
     expect(bad.json().errors[0].path).toBe("revision");
   });
@@ -86,7 +87,7 @@ describe("GET /v1/surveys/{id}/report", () => {
 
 describe("GET /v1/surveys/{id}/report.pdf", () => {
   it("answers a PDF attachment with the survey's figures, A4 by default and Letter on request", async () => {
-    const res = await app.inject(`/v1/surveys/${surveyId}/report.pdf?revision=1`);
+    const res = await inject(app, `/v1/surveys/${surveyId}/report.pdf?revision=1`);
     expect(res.statusCode).toBe(200);
     expect(res.headers["content-type"]).toBe("application/pdf");
     expect(res.headers["content-disposition"]).toBe(`attachment; filename="${surveyId}-r1-report.pdf"`);
@@ -94,22 +95,22 @@ describe("GET /v1/surveys/{id}/report.pdf", () => {
     expect(Math.round(width)).toBe(595);
     expect(text).toContain(`${result.site.kW.toFixed(1)} kW`);
     expect(text).toContain("CAUTION: Stored charge and discharge time");
-    const letter = await app.inject(`/v1/surveys/${surveyId}/report.pdf?paper=letter`);
+    const letter = await inject(app, `/v1/surveys/${surveyId}/report.pdf?paper=letter`);
     expect(Math.round((await pdfText(letter.rawPayload)).width)).toBe(612);
-    expect((await app.inject(`/v1/surveys/${surveyId}/report.pdf?paper=a3`)).statusCode).toBe(400);
+    expect((await inject(app, `/v1/surveys/${surveyId}/report.pdf?paper=a3`)).statusCode).toBe(400);
   });
 });
 
 describe("POST /v1/sizing/report", () => {
   it("sizes the body and answers its report as HTML, or PDF with format=pdf", async () => {
-    const html = await app.inject({ method: "POST", url: "/v1/sizing/report", payload: exampleSizingBody() });
+    const html = await inject(app, { method: "POST", url: "/v1/sizing/report", payload: exampleSizingBody() });
     expect(html.statusCode).toBe(200);
     expect(html.headers["content-type"]).toBe("text/html; charset=utf-8");
-    const sized = (await app.inject({ method: "POST", url: "/v1/sizing", payload: exampleSizingBody() })).json();
+    const sized = (await inject(app, { method: "POST", url: "/v1/sizing", payload: exampleSizingBody() })).json();
     const text = parse(html.body).text.replace(/\s+/g, " ");
     expect(text).toContain("sizing request (not stored)");
     expect(text).toContain(`${sized.site.kW.toFixed(1)} kW, ${sized.site.kvar.toFixed(1)} kvar, PF ${sized.site.displacementPF.toFixed(3)}`);
-    const pdf = await app.inject({ method: "POST", url: "/v1/sizing/report?format=pdf", payload: exampleSizingBody() });
+    const pdf = await inject(app, { method: "POST", url: "/v1/sizing/report?format=pdf", payload: exampleSizingBody() });
     expect(pdf.headers["content-type"]).toBe("application/pdf");
     expect(pdf.headers["content-disposition"]).toBe('attachment; filename="sizing-report.pdf"');
     expect(pdf.rawPayload.subarray(0, 5).toString("latin1")).toBe("%PDF-");
@@ -118,7 +119,7 @@ describe("POST /v1/sizing/report", () => {
   it("rejects an invalid body with a 400 problem naming the field", async () => {
     const body = exampleSizingBody();
     body.loads[0].measurement.pf = 1.4;
-    const res = await app.inject({ method: "POST", url: "/v1/sizing/report", payload: body });
+    const res = await inject(app, { method: "POST", url: "/v1/sizing/report", payload: body });
     expect(res.statusCode).toBe(400);
     expect(res.headers["content-type"]).toContain("application/problem+json");
     expect(res.json().errors.map((e: { path: string }) => e.path)).toContain("loads.0.measurement.pf");

@@ -5,6 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { csvOfSeries, syntheticYear } from "../core/interval/fixtures.js";
 import { makeStoreApp } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
+import { inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let withIntervals: string;
@@ -16,10 +17,10 @@ const january = csvOfSeries(syntheticYear(96, (k) => (k < 32 ? { kW: 200, kvar: 
 
 beforeAll(async () => {
   ({ app } = await makeStoreApp());
-  const b = (await app.inject({ method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Report interval hall" }) })).json();
-  const survey = async (body: unknown) => (await app.inject({ method: "POST", url: `/v1/buildings/${b.id}/surveys`, payload: body as object })).json().id as string;
+  const b = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Report interval hall" }) })).json();
+  const survey = async (body: unknown) => (await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/surveys`, payload: body as object })).json().id as string;
   withoutIntervals = await survey(surveyBody());
-  const a = await app.inject({ method: "POST", url: `/v1/buildings/${b.id}/interval-analyses?timeZone=UTC`, headers: { "content-type": "text/csv" }, payload: january });
+  const a = await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/interval-analyses?timeZone=UTC`, headers: { "content-type": "text/csv" }, payload: january });
   expect(a.statusCode).toBe(201);
   analysisId = a.json().id;
   withIntervals = await survey(surveyBody());
@@ -27,14 +28,14 @@ beforeAll(async () => {
 afterAll(() => app.close());
 
 const reportOf = async (id: string) => {
-  const res = await app.inject(`/v1/surveys/${id}/report`);
+  const res = await inject(app, `/v1/surveys/${id}/report`);
   expect(res.statusCode).toBe(200);
   return parse(res.body);
 };
 
 describe("survey report with a stored interval analysis", () => {
   it("draws the duration curve and states the analysis's period", async () => {
-    expect((await app.inject(`/v1/surveys/${withIntervals}`)).json().building.intervalAnalysisId).toBe(analysisId);
+    expect((await inject(app, `/v1/surveys/${withIntervals}`)).json().building.intervalAnalysisId).toBe(analysisId);
     const doc = await reportOf(withIntervals);
     const section = doc.querySelector("#interval");
     expect(section).not.toBeNull();

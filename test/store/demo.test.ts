@@ -5,6 +5,7 @@ import { DEMO_BUILDING, DEMO_SURVEYS } from "../../src/demo/scenario.js";
 import { seedDemo } from "../../src/demo/seed.js";
 import { engineInputOf } from "../../src/http/survey-sizing.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
+import { inject } from "../helpers/auth.js";
 
 let app: FastifyInstance | undefined;
 afterEach(async () => {
@@ -16,12 +17,12 @@ describe("demo data", () => {
   it("seeds one building with two surveys a year apart, sized by the engine, on a new database", async () => {
     const made = await makeStoreApp({ DEMO_DATA: "on" });
     app = made.app;
-    const list = (await app.inject("/v1/buildings")).json();
+    const list = (await inject(app, "/v1/buildings")).json();
     expect(list.items).toHaveLength(1);
     const building = list.items[0];
     expect(building).toMatchObject({ name: DEMO_BUILDING.name, system: { voltageV: 480, frequencyHz: 60, phases: 3 } });
 
-    const trend = (await app.inject(`/v1/buildings/${building.id}/trend`)).json();
+    const trend = (await inject(app, `/v1/buildings/${building.id}/trend`)).json();
     expect(trend.items).toHaveLength(2);
     const [before, after] = trend.items;
     const days = (Date.parse(after.surveyedAt) - Date.parse(before.surveyedAt)) / 86_400_000;
@@ -34,7 +35,7 @@ describe("demo data", () => {
     expect(after.kvarRequired).toBeGreaterThan(0);
 
     for (const [i, point] of trend.items.entries()) {
-      const stored = (await app.inject(`/v1/surveys/${point.surveyId}`)).json();
+      const stored = (await inject(app, `/v1/surveys/${point.surveyId}`)).json();
       const fresh = size(engineInputOf(stored.building, DEMO_SURVEYS[i]!));
       expect(fresh.ok).toBe(true);
       if (fresh.ok) expect(stored.result).toEqual(fresh.result);
@@ -53,7 +54,7 @@ describe("demo data", () => {
   it("stays off with DEMO_DATA=off", async () => {
     const made = await makeStoreApp();
     app = made.app;
-    expect((await app.inject("/v1/buildings")).json().items).toEqual([]);
+    expect((await inject(app, "/v1/buildings")).json().items).toEqual([]);
     expect(rowCounts(made.store)).toMatchObject({ buildings: 0, surveys: 0, audit_log: 0 });
   });
 });

@@ -13,6 +13,7 @@ import type { BuildingData, SurveyInputs } from "../../src/store/types.js";
 import { syntheticYear } from "../core/interval/fixtures.js";
 import { rowCounts, tempDatabasePath, tempDir } from "../helpers/db.js";
 import { surveyBody } from "./fixtures.js";
+import { inject, newBootstrapKey, registerAdminKey } from "../helpers/auth.js";
 
 const ORG = DEFAULT_ORG_ID;
 const at = "2025-06-01T10:00:00.000Z";
@@ -97,14 +98,17 @@ describe("migration 002 on a database written by 001", () => {
     ).run(ORG, at, JSON.stringify(rev.inputs), JSON.stringify(rev.result), rev.engineVersion, JSON.stringify(v1Snapshot), m.kW, m.kvar, m.kVA, m.displacementPF, m.kvarRequired, m.warningCount);
     old.close();
 
-    const app = await buildApp({ config: defaultConfig({ DATABASE_PATH: path, DEMO_DATA: "off" }), logger: false });
+    const key = newBootstrapKey();
+    const app = await buildApp({ config: defaultConfig({ DATABASE_PATH: path, DEMO_DATA: "off", PFC_BOOTSTRAP_KEY: key }), logger: false });
+    registerAdminKey(app, key);
     try {
-      expect(app.store.migration.applied).toEqual([2]);
-      expect((await app.inject("/v1/buildings/bld_old")).json()).toMatchObject({ name: "Old hall", economics: null });
-      expect((await app.inject("/v1/buildings/bld_old/history")).json().items[0].economics).toBeNull();
-      const s = (await app.inject("/v1/surveys/srv_old")).json();
+      // 003 (API keys) came after 002 and is applied too.
+      expect(app.store.migration.applied).toEqual([2, 3]);
+      expect((await inject(app, "/v1/buildings/bld_old")).json()).toMatchObject({ name: "Old hall", economics: null });
+      expect((await inject(app, "/v1/buildings/bld_old/history")).json().items[0].economics).toBeNull();
+      const s = (await inject(app, "/v1/surveys/srv_old")).json();
       expect(s.building).toMatchObject({ buildingVersion: 1, economics: null, intervalAnalysisId: null });
-      expect((await app.inject("/v1/buildings/bld_old/interval-analyses")).json().items).toEqual([]);
+      expect((await inject(app, "/v1/buildings/bld_old/interval-analyses")).json().items).toEqual([]);
     } finally {
       await app.close();
     }

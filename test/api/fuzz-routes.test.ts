@@ -1,0 +1,145 @@
+import type { FastifyInstance } from "fastify";
+import fc from "fast-check";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { organisationNamed } from "../../src/auth/bootstrap.js";
+import { operations, type Operation } from "../../src/http/operations.js";
+import type { Store } from "../../src/store/store.js";
+import { csvOfSeries, syntheticYear } from "../core/interval/fixtures.js";
+import { inject, keyFor, keyIdOf } from "../helpers/auth.js";
+import { exampleSizingBody } from "../helpers/bodies.js";
+import { makeStoreApp, rowCounts } from "../helpers/db.js";
+import { buildingBody, surveyBody } from "../store/fixtures.js";
+
+/**
+ * Property-based fuzzing of every route (src/http/operations.ts plus the report pages): random or mutated
+ * bodies, queries, path parameters and headers (keys of every role, another organisation's, junk). No answer
+ * is ≥ 500 and a rejected request changes no row. FUZZ_RUNS cases in total (300 by default; 10 000 for a long run).
+ */
+const TOTAL = Number(process.env.FUZZ_RUNS ?? 300);
+const SEED = Number(process.env.FC_SEED ?? 0x5eed);
+
+type Route = Pick<Operation, "method" | "path" | "operationId" | "query" | "bodyType"> & { body?: unknown };
+const routes: Route[] = [
+  ...operations,
+  { method: "get", path: "/v1/surveys/{id}/report", operationId: "surveyReport", query: { revision: { type: "integer", description: "" } } },
+  { method: "get", path: "/v1/surveys/{id}/report.pdf", operationId: "surveyReportPdf", query: { paper: { type: "string", description: "" } } },
+  { method: "post", path: "/v1/sizing/report", operationId: "sizingReport", body: true, query: { format: { type: "string", description: "" } } },
+];
+const perRoute = Math.max(1, Math.ceil(TOTAL / routes.length));
+
+let app: FastifyInstance;
+let store: Store;
+const ids: Record<string, string> = {};
+const keys: (string | undefined)[] = [];
+const week = csvOfSeries(syntheticYear(24, () => ({ kW: 300, kvar: 200 }), 7));
+
+beforeAll(async () => {
+  ({ app, store } = await makeStoreApp());
+  const b = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Fuzz hall" }) })).json();
+  ids.building = b.id;
+  ids.interval = (await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/interval-analyses`, headers: { "content-type": "text/csv" }, payload: week })).json().id;
+  ids.survey = (await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/surveys`, payload: surveyBody() })).json().id;
+  const spare = keyFor(app, "auditor");
+  ids.key = keyIdOf(app, spare);
+  const other = keyFor(app, "admin", organisationNamed(store, "Fuzz other").id);
+  // 0: the admin key (inject adds it); 1 and 7: no key or a junk header; then malformed, another organisation's, each role.
+  keys.push(undefined, undefined, "Bearer", "junk", other, keyFor(app, "surveyor"), keyFor(app, "auditor"), undefined);
+});
+afterAll(() => app.close());
+
+const validBodies: Record<string, () => unknown> = {
+  createBuilding: () => buildingBody({ name: `Fuzz ${Math.random()}` }),
+  updateBuilding: () => ({ notes: "fuzz" }),
+  createSurvey: surveyBody,
+  reviseSurvey: () => ({ ...surveyBody(), reason: "fuzz" }),
+  createKey: () => ({ role: "auditor" }),
+};
+
+const printable = fc.string({ unit: fc.mapToConstant({ num: 95, build: (v) => String.fromCharCode(v + 0x20) }), maxLength: 40 });
+
+/** A valid body with one field replaced by a random value, or removed. */
+function mutated(valid: unknown): fc.Arbitrary<unknown> {
+  const paths: string[][] = [];
+  const walk = (v: unknown, p: string[]) => {
+    if (p.length) paths.push(p);
+    if (v && typeof v === "object") for (const [k, c] of Object.entries(v)) walk(c, [...p, k]);
+  };
+  walk(valid, []);
+  if (!paths.length) return fc.constant(valid);
+  return fc.tuple(fc.nat(paths.length - 1), fc.option(fc.jsonValue({ maxDepth: 2 }))).map(([i, value]) => {
+    const copy = structuredClone(valid) as Record<string, any>;
+    const path = paths[i] as string[];
+    let at: any = copy;
+    for (const k of path.slice(0, -1)) at = at[k];
+    const last = path[path.length - 1] as string;
+    if (value === null) delete at[last];
+    else at[last] = value;
+    return copy;
+  });
+}
+
+function bodyArb(r: Route): fc.Arbitrary<{ payload?: string; type?: string }> {
+  const types = fc.constantFrom(undefined, "application/json", "text/csv", "text/plain", "multipart/form-data; boundary=zz", "application/x-www-form-urlencoded");
+  if (r.bodyType === "text/csv") {
+    const csv = fc.oneof(fc.constant(week), printable, fc.tuple(fc.nat(week.length), printable).map(([i, s]) => week.slice(0, i) + s + week.slice(i)));
+    return fc.record({ payload: csv, type: fc.oneof(fc.constant("text/csv"), types) });
+  }
+  if (!("body" in r) || !r.body) return fc.record({ payload: fc.option(fc.jsonValue().map((v) => JSON.stringify(v) ?? ""), { nil: undefined }), type: types });
+  const valid = (validBodies[r.operationId] ?? exampleSizingBody)();
+  const json = fc.oneof(fc.constant(valid), mutated(valid), fc.jsonValue()).map((v) => JSON.stringify(v) ?? "");
+  return fc.record({ payload: fc.oneof(json, printable), type: fc.oneof(fc.constant("application/json"), types) });
+}
+
+function urlArb(r: Route): fc.Arbitrary<string> {
+  const real = r.path.startsWith("/v1/buildings/") ? ids.building : r.path.startsWith("/v1/surveys/") ? ids.survey : r.path.startsWith("/v1/keys/") ? ids.key : ids.interval;
+  const param = fc.oneof(fc.constant(real as string), printable.map(encodeURIComponent));
+  const names = [...Object.keys(r.query ?? {}), "limit", "cursor", "x"];
+  const query = fc.dictionary(fc.constantFrom(...names), printable, { maxKeys: 3 }).map((q) => new URLSearchParams(q).toString());
+  return fc.tuple(param, fc.oneof(fc.constant("1"), printable.map(encodeURIComponent)), query).map(
+    ([p, n, q]) => r.path.replace("{id}", p).replace("{n}", n) + (q ? `?${q}` : ""),
+  );
+}
+
+const headerArb = fc.record({
+  key: fc.nat(7),
+  junkAuth: fc.option(printable, { nil: undefined }),
+  idem: fc.option(printable, { nil: undefined }),
+  extra: fc.option(fc.tuple(fc.constantFrom("x-request-id", "accept", "if-none-match", "origin", "content-length"), printable), { nil: undefined }),
+});
+
+/** Row counts, plus the columns an UPDATE can change (building versions, latest revisions, revocations). */
+function fingerprint(): string {
+  const changed = store.db
+    .prepare("SELECT (SELECT total(version) FROM buildings) AS v, (SELECT total(latest_revision) FROM surveys) AS r, (SELECT count(revoked_at) FROM api_keys) AS k")
+    .get();
+  return JSON.stringify([rowCounts(store), changed]);
+}
+
+describe("fuzzing every route", () => {
+  it.each(routes.map((r) => [`${r.method.toUpperCase()} ${r.path}`, r] as const))("%s: never ≥ 500, a rejection changes nothing", async (_, r) => {
+    await fc.assert(
+      fc.asyncProperty(urlArb(r), bodyArb(r), headerArb, async (url, body, h) => {
+        const headers: Record<string, string> = {};
+        const admin = h.key === 0;
+        const key = keys[h.key];
+        if (!admin) headers.authorization = key ? (key.startsWith("pfc_") ? `Bearer ${key}` : key) : (h.junkAuth ?? "");
+        if (!admin && key === undefined && h.junkAuth === undefined) delete headers.authorization;
+        if (body.type) headers["content-type"] = body.type;
+        if (h.idem !== undefined) headers["idempotency-key"] = h.idem;
+        if (h.extra) headers[h.extra[0]] = h.extra[1];
+        const before = fingerprint();
+        const method = r.method.toUpperCase() as "GET";
+        const res = admin
+          ? await inject(app, { method, url, headers, ...(body.payload === undefined || method === "GET" ? {} : { payload: body.payload }) })
+          : await app.inject({ method, url, headers, ...(body.payload === undefined || method === "GET" ? {} : { payload: body.payload }) });
+        const shown = `${method} ${url} ${JSON.stringify(headers)} ${String(body.payload).slice(0, 200)}`;
+        expect(res.statusCode, `${res.statusCode} for ${shown}: ${res.body.slice(0, 300)}`).toBeLessThan(500);
+        if (res.statusCode >= 400) {
+          expect(res.headers["content-type"], shown).toMatch(/^application\/problem\+json/);
+          expect(fingerprint(), `a rejected ${shown} changed stored data`).toBe(before);
+        }
+      }),
+      { numRuns: perRoute, seed: SEED },
+    );
+  });
+});

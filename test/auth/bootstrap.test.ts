@@ -1,0 +1,107 @@
+import { execFile } from "node:child_process";
+import { fileURLToPath } from "node:url";
+import { promisify } from "node:util";
+import { Writable } from "node:stream";
+import { describe, expect, it } from "vitest";
+import { buildApp } from "../../src/app.js";
+import { generateKey } from "../../src/auth/keys.js";
+import { defaultConfig, loadConfig } from "../../src/config.js";
+import { openStore } from "../../src/store/store.js";
+import { api, bearer, inject } from "../helpers/auth.js";
+import { makeStoreApp, rowCounts, tempDatabasePath } from "../helpers/db.js";
+import { buildingBody } from "../store/fixtures.js";
+
+const run = promisify(execFile);
+const root = fileURLToPath(new URL("../../", import.meta.url));
+const keysCli = (path: string, args: string[]) =>
+  run(process.execPath, ["--import", "tsx", "scripts/keys.ts", ...args], { cwd: root, env: { ...process.env, DATABASE_PATH: path } });
+
+describe("bootstrap key", () => {
+  it("generates one admin key on a database without keys, hands it over once, and not again on the next start", async () => {
+    const path = tempDatabasePath();
+    const config = defaultConfig({ DATABASE_PATH: path, DEMO_DATA: "off" });
+    const given: string[] = [];
+    const app = await buildApp({ config, logger: false, onGeneratedKey: (k) => given.push(k) });
+    expect(given).toHaveLength(1);
+    expect((await inject(app, "/v1/keys", given[0])).json().items).toMatchObject([{ role: "admin", createdBy: "bootstrap" }]);
+    await app.close();
+    const again = await buildApp({ config, logger: false, onGeneratedKey: (k) => given.push(k) });
+    expect(given).toHaveLength(1);
+    expect((await inject(again, "/v1/buildings", given[0])).statusCode).toBe(200);
+    await again.close();
+  });
+
+  it("takes PFC_BOOTSTRAP_KEY when set and refuses a malformed one naming the variable", async () => {
+    const key = generateKey().key;
+    expect(loadConfig({ PFC_BOOTSTRAP_KEY: key }).PFC_BOOTSTRAP_KEY).toBe(key);
+    expect(() => loadConfig({ PFC_BOOTSTRAP_KEY: "letmein" })).toThrow(/PFC_BOOTSTRAP_KEY/);
+    expect(() => loadConfig({ CORS_ORIGINS: "https://ok.example, not an origin" })).toThrow(/CORS_ORIGINS/);
+    expect(() => loadConfig({ RATE_LIMIT_PER_MINUTE: "0" })).toThrow(/RATE_LIMIT_PER_MINUTE/);
+    expect(() => loadConfig({ REQUEST_TIMEOUT_MS: "abc" })).toThrow(/REQUEST_TIMEOUT_MS/);
+    const given: string[] = [];
+    const app = await buildApp({ config: defaultConfig({ DATABASE_PATH: ":memory:", DEMO_DATA: "off", PFC_BOOTSTRAP_KEY: key }), logger: false, onGeneratedKey: (k) => given.push(k) });
+    expect(given).toEqual([]);
+    expect((await inject(app, "/v1/keys", key)).statusCode).toBe(200);
+    await app.close();
+  });
+
+  it("never writes a key to the request log", async () => {
+    let log = "";
+    const stream = new Writable({ write: (chunk, _e, done) => ((log += chunk.toString()), done()) });
+    const key = generateKey().key;
+    const config = defaultConfig({ DATABASE_PATH: ":memory:", DEMO_DATA: "off", PFC_BOOTSTRAP_KEY: key, LOG_LEVEL: "trace" });
+    const app = await buildApp({ config, logger: { level: "trace", stream } });
+    const created = (await inject(app, { method: "POST", url: "/v1/keys", payload: { role: "surveyor" } }, key)).json().key as string;
+    await inject(app, "/v1/buildings", created);
+    await inject(app, "/v1/buildings", `${key.slice(0, -1)}x`);
+    await app.close();
+    expect(log).toContain("incoming request");
+    for (const k of [key, created]) expect(log).not.toContain(k.slice(13));
+  });
+});
+
+describe("npm run keys", () => {
+  it("creates a key in a new organisation offline, printing the key alone on its last line", async () => {
+    const path = tempDatabasePath();
+    const { stdout } = await keysCli(path, ["create", "--role", "surveyor", "--org", "Second company"]);
+    const lines = stdout.trimEnd().split("\n");
+    const key = lines.at(-1) as string;
+    expect(key).toMatch(/^pfc_[0-9a-z]{8}_[A-Za-z0-9_-]{43}$/);
+    expect(stdout).toContain('created organisation "Second company"');
+    const again = await keysCli(path, ["create", "--role", "auditor", "--org", "Second company"]);
+    expect(again.stdout).not.toContain("created organisation");
+
+    const { app, key: admin } = await makeStoreApp({ DATABASE_PATH: path });
+    try {
+      const mine = await api(app, admin).post("/v1/buildings").send(buildingBody({ name: "First company hall" }));
+      const theirs = await api(app, key).post("/v1/buildings").send(buildingBody({ name: "Second company hall" }));
+      expect(theirs.status).toBe(201);
+      expect((await api(app, key).get(`/v1/buildings/${mine.body.id}`)).status).toBe(404);
+      expect((await api(app, key).get("/v1/buildings")).body.items.map((b: any) => b.name)).toEqual(["Second company hall"]);
+      expect((await inject(app, "/v1/keys", again.stdout.trimEnd().split("\n").at(-1))).statusCode).toBe(403);
+      expect((await api(app).get("/v1/audit-log").set(bearer(admin))).body.items.every((e: any) => e.resourceId !== theirs.body.id)).toBe(true);
+    } finally {
+      await app.close();
+    }
+  });
+
+  it("refuses a bad role or command with a usage line and stores nothing", async () => {
+    const path = tempDatabasePath();
+    await keysCli(path, ["create", "--role", "admin"]);
+    const counts = () => {
+      const store = openStore({ path });
+      try {
+        return rowCounts(store);
+      } finally {
+        store.close();
+      }
+    };
+    const before = counts();
+    for (const args of [["create", "--role", "root"], ["create"], ["delete", "--role", "admin"], ["create", "--role", "admin", "--org", " "]]) {
+      const err = await keysCli(path, args).then(() => undefined, (e: { code: number; stderr: string }) => e);
+      expect(err?.code, args.join(" ")).toBe(2);
+      expect(err?.stderr).toMatch(/usage|--role|--org/);
+    }
+    expect(counts()).toEqual(before);
+  });
+});
