@@ -66,7 +66,10 @@ export async function benchLoad(opts: { seconds: number; connections?: number })
         { section: "load", metric: "errors + timeouts + non-2xx", value: String(r.errors + r.timeouts + r.non2xx), goal: "0", pass: ok },
         { section: "load", metric: "5xx (SQLITE_BUSY would show here)", value: String(fiveXX), goal: "0", pass: fiveXX === 0 },
       ],
-      notes: [`${opts.seconds} s, about ${total} requests, ${after - before} surveys stored; status codes ${JSON.stringify(stats)}`],
+      notes: [
+        `${opts.seconds} s, about ${total} requests, ${after - before} surveys stored; status codes ${JSON.stringify(stats)}`,
+        `errors ${r.errors}, timeouts ${r.timeouts}, non-2xx ${r.non2xx}${r.errors > 0 ? ` (${JSON.stringify(r.errorStats ?? [])})` : ""}`,
+      ],
     };
   } finally {
     await app.close();
