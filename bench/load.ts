@@ -68,7 +68,7 @@ export async function benchLoad(opts: { seconds: number; connections?: number })
       ],
       notes: [
         `${opts.seconds} s, about ${total} requests, ${after - before} surveys stored; status codes ${JSON.stringify(stats)}`,
-        `errors ${r.errors}, timeouts ${r.timeouts}, non-2xx ${r.non2xx}${r.errors > 0 ? ` (${JSON.stringify(r.errorStats ?? [])})` : ""}`,
+        `errors ${r.errors}, timeouts ${r.timeouts}, non-2xx ${r.non2xx}${r.errors > 0 ? ` (${JSON.stringify((r as { errorStats?: unknown }).errorStats ?? [])})` : ""}`,
       ],
     };
   } finally {

@@ -9,6 +9,7 @@ import { keysRoutes } from "./http/routes/keys.js";
 import { auditRoutes } from "./http/routes/audit.js";
 import { buildingsRoutes } from "./http/routes/buildings.js";
 import { docsRoutes } from "./http/routes/docs.js";
+import { formRoutes } from "./form/plugin.js";
 import { harmonicsRoutes } from "./http/routes/harmonics.js";
 import { intervalAnalysesRoutes } from "./http/routes/interval-analyses.js";
 import { sizingRoutes } from "./http/routes/sizing.js";
@@ -126,5 +127,6 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
   await app.register(auditRoutes, { store });
   await app.register(keysRoutes, { store });
   await app.register(docsRoutes);
+  await app.register(formRoutes);
   return app;
 }
