@@ -2,26 +2,17 @@
  * /docs in headless Chromium under the API's security headers: the interactive docs render the operations
  * with no CSP violation. Skipped, loudly, where /usr/bin/chromium is not installed.
  */
-import { existsSync, mkdtempSync, rmSync } from "node:fs";
-import { tmpdir } from "node:os";
-import { join } from "node:path";
-import { chromium } from "playwright-core";
+import { rmSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { makeStoreApp } from "../helpers/db.js";
+import { CHROMIUM, hasChromium, launchFreshChromium } from "../helpers/browser.js";
 
-const CHROMIUM = "/usr/bin/chromium";
-const hasChromium = existsSync(CHROMIUM);
 if (!hasChromium) console.warn(`docs browser test SKIPPED: ${CHROMIUM} is not installed`);
 
 describe("/docs in a browser", () => {
   it.skipIf(!hasChromium)("renders the operations without a CSP violation", async () => {
     const { app } = await makeStoreApp();
-    const profile = mkdtempSync(join(tmpdir(), "pfc-chromium-docs-"));
-    const context = await chromium.launchPersistentContext(profile, {
-      executablePath: CHROMIUM,
-      headless: true,
-      args: ["--headless", "--no-sandbox", "--disable-gpu", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
-    });
+    const { context, profile } = await launchFreshChromium();
     try {
       const base = await app.listen({ host: "127.0.0.1", port: 0 });
       const page = await context.newPage();

@@ -4,16 +4,15 @@
  * service's own sizing, submit, offline queue, a lost response resent without a duplicate, a draft that survives a
  * reload, and messages beside their fields. Skipped, loudly, where /usr/bin/chromium is not installed.
  */
-import { existsSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import type { FastifyInstance } from "fastify";
-import { chromium, type BrowserContext, type Page } from "playwright-core";
+import type { BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { makeStoreApp } from "../helpers/db.js";
+import { CHROMIUM, hasChromium, launchFreshChromium } from "../helpers/browser.js";
 
-const CHROMIUM = "/usr/bin/chromium";
-const hasChromium = existsSync(CHROMIUM);
 if (!hasChromium) console.warn(`survey page browser tests SKIPPED: ${CHROMIUM} is not installed (apt-get install -y chromium)`);
 
 let app: FastifyInstance;
@@ -47,13 +46,7 @@ beforeAll(async () => {
   base = `http://127.0.0.1:${addr.port}`;
   if (!hasChromium) return;
   shots = mkdtempSync(join(tmpdir(), "pfc-form-shots-"));
-  profile = mkdtempSync(join(tmpdir(), "pfc-chromium-profile-"));
-  context = await chromium.launchPersistentContext(profile, {
-    executablePath: CHROMIUM,
-    headless: true,
-    viewport: { width: 800, height: 1280 },
-    args: ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
-  });
+  ({ context, profile } = await launchFreshChromium({ width: 800, height: 1280 }));
   page = context.pages()[0] ?? (await context.newPage());
   page.on("console", (m) => {
     if (m.type() === "error" || m.type() === "warning") problems.push(`${m.type()}: ${m.text()}`);

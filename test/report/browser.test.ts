@@ -2,18 +2,17 @@
  * The report in a real browser (Debian's headless Chromium): it renders without console errors, fetches nothing
  * but itself, and prints to A4 and Letter. Skipped, loudly, where /usr/bin/chromium is not installed.
  */
-import { existsSync, mkdtempSync, rmSync, statSync, writeFileSync } from "node:fs";
+import { mkdtempSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { pathToFileURL } from "node:url";
 import { getDocument } from "pdfjs-dist/legacy/build/pdf.mjs";
-import { chromium, type BrowserContext } from "playwright-core";
+import type { BrowserContext } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { buildReportModel, renderReportHtml } from "../../src/report/index.js";
 import { fullReportInput } from "./fixtures.js";
+import { CHROMIUM, hasChromium, launchFreshChromium } from "../helpers/browser.js";
 
-const CHROMIUM = "/usr/bin/chromium";
-const hasChromium = existsSync(CHROMIUM);
 if (!hasChromium) console.warn(`report browser tests SKIPPED: ${CHROMIUM} is not installed (apt-get install -y chromium)`);
 
 describe("report in headless Chromium", () => {
@@ -28,14 +27,7 @@ describe("report in headless Chromium", () => {
     shots = mkdtempSync(join(tmpdir(), "pfc-report-shots-"));
     file = join(shots, "report.html");
     writeFileSync(file, renderReportHtml(buildReportModel(fullReportInput())));
-    profile = mkdtempSync(join(tmpdir(), "pfc-chromium-profile-"));
-    // A fresh profile directory per run: nothing cached or remembered from another run.
-    context = await chromium.launchPersistentContext(profile, {
-      executablePath: CHROMIUM,
-      headless: true,
-      viewport: { width: 1200, height: 900 },
-      args: ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
-    });
+    ({ context, profile } = await launchFreshChromium({ width: 1200, height: 900 }));
   });
 
   afterAll(async () => {
