@@ -72,5 +72,10 @@ export function tuningOrder(reactorFraction: number): number {
   return 1 / Math.sqrt(reactorFraction);
 }
 
+/** Controller response threshold C/k = Q_step·1000/(√3·V·CT ratio): the smallest step's current at the CT secondary (trade formula). */
+export function controllerResponseA(stepKvar: number, voltageV: number, ctRatio: number, phases: Phases = 3): number {
+  return (stepKvar * 1000) / ((phases === 3 ? SQRT3 : 1) * voltageV * ctRatio);
+}
+
 /** IEEE Std 18 continuous rms voltage limit: 110 % of rated. */
 export const IEEE18_MAX_VOLTAGE_RATIO = 1.1;

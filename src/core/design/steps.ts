@@ -1,5 +1,5 @@
 /** Fixed part and switched steps of a bank, chosen by simulating a controller over the reactive-demand samples. */
-import { SQRT3, type Phases } from "../conventions.js";
+import { controllerResponseA } from "../capacitor.js";
 import { STANDARD_UNIT_KVAR } from "../unit-sizes.js";
 import { warning, type Warning } from "../warnings.js";
 import { chooseFixedPart, neededKvar, percentileNearestRank, type DemandArrays, type FixedPart } from "./demand.js";
@@ -186,10 +186,5 @@ export function planSteps(input: StepsInput): StepPlan {
   };
 }
 
-/**
- * Controller response threshold C/k: the smallest step's current referred to the CT secondary,
- * C/k = Q_step·1000/(√3·V·CT ratio) three-phase, Q_step·1000/(V·CT ratio) single-phase (trade definition).
- */
-export function controllerResponseA(stepKvar: number, voltageV: number, ctRatio: number, phases: Phases = 3): number {
-  return (stepKvar * 1000) / ((phases === 3 ? SQRT3 : 1) * voltageV * ctRatio);
-}
+/** Controller response threshold C/k (trade formula, in capacitor.ts). */
+export { controllerResponseA };

@@ -1,4 +1,5 @@
 /** A capacitor stage as one series branch: reactor (optional) + capacitor, per phase of the wye equivalent. */
+import { effectiveKvarWithReactor, kvarAtFrequency, kvarAtVoltage } from "../capacitor.js";
 import { complex, type Complex } from "./complex.js";
 
 export interface CapacitorBranch {
@@ -22,7 +23,7 @@ export function capacitorKvarAtSystem(
   voltageV: number,
   frequencyHz: number,
 ): number {
-  return ratedKvar * (voltageV / ratedVoltageV) ** 2 * (frequencyHz / ratedFrequencyHz);
+  return kvarAtFrequency(kvarAtVoltage(ratedKvar, voltageV, ratedVoltageV), frequencyHz, ratedFrequencyHz);
 }
 
 /** X_C = V_LL²/Q_c (3-phase kvar at system voltage), the per-phase wye reactance. */
@@ -49,5 +50,5 @@ export function branchImpedance(branch: CapacitorBranch, h: number): Complex {
 
 /** Effective kvar of a detuned branch at system voltage: V²/(X_C − X_L) = Q_c/(1 − p). */
 export function effectiveKvar(capacitorKvar: number, reactorPct: number): number {
-  return capacitorKvar / (1 - reactorPct / 100);
+  return effectiveKvarWithReactor(capacitorKvar, reactorPct / 100);
 }

@@ -1,4 +1,5 @@
-import { SQRT3, tanPhi } from "../conventions.js";
+import { tanPhi } from "../conventions.js";
+import { controllerResponseA } from "../capacitor.js";
 import type { CapacitorBank } from "./types.js";
 
 /** Leading PF a controller may cause when switching in, by default (common practice, no source). */
@@ -120,10 +121,7 @@ export function createController(bank: CapacitorBank, targetPF: number, opts: Co
   };
 }
 
-/**
- * Controller C/k setting: the smallest step's line current referred to the CT secondary, A
- * (I = Q / (√3·V_LL), ÷ CT ratio; three-phase bank, CT in one line — controller makers' definition).
- */
+/** Controller C/k setting of a three-phase bank's smallest step, A (the formula lives in capacitor.ts). */
 export function ckSettingA(smallestStepKvar: number, voltageV: number, ctRatio: number): number {
-  return (smallestStepKvar * 1000) / (SQRT3 * voltageV) / ctRatio;
+  return controllerResponseA(smallestStepKvar, voltageV, ctRatio);
 }

@@ -13,16 +13,9 @@ export const SUMMARY_MAX_MONTHS = 36;
  * (minimum reactive demand, kvar and needed-kvar percentiles, duration curve, monthly peaks) and for a rough
  * controller estimate from the (kW, kvar) load points. kW/kvar/kVA rounded to 0.001, PF to 1e-6, energy to 0.1.
  */
-export interface IntervalSummary {
+export interface IntervalSummary
+  extends Pick<IntervalAnalysis, "targetPF" | "intervalMinutes" | "intervalCount" | "firstTimestamp" | "lastTimestamp" | "coveredDays" | "timeZone" | "kW"> {
   summaryVersion: typeof SUMMARY_VERSION;
-  targetPF: number;
-  intervalMinutes: number;
-  intervalCount: number;
-  firstTimestamp: string;
-  lastTimestamp: string;
-  coveredDays: number;
-  timeZone: string;
-  kW: { max: number; mean: number; percentiles: Percentiles };
   kvar: { mean: number; percentiles: Percentiles };
   minimumReactiveDemand: { minKvar: number; p1Kvar: number; p5Kvar: number };
   neededKvar: { percentiles: Percentiles; hold95PctKvar: number; hold99PctKvar: number; hold100PctKvar: number };
