@@ -1,3 +1,5 @@
+import { InputRejected } from "./application/errors.js";
+import { engineIssuesTo400 } from "./http/validate.js";
 import { randomUUID } from "node:crypto";
 import Fastify, { type FastifyInstance, type FastifyServerOptions } from "fastify";
 import type { Config } from "./config.js";
@@ -13,7 +15,7 @@ import { formRoutes } from "./form/plugin.js";
 import { harmonicsRoutes } from "./http/routes/harmonics.js";
 import { intervalAnalysesRoutes } from "./http/routes/interval-analyses.js";
 import { sizingRoutes } from "./http/routes/sizing.js";
-import { reportRoutes } from "./report/routes.js";
+import { reportRoutes } from "./http/routes/reports.js";
 import { surveyReadRoutes } from "./http/routes/survey-reads.js";
 import { surveysRoutes } from "./http/routes/surveys.js";
 import { problem, ProblemError, sendProblem } from "./http/problem.js";
@@ -89,6 +91,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
 
   app.setErrorHandler((error: Error & { code?: string; statusCode?: number }, request, reply) => {
     if (error instanceof ProblemError) return sendProblem(reply.headers(error.headers), error.problem);
+    if (error instanceof InputRejected) return sendProblem(reply, engineIssuesTo400(error.issues).problem);
     const status = error.statusCode ?? 500;
     if (error.code === "FST_ERR_CTP_BODY_TOO_LARGE" || status === 413) {
       const limit = request.routeOptions?.bodyLimit ?? config.BODY_LIMIT_BYTES;

@@ -1,5 +1,5 @@
 import type { Phases, Sense } from "./conventions.js";
-import type { EconomicsSettings, MonthlyDemand } from "./site-economics.js";
+import type { EconomicsSettings, MonthlyDemand } from "./economics/of-sizing.js";
 
 /** Typed inputs of the engine. The API's zod schemas produce values of these types. */
 

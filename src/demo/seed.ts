@@ -1,4 +1,4 @@
-import { computeRevision } from "../http/survey-sizing.js";
+import { computeRevision } from "../application/survey-sizing.js";
 import { newId } from "../store/ids.js";
 import { DEFAULT_ORG_ID, type Store } from "../store/store.js";
 import { DEMO_BUILDING, DEMO_SURVEYS } from "./scenario.js";

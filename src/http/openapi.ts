@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { ENGINE_VERSION } from "../core/version.js";
+import { ENGINE_VERSION } from "../core/pipeline/engine-version.js";
 import { operations, type Operation } from "./operations.js";
 import { problemSchema } from "./schemas/results.js";
 

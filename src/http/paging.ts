@@ -1,3 +1,4 @@
+import { utcInstantOf } from "../application/instants.js";
 import { z } from "zod";
 import { problem, ProblemError, validationProblem } from "./problem.js";
 
@@ -44,14 +45,11 @@ export function pageOf<T>(rows: T[], limit: number, cursorOf: (last: T) => strin
   return { items, nextCursor: rows.length > limit && last !== undefined ? cursorOf(last) : null };
 }
 
-const DATE_ONLY = /^\d{4}-\d{2}-\d{2}$/;
-
 /** The UTC instant of an ISO date or date-time; a date alone is its start, or its end with `end`. */
 export function utcInstant(iso: string, end = false): string {
-  const text = DATE_ONLY.test(iso) ? `${iso}T${end ? "23:59:59.999" : "00:00:00.000"}Z` : iso;
-  const ms = Date.parse(text);
-  if (Number.isNaN(ms)) throw new ProblemError(problem(400, "validation", "The request is not valid", `${iso} is not a valid instant`));
-  return new Date(ms).toISOString();
+  const utc = utcInstantOf(iso, end);
+  if (utc === null) throw new ProblemError(problem(400, "validation", "The request is not valid", `${iso} is not a valid instant`));
+  return utc;
 }
 
 /** from/to query bounds as inclusive UTC instants; from after to is a 400. */

@@ -1,6 +1,6 @@
 /** Reports of a sizing: the renderer-neutral model, its HTML and its PDF. */
 import type { SizingInput } from "../core/inputs.js";
-import type { SizingResult } from "../core/sizing.js";
+import type { SizingResult } from "../core/pipeline/size.js";
 import { renderReportHtml } from "./html.js";
 import { buildReportModel } from "./model.js";
 import type { ReportInput, ReportModel } from "./types.js";

@@ -4,7 +4,7 @@
  * supplied, e.g. from POST /v1/harmonics/scan).
  */
 import { buildBusModel, capacitorBranch, DEFAULT_REACTOR_QUALITY_FACTOR, scanImpedance, withBranches, type BusModel, type NetworkInput } from "../core/harmonics/index.js";
-import { linearLoadKW } from "../core/site-harmonics.js";
+import { linearLoadKW } from "../core/harmonics/site-study.js";
 import type { ScanLine } from "./charts/index.js";
 import type { ReportInput } from "./types.js";
 

@@ -1,5 +1,5 @@
 /** A stored survey revision (and its building) as the report's input: pure, the store is read by the caller. */
-import { engineInputOf } from "../http/survey-sizing.js";
+import { engineInputOf } from "../application/survey-sizing.js";
 import type { BuildingData, RevisionRecord } from "../store/types.js";
 import type { ReportInput } from "./types.js";
 

@@ -1,4 +1,4 @@
-import type { EconomicsSettings } from "../core/site-economics.js";
+import type { EconomicsSettings } from "../core/economics/of-sizing.js";
 import type { Db } from "./database.js";
 import type { BuildingData, BuildingRecord, BuildingVersion } from "./types.js";
 

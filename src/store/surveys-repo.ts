@@ -1,4 +1,4 @@
-import type { SizingResult } from "../core/sizing.js";
+import type { SizingResult } from "../core/pipeline/size.js";
 import type { Db } from "./database.js";
 import type {
   BuildingSnapshot,

@@ -5,8 +5,8 @@ import type {
   UtilityInput,
 } from "../core/inputs.js";
 import type { IntervalSummary } from "../core/interval/summary.js";
-import type { EconomicsSettings } from "../core/site-economics.js";
-import type { SizingResult } from "../core/sizing.js";
+import type { EconomicsSettings } from "../core/economics/of-sizing.js";
+import type { SizingResult } from "../core/pipeline/size.js";
 
 /** Records as the store hands them out. Inputs and results are kept apart, as they are stored. */
 

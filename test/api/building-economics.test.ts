@@ -1,7 +1,7 @@
 import type { FastifyInstance } from "fastify";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { size } from "../../src/core/sizing.js";
-import { engineInputOf } from "../../src/http/survey-sizing.js";
+import { size } from "../../src/core/pipeline/size.js";
+import { engineInputOf } from "../../src/application/survey-sizing.js";
 import type { Store } from "../../src/store/store.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { expectClose } from "../helpers/tolerance.js";

@@ -1,8 +1,8 @@
 import type { FastifyInstance } from "fastify";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { intervalDemandOf } from "../../src/core/interval-demand.js";
-import { size } from "../../src/core/sizing.js";
-import { engineInputOf } from "../../src/http/survey-sizing.js";
+import { intervalDemandOf } from "../../src/core/interval/stored-demand.js";
+import { size } from "../../src/core/pipeline/size.js";
+import { engineInputOf } from "../../src/application/survey-sizing.js";
 import type { Store } from "../../src/store/store.js";
 import { csvOfSeries, syntheticYear } from "../core/interval/fixtures.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";

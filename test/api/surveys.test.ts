@@ -1,7 +1,7 @@
 import type { FastifyInstance } from "fastify";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { size } from "../../src/core/sizing.js";
-import { ENGINE_VERSION } from "../../src/core/version.js";
+import { size } from "../../src/core/pipeline/size.js";
+import { ENGINE_VERSION } from "../../src/core/pipeline/engine-version.js";
 import type { Store } from "../../src/store/store.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";

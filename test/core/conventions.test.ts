@@ -1,10 +1,10 @@
 import { Complex } from "complex.js";
 import { describe, expect, it } from "vitest";
-import { capacitiveReactanceOhm, inductiveReactanceOhm } from "../../src/core/capacitor.js";
-import { correctionFor } from "../../src/core/correction.js";
-import { triangleOf } from "../../src/core/measurement.js";
-import { evaluateSite } from "../../src/core/site.js";
-import { size } from "../../src/core/sizing.js";
+import { capacitiveReactanceOhm, inductiveReactanceOhm } from "../../src/core/bank/capacitor.js";
+import { correctionFor } from "../../src/core/correction/to-target.js";
+import { triangleOf } from "../../src/core/readings/triangle.js";
+import { evaluateSite } from "../../src/core/readings/site-totals.js";
+import { size } from "../../src/core/pipeline/size.js";
 import { expectClose, TOL } from "../helpers/tolerance.js";
 
 /**

@@ -9,12 +9,12 @@ import {
   effectiveKvarWithReactor,
   inductiveReactanceOhm,
   seriesRlcImpedanceOhm,
-} from "../../src/core/capacitor.js";
-import { correctionFor } from "../../src/core/correction.js";
+} from "../../src/core/bank/capacitor.js";
+import { correctionFor } from "../../src/core/correction/to-target.js";
 import type { LoadInput, Measurement } from "../../src/core/inputs.js";
-import { parallelResonanceOrder } from "../../src/core/resonance.js";
-import { shortCircuitAtBus } from "../../src/core/short-circuit.js";
-import { evaluateSite } from "../../src/core/site.js";
+import { parallelResonanceOrder } from "../../src/core/harmonics/resonance.js";
+import { shortCircuitAtBus } from "../../src/core/harmonics/short-circuit.js";
+import { evaluateSite } from "../../src/core/readings/site-totals.js";
 import { expectClose, TOL } from "../helpers/tolerance.js";
 
 /**

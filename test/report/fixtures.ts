@@ -1,9 +1,11 @@
 /** Inputs and results for the report tests: real engine runs on invented sites, nothing hand-built. */
-import { designBank, planPlacement, type BankDesign, type PlacementPlan } from "../../src/core/design/index.js";
+import { designBank, type BankDesign } from "../../src/core/bank/bank-design.js";
+import { planPlacement } from "../../src/core/placement/placement.js";
+import type { PlacementPlan } from "../../src/core/placement/placement-types.js";
 import { economics, type EconomicsResult } from "../../src/core/economics/index.js";
 import type { SizingInput } from "../../src/core/inputs.js";
 import { analyseIntervals, summarise, type IntervalSummary } from "../../src/core/interval/index.js";
-import { size, type SizingResult } from "../../src/core/sizing.js";
+import { size, type SizingResult } from "../../src/core/pipeline/size.js";
 import type { ReportInput } from "../../src/report/index.js";
 
 export function sized(input: SizingInput): SizingResult {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import type { Caution } from "../../src/core/cautions.js";
+import type { Caution } from "../../src/core/cautions/safety-cautions.js";
 import { buildReportModel, fmt, reportCautions, reportForSizing, REQUIRED_CAUTIONS, SECTION_ORDER, type Block, type ReportModel } from "../../src/report/index.js";
 import type { Chart } from "../../src/report/charts/index.js";
 import { fullReportInput, hallInput, plainInput, sized } from "./fixtures.js";

@@ -1,9 +1,9 @@
 import { afterEach, describe, expect, it } from "vitest";
 import type { FastifyInstance } from "fastify";
-import { size } from "../../src/core/sizing.js";
+import { size } from "../../src/core/pipeline/size.js";
 import { DEMO_BUILDING, DEMO_SURVEYS } from "../../src/demo/scenario.js";
 import { seedDemo } from "../../src/demo/seed.js";
-import { engineInputOf } from "../../src/http/survey-sizing.js";
+import { engineInputOf } from "../../src/application/survey-sizing.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { inject } from "../helpers/auth.js";
 

@@ -4,7 +4,7 @@ import { afterEach, beforeEach, describe, expect, it } from "vitest";
 import { buildApp } from "../../src/app.js";
 import { analyseIntervals } from "../../src/core/interval/analyse.js";
 import { summarise } from "../../src/core/interval/summary.js";
-import { computeRevision } from "../../src/http/survey-sizing.js";
+import { computeRevision } from "../../src/application/survey-sizing.js";
 import { defaultConfig } from "../../src/config.js";
 import { openDatabase } from "../../src/store/database.js";
 import { DEFAULT_MIGRATIONS_DIR, migrate } from "../../src/store/migrate.js";

@@ -1,6 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from "vitest";
-import { size } from "../../src/core/sizing.js";
-import { computeRevision } from "../../src/http/survey-sizing.js";
+import { size } from "../../src/core/pipeline/size.js";
+import { computeRevision } from "../../src/application/survey-sizing.js";
 import { newId } from "../../src/store/ids.js";
 import { DEFAULT_ORG_ID, openStore, type Store } from "../../src/store/store.js";
 import type { BuildingData, SurveyInputs } from "../../src/store/types.js";

@@ -1,5 +1,5 @@
 /** A capacitor stage as one series branch: reactor (optional) + capacitor, per phase of the wye equivalent. */
-import { effectiveKvarWithReactor, kvarAtFrequency, kvarAtVoltage } from "../capacitor.js";
+import { effectiveKvarWithReactor, kvarAtFrequency, kvarAtVoltage } from "../bank/capacitor.js";
 import { complex, type Complex } from "./complex.js";
 
 export interface CapacitorBranch {

@@ -1,3 +1,5 @@
+import { nearestStandardKvar, standardCapacitorVoltageV } from "../bank/standard-sizes.js";
+
 /** Detuned (reactor-protected) bank proposal: reactor %, capacitor voltage rating and nameplate kvar per step. */
 
 export interface DetuningChoice {
@@ -11,17 +13,6 @@ export const DETUNING_CHOICES: readonly DetuningChoice[] = [
   { reactorPct: 5.67, tuningOrder: 4.2 },
   { reactorPct: 7, tuningOrder: 3.78 },
   { reactorPct: 14, tuningOrder: 2.67 },
-];
-
-/** Common capacitor nameplate voltages, line-to-line; a maker's catalogue list, no standard. */
-export const STANDARD_CAPACITOR_VOLTAGES_V: readonly number[] = [
-  240, 400, 415, 440, 480, 525, 550, 600, 690, 800, 1000,
-  2400, 4160, 4800, 6600, 7200, 8320, 11000, 12470, 13200, 13800, 14400, 24940, 34500,
-];
-
-/** Common LV capacitor step sizes, kvar at rated voltage; catalogue practice, no standard. */
-export const STANDARD_STEP_KVAR: readonly number[] = [
-  2.5, 5, 7.5, 10, 12.5, 15, 20, 25, 30, 40, 50, 60, 75, 100, 125, 150, 200, 250, 300, 400, 500,
 ];
 
 /** Allowance over U/(1 − p) for the harmonic voltage on the capacitor; own choice within the usual 1.05–1.10. */
@@ -70,21 +61,6 @@ export function chooseDetuning(presentOrders: readonly number[], thirdHarmonicSi
   if (thirdHarmonicSignificant) return { choice: p14, reason: "3rd harmonic significant: 14 % (tuned to 2.67) keeps the resonance below the 3rd" };
   if (lowest >= 7) return { choice: p567, reason: `lowest present order is ${lowest}: 5.67 % (tuned to 4.2) is enough and raises the capacitor voltage least` };
   return { choice: p7, reason: "7 % (tuned to 3.78), the default for 5th-and-above spectra" };
-}
-
-/** Smallest standard voltage at or above the need; beyond the list, the next whole kV. */
-export function standardCapacitorVoltageV(requiredV: number): number {
-  const v = STANDARD_CAPACITOR_VOLTAGES_V.find((s) => s >= requiredV);
-  return v ?? Math.ceil(requiredV / 1000) * 1000;
-}
-
-/** Nearest standard size (ties go up); beyond the list, the nearest 50 kvar. */
-export function nearestStandardKvar(kvar: number): number {
-  const last = STANDARD_STEP_KVAR[STANDARD_STEP_KVAR.length - 1]!;
-  if (kvar > last) return Math.max(last, Math.round(kvar / 50) * 50);
-  let best = STANDARD_STEP_KVAR[0]!;
-  for (const s of STANDARD_STEP_KVAR) if (Math.abs(s - kvar) <= Math.abs(best - kvar)) best = s;
-  return best;
 }
 
 /** 3rd significant: injected I_3 ≥ 5 % of the sources' fundamental, or background V_3 ≥ 0.5 % (own rule, no standard). */

@@ -1,7 +1,7 @@
 /** Bus harmonic voltages and THD_v from injected currents and the driving-point impedance. */
 import type { InjectedCurrents } from "./injection.js";
 import { drivingPointImpedanceOhm, type BusModel } from "./network.js";
-import { MAX_HARMONIC_ORDER, SQRT3, type SpectrumLine } from "./types.js";
+import { MAX_HARMONIC_ORDER, SQRT3, type SpectrumLine } from "./study-types.js";
 
 export interface BusHarmonicLine {
   order: number;

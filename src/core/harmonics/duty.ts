@@ -1,7 +1,7 @@
 /** Capacitor duty of a stage against the IEEE Std 18 continuous limits. */
 import { branchImpedance, capacitorBranch, capacitorKvarAtSystem, DEFAULT_REACTOR_QUALITY_FACTOR } from "./branch.js";
 import { cAbs } from "./complex.js";
-import { limitCheck, SQRT3, type LimitCheck, type SpectrumLine } from "./types.js";
+import { limitCheck, SQRT3, type LimitCheck, type SpectrumLine } from "./study-types.js";
 
 /** IEEE Std 18-2012 continuous limits, percent of rating (from memory). */
 export const IEEE18_LIMITS_PCT = { rmsVoltage: 110, peakVoltage: 120, rmsCurrent: 135, reactivePower: 135 } as const;

@@ -1,12 +1,11 @@
 /** Public API of the harmonic-study engine (pure: typed inputs in, new result objects out). */
 export type { Complex } from "./complex.js";
 export { complex, cAdd, cMul, cDiv, cAbs, cParallel } from "./complex.js";
-export type { Issue, LimitCheck, SpectrumLine } from "./types.js";
-export { MAX_HARMONIC_ORDER } from "./types.js";
+export type { Issue, LimitCheck, SpectrumLine } from "./study-types.js";
+export { MAX_HARMONIC_ORDER } from "./study-types.js";
 export type { NetworkInput, SourceImpedance, BusModel, XOverRBasis } from "./network.js";
 export {
   defaultXOverR,
-  transformerShortCircuitKVA,
   sourceImpedance,
   loadDampingResistanceOhm,
   buildBusModel,
@@ -18,7 +17,8 @@ export {
 } from "./network.js";
 export type { CapacitorBranch } from "./branch.js";
 export { capacitorBranch, capacitorKvarAtSystem, branchImpedance, effectiveKvar, DEFAULT_REACTOR_QUALITY_FACTOR } from "./branch.js";
-export { estimatedParallelResonanceOrder, tuningOrder, ordersNearResonance, RESONANCE_BAND_PCT } from "./resonance.js";
+export { transformerShortCircuitKVA, shortCircuitAtBus, type ShortCircuitResult } from "./short-circuit.js";
+export { parallelResonanceOrder, ordersNearResonance, nearHarmonic, withinResonanceBand, RESONANCE_BAND_PCT } from "./resonance.js";
 export type { ScanOptions, ScanGrid, ResonancePeak, ImpedanceDip, ImpedanceScan } from "./scan.js";
 export { scanImpedance, validateScanOptions, resolveScanGrid, DEFAULT_SCAN, MAX_SCAN_POINTS } from "./scan.js";
 export { sixPulseSpectrum, validateSpectrum, MAX_SPECTRUM_SUM_PCT } from "./spectrum.js";
@@ -36,13 +36,10 @@ export {
   chooseDetuning,
   isThirdHarmonicSignificant,
   nextLowerDetuning,
-  standardCapacitorVoltageV,
-  nearestStandardKvar,
   DETUNING_CHOICES,
-  STANDARD_CAPACITOR_VOLTAGES_V,
-  STANDARD_STEP_KVAR,
   DEFAULT_VOLTAGE_MARGIN_FACTOR,
 } from "./detuned.js";
+export { nearestStandardKvar, standardCapacitorVoltageV, STANDARD_CAPACITOR_VOLTAGES_V, STANDARD_STEP_KVAR } from "../bank/standard-sizes.js";
 export type { CapacitorBankInput, CapacitorStepInput, BankStudy, StageStudy, BusStudy, ScanSeries, Finding, FindingCode } from "./stage.js";
 export type { HarmonicStudyInput, HarmonicStudyOptions, HarmonicStudyResult, HarmonicStudyOutcome, DetunedProposal } from "./study.js";
 export { runHarmonicStudy } from "./study.js";

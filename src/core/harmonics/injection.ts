@@ -1,7 +1,7 @@
 /** Harmonic current injected into the bus by the nonlinear loads, per phase of the wye equivalent. */
 import type { Phases } from "../conventions.js";
 import { sixPulseSpectrum } from "./spectrum.js";
-import { MAX_HARMONIC_ORDER, SQRT3, type SpectrumLine } from "./types.js";
+import { MAX_HARMONIC_ORDER, SQRT3, type SpectrumLine } from "./study-types.js";
 
 export interface HarmonicSourceInput {
   label: string;

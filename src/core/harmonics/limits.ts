@@ -1,6 +1,6 @@
 /** IEEE Std 519-2014 Table 1 voltage distortion limits and the pass/fail check against them. */
 import type { BusDistortion } from "./distortion.js";
-import { limitCheck, type LimitCheck } from "./types.js";
+import { limitCheck, type LimitCheck } from "./study-types.js";
 
 export interface VoltageDistortionLimits {
   /** Bus voltage class as written in Table 1. */

@@ -57,11 +57,6 @@ export function defaultXOverR(transformerKVA?: number): { xOverR: number; basis:
   return { xOverR: band ? band.xOverR : X_OVER_R_LARGE, basis: "transformer_rule_of_thumb" };
 }
 
-/** S_sc = S_T / Z_T (per unit): transformer on an infinite upstream bus, the usual worst case. */
-export function transformerShortCircuitKVA(transformerKVA: number, impedancePct: number): number {
-  return (transformerKVA * 100) / impedancePct;
-}
-
 /** Z_base = V_LL²/S_sc split by the angle atan(X/R): the standard short-circuit impedance model. */
 export function sourceImpedance(network: NetworkInput): SourceImpedance {
   const given = network.xOverR;

@@ -1,6 +1,6 @@
 /** Frequency scan of the driving-point impedance |Z(h)| with located resonance peaks and series dips. */
 import { drivingPointImpedanceOhm, fillImpedanceOhm, sourceImpedanceOhmAt, type BusModel } from "./network.js";
-import type { Issue } from "./types.js";
+import type { Issue } from "./study-types.js";
 
 export interface ScanOptions {
   fromOrder?: number;

@@ -1,5 +1,5 @@
 /** Harmonic current spectra: the ideal six-pulse spectrum and input validation. */
-import { MAX_HARMONIC_ORDER, type Issue, type SpectrumLine } from "./types.js";
+import { MAX_HARMONIC_ORDER, type Issue, type SpectrumLine } from "./study-types.js";
 
 /** Above this total the data is almost surely mis-entered (common practice, no source). */
 export const MAX_SPECTRUM_SUM_PCT = 300;

@@ -5,9 +5,10 @@ import { capacitorDuty, type CapacitorDutyCheck, type DutyQuantity } from "./dut
 import type { InjectedCurrents } from "./injection.js";
 import { checkIeee519, type Ieee519Check } from "./limits.js";
 import { withBranches, type BusModel, type NetworkInput } from "./network.js";
-import { estimatedParallelResonanceOrder, ordersNearResonance, tuningOrder } from "./resonance.js";
+import { ordersNearResonance, parallelResonanceOrder } from "./resonance.js";
+import { tuningOrder } from "../bank/capacitor.js";
 import { scanImpedance, type ImpedanceDip, type ImpedanceScan, type ResonancePeak, type ScanOptions } from "./scan.js";
-import type { SpectrumLine } from "./types.js";
+import type { SpectrumLine } from "./study-types.js";
 
 export interface CapacitorStepInput {
   /** Nameplate 3-phase kvar at the bank's rated voltage and frequency. */
@@ -149,8 +150,8 @@ export function studyBank(ctx: StudyContext, bank: CapacitorBankInput): BankStud
       nameplateKvar,
       capacitorKvarAtSystem: qc,
       effectiveKvar: effectiveKvar(qc, bank.reactorPct),
-      tuningOrder: tuningOrder(bank.reactorPct),
-      estimatedResonanceOrder: estimatedParallelResonanceOrder(shortCircuitKVA, qc, bank.reactorPct),
+      tuningOrder: bank.reactorPct > 0 ? tuningOrder(bank.reactorPct / 100) : null,
+      estimatedResonanceOrder: parallelResonanceOrder(qc, shortCircuitKVA, bank.reactorPct / 100),
       duty,
     });
   });

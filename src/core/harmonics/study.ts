@@ -24,7 +24,7 @@ import {
   type FindingCode,
   type StudyContext,
 } from "./stage.js";
-import type { Issue, SpectrumLine } from "./types.js";
+import type { Issue, SpectrumLine } from "./study-types.js";
 import { validateHarmonicStudyInput } from "./validate.js";
 
 export interface HarmonicStudyOptions {

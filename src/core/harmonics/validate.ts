@@ -2,7 +2,7 @@
 import type { HarmonicStudyInput } from "./study.js";
 import { validateScanOptions } from "./scan.js";
 import { validateSpectrum } from "./spectrum.js";
-import type { Issue } from "./types.js";
+import type { Issue } from "./study-types.js";
 
 /** A reactor at or beyond half of X_C is no longer a detuning reactor; the model stops making sense. */
 const MAX_REACTOR_PCT = 50;

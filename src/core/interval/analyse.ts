@@ -2,7 +2,7 @@ import { tanPhi } from "../conventions.js";
 import { isoWithOffset } from "./datetime.js";
 import { billingPF, monthlyDemand, monthRuns, zoneOfSeries } from "./months.js";
 import { durationCurve, percentiles, type ValueRange } from "./percentiles.js";
-import type { DurationCurve, IntervalSeries, LoadPoints, MonthlyDemand, Percentiles } from "./types.js";
+import type { DurationCurve, IntervalSeries, LoadPoints, MonthlyDemand, Percentiles } from "./series-types.js";
 
 export const LOAD_POINT_KW_BINS = 16;
 export const LOAD_POINT_KVAR_BINS = 24;

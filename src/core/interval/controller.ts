@@ -1,6 +1,6 @@
 import { tanPhi } from "../conventions.js";
-import { controllerResponseA } from "../capacitor.js";
-import type { CapacitorBank } from "./types.js";
+import { controllerResponseA } from "../bank/capacitor.js";
+import type { CapacitorBank } from "./series-types.js";
 
 /** Leading PF a controller may cause when switching in, by default (common practice, no source). */
 export const DEFAULT_LEADING_LIMIT_PF = 0.98;

@@ -6,5 +6,5 @@ export { billingPF, monthlyDemand, monthRuns } from "./months.js";
 export { durationCurve, nearestRank, percentiles, STANDARD_PERCENTILES, valuesAtRanks } from "./percentiles.js";
 export { simulateController, type ControllerSimulation, type MonthlyCorrection } from "./simulate.js";
 export { roughControllerEstimate, summarise, SUMMARY_VERSION, type IntervalSummary, type RoughControllerEstimate } from "./summary.js";
-export type { CapacitorBank, DurationCurve, IntervalSeries, LoadPoints, MonthlyDemand, Percentiles, RowError } from "./types.js";
+export type { CapacitorBank, DurationCurve, IntervalSeries, LoadPoints, MonthlyDemand, Percentiles, RowError } from "./series-types.js";
 export { zoneFor, type Zone } from "./zone.js";

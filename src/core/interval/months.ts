@@ -1,5 +1,5 @@
 import { daysFromCivil, isoWithOffset, MS_PER_DAY, monthIndexOfDays, monthLabel } from "./datetime.js";
-import type { IntervalSeries, MonthlyDemand } from "./types.js";
+import type { IntervalSeries, MonthlyDemand } from "./series-types.js";
 import { UTC_ZONE, zoneFor, type Zone } from "./zone.js";
 
 /** A run of consecutive intervals in one calendar month of the series' zone. */

@@ -3,7 +3,7 @@ import { isoWithOffset, type DateOrder } from "./datetime.js";
 import { GrowableF64 } from "./growable.js";
 import { checkSteps, medianStepMinutes, sortAndDedupe, type DuplicateExample, type StepReport } from "./quality.js";
 import { RowDecoder, type SenseOption } from "./rows.js";
-import type { IntervalSeries, RowError } from "./types.js";
+import type { IntervalSeries, RowError } from "./series-types.js";
 import { fixedZone, UTC_ZONE, zoneFor, type Zone } from "./zone.js";
 
 export const DEFAULT_MAX_ROWS = 1_100_000;

@@ -1,4 +1,4 @@
-import type { Percentiles } from "./types.js";
+import type { Percentiles } from "./series-types.js";
 
 /** The percentiles every distribution reports. */
 export const STANDARD_PERCENTILES = [0, 1, 5, 10, 25, 50, 75, 90, 95, 99, 100] as const;
@@ -15,6 +15,12 @@ export const CURVE_PERCENTILES: readonly number[] = [
 export function nearestRank(p: number, n: number): number {
   if (p <= 0) return 0;
   return Math.min(n - 1, Math.max(0, Math.ceil((p * n) / 100 - 1e-9) - 1));
+}
+
+/** The nearest-rank p-th percentile (p in percent) of unsorted values; NaN when there are none. */
+export function percentileOf(values: Float64Array, p: number): number {
+  if (values.length === 0) return Number.NaN;
+  return Float64Array.from(values).sort()[nearestRank(p, values.length)] as number;
 }
 
 /** The exact minimum and maximum of the values, when the caller already has them (saves a pass). */

@@ -3,7 +3,7 @@ import { assertSeries, intervalPF, widen } from "./analyse.js";
 import { CONTROLLER_RULE, createController, DEFAULT_LEADING_LIMIT_PF, type ControllerOptions } from "./controller.js";
 import { billingPF, monthlyDemand, monthRuns, zoneOfSeries } from "./months.js";
 import { percentiles } from "./percentiles.js";
-import type { CapacitorBank, IntervalSeries, Percentiles } from "./types.js";
+import type { CapacitorBank, IntervalSeries, Percentiles } from "./series-types.js";
 
 export interface MonthlyCorrection {
   month: string;

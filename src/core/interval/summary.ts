@@ -2,7 +2,7 @@ import { round, tanPhi } from "../conventions.js";
 import type { IntervalAnalysis } from "./analyse.js";
 import { createController, DEFAULT_LEADING_LIMIT_PF, type ControllerOptions } from "./controller.js";
 import { billingPF } from "./months.js";
-import type { CapacitorBank, DurationCurve, LoadPoints, Percentiles } from "./types.js";
+import type { CapacitorBank, DurationCurve, LoadPoints, Percentiles } from "./series-types.js";
 
 export const SUMMARY_VERSION = 1;
 /** Months kept in a summary (the latest ones). */

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { MAX_STEPS } from "../../core/interval/controller.js";
 import type { ParseOptions } from "../../core/interval/parser.js";
-import type { CapacitorBank } from "../../core/interval/types.js";
+import type { CapacitorBank } from "../../core/interval/series-types.js";
 import { zoneFor } from "../../core/interval/zone.js";
 import { ProblemError, validationProblem, zodErrors } from "../problem.js";
 

@@ -3,7 +3,7 @@ import { ckSettingA } from "../../core/interval/controller.js";
 import type { ParseReport } from "../../core/interval/parser.js";
 import type { ControllerSimulation } from "../../core/interval/simulate.js";
 import { summarise } from "../../core/interval/summary.js";
-import { ENGINE_VERSION } from "../../core/version.js";
+import { ENGINE_VERSION } from "../../core/pipeline/engine-version.js";
 import type { IntervalRequestOptions } from "./options.js";
 
 interface Warning {

@@ -1,5 +1,5 @@
 import type { FastifyInstance } from "fastify";
-import { size } from "../../core/sizing.js";
+import { size } from "../../core/pipeline/size.js";
 import { sizingRequestSchema } from "../schemas/sizing.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
 

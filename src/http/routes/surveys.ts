@@ -6,7 +6,7 @@ import type { IntervalAnalysisRecord } from "../../store/types.js";
 import { idempotentWrite } from "../idempotency.js";
 import { notFound, ProblemError, validationProblem } from "../problem.js";
 import { revisionInputsSchema, surveyInputsSchema } from "../schemas/surveys.js";
-import { computeRevision } from "../survey-sizing.js";
+import { computeRevision } from "../../application/survey-sizing.js";
 import { parseOr400 } from "../validate.js";
 import { findBuilding } from "./buildings.js";
 

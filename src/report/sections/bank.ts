@@ -1,7 +1,8 @@
 /** The banks: recommended and proposed, stage by stage, and the design (placement, steps, C/k, protection, discharge). */
-import type { BankAnalysis } from "../../core/bank.js";
-import { circuitProtection, dischargeRequirements } from "../../core/design/index.js";
-import type { SizingResult } from "../../core/sizing.js";
+import type { BankAnalysis } from "../../core/bank/stages.js";
+import { circuitProtection } from "../../core/bank/protection.js";
+import { dischargeRequirements } from "../../core/bank/discharge.js";
+import type { SizingResult } from "../../core/pipeline/size.js";
 import { fmt } from "../format.js";
 import type { Block, ReportInput, Section } from "../types.js";
 import { designBlocks, designViewOf, placementBlocks } from "./design.js";

@@ -2,7 +2,7 @@
  * Safety cautions: the result's own, plus any of the mandatory topics they lack (a stored result made by an
  * older engine may carry fewer). The report never goes out without every topic below.
  */
-import type { Caution } from "../../core/cautions.js";
+import type { Caution } from "../../core/cautions/safety-cautions.js";
 import type { ReportInput, Section } from "../types.js";
 
 /** The topics every report carries, keyed as the engine's cautions are; wording used only when a topic is missing. */

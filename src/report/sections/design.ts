@@ -1,6 +1,9 @@
 /** Blocks of a bank design and of a placement plan, when the caller supplies them. */
-import type { BankDesign, CircuitProtection, DesignedStep, DischargeDesign, PlacementPlan } from "../../core/design/index.js";
-import type { SizingResult } from "../../core/sizing.js";
+import type { BankDesign, DesignedStep } from "../../core/bank/bank-design.js";
+import type { CircuitProtection } from "../../core/bank/protection.js";
+import type { DischargeDesign } from "../../core/bank/discharge.js";
+import type { PlacementPlan } from "../../core/placement/placement-types.js";
+import type { SizingResult } from "../../core/pipeline/size.js";
 import { fmt } from "../format.js";
 import type { Block } from "../types.js";
 

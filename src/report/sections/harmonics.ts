@@ -1,6 +1,6 @@
 /** Resonance screen and harmonic study per stage, with the detuned proposal beside the bank it replaces. */
-import type { BankAnalysis } from "../../core/bank.js";
-import type { SizingResult } from "../../core/sizing.js";
+import type { BankAnalysis } from "../../core/bank/stages.js";
+import type { SizingResult } from "../../core/pipeline/size.js";
 import { impedanceScanChart } from "../charts/index.js";
 import { slug } from "../escape.js";
 import { fmt, ordinal } from "../format.js";

@@ -1,6 +1,6 @@
 /** Readings per load: what was measured and the power triangle computed from it. */
 import type { Measurement, SizingInput } from "../../core/inputs.js";
-import type { LoadResult } from "../../core/site.js";
+import type { LoadResult } from "../../core/readings/site-totals.js";
 import { fmt } from "../format.js";
 import type { Align, Block, ReportInput, Section } from "../types.js";
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { runHarmonicStudy, type HarmonicStudyInput } from "../../../src/core/harmonics/index.js";
-import { FIGURES_SCAN_STEP_ORDER } from "../../../src/core/site-harmonics.js";
+import { FIGURES_SCAN_STEP_ORDER } from "../../../src/core/harmonics/site-study.js";
 
 // The sizing section scans on a coarse grid and refines extrema on the exact |Z(h)|; it must find the same
 // peaks and dips as the fine 0.01 grid, including a detuned stage whose peak sits just below its dip.

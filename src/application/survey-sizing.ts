@@ -1,0 +1,75 @@
+import type { IntervalDemandInput, SizingInput } from "../core/inputs.js";
+import { intervalDemandOf } from "../core/interval/stored-demand.js";
+import { size, type SizingResult } from "../core/pipeline/size.js";
+import type { BuildingRecord, BuildingSnapshot, IntervalAnalysisRecord, NewRevision, SurveyInputs, SurveySummary } from "../store/types.js";
+import { InputRejected } from "./errors.js";
+import { utcInstantOf } from "./instants.js";
+
+/** The translation between a stored building + submitted survey and the pure engine. */
+
+/** The building's data a revision is computed with, and the id of the interval analysis used (null: none). */
+export function snapshotOf(b: BuildingRecord, intervalAnalysisId: string | null = null): BuildingSnapshot {
+  return {
+    buildingVersion: b.version,
+    system: b.system,
+    transformer: b.transformer,
+    utility: b.utility,
+    economics: b.economics,
+    intervalAnalysisId,
+  };
+}
+
+/** `intervalDemand` comes from the analysis the snapshot names (the snapshot keeps only its id). */
+export function engineInputOf(snapshot: BuildingSnapshot, s: SurveyInputs, intervalDemand?: IntervalDemandInput): SizingInput {
+  const { surveyedAt: _at, surveyor: _by, notes: _notes, intervalAnalysisId: _ia, ...sizing } = s;
+  return {
+    ...sizing,
+    system: snapshot.system,
+    ...(snapshot.transformer ? { transformer: snapshot.transformer } : {}),
+    ...(snapshot.utility ? { utility: snapshot.utility } : {}),
+    ...(snapshot.economics ? { economics: snapshot.economics } : {}),
+    ...(intervalDemand ? { intervalDemand } : {}),
+  };
+}
+
+export function summaryOf(result: SizingResult): SurveySummary {
+  return {
+    kW: result.site.kW,
+    kvar: result.site.kvar,
+    kVA: result.site.kVA,
+    displacementPF: result.site.displacementPF,
+    kvarRequired: result.correction.kvarRequired,
+    warningCount: result.warnings.length,
+  };
+}
+
+export interface RevisionMeta {
+  surveyId: string;
+  n: number;
+  reason: string | null;
+  actor: string;
+  at: string;
+}
+
+/**
+ * Size the survey with the building's current data (and `analysis`, an interval analysis of the building, when
+ * given); implausible readings throw InputRejected.
+ */
+export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): NewRevision {
+  const snapshot = snapshotOf(building, analysis?.id ?? null);
+  const outcome = size(engineInputOf(snapshot, inputs, analysis ? intervalDemandOf(analysis.summary) : undefined));
+  if (!outcome.ok) throw new InputRejected(outcome.issues);
+  return {
+    surveyId: meta.surveyId,
+    n: meta.n,
+    reason: meta.reason,
+    createdAt: meta.at,
+    actor: meta.actor,
+    inputs,
+    result: outcome.result,
+    engineVersion: outcome.result.engineVersion,
+    building: snapshot,
+    summary: summaryOf(outcome.result),
+    surveyedAtUtc: utcInstantOf(inputs.surveyedAt) ?? inputs.surveyedAt,
+  };
+}

@@ -1,0 +1,191 @@
+/** Fixed part and switched steps of a bank, chosen by simulating a controller over the reactive-demand samples. */
+import { controllerResponseA } from "./capacitor.js";
+import { STANDARD_UNIT_KVAR } from "./standard-sizes.js";
+import { warning, type Warning } from "../warnings.js";
+import { chooseFixedPart, neededKvar, type DemandArrays, type FixedPart } from "./demand.js";
+import { percentileOf } from "../interval/percentiles.js";
+import { maxMultiple, simulateStepProgram, STEP_RATIOS, stepMultipliers, type SimulationResult, type StepRatio } from "./step-ranking.js";
+
+export interface StepSearchOptions {
+  /** Share of samples whose need the bank is sized for (default 0.99: the 99th-percentile need). */
+  coverage?: number;
+  minSteps?: number;
+  maxSteps?: number;
+  ratios?: readonly StepRatio[];
+  /** Candidates whose met count is within this share of the samples of the best count rank as tied (default 0). */
+  metTieShare?: number;
+  /** Fixed-part share of the transformer kVA when there is no light-load information (default 0.05). */
+  fixedShareWithoutLightLoad?: number;
+}
+
+export interface StepsInput {
+  demand: DemandArrays;
+  targetPF: number;
+  unitSizesKvar?: readonly number[];
+  transformerKVA?: number;
+  options?: StepSearchOptions;
+}
+
+export interface StepCandidate {
+  ratio: StepRatio;
+  stepCount: number;
+  baseKvar: number;
+  stepsKvar: number[];
+  totalKvar: number;
+  rounding: "up" | "down" | "none";
+  simulation: SimulationResult;
+}
+
+export interface StepPlan {
+  source: DemandArrays["source"];
+  samples: number;
+  coverage: number;
+  /** Need at the coverage percentile, before the fixed part. */
+  needAtCoverageKvar: number;
+  maxNeedKvar: number;
+  minReactiveKvar: number;
+  fixed: FixedPart;
+  /** Need at coverage less the fixed part. */
+  switchedNeededKvar: number;
+  /** null: the fixed part alone (or nothing) is the plan. */
+  switched: StepCandidate | null;
+  candidatesEvaluated: number;
+  metShare: number;
+  metCoveredShare: number;
+  switchingOperations: number;
+  switchingOperationsPerDay: number | null;
+  notes: string[];
+  warnings: Warning[];
+}
+
+export const DEFAULT_COVERAGE = 0.99;
+export const DEFAULT_MIN_STEPS = 3;
+export const DEFAULT_MAX_STEPS = 12;
+
+/** Step sizes a step may take: the unit list, plus multiples of the largest unit (units in parallel) when needed. */
+function stepSizes(units: readonly number[], switchedNeededKvar: number, minSteps: number): number[] {
+  const largest = Math.max(...units);
+  const set = new Set<number>(units);
+  const m = Math.ceil(switchedNeededKvar / (minSteps * largest));
+  for (let j = 2; j <= 4 * Math.max(1, m); j++) set.add(j * largest);
+  return [...set].sort((a, b) => a - b);
+}
+
+function better(a: StepCandidate, b: StepCandidate, tie: number): boolean {
+  const dm = a.simulation.metCoveredCount - b.simulation.metCoveredCount;
+  if (Math.abs(dm) > tie) return dm > 0;
+  if (a.stepCount !== b.stepCount) return a.stepCount < b.stepCount;
+  if (a.simulation.switchingOperations !== b.simulation.switchingOperations) return a.simulation.switchingOperations < b.simulation.switchingOperations;
+  if (Math.abs(a.totalKvar - b.totalKvar) > 1e-9) return a.totalKvar < b.totalKvar;
+  if (a.simulation.metCount !== b.simulation.metCount) return a.simulation.metCount > b.simulation.metCount;
+  return a.baseKvar < b.baseKvar - 1e-9;
+}
+
+/**
+ * Search space: for each ratio and each step count n in [minSteps, maxSteps], the smallest base whose program total
+ * reaches the switched need (round up) and the largest below it (round down); every step a size from stepSizes;
+ * plus the fixed-only plan. Rank: most covered samples meeting the target, then fewest steps, then fewest
+ * switching operations, then least installed kvar, then most samples met overall, then the finer smallest step.
+ */
+export function planSteps(input: StepsInput): StepPlan {
+  const o = input.options ?? {};
+  const coverage = o.coverage ?? DEFAULT_COVERAGE;
+  const minSteps = o.minSteps ?? DEFAULT_MIN_STEPS;
+  const maxSteps = o.maxSteps ?? DEFAULT_MAX_STEPS;
+  const units = input.unitSizesKvar ?? STANDARD_UNIT_KVAR;
+  const d = input.demand;
+  const n = d.kW.length;
+  const warnings: Warning[] = [];
+  const notes: string[] = [];
+
+  const need = neededKvar(d, input.targetPF);
+  const needAtCoverage = percentileOf(need, coverage * 100);
+  let maxNeed = 0;
+  let minQ = Number.POSITIVE_INFINITY;
+  for (let i = 0; i < n; i++) {
+    maxNeed = Math.max(maxNeed, need[i] as number);
+    minQ = Math.min(minQ, d.kvar[i] as number);
+  }
+  const fixed = chooseFixedPart(d, needAtCoverage, units, input.transformerKVA, o.fixedShareWithoutLightLoad);
+  if (!fixed.lightLoadKnown) {
+    warnings.push(warning("light_load_unknown", `without a light-load reading or interval data the fixed part is limited by a rule of thumb (${fixed.basis}); take a reading at the lightest load (nights, weekends) or log interval data so the fixed part can be sized to the minimum reactive demand`, "demand"));
+  }
+  const switchedNeeded = Math.max(0, needAtCoverage - fixed.fixedKvar);
+
+  const tanT = Math.tan(Math.acos(input.targetPF));
+  const toTarget = new Float64Array(n);
+  const toUnity = new Float64Array(n);
+  const covered = new Uint8Array(n);
+  for (let i = 0; i < n; i++) {
+    const q = (d.kvar[i] as number) - fixed.fixedKvar;
+    toUnity[i] = q;
+    toTarget[i] = q - (d.kW[i] as number) * tanT;
+    covered[i] = (need[i] as number) <= needAtCoverage + 1e-9 ? 1 : 0;
+  }
+  const samples = { toTargetKvar: toTarget, toUnityKvar: toUnity, covered };
+
+  const candidates: StepCandidate[] = [
+    { ratio: "1:1:1", stepCount: 0, baseKvar: 0, stepsKvar: [], totalKvar: 0, rounding: "none", simulation: simulateStepProgram("1:1:1", 0, 1, samples) },
+  ];
+  if (switchedNeeded > 1e-9) {
+    const sizes = stepSizes(units, switchedNeeded, minSteps);
+    const has = new Set(sizes);
+    const seen = new Set<number>();
+    for (const ratio of o.ratios ?? STEP_RATIOS) {
+      const mults = stepMultipliers(ratio, maxSteps);
+      const distinct = [...new Set(mults.slice(0, Math.max(3, minSteps)))];
+      const bases = sizes.filter((b) => distinct.every((m) => has.has(m * b)));
+      let k = 0;
+      for (let steps = 1; steps <= maxSteps; steps++) {
+        k += mults[steps - 1] as number; // maxMultiple(ratio, steps) as a running sum
+        if (steps < Math.max(ratio === "1:2:4" ? 3 : 1, minSteps)) continue;
+        // bases ascend: the first reaching the need (round up) and the one before it (round down)
+        let iUp = 0;
+        while (iUp < bases.length && k * (bases[iUp] as number) < switchedNeeded - 1e-9) iUp++;
+        for (const [i, rounding] of [[iUp, "up"], [iUp - 1, "down"]] as const) {
+          const base = bases[i];
+          if (base === undefined) continue;
+          const key = (STEP_RATIOS.indexOf(ratio) * 100 + steps) * 1e7 + base;
+          if (seen.has(key)) continue;
+          seen.add(key);
+          candidates.push({ ratio, stepCount: steps, baseKvar: base, stepsKvar: mults.slice(0, steps).map((m) => m * base), totalKvar: k * base, rounding, simulation: simulateStepProgram(ratio, steps, base, samples) });
+        }
+      }
+    }
+  }
+  const tie = (o.metTieShare ?? 0) * n;
+  let best = candidates[0] as StepCandidate;
+  for (const c of candidates) if (better(c, best, tie)) best = c;
+  const switched = best.stepCount === 0 ? null : best;
+
+  const largest = Math.max(...units);
+  if (switched && switched.stepsKvar.some((s) => s > largest)) {
+    notes.push(`steps above ${largest} kvar are built of several ${largest} kvar units in parallel on one contactor`);
+  }
+  if (switchedNeeded > 1e-9 && switched === null) {
+    notes.push("no switched program meets the target at more samples than the fixed part alone");
+  }
+  const sim = best.simulation;
+  const perDay = d.intervalMinutes !== undefined && n > 1 ? (sim.switchingOperations / (n * d.intervalMinutes)) * 1440 : null;
+  return {
+    source: d.source,
+    samples: n,
+    coverage,
+    needAtCoverageKvar: needAtCoverage,
+    maxNeedKvar: maxNeed,
+    minReactiveKvar: minQ,
+    fixed,
+    switchedNeededKvar: switchedNeeded,
+    switched,
+    candidatesEvaluated: candidates.length,
+    metShare: n > 0 ? sim.metCount / n : 0,
+    metCoveredShare: sim.coveredCount > 0 ? sim.metCoveredCount / sim.coveredCount : 0,
+    switchingOperations: sim.switchingOperations,
+    switchingOperationsPerDay: perDay,
+    notes,
+    warnings,
+  };
+}
+
+/** Controller response threshold C/k (trade formula, in capacitor.ts). */
+export { controllerResponseA };

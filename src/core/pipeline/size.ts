@@ -1,0 +1,168 @@
+import { analyseBank, type BankAnalysis } from "../bank/stages.js";
+import { cautionsFor, type Caution } from "../cautions/safety-cautions.js";
+import { correctionFor, type CorrectionResult } from "../correction/to-target.js";
+import { DEFAULT_TARGET_PF, type SizingInput } from "../inputs.js";
+import { designSiteCorrection, type RecommendedBank } from "../placement/site-plan.js";
+import type { PlacementPlan } from "../placement/placement-types.js";
+import {
+  harmonicOrdersPresent,
+  NONLINEAR_STUDY_SHARE,
+  voltageRisePct,
+} from "../harmonics/resonance.js";
+import { shortCircuitAtBus } from "../harmonics/short-circuit.js";
+import { siteEconomics } from "../economics/of-sizing.js";
+import type { EconomicsResult } from "../economics/index.js";
+import { compactStudy, studySiteHarmonics, type SizingHarmonics } from "../harmonics/site-study.js";
+import type { HarmonicStudyOptions, HarmonicStudyResult } from "../harmonics/index.js";
+import { evaluateSite, type LoadResult, type SiteResult } from "../readings/site-totals.js";
+import { ENGINE_VERSION } from "./engine-version.js";
+import { warning, type InputIssue, type Warning } from "../warnings.js";
+
+export type { RecommendedBank };
+
+export interface ResonanceSummary {
+  shortCircuitKVA: number;
+  transformerShortCircuitKVA: number | null;
+  utilityShortCircuitKVA: number | null;
+  harmonicOrdersPresent: number[];
+  /** kVA of drive loads (the nonlinear load the screen counts). */
+  nonlinearKVA: number;
+  nonlinearSharePct: number | null;
+  harmonicStudyAdvised: boolean;
+  /** Voltage rise when the whole recommended bank switches in, percent. */
+  recommendedBankVoltageRisePct: number | null;
+  proposedBankVoltageRisePct: number | null;
+}
+
+export interface SizingResult {
+  engineVersion: string;
+  system: SizingInput["system"];
+  loads: LoadResult[];
+  site: SiteResult;
+  correction: CorrectionResult;
+  /** Where the correction goes: motor terminals, group banks, the central bank. */
+  placement?: PlacementPlan;
+  recommendedBank: RecommendedBank | null;
+  proposedBank?: BankAnalysis;
+  resonance?: ResonanceSummary;
+  /** Savings and payback of the recommended bank, when a tariff was given. */
+  economics?: EconomicsResult;
+  /** The harmonic study's figures, whenever the site has harmonic sources and the source strength is known. */
+  harmonics?: SizingHarmonics;
+  warnings: Warning[];
+  cautions: Caution[];
+}
+
+export type SizingOutcome =
+  | { ok: true; result: SizingResult; /** the full harmonic study, for the scan endpoint */ study?: HarmonicStudyResult }
+  | { ok: false; issues: InputIssue[] };
+
+/** The whole stateless sizing: readings → triangles → site → correction → banks → resonance screen → cautions. */
+export interface SizingOptions {
+  harmonics?: HarmonicStudyOptions;
+  /** Run the harmonic study even without harmonic sources (the scan endpoint wants the impedance scan). */
+  forceHarmonicStudy?: boolean;
+}
+
+export function size(input: SizingInput, options: SizingOptions = {}): SizingOutcome {
+  const { system } = input;
+  const siteOutcome = evaluateSite(system, input.loads, input.serviceEntrance);
+  if (siteOutcome.issues.length > 0 || !siteOutcome.site) return { ok: false, issues: siteOutcome.issues };
+  const { site, loads } = siteOutcome;
+  const warnings: Warning[] = [...siteOutcome.warnings];
+
+  const targetPF = input.targetPF ?? DEFAULT_TARGET_PF;
+  const { correction, warnings: corrWarnings } = correctionFor(site, targetPF, system.voltageV, system.phases);
+  warnings.push(...corrWarnings);
+
+  const sc = shortCircuitAtBus(input.transformer, input.utility);
+  const orders = harmonicOrdersPresent(input.loads, input.harmonicSources);
+  const sourceCtx = { shortCircuitKVA: sc?.shortCircuitKVA ?? null, harmonicOrders: orders };
+
+  const designed = designSiteCorrection(input, loads, site, correction, sourceCtx);
+  if (designed.issues.length > 0) return { ok: false, issues: designed.issues };
+  warnings.push(...designed.warnings);
+  const recommendedBank = designed.recommendedBank;
+
+  let proposedBank: BankAnalysis | undefined;
+  if (input.proposedBank) {
+    const { analysis, warnings: w } = analyseBank(input.proposedBank, system, sourceCtx, "proposedBank");
+    warnings.push(...w);
+    proposedBank = analysis;
+    if (analysis.effectiveKvar > site.kvar && site.kvar >= 0) {
+      warnings.push(
+        warning(
+          "proposed_bank_leads",
+          `the proposed bank delivers ${analysis.effectiveKvar.toFixed(1)} kvar, more than the site's ${site.kvar.toFixed(1)} kvar: fully switched in at this load the site would lead`,
+          "proposedBank",
+        ),
+      );
+    }
+  }
+
+  const nonlinearKVA = loads.filter((l) => l.kind === "drive").reduce((s, l) => s + (l.measuredKVA ?? l.kVA), 0);
+  let resonance: ResonanceSummary | undefined;
+  if (sc) {
+    const share = input.transformer ? nonlinearKVA / input.transformer.kVA : null;
+    const advised = share !== null && share > NONLINEAR_STUDY_SHARE;
+    if (advised) {
+      warnings.push(
+        warning(
+          "harmonic_study_advised",
+          `nonlinear (drive) load is ${((share as number) * 100).toFixed(0)} % of the transformer kVA, above 15 % (makers' rule of thumb): a harmonic study and a detuned bank are advised`,
+        ),
+      );
+    }
+    resonance = {
+      ...sc,
+      harmonicOrdersPresent: orders,
+      nonlinearKVA,
+      nonlinearSharePct: share === null ? null : share * 100,
+      harmonicStudyAdvised: advised,
+      recommendedBankVoltageRisePct: recommendedBank ? voltageRisePct(recommendedBank.effectiveKvar, sc.shortCircuitKVA) : null,
+      proposedBankVoltageRisePct: proposedBank ? voltageRisePct(proposedBank.effectiveKvar, sc.shortCircuitKVA) : null,
+    };
+  } else if (orders.length > 0 && (recommendedBank || proposedBank)) {
+    warnings.push(
+      warning(
+        "resonance_not_screened",
+        "the site has harmonic sources but no transformer or utility data was given, so resonance could not be screened: add the transformer's kVA and impedance",
+        "transformer",
+      ),
+    );
+  }
+
+  const h = studySiteHarmonics(input, loads, sc?.shortCircuitKVA ?? null, { recommended: recommendedBank ? { ...recommendedBank, steps: designed.screenSteps } : null, proposed: proposedBank }, options.harmonics, options.forceHarmonicStudy);
+  if (h.issues.length > 0) return { ok: false, issues: h.issues };
+  warnings.push(...h.warnings);
+
+  const econ = input.economics
+    ? siteEconomics(
+        input.economics,
+        site,
+        correction,
+        recommendedBank ? { installedKvar: recommendedBank.effectiveKvar, steps: recommendedBank.physicalSteps.length } : null,
+        input.intervalDemand?.months,
+      )
+    : undefined;
+
+  return {
+    ok: true,
+    result: {
+      engineVersion: ENGINE_VERSION,
+      system: { ...system },
+      loads,
+      site,
+      correction,
+      ...(designed.placement ? { placement: designed.placement } : {}),
+      recommendedBank,
+      ...(proposedBank ? { proposedBank } : {}),
+      ...(resonance ? { resonance } : {}),
+      ...(h.study ? { harmonics: compactStudy(h.study) } : {}),
+      ...(econ ? { economics: econ } : {}),
+      warnings,
+      cautions: cautionsFor(),
+    },
+    ...(h.study ? { study: h.study } : {}),
+  };
+}

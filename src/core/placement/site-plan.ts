@@ -1,0 +1,140 @@
+import { analyseBank, type BankAnalysis, type SourceContext } from "../bank/stages.js";
+import type { CorrectionResult } from "../correction/to-target.js";
+import { designBank, type BankDesign, type DesignedStep } from "../bank/bank-design.js";
+import type { ReactiveDemand } from "../bank/demand.js";
+import { planPlacement } from "./placement.js";
+import type { PlacementPlan } from "./placement-types.js";
+import type { SizingInput } from "../inputs.js";
+import { triangleOf } from "../readings/triangle.js";
+import type { LoadResult, SiteResult } from "../readings/site-totals.js";
+import type { InputIssue, Warning } from "../warnings.js";
+
+export type BankArrangement = "fixed" | "automatic" | "fixed_and_automatic";
+
+/** The recommended (central) bank: the design's figures, and every switchable total analysed stage by stage. */
+export interface RecommendedBank extends BankAnalysis {
+  arrangement: BankArrangement;
+  reason: string;
+  /** True when the bank cannot hold the target in every reading or interval. */
+  belowTarget: boolean;
+  fixedKvar: number;
+  switchedKvar: number;
+  /** The physical steps, fixed first: what to buy (stages[] are the switchable totals). */
+  physicalSteps: DesignedStep[];
+  stepPlan: Omit<BankDesign["stepPlan"], "warnings" | "notes">;
+  controller: BankDesign["controller"];
+  protection: BankDesign["protection"];
+  discharge: BankDesign["discharge"];
+  notes: string[];
+}
+
+export interface SiteDesignOutcome {
+  placement?: PlacementPlan;
+  recommendedBank: RecommendedBank | null;
+  /** The stage-by-stage steps the harmonic study must see (one stage per switchable total). */
+  screenSteps: { kvar: number }[];
+  issues: InputIssue[];
+  warnings: Warning[];
+}
+
+function demandOf(input: SizingInput, site: SiteResult): { demand?: ReactiveDemand; issues: InputIssue[]; warnings: Warning[] } {
+  if (input.intervalDemand) {
+    const { kW, kvar, intervalMinutes } = input.intervalDemand;
+    return { demand: { kind: "intervals", samples: { kW, kvar }, ...(intervalMinutes ? { intervalMinutes } : {}) }, issues: [], warnings: [] };
+  }
+  const survey = { kW: site.kW, kvar: site.kvar };
+  if (!input.lightLoad) return { demand: { kind: "readings", survey }, issues: [], warnings: [] };
+  const light = triangleOf(input.lightLoad.measurement, input.system.phases, ["lightLoad", "measurement"]);
+  if (!light.triangle) return { issues: light.issues, warnings: light.warnings };
+  return { demand: { kind: "readings", survey, lightLoad: { kW: light.triangle.kW, kvar: light.triangle.kvar } }, issues: [], warnings: light.warnings };
+}
+
+/**
+ * Where the correction goes (motor terminals, group banks, the central bank) and the design of the central bank:
+ * fixed part under the minimum reactive demand, switched steps, C/k, protection and discharge.
+ */
+export function designSiteCorrection(
+  input: SizingInput,
+  loads: LoadResult[],
+  site: SiteResult,
+  correction: CorrectionResult,
+  source: SourceContext,
+): SiteDesignOutcome {
+  const warnings: Warning[] = [];
+  const placement = planPlacement({
+    loads: input.loads.map((load, i) => {
+      const r = loads[i]!;
+      return {
+        label: load.label,
+        kind: load.kind ?? "other",
+        kW: r.kW,
+        kvar: r.kvar,
+        quantity: r.quantity,
+        voltageV: input.system.voltageV,
+        phases: r.phases,
+        ...(load.starting ? { starting: load.starting } : {}),
+        ...(load.separateCapacitorContactor !== undefined ? { separateCapacitorContactor: load.separateCapacitorContactor } : {}),
+        ...(load.group ? { group: load.group } : {}),
+        ...(load.noLoadAmps !== undefined ? { noLoadAmps: load.noLoadAmps } : {}),
+        ...(load.continuousDuty !== undefined ? { continuousDuty: load.continuousDuty } : {}),
+      };
+    }),
+    targetPF: correction.targetPF,
+    siteRequiredKvar: correction.kvarRequired,
+    pathPrefix: "loads",
+  });
+  warnings.push(...placement.warnings);
+  const localKvar = placement.locations.filter((l) => l.location !== "central" && l.location !== "none").reduce((s, l) => s + l.kvar, 0);
+
+  const d = demandOf(input, site);
+  warnings.push(...d.warnings);
+  if (!d.demand) return { placement, recommendedBank: null, screenSteps: [], issues: d.issues, warnings };
+  const o = input.bankDesign ?? {};
+  const outcome = designBank({
+    system: input.system,
+    targetPF: correction.targetPF,
+    demand: d.demand,
+    localCorrectionKvar: localKvar,
+    ...(input.transformer ? { transformerKVA: input.transformer.kVA } : {}),
+    ...(o.ctRatio !== undefined ? { ctRatio: o.ctRatio } : {}),
+    ...(o.ratedVoltageV !== undefined ? { ratedVoltageV: o.ratedVoltageV } : {}),
+    ...(o.reactorPct !== undefined ? { reactorPct: o.reactorPct } : {}),
+    ...(o.coverage !== undefined ? { steps: { coverage: o.coverage } } : {}),
+    protection: { ...(o.protectionDevice ? { device: o.protectionDevice } : {}), ...(o.ocpdFactor ? { ocpdFactor: o.ocpdFactor } : {}) },
+    discharge: {
+      ...(o.capacitorConnection ? { capacitorConnection: o.capacitorConnection } : {}),
+      ...(o.dischargeResistorConnection ? { resistorConnection: o.dischargeResistorConnection } : {}),
+    },
+  });
+  if (!outcome.ok) return { placement, recommendedBank: null, screenSteps: [], issues: outcome.issues.map((i) => ({ ...i, path: prefixed(i.path) })), warnings };
+  const design = outcome.design;
+  warnings.push(...design.warnings);
+  if (!design.bank || !design.screenBank) return { placement, recommendedBank: null, screenSteps: [], issues: [], warnings };
+
+  const { analysis, warnings: w } = analyseBank(design.screenBank, input.system, source, "recommendedBank");
+  warnings.push(...w);
+  const { warnings: _w, notes: _n, ...stepPlan } = design.stepPlan;
+  const recommendedBank: RecommendedBank = {
+    ...analysis,
+    steps: design.bank.steps.map((s) => ({ kvar: s.kvar })),
+    arrangement: design.switchedKvar === 0 ? "fixed" : design.fixedKvar === 0 ? "automatic" : "fixed_and_automatic",
+    reason: design.reason,
+    belowTarget: design.stepPlan.metShare < 1,
+    fixedKvar: design.fixedKvar,
+    switchedKvar: design.switchedKvar,
+    physicalSteps: design.steps,
+    stepPlan,
+    controller: design.controller,
+    protection: design.protection,
+    discharge: design.discharge,
+    notes: [...design.notes, ...design.stepPlan.notes],
+  };
+  return { placement, recommendedBank, screenSteps: design.screenBank.steps, issues: [], warnings };
+}
+
+/** Design issues name design options; map them onto the request's fields. */
+function prefixed(path: (string | number)[]): (string | number)[] {
+  const head = path[0];
+  if (head === "ctRatio" || head === "ratedVoltageV" || head === "reactorPct") return ["bankDesign", ...path];
+  return path;
+}
