@@ -122,9 +122,17 @@ export interface ServiceEntranceInput {
   measurement: Measurement;
 }
 
+/**
+ * What the readings cover: the whole site (the service entrance, or every load) or a part of it (some loads only).
+ * Interval demand drives the central bank only for a whole-site survey.
+ */
+export type SurveyScope = "whole_site" | "partial";
+
 export interface SizingInput {
   system: SystemInput;
   targetPF?: number;
+  /** Default: whole_site when a service-entrance reading is given, else partial. */
+  scope?: SurveyScope;
   loads: LoadInput[];
   serviceEntrance?: ServiceEntranceInput;
   transformer?: TransformerInput;

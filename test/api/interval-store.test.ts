@@ -106,7 +106,7 @@ describe("surveys use the building's interval analyses", () => {
   });
 
   it("a new survey designs its bank from the newest analysis and bills its months (basis interval_data)", async () => {
-    const res = await postSurvey(surveyBody());
+    const res = await postSurvey(surveyBody({ scope: "whole_site" }));
     expect(res.statusCode).toBe(201);
     const r = res.json().result;
     expect(r.recommendedBank.stepPlan.source).toBe("intervals");
@@ -125,13 +125,13 @@ describe("surveys use the building's interval analyses", () => {
 
   it("intervalAnalysisId picks an older analysis; null sizes from the readings alone", async () => {
     const older = (await inject(app, `/v1/buildings/${buildingId}/interval-analyses?limit=100`)).json().items.at(-1).id;
-    const picked = await postSurvey(surveyBody({ intervalAnalysisId: older }));
+    const picked = await postSurvey(surveyBody({ intervalAnalysisId: older, scope: "whole_site" }));
     expect(picked.statusCode).toBe(201);
     expect((await inject(app, `/v1/surveys/${picked.json().id}`)).json().building.intervalAnalysisId).toBe(older);
     // the flat week has one month whose peak kVA is √(300² + 200²) = 360.555 (a summary keeps kVA to 0.001)
     expect(picked.json().result.economics.periods[0].before.billedQuantity).toBeCloseTo(Math.hypot(300, 200), 3);
 
-    const none = await postSurvey(surveyBody({ intervalAnalysisId: null }));
+    const none = await postSurvey(surveyBody({ intervalAnalysisId: null, scope: "whole_site" }));
     expect(none.statusCode).toBe(201);
     expect(none.json().result.recommendedBank.stepPlan.source).not.toBe("intervals");
     expect(none.json().result.economics.basis).toBe("survey_demand");

@@ -20,6 +20,8 @@ export const TOL = {
   powerRounded: { abs: 0.05 },
   /** kW, kvar, kVA quoted to three or four decimals in a hand calculation (e.g. 36.854 kvar). */
   powerQuoted: { abs: 1e-3 },
+  /** kW, kvar, kVA quoted to two decimals in a hand calculation (e.g. 263.68 kVA). */
+  powerQuoted2: { abs: 0.005 },
   /** Short-circuit strength kVA against exact arithmetic. */
   shortCircuitKVA: { rel: 1e-6 },
   /** Short-circuit strength quoted to the nearest kVA. */

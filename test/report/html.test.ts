@@ -93,7 +93,7 @@ describe("report HTML: figures from the result", () => {
     const site = rowsOf(doc.querySelectorAll("#site table.data")[0] as HTMLElement);
     expect(site[0]).toEqual(["Real power", f1(result.site.kW), f1(result.site.kW), "kW"]);
     expect(site[1]).toEqual(["Reactive power", f1(result.site.kvar), f1(result.correction.kvarAfter), "kvar"]);
-    expect(site[3]).toEqual(["Displacement PF", result.site.displacementPF.toFixed(3), result.correction.pfAfter.toFixed(3), "-"]);
+    expect(site[3]).toEqual(["Displacement PF", `${result.site.displacementPF.toFixed(3)} ${result.site.sense}`, `${result.correction.pfAfter.toFixed(3)} ${result.correction.pfAfterSense}`, "-"]);
     expect(site[4]?.[1]).toBe(f1(result.correction.lineCurrentBeforeA));
     expect(text).toContain(`${f1(result.correction.kvarRequired)} kvar`);
     expect(text).toContain(`${f1(result.correction.kVAReleased)} kVA`);

@@ -1,16 +1,22 @@
-import { apparentKVA, lineCurrentA, tanPhi, type Phases } from "../conventions.js";
+import { apparentKVA, lineCurrentA, senseOfKvar, tanPhi, type Phases, type Sense } from "../conventions.js";
 import type { PowerTriangle } from "../readings/triangle.js";
 import { warning, type Warning } from "../warnings.js";
 
+/** What the site needs: capacitors added (lagging beyond the target), capacitors taken out (leading beyond it), or nothing. */
+export type CorrectionAction = "add" | "remove" | "none";
+
 export interface CorrectionResult {
   targetPF: number;
+  action: CorrectionAction;
   /** kvar of capacitors to add: max(0, Q − P·tan(acos(target))). */
   kvarRequired: number;
   /** Multiplier kvar/kW from the present to the target PF (handbook table form). */
   kvarPerKW: number;
   /** Capacitive kvar to remove when the site is leading beyond the target (0 otherwise). */
   leadingExcessKvar: number;
+  /** PF after the action: capacitors added, or the leading excess taken out of service. */
   pfAfter: number;
+  pfAfterSense: Sense;
   kvarAfter: number;
   kVABefore: number;
   kVAAfter: number;
@@ -40,20 +46,23 @@ export function correctionFor(
       warning(
         "site_leading",
         leadingExcessKvar > 0
-          ? `the site is leading (PF ${site.displacementPF.toFixed(3)}); remove about ${leadingExcessKvar.toFixed(1)} kvar of capacitors to reach ${targetPF}`
+          ? `the site is leading (PF ${site.displacementPF.toFixed(3)}): take about ${leadingExcessKvar.toFixed(1)} kvar of capacitors out of service to bring it to ${targetPF} leading; add none`
           : `the site is leading (PF ${site.displacementPF.toFixed(3)}) but within the target; add no capacitors`,
       ),
     );
   }
-  const kvarAfter = site.kvar - kvarRequired;
+  // Lagging: capacitors added; leading beyond the target: the excess capacitive kvar taken out of service.
+  const kvarAfter = site.kvar - kvarRequired + leadingExcessKvar;
   const kVAAfter = apparentKVA(site.kW, kvarAfter);
   const pfAfter = kVAAfter > 0 ? site.kW / kVAAfter : 1;
   const correction: CorrectionResult = {
     targetPF,
+    action: kvarRequired > 0 ? "add" : leadingExcessKvar > 0 ? "remove" : "none",
     kvarRequired,
     kvarPerKW: site.kvar > 0 ? Math.max(0, tanPhi(site.displacementPF) - tanPhi(targetPF)) : 0,
     leadingExcessKvar,
     pfAfter,
+    pfAfterSense: senseOfKvar(kvarAfter, kVAAfter),
     kvarAfter,
     kVABefore: site.kVA,
     kVAAfter,

@@ -1,7 +1,8 @@
 import { analyseBank, type BankAnalysis } from "../bank/stages.js";
 import { cautionsFor, type Caution } from "../cautions/safety-cautions.js";
 import { correctionFor, type CorrectionResult } from "../correction/to-target.js";
-import { DEFAULT_TARGET_PF, type SizingInput } from "../inputs.js";
+import { DEFAULT_TARGET_PF, type SizingInput, type SurveyScope } from "../inputs.js";
+import { scopeOf } from "./scope.js";
 import { designSiteCorrection, type RecommendedBank } from "../placement/site-plan.js";
 import type { PlacementPlan } from "../placement/placement-types.js";
 import {
@@ -34,9 +35,19 @@ export interface ResonanceSummary {
   proposedBankVoltageRisePct: number | null;
 }
 
+/** What the readings cover, as used: the request's `scope`, or its default. */
+export interface ScopeResult {
+  scope: SurveyScope;
+  /** True when the request gave no scope and the default was applied. */
+  defaulted: boolean;
+  /** One sentence on what the recommendation covers. */
+  note: string;
+}
+
 export interface SizingResult {
   engineVersion: string;
   system: SizingInput["system"];
+  scope: ScopeResult;
   loads: LoadResult[];
   site: SiteResult;
   correction: CorrectionResult;
@@ -79,7 +90,11 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
   const orders = harmonicOrdersPresent(input.loads, input.harmonicSources);
   const sourceCtx = { shortCircuitKVA: sc?.shortCircuitKVA ?? null, harmonicOrders: orders };
 
-  const designed = designSiteCorrection(input, loads, site, correction, sourceCtx);
+  const scope = scopeOf(input, site, correction.kvarRequired);
+  warnings.push(...scope.warnings);
+  const siteInput = scope.result.scope === "whole_site" ? input : withoutIntervalDemand(input);
+
+  const designed = designSiteCorrection(siteInput, loads, site, correction, sourceCtx);
   if (designed.issues.length > 0) return { ok: false, issues: designed.issues };
   warnings.push(...designed.warnings);
   const recommendedBank = designed.recommendedBank;
@@ -142,7 +157,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
         site,
         correction,
         recommendedBank ? { installedKvar: recommendedBank.effectiveKvar, steps: recommendedBank.physicalSteps.length } : null,
-        input.intervalDemand?.months,
+        siteInput.intervalDemand?.months,
       )
     : undefined;
 
@@ -151,6 +166,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
     result: {
       engineVersion: ENGINE_VERSION,
       system: { ...system },
+      scope: scope.result,
       loads,
       site,
       correction,
@@ -165,4 +181,10 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
     },
     ...(h.study ? { study: h.study } : {}),
   };
+}
+
+/** A partial survey's bank rests on its own readings: the building's interval data describes the whole site. */
+function withoutIntervalDemand(input: SizingInput): SizingInput {
+  const { intervalDemand: _whole, ...rest } = input;
+  return rest;
 }

@@ -147,7 +147,10 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
     }
     const why = p.reason === "" ? "" : ` (not at its terminals: ${p.reason})`;
     if (r <= EPS) {
-      p.reason = `at or above the target PF, needs no correction; its ${(-r).toFixed(1)} kvar margin lowers the ${inBank ? "group's" : "site's"} net need`;
+      p.reason =
+        l.kvar < 0
+          ? `leading: adds no need, offsets ${(-l.kvar).toFixed(1)} kvar of the ${inBank ? "group's" : "site's"} lagging demand`
+          : `at or above the target PF, needs no correction; its ${(-r).toFixed(1)} kvar margin lowers the ${inBank ? "group's" : "site's"} net need`;
       return;
     }
     if (upstream === null) {
@@ -173,9 +176,11 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
   const basisGap = required - sumNeed;
   let balanceNote = `${totalKvar.toFixed(1)} kvar placed (terminal ${terminalKvar.toFixed(1)}, group ${groupKvar.toFixed(1)}, central ${centralKvar.toFixed(1)}) against the site's ${required.toFixed(1)} kvar`;
   if (Math.abs(differenceKvar) > EPS) balanceNote += `; ${differenceKvar.toFixed(2)} kvar short, below the smallest unit`;
-  if (Math.abs(basisGap) > 0.05) {
+  if (required <= EPS) {
+    balanceNote = "nothing placed: the site as a whole needs no added kvar to reach the target";
+  } else if (Math.abs(basisGap) > 0.05) {
     balanceNote += basisGap > 0
-      ? `; the site basis needs ${basisGap.toFixed(1)} kvar more than its loads add up to (unmetered loads or readings at different times), taken at the central bank`
+      ? `; the site basis needs ${basisGap.toFixed(1)} kvar more than its loads add up to (unmetered loads or readings at different times), ${centralKvar > 0 ? "taken at the central bank" : "left uncorrected (below the smallest unit)"}`
       : `; the loads add up to ${(-basisGap).toFixed(1)} kvar more need than the site basis (diversity or readings at different times), so upstream banks are held to the site's figure`;
   }
   return { loads: out, locations, totalKvar, siteRequiredKvar: required, differenceKvar, balanceNote, notes, warnings };

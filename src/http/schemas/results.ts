@@ -36,10 +36,12 @@ export const siteResultSchema = z.object({
 
 export const correctionSchema = z.object({
   targetPF: z.number(),
+  action: z.enum(["add", "remove", "none"]).describe("add capacitors (lagging beyond the target), remove the leading excess, or none"),
   kvarRequired: z.number(),
   kvarPerKW: z.number(),
   leadingExcessKvar: z.number(),
-  pfAfter: z.number(),
+  pfAfter: z.number().describe("after the action: capacitors added, or the leading excess taken out of service"),
+  pfAfterSense: sense,
   kvarAfter: z.number(),
   kVABefore: z.number(),
   kVAAfter: z.number(),
@@ -162,6 +164,11 @@ export const economicsResultSchema = z.object({
 export const sizingResultSchema = z.object({
   engineVersion: z.string(),
   system: z.object({ voltageV: z.number(), frequencyHz: z.number(), phases: z.number() }),
+  scope: z.object({
+    scope: z.enum(["whole_site", "partial"]),
+    defaulted: z.boolean().describe("true when the request gave no scope"),
+    note: z.string(),
+  }),
   loads: z.array(loadResultSchema),
   site: siteResultSchema,
   correction: correctionSchema,

@@ -162,9 +162,14 @@ export const economicsSchema = z.strictObject({
   cost: z.strictObject({ perKvar: money("perKvar").optional(), perStep: money("perStep").optional(), fixed: money("fixed").optional() }).optional(),
 });
 
+export const scopeSchema = z
+  .enum(["whole_site", "partial"], { error: 'scope must be "whole_site" or "partial"' })
+  .describe("what the readings cover; default whole_site when a serviceEntrance reading is given, else partial. Interval demand drives the central bank only for a whole-site survey");
+
 export const sizingRequestSchema = z.strictObject({
   system: systemSchema,
   targetPF: targetPFSchema.optional(),
+  scope: scopeSchema.optional(),
   loads: loadsSchema,
   serviceEntrance: serviceEntranceSchema.optional(),
   transformer: transformerSchema.optional(),

@@ -7,6 +7,7 @@ import {
   bankSchema,
   harmonicSourcesSchema,
   loadsSchema,
+  scopeSchema,
   serviceEntranceSchema,
   targetPFSchema,
 } from "./sizing.js";
@@ -23,6 +24,7 @@ export const surveyInputsSchema = z.strictObject({
   surveyor: z.string({ error: "surveyor must be a string" }).trim().min(1, "surveyor must not be empty").max(200),
   notes: z.string({ error: "notes must be a string" }).max(5000, "notes must be at most 5000 characters").optional(),
   targetPF: targetPFSchema,
+  scope: scopeSchema.optional(),
   loads: loadsSchema,
   serviceEntrance: serviceEntranceSchema.optional(),
   proposedBank: bankSchema.optional(),

@@ -16,7 +16,7 @@ export function siteSection(input: ReportInput): Section {
         ["Real power", fmt.power(site.kW), fmt.power(site.kW), "kW"],
         ["Reactive power", fmt.power(site.kvar), fmt.power(c.kvarAfter), "kvar"],
         ["Apparent power", fmt.power(c.kVABefore), fmt.power(c.kVAAfter), "kVA"],
-        ["Displacement PF", fmt.pf(site.displacementPF), fmt.pf(c.pfAfter), "-"],
+        ["Displacement PF", `${fmt.pf(site.displacementPF)} ${site.sense}`, `${fmt.pf(c.pfAfter)} ${c.pfAfterSense ?? ""}`.trim(), "-"],
         ["Line current", fmt.amps(c.lineCurrentBeforeA), fmt.amps(c.lineCurrentAfterA), "A"],
       ],
     },
@@ -31,7 +31,8 @@ export function siteSection(input: ReportInput): Section {
       ],
     },
   ];
-  if (c.kvarRequired <= 0) blocks.push({ kind: "paragraph", tone: "note", text: "The site already meets the target: no capacitors are needed at this load." });
+  const note = correctionNote(c);
+  if (note) blocks.push({ kind: "paragraph", tone: "note", text: note });
   blocks.push({
     kind: "chart",
     chart: powerTriangleChart({
@@ -41,4 +42,13 @@ export function siteSection(input: ReportInput): Section {
     }),
   });
   return { id: "site", heading: "Site before and after correction", blocks };
+}
+
+/** The one sentence on what the site needs when it needs no added capacitors; null when it does (the bank says it). */
+export function correctionNote(c: ReportInput["result"]["correction"]): string | null {
+  if (c.kvarRequired > 0) return null;
+  if (c.leadingExcessKvar > 0) {
+    return `The site leads beyond the target: take about ${fmt.power(c.leadingExcessKvar)} kvar of capacitors out of service and add none; the PF becomes ${fmt.pf(c.pfAfter)} leading and the demand ${fmt.power(c.kVAAfter)} kVA.`;
+  }
+  return "The site already meets the target at this load: no capacitors are needed.";
 }

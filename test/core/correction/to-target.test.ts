@@ -87,9 +87,14 @@ describe("a leading site", () => {
     // hand calculation: allowed at 0.95 = 100·0.328684 = 32.868 kvar; excess = 60 − 32.868 = 27.132 kvar
     expectClose(correction.leadingExcessKvar, 60 - 32.86841, TOL.powerQuoted, "leading excess kvar");
     expect(warnings.map((w) => w.code)).toEqual(["site_leading"]);
-    // nothing added: PF stays 100/116.619 = 0.857493 (hand)
-    expectClose(correction.pfAfter, 0.857493, TOL.pf, "pf after unchanged");
-    expectClose(correction.lossReductionPct, 0, TOL.pct, "no loss reduction");
+    // the excess taken out of service: 100 kW with 32.868 kvar leading → PF 0.95 leading, 105.263 kVA (hand)
+    expect(correction.action).toBe("remove");
+    expectClose(correction.pfAfter, 0.95, TOL.pf, "pf after the excess is removed");
+    expect(correction.pfAfterSense).toBe("leading");
+    expectClose(correction.kvarAfter, -32.86841, TOL.powerQuoted, "kvar after");
+    expectClose(correction.kVAAfter, Math.hypot(100, 32.86841), TOL.powerQuoted, "kVA after: √(100² + 32.868²) = 105.263");
+    // kVA released 116.619 − 105.263 = 11.356 kVA (hand)
+    expectClose(correction.kVAReleased, 116.619 - 105.263, TOL.powerQuoted2, "kVA released");
   });
 
   it("a site leading within the target has no excess but is still flagged", () => {
