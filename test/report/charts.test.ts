@@ -161,19 +161,35 @@ describe("simplify", () => {
 
 describe("duration curve chart", () => {
   const exceedancePct = [0, 25, 50, 75, 100];
-  const kvar = [360, 300, 250, 140, 110];
-  const chart = durationCurveChart({ exceedancePct, kvar, levels: [{ label: "fixed", kvar: 100 }, { label: "fixed + step 1", kvar: 150 }] });
+  const kvar = [160, 120, 90, 40, 0];
+  const demand = [360, 300, 250, 140, 110];
+  const chart = durationCurveChart({
+    need: { exceedancePct, kvar },
+    demand: { exceedancePct, kvar: demand },
+    levels: [{ label: "fixed", kvar: 100 }, { label: "fixed + step 1", kvar: 150 }],
+    targetPF: 0.95,
+    coveredPct: 99.9,
+  });
   const area = chart.shapes.find((s) => s.role === "plot-area") as Shape & { data: Record<string, string> };
   const d = (k: string) => Number(area.data[k]);
   const yOf = (q: number) => d("y0") - ((q - d("k0")) / (d("k1") - d("k0"))) * (d("y0") - d("y1"));
   const xOf = (p: number) => d("x0") + (p / 100) * (d("x1") - d("x0"));
 
-  it("draws the curve through each (share, kvar) point", () => {
-    const curve = byRole(chart, "duration-curve")[0] as Extract<Shape, { kind: "polyline" }>;
+  it("draws the need to reach the target through each (share, kvar) point, and the demand lighter", () => {
+    const curve = byRole(chart, "need-curve")[0] as Extract<Shape, { kind: "polyline" }>;
     curve.points.forEach(([x, y], i) => {
       expect(x).toBeCloseTo(xOf(exceedancePct[i] as number), 9);
       expect(y).toBeCloseTo(yOf(kvar[i] as number), 9);
     });
+    const light = byRole(chart, "demand-curve")[0] as Extract<Shape, { kind: "polyline" }>;
+    light.points.forEach(([, y], i) => expect(y).toBeCloseTo(yOf(demand[i] as number), 9));
+    expect(light.stroke.width).toBeLessThan(curve.stroke.width);
+  });
+
+  it("marks the coverage where the need passes the full bank: at 100 − 99.9 = 0.1 % exceedance", () => {
+    const mark = byRole(chart, "coverage")[0] as LineShape;
+    expect(mark.x1).toBeCloseTo(xOf(0.1), 9);
+    expect(chart.description).toMatch(/covers the need in 99\.9 % of the intervals/);
   });
 
   it("draws each cumulative level as a horizontal line at its kvar", () => {

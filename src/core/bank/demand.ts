@@ -1,5 +1,6 @@
 /** The site's reactive demand as samples: interval data, or the survey reading with an optional light-load reading. */
 import { tanPhi } from "../conventions.js";
+import { neededKvarAt } from "../interval/need-curve.js";
 import type { InputIssue } from "../warnings.js";
 
 export interface DemandPoint {
@@ -87,7 +88,7 @@ export function demandArrays(
 export function neededKvar(d: DemandArrays, targetPF: number): Float64Array {
   const t = tanPhi(targetPF);
   const out = new Float64Array(d.kW.length);
-  for (let i = 0; i < out.length; i++) out[i] = Math.max(0, (d.kvar[i] as number) - (d.kW[i] as number) * t);
+  for (let i = 0; i < out.length; i++) out[i] = neededKvarAt(d.kW[i] as number, d.kvar[i] as number, t);
   return out;
 }
 

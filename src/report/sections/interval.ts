@@ -1,5 +1,6 @@
 /** Interval data: the reactive demand over time and the bank's levels against its duration curve. */
 import { durationCurveChart, type StepLevel } from "../charts/index.js";
+import { coveredSharePct, neededKvarCurve } from "../../core/interval/need-curve.js";
 import { dateTime, fmt } from "../format.js";
 import { designViewOf } from "./design.js";
 import type { Block, ReportInput, Section } from "../types.js";
@@ -55,8 +56,21 @@ export function intervalSection(input: ReportInput): Section {
       rows: s.monthly.map((m) => [m.month, fmt.power(m.peakKW), fmt.power(m.peakKVA), fmt.num(m.kWh, 0), fmt.num(m.kvarhLagging, 0), fmt.pf(m.billingPF)]),
     });
   }
-  if (s.durationCurve.kvar.length > 1) {
-    blocks.push({ kind: "chart", chart: durationCurveChart({ exceedancePct: s.durationCurve.exceedancePct, kvar: s.durationCurve.kvar, levels: stepLevels(input) }) });
+  if (s.durationCurve.kvar.length > 1 && s.loadPoints.count.length > 0) {
+    const targetPF = input.result.correction.targetPF;
+    const need = neededKvarCurve(s.loadPoints, targetPF);
+    const levels = stepLevels(input);
+    const top = levels.reduce((m, l) => Math.max(m, l.kvar), 0);
+    blocks.push({
+      kind: "chart",
+      chart: durationCurveChart({
+        need: { exceedancePct: need.exceedancePct, kvar: need.neededKvar },
+        demand: { exceedancePct: s.durationCurve.exceedancePct, kvar: s.durationCurve.kvar },
+        levels,
+        targetPF,
+        ...(levels.length > 0 ? { coveredPct: coveredSharePct(s.loadPoints, targetPF, top) } : {}),
+      }),
+    });
   }
   return { id: "interval", heading: "Reactive demand over time", blocks };
 }
