@@ -19,7 +19,7 @@ export function stepsText(steps: readonly { kvar: number }[]): string {
 
 function analysisBlocks(name: string, b: BankAnalysis, rec?: RecommendedBank): Block[] {
   const items = [
-    ...(rec ? [{ key: "Arrangement", value: String(rec.arrangement).replace(/_/g, " ") }, { key: "Why", value: rec.reason }] : []),
+    ...(rec ? [{ key: "Arrangement", value: String(rec.arrangement).replace(/_/g, " ") }] : []),
     { key: "Steps (nameplate)", value: stepsText(b.steps) },
     { key: "Capacitor rating", value: `${fmt.volts(b.ratedVoltageV)} V, ${b.ratedFrequencyHz} Hz` },
     { key: "Series reactor", value: b.reactorPct > 0 ? `${fmt.num(b.reactorPct, 2)} % (tuned to h = ${fmt.order(b.tuningOrder)}, ${fmt.hz(b.tuningHz)} Hz)` : "none (plain bank)" },
@@ -29,7 +29,7 @@ function analysisBlocks(name: string, b: BankAnalysis, rec?: RecommendedBank): B
     { key: "Capacitance per phase (delta / wye)", value: `${fmt.uF(b.capacitancePerPhase.deltaUF)} / ${fmt.uF(b.capacitancePerPhase.wyeUF)} µF` },
     { key: "Reactance per phase (wye equivalent)", value: `${fmt.ohm(b.reactancePerPhaseOhm)} ohm` },
   ];
-  if (rec?.belowTarget) items.push({ key: "Note", value: "this bank falls short of the target so the site does not lead" });
+  if (rec?.belowTarget) items.push({ key: "Coverage", value: coverageText(rec) });
   return [
     { kind: "subheading", text: name },
     { kind: "keyValues", items },
@@ -66,7 +66,7 @@ export function bankSection(input: ReportInput): Section {
   const placement = input.placement ?? input.result.placement;
   if (placement) blocks.push(...placementBlocks(placement));
   if (rec) blocks.push(...analysisBlocks("Recommended bank", rec, rec));
-  else blocks.push({ kind: "paragraph", text: "No bank is recommended: the site needs no capacitors to reach the target at the surveyed load." });
+  else blocks.push({ kind: "paragraph", text: noBankText(input.result) });
   if (prop) blocks.push(...analysisBlocks("Proposed bank (as entered)", prop));
   else blocks.push({ kind: "paragraph", text: "No bank was proposed with the survey." });
   const design = designViewOf(input.result, input.design);
@@ -82,4 +82,20 @@ export function bankSection(input: ReportInput): Section {
     if (prop) blocks.push(...minimumFigures(prop, "Proposed bank"));
   }
   return { id: "bank", heading: "Capacitor bank", blocks };
+}
+
+/** Why a bank may not hold the target everywhere, worded from the step plan's own figures. */
+export function coverageText(rec: RecommendedBank): string {
+  const met = rec.stepPlan.metShare * 100;
+  return `the bank holds the target in ${fmt.num(met, 1)} % of the ${rec.stepPlan.source === "intervals" ? "intervals" : "readings"}; in the rest a larger bank would lead at other times, or the need passes the design coverage`;
+}
+
+/** The sentence for an answer without a recommended bank, true for each reason the engine has for none. */
+export function noBankText(result: SizingResult): string {
+  const c = result.correction;
+  if (c.leadingExcessKvar > 0) return `No bank is recommended: the site leads, and about ${fmt.power(c.leadingExcessKvar)} kvar of capacitors should be taken out of service instead.`;
+  if (c.kvarRequired <= 0) return "No bank is recommended: the site needs no capacitors to reach the target at the surveyed load.";
+  const placed = result.placement?.totalKvar ?? 0;
+  if (placed > 0) return `No central bank is recommended: the ${fmt.power(placed)} kvar the site needs is placed at the motor terminals and group banks above.`;
+  return `No central bank is recommended: the ${fmt.power(c.kvarRequired)} kvar needed is below the smallest standard unit or the design could not be made from the readings.`;
 }

@@ -1,4 +1,4 @@
-/** Building and survey: who, when, which revision, which engine version, the electrical data used. */
+/** Building and survey: who, when, which revision, the electrical data used (name and engine version are in the title block). */
 import { dateTime, fmt, phasesText } from "../format.js";
 import type { Block, ReportInput, Section } from "../types.js";
 
@@ -6,11 +6,10 @@ export function buildingSection(input: ReportInput): Section {
   const { building, survey, result } = input;
   const blocks: Block[] = [];
   if (building) {
-    const items = [{ key: "Building", value: building.name }];
-    if (building.address) items.push({ key: "Address", value: building.address });
+    const items: { key: string; value: string }[] = [];
     if (building.buildingVersion !== undefined) items.push({ key: "Building data version", value: String(building.buildingVersion) });
     if (building.notes) items.push({ key: "Building notes", value: building.notes });
-    blocks.push({ kind: "keyValues", title: "Building", items });
+    if (items.length > 0) blocks.push({ kind: "keyValues", title: "Building", items });
   } else {
     blocks.push({ kind: "paragraph", text: "No building record was given: this report was made from a sizing request alone." });
   }
@@ -21,13 +20,12 @@ export function buildingSection(input: ReportInput): Section {
       { key: "Surveyed at", value: dateTime(survey.surveyedAt) },
       { key: "Surveyor", value: survey.surveyor },
       { key: "Revision recorded at", value: dateTime(survey.createdAt) },
-      { key: "Engine version of the stored result", value: survey.engineVersion },
     ];
     if (survey.reason) items.push({ key: "Reason for this revision", value: survey.reason });
     if (survey.notes) items.push({ key: "Survey notes", value: survey.notes });
     blocks.push({ kind: "keyValues", title: "Survey", items });
   } else {
-    blocks.push({ kind: "paragraph", text: `No stored survey: the figures were computed on request by engine version ${result.engineVersion}.` });
+    blocks.push({ kind: "paragraph", text: "No stored survey: the figures were computed on request." });
   }
   const sys = result.system;
   const tx = input.inputs.transformer ?? building?.transformer ?? null;
@@ -43,7 +41,6 @@ export function buildingSection(input: ReportInput): Section {
         value: tx ? `${fmt.kva0(tx.kVA)} kVA, impedance ${fmt.pct2(tx.impedancePct)} %${tx.xOverR !== undefined ? `, X/R ${fmt.num(tx.xOverR, 1)}` : ""}` : "not given",
       },
       { key: "Utility fault level", value: ut ? `${fmt.num(ut.faultMVA, 0)} MVA` : "not given (infinite source assumed when a transformer is given)" },
-      { key: "Engine version", value: result.engineVersion },
     ],
   });
   return { id: "building", heading: "Building and survey", blocks };
