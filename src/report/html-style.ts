@@ -18,6 +18,8 @@ p { margin: 8px 0; }
 .safety-line { margin: 14px 0 0; padding: 8px 12px; border: 2px solid #000000; font-weight: bold; }
 .toc ol { columns: 2; margin: 6px 0 0; padding-left: 24px; }
 .toc a { color: #000000; }
+.verdict { border: 3px solid #000000; padding: 4px 14px 10px; margin: 18px 0; }
+.verdict h2 { margin-top: 8px; }
 .kv { border-collapse: collapse; margin: 8px 0 12px; width: 100%; }
 .kv th { text-align: left; font-weight: bold; width: 38%; padding: 4px 10px 4px 0; vertical-align: top; border-bottom: 1px solid #999999; }
 .kv td { padding: 4px 0; vertical-align: top; border-bottom: 1px solid #999999; }
@@ -47,7 +49,8 @@ footer { margin-top: 36px; border-top: 2px solid #000000; padding-top: 8px; font
   h1 { font-size: 20pt; }
   h2 { font-size: 14pt; margin-top: 18pt; -webkit-print-color-adjust: exact; print-color-adjust: exact; }
   h3 { font-size: 12pt; }
-  .toc { display: none; }
+  .toc { break-after: page; page-break-after: always; border: none; padding: 0; }
+  .toc a { text-decoration: none; }
   .table-wrap { overflow: visible; }
   table.data { font-size: 8.5pt; }
   table.data thead { display: table-header-group; }

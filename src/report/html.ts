@@ -63,6 +63,7 @@ export function renderReportHtml(model: ReportModel): string {
     "</head>",
     "<body>",
     `<header class="title-block"><h1>${esc(model.title)}</h1><p class="subtitle">${esc(model.subtitle)}</p><dl class="facts">${facts}</dl>${safety ? `<p class="safety-line">${esc(safety)}</p>` : ""}</header>`,
+    `<section id="${esc(model.verdict.id)}" class="verdict" aria-labelledby="h-${esc(model.verdict.id)}">\n<h2 id="h-${esc(model.verdict.id)}">${esc(model.verdict.heading)}</h2>\n${model.verdict.blocks.map(block).join("\n")}\n</section>`,
     `<nav class="toc" aria-label="Contents"><strong>Contents</strong><ol>${toc}</ol></nav>`,
     "<main>",
     ...model.sections.map((s, i) => section(s, i + 1)),

@@ -9,6 +9,7 @@ import { intervalSection } from "./sections/interval.js";
 import { methodsSection } from "./sections/methods.js";
 import { readingsSection } from "./sections/readings.js";
 import { siteSection } from "./sections/site.js";
+import { verdictSection } from "./sections/verdict.js";
 import { warningsSection } from "./sections/warnings.js";
 import type { ReportInput, ReportModel } from "./types.js";
 
@@ -24,8 +25,6 @@ export function buildReportModel(input: ReportInput): ReportModel {
   const facts = [
     ...(building ? [{ key: "Site", value: building.address ? `${building.name}, ${building.address}` : building.name }] : []),
     ...(survey ? [{ key: "Surveyed", value: `${dateTime(survey.surveyedAt)} by ${survey.surveyor}` }, { key: "Revision", value: `${survey.revision} (recorded ${dateTime(survey.createdAt)})` }] : []),
-    { key: "Site now", value: `${fmt.power(result.site.kW)} kW, ${fmt.power(result.site.kvar)} kvar, PF ${fmt.pf(result.site.displacementPF)}` },
-    { key: "Correction", value: `${fmt.power(result.correction.kvarRequired)} kvar to PF ${fmt.pf(result.correction.targetPF)}` },
     { key: "Engine version", value: survey?.engineVersion ?? result.engineVersion },
   ];
   const sections = [
@@ -40,5 +39,5 @@ export function buildReportModel(input: ReportInput): ReportModel {
     cautionsSection(input),
     methodsSection(input),
   ];
-  return { title, subtitle, facts, sections };
+  return { title, subtitle, facts, verdict: verdictSection(input), sections };
 }

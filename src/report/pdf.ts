@@ -137,6 +137,22 @@ function titleBlock(flow: Flow, model: ReportModel): void {
   flow.y += 14;
 }
 
+/** Page 1 after the title block: the verdict, then the contents; the detail starts on a new page. */
+function verdictPage(flow: Flow, model: ReportModel, stats: PdfStats): void {
+  const doc = flow.doc;
+  const top = flow.y;
+  flow.y += 6;
+  doc.font(BOLD).fontSize(14).fillColor("#000000").text(pdfSafe(model.verdict.heading), flow.left + 10, flow.y, { lineBreak: false });
+  flow.y += 22;
+  for (const b of model.verdict.blocks) block(flow, b, stats);
+  doc.rect(flow.left, top, flow.width, flow.y - top + 4).lineWidth(2.5).undash().strokeColor("#000000").stroke();
+  flow.y += 16;
+  block(flow, { kind: "subheading", text: "Contents" }, stats);
+  block(flow, { kind: "list", items: model.sections.map((s, i) => `${i + 1}. ${s.heading}`) }, stats);
+  doc.addPage();
+  flow.y = doc.page.margins.top;
+}
+
 function footers(doc: PDFKit.PDFDocument, model: ReportModel): number {
   const range = doc.bufferedPageRange();
   for (let i = range.start; i < range.start + range.count; i++) {
@@ -170,6 +186,7 @@ export function renderReportPdfWithStats(model: ReportModel, options: PdfOptions
   const stats: PdfStats = { pages: 0, charts: 0, chartPrimitives: 0 };
   const flow = new Flow(doc);
   titleBlock(flow, model);
+  verdictPage(flow, model, stats);
   model.sections.forEach((s, i) => {
     flow.ensure(90);
     const h = 20;

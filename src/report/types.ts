@@ -30,6 +30,8 @@ export interface ReportModel {
   subtitle: string;
   /** Short facts of the title block (site, survey, engine version). */
   facts: { key: string; value: string }[];
+  /** Page 1 after the title block: the recommendation a manager signs; then the contents list, then `sections`. */
+  verdict: Section;
   sections: Section[];
 }
 

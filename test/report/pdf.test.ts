@@ -31,7 +31,7 @@ describe("report PDF", () => {
     const all = pages.join(" ");
     for (const h of ["Building and survey", "Readings and power triangle per load", "Site before and after correction", "Capacitor bank", "Resonance and harmonics", "Economics", "Warnings", "Safety cautions", "Methods and standards"])
       expect(all).toContain(h);
-    expect(all).toContain(`${result.site.kW.toFixed(1)} kW, ${result.site.kvar.toFixed(1)} kvar, PF ${result.site.displacementPF.toFixed(3)}`);
+    expect(all).toContain(`from PF ${result.site.displacementPF.toFixed(3)} lagging, ${result.correction.kVABefore.toFixed(1)} kVA`);
     expect(all).toContain(`${result.correction.kvarRequired.toFixed(1)} kvar`);
     for (const s of result.recommendedBank?.stages ?? []) expect(all).toContain((s.resonanceOrder as number).toFixed(2));
     for (const l of result.loads) expect(all).toContain(l.kW.toFixed(1));

@@ -72,7 +72,7 @@ describe("GET /v1/surveys/{id}/report", () => {
     expect(r1.statusCode).toBe(200);
     const text = parse(r1.body).text.replace(/\s+/g, " ");
     expect(text).toContain(`revision 1`);
-    expect(text).toContain(`${result.correction.kvarRequired.toFixed(1)} kvar to PF 0.950`);
+    expect(text).toContain(`PF ${result.correction.pfAfter.toFixed(3)} lagging and ${result.correction.kVAAfter.toFixed(1)} kVA`);
     for (const url of ["/v1/surveys/srv_nope/report", `/v1/surveys/${surveyId}/report?revision=9`, "/v1/surveys/srv_nope/report.pdf"]) {
       const res = await inject(app, url);
       expect(res.statusCode, url).toBe(404);
@@ -109,7 +109,7 @@ describe("POST /v1/sizing/report", () => {
     const sized = (await inject(app, { method: "POST", url: "/v1/sizing", payload: exampleSizingBody() })).json();
     const text = parse(html.body).text.replace(/\s+/g, " ");
     expect(text).toContain("sizing request (not stored)");
-    expect(text).toContain(`${sized.site.kW.toFixed(1)} kW, ${sized.site.kvar.toFixed(1)} kvar, PF ${sized.site.displacementPF.toFixed(3)}`);
+    expect(text).toContain(`from PF ${sized.site.displacementPF.toFixed(3)} lagging, ${sized.correction.kVABefore.toFixed(1)} kVA`);
     const pdf = await inject(app, { method: "POST", url: "/v1/sizing/report?format=pdf", payload: exampleSizingBody() });
     expect(pdf.headers["content-type"]).toBe("application/pdf");
     expect(pdf.headers["content-disposition"]).toBe('attachment; filename="sizing-report.pdf"');
