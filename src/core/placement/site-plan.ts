@@ -18,8 +18,12 @@ export interface RecommendedBank extends BankAnalysis {
   reason: string;
   /** True when the bank cannot hold the target in every reading or interval. */
   belowTarget: boolean;
+  /** Delivered kvar at the system voltage and frequency. */
   fixedKvar: number;
   switchedKvar: number;
+  /** The same at nameplate: standard sizes at the capacitors' rated voltage. */
+  fixedNameplateKvar: number;
+  switchedNameplateKvar: number;
   /** The physical steps, fixed first: what to buy (stages[] are the switchable totals). */
   physicalSteps: DesignedStep[];
   stepPlan: Omit<BankDesign["stepPlan"], "warnings" | "notes">;
@@ -131,6 +135,8 @@ export function designSiteCorrection(
     belowTarget: design.stepPlan.metShare < 1,
     fixedKvar: design.fixedKvar,
     switchedKvar: design.switchedKvar,
+    fixedNameplateKvar: design.fixedNameplateKvar,
+    switchedNameplateKvar: design.switchedNameplateKvar,
     physicalSteps: design.steps,
     stepPlan,
     controller: design.controller,
