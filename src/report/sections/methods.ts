@@ -19,7 +19,8 @@ const METHODS: readonly [string, string, string, Standing][] = [
   ["Discharge", "50 V within 1 min (up to 1000 V); 75 V within 3 min; R ≤ t/(k·C·ln(√2·U_N/U_R))", "NFPA 70 460.6; IEC 60831-1", "standard"],
   ["Conductors and disconnect", "at least 135 % of the capacitor's rated current", "NFPA 70 460.8(A), 460.8(C)", "standard"],
   ["Overcurrent device", "next standard ampere rating at or above the chosen multiple (fuse 165 %, breaker 150 %)", "NFPA 70 240.6(A) for ratings; multiples from makers' practice", "rule of thumb"],
-  ["Motor-terminal capacitors", "at most the kvar that corrects no-load PF to unity (90 % of it by default); overload relay reset", "NFPA 70 460.7, 460.9", "standard"],
+  ["Motor-terminal capacitors", "at most the kvar that corrects no-load PF to unity at the voltage read (90 % of it by default), a standard size at its rating", "IEEE Std 141 and motor makers' tables (from memory)", "common practice"],
+  ["Motor-terminal conductors and overload", "capacitor conductors ≥ 135 % of its rated current and ≥ ⅓ of the motor-circuit conductors' ampacity; overload relay set to the corrected current", "NFPA 70 460.8(A), 460.9", "standard"],
   ["Voltage rise on switching", "ΔV % ≈ Q/S_sc × 100", "Short-circuit ratio estimate", "common practice"],
 ];
 
