@@ -62,6 +62,8 @@ export interface LoadInput {
   noLoadAmps?: number;
   /** false when the motor runs intermittently. */
   continuousDuty?: boolean;
+  /** Ampacity of the motor-circuit conductors, A: a terminal capacitor's conductors need ⅓ of it (NFPA 70 460.8(A)). */
+  motorConductorAmpacityA?: number;
 }
 
 /** How to build the recommended bank; every field optional. */

@@ -49,6 +49,10 @@ const REJECTIONS: { name: string; body: () => Body; path: string; message?: RegE
     path: "loads.0.measurement.kW",
     message: /kW exceeds kVA/,
   },
+  // issue 11 point 9: volts beyond 2× or below 0.4× the 480 V line voltage (hand: 150/480 = 0.31, 1000/480 = 2.08)
+  { name: "reading 150 V on a 480 V system (engine)", body: withBody((b) => (m0(b).volts = 150)), path: "loads.0.measurement.volts", message: /less than 0\.4 times the system's 480 V/ },
+  { name: "reading 1000 V on a 480 V system (engine)", body: withBody((b) => (m0(b).volts = 1000)), path: "loads.0.measurement.volts", message: /more than twice the system's 480 V/ },
+  { name: "reading 480 V on a 4160 V system (engine)", body: withBody((b) => (b.system.voltageV = 4160)), path: "loads.0.measurement.volts", message: /480 V is less than 0\.4 times the system's 4160 V/ },
   { name: "target 0.7", body: withBody((b) => (b.targetPF = 0.7)), path: "targetPF", message: /between 0.8 and 1/ },
   { name: "target 1.01", body: withBody((b) => (b.targetPF = 1.01)), path: "targetPF" },
   { name: "no loads", body: withBody((b) => (b.loads = [])), path: "loads", message: /at least one load/ },

@@ -61,3 +61,36 @@ describe("rejected requests change nothing", () => {
     expect(rowCounts(store)).toEqual(before);
   });
 });
+
+describe("a reading far outside the system is a 400 and stores nothing (issue 11 point 9)", () => {
+  it("a 120 V reading on the 400 V building: new survey and revision rejected at the field, nothing stored changes", async () => {
+    // hand: 120/400 = 0.3 < 0.4 → rejected; the building is 400 V three-phase (test/store/fixtures.ts)
+    const far = surveyBody();
+    (far.loads[0] as { measurement: Record<string, unknown> }).measurement = { method: "v_i_pf", volts: 120, amps: 80, pf: 0.78, sense: "lagging" };
+    const before = rowCounts(store);
+    const read = await inject(app, { method: "GET", url: `/v1/surveys/${surveyId}` });
+    expect(read.statusCode).toBe(200);
+    const latestBefore = read.body;
+    for (const req of [
+      { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: far },
+      { method: "POST", url: `/v1/surveys/${surveyId}/revisions`, payload: { ...far, reason: "re-read" } },
+    ] as const) {
+      const res = await inject(app, req as never);
+      expect(res.statusCode, req.url).toBe(400);
+      expect(res.headers["content-type"]).toMatch(/^application\/problem\+json/);
+      expect(res.json().errors.map((e: { path: string }) => e.path)).toContain("loads.0.measurement.volts");
+    }
+    expect(rowCounts(store)).toEqual(before);
+    expect((await inject(app, { method: "GET", url: `/v1/surveys/${surveyId}` })).body).toBe(latestBefore);
+  });
+
+  it("a 230 V reading of a three-phase load on the 400 V building is accepted with reading_line_to_neutral", async () => {
+    // hand: 400/√3 = 230.9 V; 230 V is within 10 % of it
+    const ln = surveyBody();
+    (ln.loads[0] as { measurement: Record<string, unknown> }).measurement = { method: "v_i_pf", volts: 230, amps: 80, pf: 0.78, sense: "lagging" };
+    const res = await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: ln });
+    expect(res.statusCode).toBe(201);
+    const codes = (res.json().latest?.result?.warnings ?? res.json().result?.warnings ?? []).map((w: { code: string }) => w.code);
+    expect(codes).toContain("reading_line_to_neutral");
+  });
+});

@@ -42,9 +42,13 @@ export interface BankDesign {
   /** One stage per reachable total (fixed, then the base step added one by one): screens every switchable combination. */
   screenBank: ProposedBankInput | null;
   steps: DesignedStep[];
+  /** Delivered kvar at the system voltage and frequency. */
   fixedKvar: number;
   switchedKvar: number;
   totalKvar: number;
+  /** The same parts at nameplate (standard sizes at ratedVoltageV). */
+  fixedNameplateKvar: number;
+  switchedNameplateKvar: number;
   stepPlan: StepPlan;
   controller: { ctRatio: number; smallestStepKvar: number; responseA: number } | null;
   protection: { steps: CircuitProtection[]; bank: CircuitProtection } | null;
@@ -80,14 +84,20 @@ export function designBank(input: DesignBankInput): DesignOutcome {
   const { system } = input;
   const targetPF = input.targetPF ?? DEFAULT_TARGET_PF;
   const units = input.unitSizesKvar ?? STANDARD_UNIT_KVAR;
-  const plan = planSteps({ demand: arrays, targetPF, unitSizesKvar: units, transformerKVA: input.transformerKVA, ...(input.steps ? { options: input.steps } : {}) });
-  const warnings: Warning[] = [...plan.warnings];
-  const notes: string[] = [`fixed part: ${plan.fixed.fixedKvar} kvar, held under ${plan.fixed.capKvar.toFixed(1)} kvar (${plan.fixed.basis}) so the site does not lead at light load`, ...plan.notes];
-
   const ratedVoltageV = input.ratedVoltageV ?? system.voltageV;
   const p = (input.reactorPct ?? 0) / 100;
-  // Nameplate for a delivered kvar: Q_np = Q_eff·(1 − p)·(V_r/V)² (inverse of the bank analysis's Q_eff = Q_r·(V/V_r)²/(1 − p)).
-  const nameplate = (eff: number) => eff * (1 - p) * (ratedVoltageV / system.voltageV) ** 2;
+  // One nameplate kvar delivers Q_eff = (V/V_r)²/(1 − p) at the bus (the bank analysis's rule; rated at the system
+  // frequency), so steps are chosen among standard nameplates at V_r and sized by what they deliver.
+  const perNameplate = effectiveKvarWithReactor(kvarAtVoltage(1, system.voltageV, ratedVoltageV), p);
+  // Nameplate for a delivered kvar, Q_eff/factor, rounded off the float noise: it is a standard size (or a multiple).
+  const nameplate = (eff: number) => Math.round((eff / perNameplate) * 1e6) / 1e6;
+  const plan = planSteps({ demand: arrays, targetPF, unitSizesKvar: units, deliveredPerNameplate: perNameplate, transformerKVA: input.transformerKVA, ...(input.steps ? { options: input.steps } : {}) });
+  const warnings: Warning[] = [...plan.warnings];
+  const fixedText = plan.fixed.fixedKvar > 0 && perNameplate !== 1 ? `${nameplate(plan.fixed.fixedKvar)} kvar ${ratedVoltageV} V nameplate, ${kv(plan.fixed.fixedKvar)} kvar delivered` : `${kv(plan.fixed.fixedKvar)} kvar`;
+  const notes: string[] = [`fixed part: ${fixedText}, held under ${plan.fixed.capKvar.toFixed(1)} kvar (${plan.fixed.basis}) so the site does not lead at light load`, ...plan.notes];
+  if (perNameplate !== 1) {
+    notes.push(`steps are standard sizes at the ${ratedVoltageV} V rating${p > 0 ? ` behind a ${input.reactorPct} % reactor` : ""}; each delivers ${perNameplate.toFixed(4)} × its nameplate at ${system.voltageV} V: (${system.voltageV}/${ratedVoltageV})²${p > 0 ? `/(1 − ${p})` : ""} (IEEE Std 18 rating basis)`);
+  }
   if (p > 0 && ratedVoltageV < system.voltageV / (1 - p)) {
     warnings.push(warning("detuned_rated_voltage_needed", `with a ${input.reactorPct} % reactor the capacitors see ${(system.voltageV / (1 - p)).toFixed(0)} V; give ratedVoltageV at or above it`, "ratedVoltageV"));
   }
@@ -98,6 +108,8 @@ export function designBank(input: DesignBankInput): DesignOutcome {
   const fixedKvar = plan.fixed.fixedKvar;
   const switchedKvar = plan.switched?.totalKvar ?? 0;
   const totalKvar = fixedKvar + switchedKvar;
+  const fixedNameplateKvar = nameplate(fixedKvar);
+  const switchedNameplateKvar = steps.filter((s) => s.role === "switched").reduce((sum, s) => sum + s.nameplateKvar, 0);
   const base = { ratedVoltageV, ratedFrequencyHz: system.frequencyHz, reactorPct: input.reactorPct ?? 0 } as const;
   const bank: ProposedBankInput | null = steps.length === 0 ? null : { ...base, steps: steps.map((s) => ({ kvar: s.nameplateKvar })) };
   let screenBank: ProposedBankInput | null = null;
@@ -113,7 +125,7 @@ export function designBank(input: DesignBankInput): DesignOutcome {
     if (input.ctRatio !== undefined) {
       const responseA = controllerResponseA(smallest, system.voltageV, input.ctRatio, system.phases);
       controller = { ctRatio: input.ctRatio, smallestStepKvar: smallest, responseA };
-      notes.push(`controller C/k = ${smallest}·1000/(${system.phases === 3 ? "√3·" : ""}${system.voltageV}·${input.ctRatio}) = ${responseA.toFixed(3)} A; the CT must carry the loads' and the bank's current (on the supply side of both)`);
+      notes.push(`controller C/k = ${kv(smallest)}·1000/(${system.phases === 3 ? "√3·" : ""}${system.voltageV}·${input.ctRatio}) = ${responseA.toFixed(3)} A; the CT must carry the loads' and the bank's current (on the supply side of both)`);
       const minA = input.minResponseA ?? DEFAULT_MIN_RESPONSE_A;
       if (responseA < minA) warnings.push(warning("controller_response_too_small", `C/k ${responseA.toFixed(3)} A is below ${minA} A, which many controllers cannot resolve (common practice, no source): use a smaller CT ratio or a larger smallest step`, "ctRatio"));
     } else {
@@ -128,11 +140,12 @@ export function designBank(input: DesignBankInput): DesignOutcome {
     const currentOf = (s: { effectiveKvar: number; nameplateKvar: number }) =>
       Math.max(capacitorCurrentA(s.nameplateKvar, ratedVoltageV, system.phases), capacitorCurrentA(effectiveKvarWithReactor(kvarAtVoltage(s.nameplateKvar, system.voltageV, ratedVoltageV), p), system.voltageV, system.phases));
     const stepProt = steps.map((s, i) => {
-      const r = circuitProtection(`${s.role} step ${i + 1} (${s.effectiveKvar} kvar)`, s.effectiveKvar, currentOf(s), input.protection, `steps.${i}`);
+      const r = circuitProtection(`${s.role} step ${i + 1} (${kvarText(s.nameplateKvar, s.effectiveKvar)})`, s.effectiveKvar, currentOf(s), input.protection, `steps.${i}`);
       warnings.push(...r.warnings);
       return r.protection;
     });
-    const whole = circuitProtection(`whole bank (${totalKvar} kvar)`, totalKvar, currentOf({ effectiveKvar: totalKvar, nameplateKvar: nameplate(totalKvar) }), input.protection, "bank");
+    const wholeNameplate = fixedNameplateKvar + switchedNameplateKvar;
+    const whole = circuitProtection(`whole bank (${kvarText(wholeNameplate, totalKvar)})`, totalKvar, currentOf({ effectiveKvar: totalKvar, nameplateKvar: wholeNameplate }), input.protection, "bank");
     warnings.push(...whole.warnings);
     protection = { steps: stepProt, bank: whole.protection };
     notes.push("conductors and disconnect at ≥ 135 % of rated current (NFPA 70 460.8(A), (C)); the conductor must also be protected by the chosen device (NFPA 70 240.4)");
@@ -146,16 +159,25 @@ export function designBank(input: DesignBankInput): DesignOutcome {
   }
 
   const reason = reasonText(plan, targetPF, fixedKvar);
-  return { ok: true, design: { bank, screenBank, steps, fixedKvar, switchedKvar, totalKvar, stepPlan: plan, controller, protection, discharge, reason, notes, warnings } };
+  return { ok: true, design: { bank, screenBank, steps, fixedKvar, switchedKvar, totalKvar, fixedNameplateKvar, switchedNameplateKvar, stepPlan: plan, controller, protection, discharge, reason, notes, warnings } };
+}
+
+/** A kvar figure as a reader wants it: whole standard sizes as they are, delivered figures to two decimals. */
+function kv(kvar: number): string {
+  return String(Math.round(kvar * 100) / 100);
+}
+
+function kvarText(nameplateKvar: number, effectiveKvar: number): string {
+  return Math.abs(nameplateKvar - effectiveKvar) < 1e-6 ? `${kv(effectiveKvar)} kvar` : `${kv(nameplateKvar)} kvar nameplate, ${kv(effectiveKvar)} kvar delivered`;
 }
 
 function reasonText(plan: StepPlan, targetPF: number, fixedKvar: number): string {
   const src = plan.source === "intervals" ? `${plan.samples} intervals` : plan.source === "survey_and_light_load" ? "the survey and light-load readings" : "the survey reading";
   if (plan.needAtCoverageKvar <= 1e-9) return `no correction needed: ${src} already meet PF ${targetPF}`;
   const cov = plan.source === "intervals" ? `the ${(plan.coverage * 100).toFixed(0)}th-percentile need of ${plan.needAtCoverageKvar.toFixed(1)} kvar` : `the need of ${plan.needAtCoverageKvar.toFixed(1)} kvar`;
-  const fixed = fixedKvar > 0 ? `fixed ${fixedKvar} kvar (at most the ${plan.fixed.capKvar.toFixed(1)} kvar light-load limit)` : "no fixed part";
+  const fixed = fixedKvar > 0 ? `fixed ${kv(fixedKvar)} kvar (at most the ${plan.fixed.capKvar.toFixed(1)} kvar light-load limit)` : "no fixed part";
   const sw = plan.switched
-    ? `automatic ${plan.switched.ratio} program of ${plan.switched.stepCount} steps (${plan.switched.stepsKvar.join(", ")} kvar = ${plan.switched.totalKvar} kvar)`
+    ? `automatic ${plan.switched.ratio} program of ${plan.switched.stepCount} steps (${plan.switched.stepsKvar.map(kv).join(", ")} kvar = ${kv(plan.switched.totalKvar)} kvar)`
     : "no switched steps";
   return `${fixed} + ${sw} for ${cov} from ${src}; meets PF ${targetPF} in ${(plan.metShare * 100).toFixed(1)} % of samples (${(plan.metCoveredShare * 100).toFixed(1)} % of those within coverage) with ${plan.switchingOperations} switching operations, chosen from ${plan.candidatesEvaluated} candidate programs`;
 }

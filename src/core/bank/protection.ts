@@ -16,6 +16,8 @@ export const FUSE_ONLY_RATINGS_A = [1, 3, 6, 10, 601] as const;
 
 /** Conductor ampacity ≥ 135 % of the capacitor's rated current (NFPA 70 460.8(A)). */
 export const CONDUCTOR_AMPACITY_FACTOR = 1.35;
+/** Conductors from a motor's terminals (or motor-circuit conductors) to its capacitor: ≥ ⅓ of the motor-circuit conductors' ampacity (NFPA 70 460.8(A)). */
+export const MOTOR_CONDUCTOR_SHARE = 1 / 3;
 /** Disconnecting means rated ≥ 135 % of the capacitor's rated current (NFPA 70 460.8(C)). */
 export const DISCONNECT_FACTOR = 1.35;
 /** Least multiple for the overcurrent device, matching the conductor rule (common practice). */
@@ -54,6 +56,16 @@ export function nextStandardRatingA(minA: number, device: OvercurrentDevice): nu
 /** Rated line current of a capacitor circuit: Q·1000/(√3·V) three-phase, Q·1000/V single-phase. */
 export function capacitorRatedCurrentA(kvar: number, voltageV: number, phases: Phases): number {
   return capacitorCurrentA(kvar, voltageV, phases);
+}
+
+/**
+ * Least ampacity of the conductors connecting a capacitor to a motor's terminals or motor-circuit conductors
+ * (NFPA 70 460.8(A)): at least 135 % of the capacitor's rated current and at least one third of the motor-circuit
+ * conductors' ampacity. Without that ampacity only the 135 % part can be worked.
+ */
+export function terminalCapacitorConductorMinA(capacitorRatedA: number, motorConductorAmpacityA?: number): number {
+  const byCurrent = capacitorRatedA * CONDUCTOR_AMPACITY_FACTOR;
+  return motorConductorAmpacityA === undefined ? byCurrent : Math.max(byCurrent, motorConductorAmpacityA * MOTOR_CONDUCTOR_SHARE);
 }
 
 /**

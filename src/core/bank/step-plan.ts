@@ -21,7 +21,13 @@ export interface StepSearchOptions {
 export interface StepsInput {
   demand: DemandArrays;
   targetPF: number;
+  /** Nameplate sizes at the capacitor's rated voltage. */
   unitSizesKvar?: readonly number[];
+  /**
+   * kvar one nameplate kvar delivers at the bus: (V/V_r)²·(f/f_r)/(1 − p) (default 1). The plan's kvar are all
+   * delivered kvar, each step a standard nameplate (or several of the largest in parallel) times this factor.
+   */
+  deliveredPerNameplate?: number;
   transformerKVA?: number;
   options?: StepSearchOptions;
 }
@@ -92,7 +98,10 @@ export function planSteps(input: StepsInput): StepPlan {
   const coverage = o.coverage ?? DEFAULT_COVERAGE;
   const minSteps = o.minSteps ?? DEFAULT_MIN_STEPS;
   const maxSteps = o.maxSteps ?? DEFAULT_MAX_STEPS;
-  const units = input.unitSizesKvar ?? STANDARD_UNIT_KVAR;
+  const perNameplate = input.deliveredPerNameplate ?? 1;
+  const nameplateUnits = input.unitSizesKvar ?? STANDARD_UNIT_KVAR;
+  // Every figure below is delivered kvar; a product by a power of two (the 1:2:4 multiples) stays exact in floating point.
+  const units = perNameplate === 1 ? nameplateUnits : nameplateUnits.map((u) => u * perNameplate);
   const d = input.demand;
   const n = d.kW.length;
   const warnings: Warning[] = [];
@@ -159,8 +168,10 @@ export function planSteps(input: StepsInput): StepPlan {
   const switched = best.stepCount === 0 ? null : best;
 
   const largest = Math.max(...units);
-  if (switched && switched.stepsKvar.some((s) => s > largest)) {
-    notes.push(`steps above ${largest} kvar are built of several ${largest} kvar units in parallel on one contactor`);
+  if (switched && switched.stepsKvar.some((s) => s > largest + 1e-9)) {
+    const np = Math.max(...nameplateUnits);
+    const shown = perNameplate === 1 ? `${np} kvar` : `${np} kvar nameplate (${largest.toFixed(1)} kvar delivered)`;
+    notes.push(`steps above ${shown} are built of several ${np} kvar units in parallel on one contactor`);
   }
   if (switchedNeeded > 1e-9 && switched === null) {
     notes.push("no switched program meets the target at more samples than the fixed part alone");

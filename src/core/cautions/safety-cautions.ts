@@ -28,7 +28,7 @@ const ALWAYS: Caution[] = [
     code: "motor_self_excitation",
     title: "Motor-terminal capacitors and self-excitation",
     text: "A capacitor switched with a motor must not exceed the kvar that brings the motor's no-load PF to unity, or the coasting motor can self-excite to a dangerous voltage. Not on motors that are jogged, plugged, reversed, or on reduced-voltage or multi-speed starters. Reset the overload relay to the reduced line current.",
-    reference: "NFPA 70 460.7, 460.9",
+    reference: "IEEE Std 141 and motor makers' tables for the self-excitation limit (from memory); NFPA 70 460.8(A) conductors, 460.9 overload",
   },
   {
     code: "generator_operation",

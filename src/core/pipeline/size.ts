@@ -77,7 +77,7 @@ export interface SizingOptions {
 
 export function size(input: SizingInput, options: SizingOptions = {}): SizingOutcome {
   const { system } = input;
-  const siteOutcome = evaluateSite(system, input.loads, input.serviceEntrance);
+  const siteOutcome = evaluateSite(system, input.loads, input.serviceEntrance, input.transformer?.kVA);
   if (siteOutcome.issues.length > 0 || !siteOutcome.site) return { ok: false, issues: siteOutcome.issues };
   const { site, loads } = siteOutcome;
   const warnings: Warning[] = [...siteOutcome.warnings];

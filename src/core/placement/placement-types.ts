@@ -11,6 +11,7 @@ export interface PlacementLoad {
   kW: number;
   kvar: number;
   quantity?: number;
+  /** The voltage the motor runs at: the reading's volts when it has them, else the system voltage. */
   voltageV: number;
   phases: Phases;
   starting?: StartingMethod;
@@ -21,6 +22,8 @@ export interface PlacementLoad {
   noLoadAmps?: number;
   /** false: the motor runs intermittently (a terminal capacitor would idle). Unstated is taken as continuous. */
   continuousDuty?: boolean;
+  /** Ampacity of the motor-circuit conductors, A: sets the capacitor conductors' one-third floor (NFPA 70 460.8(A)). */
+  motorConductorAmpacityA?: number;
 }
 
 export interface PlacementOptions {
@@ -41,17 +44,32 @@ export interface PlacementInput {
   options?: PlacementOptions;
   /** Path prefix of the loads in the request, for warnings. */
   pathPrefix?: string;
+  /** Nameplate voltage of terminal units (standard sizes are chosen at it); default each load's voltageV. */
+  unitRatedVoltageV?: number;
+  /** Phases of the system: a single-phase load on a three-phase system corrected upstream warns of unbalance. */
+  systemPhases?: Phases;
 }
 
 export type PlacementLocation = "terminal" | `group:${string}` | "central" | "none";
 
 export interface TerminalCorrection {
+  /** kvar one unit delivers at the motor's voltage (what the balance counts). */
   perMotorKvar: number;
+  /** The unit's nameplate: a standard size at `ratedVoltageV`. */
+  perMotorNameplateKvar: number;
+  ratedVoltageV: number;
+  /** The voltage the unit and the motor's currents are worked at (the reading's volts, else the system voltage). */
+  voltageV: number;
   totalKvar: number;
   selfExcitationLimitKvar: number;
   lineCurrentBeforeA: number;
   lineCurrentAfterA: number;
   overloadNote: string;
+  /** Rated current of one unit at its nameplate: Q_r·1000/(√3·V_r). */
+  capacitorRatedCurrentA: number;
+  /** Least ampacity of the conductors to the unit (NFPA 70 460.8(A)). */
+  conductorMinAmpacityA: number;
+  conductorNote: string;
 }
 
 export interface LoadPlacement {

@@ -1,10 +1,13 @@
 /** Where each load is corrected: at its terminals, at its group (MCC/feeder) bank, centrally, or not at all. */
 import { tanPhi } from "../conventions.js";
+import { capacitorCurrentA, kvarAtVoltage } from "../bank/capacitor.js";
+import { CONDUCTOR_AMPACITY_FACTOR, terminalCapacitorConductorMinA } from "../bank/protection.js";
 import { STANDARD_UNIT_KVAR } from "../bank/standard-sizes.js";
 import { warning, type Warning } from "../warnings.js";
 import {
   largestSizeAtMost,
   motorLineCurrentA,
+  SELF_EXCITATION_SOURCE,
   selfExcitationLimitKvar,
   terminalSafety,
 } from "./rules.js";
@@ -39,7 +42,7 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
   }));
 
   // 1. Terminal candidates, largest motors first, while the site still needs the kvar.
-  type Offer = { i: number; perMotorKvar: number; limitKvar: number; q: number; unitKW: number };
+  type Offer = { i: number; perMotorKvar: number; nameplateKvar: number; ratedVoltageV: number; limitKvar: number; q: number; unitKW: number };
   const offers: Offer[] = [];
   input.loads.forEach((l, i) => {
     const p = out[i] as LoadPlacement;
@@ -56,16 +59,20 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
     if (l.noLoadAmps === undefined) {
       const msg = `${l.label}: to size a terminal capacitor, measure the motor's no-load current uncoupled from its load at rated voltage (or take it from the maker's data) and give noLoadAmps`;
       warnings.push(warning("no_load_current_needed", msg, `${prefix}.${i}.noLoadAmps`));
-      return void (p.reason = "no-load current not given, so the self-excitation limit is unknown (NFPA 70 460.7)");
+      return void (p.reason = `no-load current not given, so the self-excitation limit is unknown (${SELF_EXCITATION_SOURCE})`);
     }
+    // Q_max at the voltage the motor runs at (the reading's volts when given); units are standard sizes at their
+    // nameplate voltage and deliver Q_r·(V/V_r)² there (IEEE Std 18 rating basis, capacitor.ts).
     const limitKvar = selfExcitationLimitKvar(l.noLoadAmps, l.voltageV, l.phases);
+    const ratedVoltageV = input.unitRatedVoltageV ?? l.voltageV;
+    const perNameplate = kvarAtVoltage(1, l.voltageV, ratedVoltageV);
     const needPerMotor = p.needKvar / q;
-    const unit = largestSizeAtMost(Math.min(share * limitKvar, needPerMotor), sizes);
+    const unit = largestSizeAtMost(Math.min(share * limitKvar, needPerMotor), sizes, perNameplate);
     if (unit === null) {
       p.reason = `${(share * 100).toFixed(0)} % of the ${limitKvar.toFixed(1)} kvar self-excitation limit, or the ${Math.max(0, needPerMotor).toFixed(1)} kvar it needs, is below the smallest unit`;
       return;
     }
-    offers.push({ i, perMotorKvar: unit, limitKvar, q, unitKW });
+    offers.push({ i, perMotorKvar: unit * perNameplate, nameplateKvar: unit, ratedVoltageV, limitKvar, q, unitKW });
   });
   offers.sort((a, b) => b.unitKW - a.unitKW || a.i - b.i);
 
@@ -83,15 +90,26 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
     residual[f.i] = p.needKvar - total;
     const before = motorLineCurrentA(l.kW / f.q, l.kvar / f.q, 0, l.voltageV, l.phases);
     const after = motorLineCurrentA(l.kW / f.q, l.kvar / f.q, f.perMotorKvar, l.voltageV, l.phases);
+    const ratedA = capacitorCurrentA(f.nameplateKvar, f.ratedVoltageV, l.phases);
+    const conductorMinA = terminalCapacitorConductorMinA(ratedA, l.motorConductorAmpacityA);
+    const unitText = Math.abs(f.perMotorKvar - f.nameplateKvar) < 1e-9
+      ? `one ${f.nameplateKvar} kvar ${f.ratedVoltageV} V unit per motor`
+      : `one ${f.nameplateKvar} kvar ${f.ratedVoltageV} V unit per motor (${f.perMotorKvar.toFixed(2)} kvar at ${l.voltageV} V)`;
     p.location = "terminal";
-    p.reason = `large (${f.unitKW.toFixed(1)} kW), continuous and safely started: ${f.perMotorKvar} kvar per motor, within ${(share * 100).toFixed(0)} % of its ${f.limitKvar.toFixed(1)} kvar self-excitation limit (NFPA 70 460.7)`;
+    p.reason = `large (${f.unitKW.toFixed(1)} kW), continuous and safely started: ${unitText}, within ${(share * 100).toFixed(0)} % of its ${f.limitKvar.toFixed(1)} kvar self-excitation limit at ${l.voltageV} V (${SELF_EXCITATION_SOURCE}); capacitor conductors at least ${conductorMinA.toFixed(1)} A (NFPA 70 460.8(A))`;
     p.terminal = {
       perMotorKvar: f.perMotorKvar,
+      perMotorNameplateKvar: f.nameplateKvar,
+      ratedVoltageV: f.ratedVoltageV,
+      voltageV: l.voltageV,
       totalKvar: total,
       selfExcitationLimitKvar: f.limitKvar,
       lineCurrentBeforeA: before,
       lineCurrentAfterA: after,
-      overloadNote: `line current at the measured load falls from ${before.toFixed(1)} A to ${after.toFixed(1)} A (× ${(after / before).toFixed(3)}): base the overload relay setting on the corrected current, not the nameplate full-load current (NFPA 70 460.9)`,
+      overloadNote: `line current at the measured load (${l.voltageV} V) falls from ${before.toFixed(1)} A to ${after.toFixed(1)} A (× ${(after / before).toFixed(3)}): base the overload relay setting on the corrected current, not the nameplate full-load current (NFPA 70 460.9)`,
+      capacitorRatedCurrentA: ratedA,
+      conductorMinAmpacityA: conductorMinA,
+      conductorNote: conductorNoteText(ratedA, l.motorConductorAmpacityA),
     };
   }
 
@@ -183,5 +201,21 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
       ? `; the site basis needs ${basisGap.toFixed(1)} kvar more than its loads add up to (unmetered loads or readings at different times), ${centralKvar > 0 ? "taken at the central bank" : "left uncorrected (below the smallest unit)"}`
       : `; the loads add up to ${(-basisGap).toFixed(1)} kvar more need than the site basis (diversity or readings at different times), so upstream banks are held to the site's figure`;
   }
+  const unbalanced = input.systemPhases === 3
+    ? out.filter((p, i) => input.loads[i]?.phases === 1 && (p.location === "central" || p.location.startsWith("group:")))
+    : [];
+  if (unbalanced.length > 0) {
+    const list = unbalanced.map((p) => `${p.label} (${Math.max(0, p.needKvar).toFixed(1)} kvar)`).join(", ");
+    // A balanced bank puts a third of its kvar on each phase; the single-phase need sits on one or two (common practice, no source).
+    warnings.push(warning("single_phase_on_three_phase_bank", `single-phase loads corrected by a balanced three-phase bank: ${list}; the bank spreads its kvar over three phases while their need sits on one or two, so the phases are corrected unevenly — if they are large, correct them at their terminals or spread them across the phases`, prefix));
+  }
   return { loads: out, locations, totalKvar, siteRequiredKvar: required, differenceKvar, balanceNote, notes, warnings };
+}
+
+function conductorNoteText(ratedA: number, motorConductorAmpacityA: number | undefined): string {
+  const byCurrent = `${(CONDUCTOR_AMPACITY_FACTOR * 100).toFixed(0)} % of the unit's ${ratedA.toFixed(1)} A rated current = ${(ratedA * CONDUCTOR_AMPACITY_FACTOR).toFixed(1)} A`;
+  if (motorConductorAmpacityA === undefined) {
+    return `conductors from the motor terminals to the capacitor: at least ${byCurrent}, and at least one third of the motor-circuit conductors' ampacity (NFPA 70 460.8(A)) — give motorConductorAmpacityA to work that floor`;
+  }
+  return `conductors from the motor terminals to the capacitor: at least the larger of ${byCurrent} and one third of the ${motorConductorAmpacityA} A motor-circuit conductors = ${(motorConductorAmpacityA / 3).toFixed(1)} A (NFPA 70 460.8(A))`;
 }

@@ -17,7 +17,8 @@ export const STARTING_METHODS: readonly StartingMethod[] = [
 
 /**
  * Duties on which a capacitor must never sit at the motor terminals, whatever its contactor
- * (motor application guidance; NFPA 70 460.7 limits the kvar, these duties defeat the limit).
+ * (motor application guidance — IEEE Std 141 and motor makers' application notes, from memory: the self-excitation
+ * limit caps the kvar, these duties defeat the limit).
  */
 const NEVER_AT_TERMINALS: Partial<Record<StartingMethod, string>> = {
   jogging:
@@ -99,10 +100,14 @@ export function terminalSafety(load: TerminalSafetyInput): TerminalSafety {
   return { safe: true, reason: "across-the-line start: the capacitor can switch with the motor" };
 }
 
+/** Where the self-excitation limit comes from: motor-application guidance, not a clause of NFPA 70 (from memory). */
+export const SELF_EXCITATION_SOURCE = "motor-application guidance: IEEE Std 141 ch. 8 and motor makers' capacitor tables, from memory";
+
 /**
- * Most kvar a motor can carry without self-excitation: the kvar that raises its no-load PF to unity (NFPA 70 460.7),
- * taken as √3·V·I₀/1000 (3φ) or V·I₀/1000 (1φ) — the no-load current treated as all magnetising, which slightly
- * overstates it (no-load kW is friction and core loss); the share kept below it covers that.
+ * Most kvar a motor can carry without self-excitation: the kvar that raises its no-load PF to unity
+ * (SELF_EXCITATION_SOURCE), taken as √3·V·I₀/1000 (3φ) or V·I₀/1000 (1φ) at the voltage the motor runs at — the
+ * no-load current treated as all magnetising, which slightly overstates it (no-load kW is friction and core loss);
+ * the share kept below it covers that.
  */
 export function selfExcitationLimitKvar(noLoadAmps: number, voltageV: number, phases: Phases): number {
   return ((phases === 3 ? SQRT3 : 1) * voltageV * noLoadAmps) / 1000;
@@ -113,9 +118,12 @@ export function motorLineCurrentA(kW: number, kvar: number, capacitorKvar: numbe
   return (Math.hypot(kW, kvar - capacitorKvar) * 1000) / (phases === 3 ? SQRT3 * voltageV : voltageV);
 }
 
-/** Largest size of the list at or below a limit, or null (a terminal unit is never rounded up: self-excitation). */
-export function largestSizeAtMost(limitKvar: number, sizesKvar: readonly number[]): number | null {
+/**
+ * Largest nameplate size of the list whose delivered kvar (nameplate × `deliveredPerNameplate`, e.g. (V/V_r)² for a
+ * unit rated above the bus) is at or below a limit, or null (a terminal unit is never rounded up: self-excitation).
+ */
+export function largestSizeAtMost(limitKvar: number, sizesKvar: readonly number[], deliveredPerNameplate = 1): number | null {
   let best: number | null = null;
-  for (const s of sizesKvar) if (s <= limitKvar + 1e-9 && (best === null || s > best)) best = s;
+  for (const s of sizesKvar) if (s * deliveredPerNameplate <= limitKvar + 1e-9 && (best === null || s > best)) best = s;
   return best;
 }

@@ -6,7 +6,8 @@ import { planPlacement } from "./placement.js";
 import type { PlacementPlan } from "./placement-types.js";
 import type { SizingInput } from "../inputs.js";
 import { triangleOf } from "../readings/triangle.js";
-import type { LoadResult, SiteResult } from "../readings/site-totals.js";
+import { readingVolts, type LoadResult, type SiteResult } from "../readings/site-totals.js";
+import { checkReadingVolts } from "../readings/plausibility.js";
 import type { InputIssue, Warning } from "../warnings.js";
 
 export type BankArrangement = "fixed" | "automatic" | "fixed_and_automatic";
@@ -17,8 +18,12 @@ export interface RecommendedBank extends BankAnalysis {
   reason: string;
   /** True when the bank cannot hold the target in every reading or interval. */
   belowTarget: boolean;
+  /** Delivered kvar at the system voltage and frequency. */
   fixedKvar: number;
   switchedKvar: number;
+  /** The same at nameplate: standard sizes at the capacitors' rated voltage. */
+  fixedNameplateKvar: number;
+  switchedNameplateKvar: number;
   /** The physical steps, fixed first: what to buy (stages[] are the switchable totals). */
   physicalSteps: DesignedStep[];
   stepPlan: Omit<BankDesign["stepPlan"], "warnings" | "notes">;
@@ -44,9 +49,13 @@ function demandOf(input: SizingInput, site: SiteResult): { demand?: ReactiveDema
   }
   const survey = { kW: site.kW, kvar: site.kvar };
   if (!input.lightLoad) return { demand: { kind: "readings", survey }, issues: [], warnings: [] };
-  const light = triangleOf(input.lightLoad.measurement, input.system.phases, ["lightLoad", "measurement"]);
-  if (!light.triangle) return { issues: light.issues, warnings: light.warnings };
-  return { demand: { kind: "readings", survey, lightLoad: { kW: light.triangle.kW, kvar: light.triangle.kvar } }, issues: [], warnings: light.warnings };
+  const at = ["lightLoad", "measurement"];
+  const volts = readingVolts(input.lightLoad.measurement);
+  const check = volts === undefined ? { issues: [], warnings: [] } : checkReadingVolts(volts, input.system.phases, input.system, at);
+  if (check.issues.length > 0) return { issues: check.issues, warnings: check.warnings };
+  const light = triangleOf(input.lightLoad.measurement, input.system.phases, at);
+  if (!light.triangle) return { issues: light.issues, warnings: [...check.warnings, ...light.warnings] };
+  return { demand: { kind: "readings", survey, lightLoad: { kW: light.triangle.kW, kvar: light.triangle.kvar } }, issues: [], warnings: [...check.warnings, ...light.warnings] };
 }
 
 /**
@@ -61,6 +70,7 @@ export function designSiteCorrection(
   source: SourceContext,
 ): SiteDesignOutcome {
   const warnings: Warning[] = [];
+  const o = input.bankDesign ?? {};
   const placement = planPlacement({
     loads: input.loads.map((load, i) => {
       const r = loads[i]!;
@@ -70,18 +80,22 @@ export function designSiteCorrection(
         kW: r.kW,
         kvar: r.kvar,
         quantity: r.quantity,
-        voltageV: input.system.voltageV,
+        voltageV: r.currentVoltageV,
         phases: r.phases,
         ...(load.starting ? { starting: load.starting } : {}),
         ...(load.separateCapacitorContactor !== undefined ? { separateCapacitorContactor: load.separateCapacitorContactor } : {}),
         ...(load.group ? { group: load.group } : {}),
         ...(load.noLoadAmps !== undefined ? { noLoadAmps: load.noLoadAmps } : {}),
         ...(load.continuousDuty !== undefined ? { continuousDuty: load.continuousDuty } : {}),
+        ...(load.motorConductorAmpacityA !== undefined ? { motorConductorAmpacityA: load.motorConductorAmpacityA } : {}),
       };
     }),
     targetPF: correction.targetPF,
     siteRequiredKvar: correction.kvarRequired,
     pathPrefix: "loads",
+    // Terminal units are plain capacitors: the bank's rating when it has no reactor, else the system voltage.
+    unitRatedVoltageV: o.ratedVoltageV !== undefined && !(o.reactorPct ?? 0) ? o.ratedVoltageV : input.system.voltageV,
+    systemPhases: input.system.phases,
   });
   warnings.push(...placement.warnings);
   const localKvar = placement.locations.filter((l) => l.location !== "central" && l.location !== "none").reduce((s, l) => s + l.kvar, 0);
@@ -89,7 +103,6 @@ export function designSiteCorrection(
   const d = demandOf(input, site);
   warnings.push(...d.warnings);
   if (!d.demand) return { placement, recommendedBank: null, screenSteps: [], issues: d.issues, warnings };
-  const o = input.bankDesign ?? {};
   const outcome = designBank({
     system: input.system,
     targetPF: correction.targetPF,
@@ -122,6 +135,8 @@ export function designSiteCorrection(
     belowTarget: design.stepPlan.metShare < 1,
     fixedKvar: design.fixedKvar,
     switchedKvar: design.switchedKvar,
+    fixedNameplateKvar: design.fixedNameplateKvar,
+    switchedNameplateKvar: design.switchedNameplateKvar,
     physicalSteps: design.steps,
     stepPlan,
     controller: design.controller,

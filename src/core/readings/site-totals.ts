@@ -2,6 +2,7 @@ import { apparentKVA, lineCurrentA, senseOfKvar, type Phases, type Sense } from 
 import type { LoadInput, ServiceEntranceInput, SystemInput } from "../inputs.js";
 import { scaleTriangle, triangleOf, type MeasuredTriangle, type PowerTriangle } from "./triangle.js";
 import { warning, type InputIssue, type Warning } from "../warnings.js";
+import { checkAgainstTransformer, checkReadingVolts } from "./plausibility.js";
 
 export interface LoadResult extends MeasuredTriangle {
   label: string;
@@ -9,8 +10,12 @@ export interface LoadResult extends MeasuredTriangle {
   method: LoadInput["measurement"]["method"];
   quantity: number;
   phases: Phases;
-  /** Line current of the whole entry (all `quantity` units) at the system voltage. */
+  /** Line current of the whole entry (all `quantity` units) at `currentVoltageV`. */
   lineCurrentA: number;
+  /** The voltage the current is worked at: the reading's volts when it has them, else the system voltage. */
+  currentVoltageV: number;
+  /** "reading": volts and amps read at the load; "system_voltage": the reading has no volts, the bus voltage is used. */
+  currentBasis: "reading" | "system_voltage";
 }
 
 export interface SiteResult extends PowerTriangle {
@@ -37,10 +42,16 @@ export function triangleFromSums(kW: number, kvar: number): PowerTriangle {
   return { kW, kvar, kVA, displacementPF: kVA > 0 ? kW / kVA : 1, sense: senseOfKvar(kvar, kVA) };
 }
 
+/** The reading's volts, when its method carries them. */
+export function readingVolts(m: LoadInput["measurement"]): number | undefined {
+  return m.method === "v_i_kw" || m.method === "v_i_pf" ? m.volts : undefined;
+}
+
 export function evaluateSite(
   system: SystemInput,
   loads: LoadInput[],
   serviceEntrance?: ServiceEntranceInput,
+  transformerKVA?: number,
 ): SiteOutcome {
   const issues: InputIssue[] = [];
   const warnings: Warning[] = [];
@@ -50,7 +61,15 @@ export function evaluateSite(
 
   loads.forEach((load, i) => {
     const phases = load.phases ?? system.phases;
-    const outcome = triangleOf(load.measurement, phases, ["loads", i, "measurement"]);
+    const at = ["loads", i, "measurement"];
+    const volts = readingVolts(load.measurement);
+    if (volts !== undefined) {
+      const check = checkReadingVolts(volts, phases, system, at);
+      issues.push(...check.issues);
+      warnings.push(...check.warnings);
+      if (check.issues.length > 0) return;
+    }
+    const outcome = triangleOf(load.measurement, phases, at);
     issues.push(...outcome.issues);
     warnings.push(...outcome.warnings);
     if (!outcome.triangle) return;
@@ -65,12 +84,19 @@ export function evaluateSite(
       quantity,
       phases,
       ...t,
-      lineCurrentA: lineCurrentA(t.measuredKVA ?? t.kVA, system.voltageV, phases),
+      // I = S/(√3·V) at the volts read: a 460 V / 125 A reading is 125 A, not its kVA over the 480 V bus (119.8 A).
+      lineCurrentA: lineCurrentA(t.measuredKVA ?? t.kVA, volts ?? system.voltageV, phases),
+      currentVoltageV: volts ?? system.voltageV,
+      currentBasis: volts === undefined ? "system_voltage" : "reading",
     });
   });
 
   let main: MeasuredTriangle | undefined;
   if (serviceEntrance) {
+    const mainVolts = readingVolts(serviceEntrance.measurement);
+    const check = mainVolts === undefined ? undefined : checkReadingVolts(mainVolts, system.phases, system, ["serviceEntrance", "measurement"]);
+    issues.push(...(check?.issues ?? []));
+    warnings.push(...(check?.warnings ?? []));
     const outcome = triangleOf(serviceEntrance.measurement, system.phases, ["serviceEntrance", "measurement"]);
     issues.push(...outcome.issues);
     warnings.push(...outcome.warnings);
@@ -97,6 +123,10 @@ export function evaluateSite(
         ),
       );
     }
+  }
+  if (transformerKVA !== undefined) {
+    const siteItem = { label: main ? "the service entrance's" : "the loads' total", kVA: main ? (main.measuredKVA ?? main.kVA) : site.kVA };
+    warnings.push(...checkAgainstTransformer(siteItem, results.map((l) => ({ label: l.label, kVA: l.measuredKVA ?? l.kVA })), transformerKVA));
   }
   return { loads: results, site, issues, warnings };
 }

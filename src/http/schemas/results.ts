@@ -23,7 +23,9 @@ export const loadResultSchema = z.object({
   ...triangle,
   measuredKVA: z.number().optional(),
   truePF: z.number().optional(),
-  lineCurrentA: z.number(),
+  lineCurrentA: z.number().describe("line current of the whole entry at currentVoltageV"),
+  currentVoltageV: z.number().describe("the voltage the current is worked at: the reading's volts, else the system voltage"),
+  currentBasis: z.enum(["reading", "system_voltage"]).describe('"system_voltage" when the reading has no volts'),
 });
 
 export const siteResultSchema = z.object({
@@ -100,6 +102,8 @@ export const recommendedBankSchema = bankAnalysisSchema.extend({
   belowTarget: z.boolean(),
   fixedKvar: z.number(),
   switchedKvar: z.number(),
+  fixedNameplateKvar: z.number().describe("fixed part at nameplate (standard sizes at ratedVoltageV); fixedKvar is what it delivers"),
+  switchedNameplateKvar: z.number(),
   physicalSteps: z.array(z.object({ role: z.enum(["fixed", "switched"]), effectiveKvar: z.number(), nameplateKvar: z.number() })),
   stepPlan: z.object({ source: z.string(), samples: z.number(), coverage: z.number(), metShare: z.number() }).loose(),
   controller: z.object({ ctRatio: z.number(), smallestStepKvar: z.number(), responseA: z.number() }).nullable(),
@@ -113,7 +117,29 @@ export const recommendedBankSchema = bankAnalysisSchema.extend({
 export const placementSchema = z.object({
   loads: z.array(
     z
-      .object({ index: z.number(), label: z.string(), location: z.string(), reason: z.string(), needKvar: z.number() })
+      .object({
+        index: z.number(),
+        label: z.string(),
+        location: z.string(),
+        reason: z.string(),
+        needKvar: z.number(),
+        terminal: z
+          .object({
+            perMotorKvar: z.number().describe("kvar one unit delivers at voltageV"),
+            perMotorNameplateKvar: z.number().describe("a standard size at ratedVoltageV"),
+            ratedVoltageV: z.number(),
+            voltageV: z.number(),
+            totalKvar: z.number(),
+            selfExcitationLimitKvar: z.number(),
+            lineCurrentBeforeA: z.number(),
+            lineCurrentAfterA: z.number(),
+            overloadNote: z.string(),
+            capacitorRatedCurrentA: z.number(),
+            conductorMinAmpacityA: z.number().describe("NFPA 70 460.8(A)"),
+            conductorNote: z.string(),
+          })
+          .optional(),
+      })
       .loose(),
   ),
   locations: z.array(z.object({ location: z.string(), kvar: z.number(), loads: z.array(z.string()) })),

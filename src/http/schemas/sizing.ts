@@ -73,6 +73,7 @@ export const loadSchema = z.strictObject({
   group: z.string().trim().min(1).max(100).optional().describe("MCC or feeder the load is fed from"),
   noLoadAmps: z.number().positive("noLoadAmps must be greater than 0").max(MAX_FIGURE).optional().describe("no-load (uncoupled) line current of one motor, A"),
   continuousDuty: z.boolean().optional(),
+  motorConductorAmpacityA: z.number().positive("motorConductorAmpacityA must be greater than 0").max(MAX_FIGURE).optional().describe("ampacity of the motor-circuit conductors, A: a terminal capacitor's conductors need at least one third of it (NFPA 70 460.8(A))"),
 });
 
 export const systemSchema = z.strictObject({

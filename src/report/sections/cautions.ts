@@ -28,7 +28,7 @@ export const REQUIRED_CAUTIONS: readonly Caution[] = [
     code: "motor_self_excitation",
     title: "Motor-terminal capacitors and self-excitation",
     text: "A capacitor switched with a motor must stay below the kvar that would correct the motor's no-load PF to unity, or the coasting motor can self-excite to a dangerous voltage. Reset the overload relay for the lower line current.",
-    reference: "NFPA 70 460.7, 460.9",
+    reference: "IEEE Std 141 and motor makers' tables for the self-excitation limit (from memory); NFPA 70 460.8(A) conductors, 460.9 overload",
   },
   {
     code: "switching_transients",

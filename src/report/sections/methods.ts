@@ -35,7 +35,7 @@ export function methodRows(voltageV: number): MethodRow[] {
     ["Near-harmonic flag", `resonance within ±${RESONANCE_BAND_PCT} % of an order the site produces`, "Band chosen by the project", "common practice"],
     ["Harmonic study advised", `drive load above ${pct(NONLINEAR_STUDY_SHARE)} of the transformer kVA`, "Makers' application guides, not a standard", "rule of thumb"],
     ["Fixed part of the bank", `at most the minimum reactive demand (interval data, or a light-load reading); with neither, at most ${pct(FIXED_SHARE_WITHOUT_LIGHT_LOAD)} of the transformer kVA and below the need`, "Avoids leading PF at light load", "common practice"],
-    ["Switched steps", `standard sizes in 1:1:1, 1:2:2 or 1:2:4 programs, ranked by the intervals meeting the target (design coverage ${pct(DEFAULT_COVERAGE)}), then fewest steps, then fewest switching operations`, "Controller makers' practice", "common practice"],
+    ["Switched steps", `standard nameplate sizes at the capacitor's rated voltage (delivered kvar = nameplate·(V/V_r)²/(1 − p)) in 1:1:1, 1:2:2 or 1:2:4 programs, ranked by the intervals meeting the target (design coverage ${pct(DEFAULT_COVERAGE)}), then fewest steps, then fewest switching operations`, "Controller makers' practice", "common practice"],
     ["Controller rule", `best-combination switching; dead band from the target to unity widened by ${pct(DEFAULT_RESPONSE_THRESHOLD)} of the smallest step; never leading beyond PF ${DEFAULT_LEADING_LIMIT_PF}`, "Controller makers' practice", "common practice"],
     ["Impedance scan", "|Z(h)| of source (R + jhX) ∥ linear load R = V²/P ∥ stage branch R_r + j(h·p·X_C − X_C/h)", "Driving-point impedance, per-phase model", "textbook method"],
     ["Voltage distortion limits", "THD_v and individual harmonic limits by bus voltage", "IEEE 519-2014 Table 1", "standard"],
@@ -44,7 +44,8 @@ export function methodRows(voltageV: number): MethodRow[] {
     ["Discharge", `${discharge}; R ≤ t/(k·C·ln(√2·U_N/U_R))`, "NFPA 70 460.6; IEC 60831-1", "standard"],
     ["Conductors and disconnect", `at least ${pct(CONDUCTOR_AMPACITY_FACTOR)} (conductors) and ${pct(DISCONNECT_FACTOR)} (disconnect) of the capacitor's rated current`, "NFPA 70 460.8(A), 460.8(C)", "standard"],
     ["Overcurrent device", `next standard ampere rating at or above the chosen multiple (fuse ${pct(DEFAULT_OCPD_FACTOR.fuse)}, breaker ${pct(DEFAULT_OCPD_FACTOR.breaker)})`, "NFPA 70 240.6(A) for ratings; multiples from makers' practice", "rule of thumb"],
-    ["Motor-terminal capacitors", `at most ${pct(DEFAULT_SELF_EXCITATION_SHARE)} of the kvar that corrects no-load PF to unity (self-excitation limit); overload relay reset`, "Self-excitation: IEEE Std 141 and motor makers' tables; relay: NFPA 70 460.9", "common practice"],
+    ["Motor-terminal capacitors", `at most ${pct(DEFAULT_SELF_EXCITATION_SHARE)} of the kvar that corrects no-load PF to unity at the voltage read (self-excitation limit), a standard size at its rating`, "IEEE Std 141 and motor makers' tables (from memory)", "common practice"],
+    ["Motor-terminal conductors and overload", `capacitor conductors at least ${pct(CONDUCTOR_AMPACITY_FACTOR)} of its rated current and one third of the motor-circuit conductors' ampacity; overload relay set to the corrected current`, "NFPA 70 460.8(A), 460.9", "standard"],
     ["Survey against interval data", `a whole-site reading more than ${pct(INTERVAL_RANGE_MARGIN)} outside the interval data's 1st–100th percentile range is flagged`, "Chosen by the project", "common practice"],
     ["Voltage rise on switching", "ΔV % ≈ Q/S_sc × 100", "Short-circuit ratio estimate", "common practice"],
   ];

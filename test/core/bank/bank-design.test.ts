@@ -3,6 +3,7 @@ import { analyseBank } from "../../../src/core/bank/stages.js";
 import { designBank, type DesignBankInput } from "../../../src/core/bank/bank-design.js";
 import { expectClose, TOL } from "../../helpers/tolerance.js";
 import { DTOL } from "./tolerances.js";
+import { STANDARD_UNIT_KVAR } from "../../../src/core/bank/standard-sizes.js";
 
 const system = { voltageV: 480, frequencyHz: 60, phases: 3 } as const;
 const readings: DesignBankInput = {
@@ -53,15 +54,40 @@ describe("designBank", () => {
     expect(totals).toEqual(reachableTotals(30, [25, 50, 100]).filter((t) => t > 0));
   });
 
-  it("detuned at 7 % with 525 V capacitors: nameplate steps that the bank analysis turns back into the designed kvar", () => {
-    // hand calculation: nameplate = 25·(1 − 0.07)·(525/480)² = 25·0.93·1.196289 = 27.8137 kvar
-    // circuit current: max(27.8137e3/(√3·525) = 30.587 A, 25e3/(√3·480) = 30.070 A) = 30.587 A
+  it("detuned at 7 % with 525 V capacitors: standard nameplates at 525 V, delivered kvar at 480 V beside them", () => {
+    // hand calculation: one 525 V nameplate kvar behind 7 % delivers (480/525)²/(1 − 0.07) = 0.835918/0.93 = 0.898837 kvar
+    // at 480 V; light-load cap 30 kvar → fixed 30 kvar nameplate (26.965 kvar); need 151.39 − 26.97 = 124.43 kvar switched
+    // → 1:2:4 of 25/50/100 kvar nameplate = 22.471/44.942/89.884 kvar delivered (157.30 kvar ≥ 124.43)
+    const f = (480 / 525) ** 2 / 0.93;
     const d = design({ ...readings, reactorPct: 7, ratedVoltageV: 525 });
-    expectClose(d.bank?.steps[1]?.kvar, 27.813720703125, DTOL.kvar, "nameplate 25 kvar step");
+    expect(d.steps.map((s) => [s.role, s.nameplateKvar])).toEqual([["fixed", 30], ["switched", 25], ["switched", 50], ["switched", 100]]);
+    d.steps.forEach((s) => expectClose(s.effectiveKvar, s.nameplateKvar * f, TOL.power, `delivered ${s.nameplateKvar} kvar`));
+    expectClose(d.steps[1]?.effectiveKvar, 22.4709, TOL.powerQuoted, "25 kvar step delivered (hand: 25·0.898837)");
+    expect([d.fixedNameplateKvar, d.switchedNameplateKvar]).toEqual([30, 175]);
     const a = analyseBank(d.bank!, system, { shortCircuitKVA: null, harmonicOrders: [] }, "designed").analysis;
     expectClose(a.effectiveKvar, d.totalKvar, TOL.power, "effective kvar through analyseBank");
-    expectClose(d.protection?.steps[1]?.ratedCurrentA, 30.587160257360548, TOL.currentA, "detuned step current");
+    // circuit current: max(25e3/(√3·525) = 27.4929 A at nameplate, 22.4709e3/(√3·480) = 27.0285 A at the bus) = 27.4929 A
+    expectClose(d.protection?.steps[1]?.ratedCurrentA, 27.492869961410754, TOL.currentA, "detuned step current");
+    expect(d.protection?.steps[1]?.label).toBe("switched step 2 (25 kvar nameplate, 22.47 kvar delivered)");
     expect(d.warnings.map((w) => w.code)).toEqual([]);
+  });
+
+  it("440 V units on a 400 V bus: every step a standard size at 440 V, delivering (400/440)² of it", () => {
+    // hand calculation: 50 kvar at 440 V on 400 V delivers 50·(400/440)² = 50·0.826446 = 41.32 kvar (IEEE Std 18 basis);
+    // before this rule the design bought 48.4 / 18.15 / 72.6 kvar nameplates (40, 15, 60 kvar × (440/400)²): not sold
+    const f = (400 / 440) ** 2;
+    const sys400 = { voltageV: 400, frequencyHz: 50, phases: 3 } as const;
+    const d = design({ system: sys400, targetPF: 0.95, demand: { kind: "readings", survey: { kW: 350, kvar: 280 }, lightLoad: { kW: 90, kvar: 55 } }, ctRatio: 200, ratedVoltageV: 440 });
+    const standard = new Set<number>(STANDARD_UNIT_KVAR);
+    expect(d.steps.length).toBeGreaterThan(1);
+    for (const s of d.steps) {
+      expect(standard.has(s.nameplateKvar) || s.nameplateKvar % 100 === 0, `${s.nameplateKvar} kvar is a standard size`).toBe(true);
+      expectClose(s.effectiveKvar, s.nameplateKvar * f, TOL.power, `${s.nameplateKvar} kvar delivered`);
+    }
+    expectClose(50 * f, 41.32, TOL.powerRounded, "50 kvar 440 V unit at 400 V (hand: 41.32)");
+    // the fixed part stays under the light-load reading's 55 kvar: 60 kvar nameplate would deliver 49.59, 75 → 61.98 > 55
+    expect(d.fixedNameplateKvar).toBe(60);
+    expect(d.bank?.steps.map((s) => s.kvar)).toEqual(d.steps.map((s) => s.nameplateKvar));
   });
 
   it("warns when the capacitors of a detuned bank are rated at the system voltage", () => {

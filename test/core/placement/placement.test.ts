@@ -9,7 +9,7 @@ const TAN95 = 0.3286841051788632; // tan(acos 0.95), hand calculation: √(1 −
 
 describe("terminal-capacitor safety by starting method", () => {
   it.each([
-    // motor application guidance (makers' practice, NFPA 70 460.7 context); the contactor rule is the project's
+    // motor application guidance (IEEE Std 141 and makers' application notes, from memory); the contactor rule is the project's
     { starting: "across_the_line", contactor: false, safe: true },
     { starting: "star_delta", contactor: false, safe: false },
     { starting: "star_delta", contactor: true, safe: true },
@@ -40,7 +40,7 @@ describe("terminal-capacitor safety by starting method", () => {
 
 describe("self-excitation limit and corrected motor current", () => {
   it.each([
-    // NFPA 70 460.7: kvar raising no-load PF to unity; hand calculation √3·V·I₀/1000
+    // motor-application guidance (IEEE Std 141, makers' tables; from memory): kvar raising no-load PF to unity; hand calculation √3·V·I₀/1000
     { i0: 40, v: 480, ph: 3, want: 33.25537550532244, src: "1.73205·480·40/1000 = 33.255 kvar" },
     { i0: 10, v: 230, ph: 1, want: 2.3, src: "230·10/1000 = 2.3 kvar" },
   ] as const)("$src", ({ i0, v, ph, want }) => {
