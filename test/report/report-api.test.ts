@@ -9,7 +9,7 @@ import { inject } from "../helpers/auth.js";
 
 let app: FastifyInstance;
 let surveyId: string;
-let result: { site: { kW: number }; correction: { kvarRequired: number } };
+let result: { site: { kW: number }; correction: { kvarRequired: number; pfAfter: number; kVAAfter: number } };
 
 const building = {
   name: "Report test hall <B2>",
