@@ -3,7 +3,7 @@ import { buildReportModel } from "../../src/report/index.js";
 import { arrange, type LayoutBox, type Page, paginate, STRAY_PAGE_SHARE } from "../../src/report/pdf-layout.js";
 import { measureReportPdf, renderReportPdfWithStats } from "../../src/report/pdf.js";
 import type { ReportModel } from "../../src/report/types.js";
-import { plainInput, sized } from "./fixtures.js";
+import { fullReportInput, plainInput, sized } from "./fixtures.js";
 import { readPdf } from "./pdfjs.js";
 
 /** Margin of the PDF pages (15 mm) and the footer band above it: body text sits above y = 42.5 + 14 pt. */
@@ -92,5 +92,30 @@ describe("report PDF pages", () => {
     const topPt = (15 / 25.4) * 72;
     // Baselines sit a few points above their box's foot: allow one line.
     expect(lowestFromTopPt - topPt).toBeGreaterThan(STRAY_PAGE_SHARE * stats.bodyHeightPt - 12);
+  });
+
+  it("splits survey notes of the longest allowed size line by line across pages, without overlap or overflow", async () => {
+    // 5000 characters: the schema's limit for survey notes (src/http/schemas/surveys.ts).
+    const sentence = "Feeder 4 at the Łódź annex read twice; the second reading stands. ";
+    const longWord = `photo-ref:${"x".repeat(90)}`;
+    const notes = `${sentence.repeat(35)}${longWord}\n${sentence.repeat(40)}`.slice(0, 5000).trim();
+    const input = fullReportInput();
+    const model = buildReportModel({ ...input, survey: { ...(input.survey as NonNullable<typeof input.survey>), notes } });
+    const { pdf, stats } = await renderReportPdfWithStats(model);
+    const { items } = await readPdf(pdf);
+    expect(items.length).toBe(stats.pages);
+    const body = items.map((page) => page.filter((it) => it.str.trim() !== "" && it.y > FOOTER_TOP_PT));
+    const text = body.flat().map((it) => it.str).join(" ").replace(/\s+/g, " ");
+    // Every word comes back in order (the over-long word cut into pieces of one line each).
+    expect(text.replace(/photo-ref:x+( x+)*/, "WORD")).toContain(notes.replace(longWord, "WORD").replace(/\s+/g, " "));
+    // The notes' lines: one text item per line, each line below the one before (no line drawn twice or over another).
+    const noteLines = body.map((page) => page.filter((it) => it.str.includes("Łódź annex") || /^(photo-ref:)?x{5,}$/.test(it.str)));
+    const pagesWithNotes = noteLines.filter((l) => l.length > 0);
+    expect(pagesWithNotes.length).toBeGreaterThan(1);
+    for (const lines of pagesWithNotes) lines.slice(1).forEach((l, k) => expect((lines[k] as { y: number }).y - l.y).toBeGreaterThanOrEqual(9));
+    // Nothing but the footer below the text area.
+    items.forEach((page, i) =>
+      page.filter((it) => it.str.trim() !== "" && it.y <= FOOTER_TOP_PT).forEach((it) => expect(it.str.startsWith("Power-factor correction report") || it.str === `page ${i + 1} of ${items.length}`, it.str).toBe(true)),
+    );
   });
 });
