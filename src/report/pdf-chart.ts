@@ -1,5 +1,6 @@
 /** Draws the chart geometry with pdfkit's vector primitives (lines, paths, text): no raster images. */
 import type { Chart, Point, Shape, Stroke } from "./charts/geometry.js";
+import { BOLD, FONT } from "./pdf-fonts.js";
 import { pdfSafe } from "./pdf-text.js";
 
 type Doc = PDFKit.PDFDocument;
@@ -50,7 +51,7 @@ function drawShape(doc: Doc, s: Shape): number {
       return 1;
     case "text": {
       const t = pdfSafe(s.text);
-      doc.font(s.bold ? "Helvetica-Bold" : "Helvetica").fontSize(s.size).fillColor(s.color ?? "#000000");
+      doc.font(s.bold ? BOLD : FONT).fontSize(s.size).fillColor(s.color ?? "#000000");
       const w = doc.widthOfString(t);
       const dx = s.anchor === "middle" ? -w / 2 : s.anchor === "end" ? -w : 0;
       doc.save();

@@ -1,9 +1,10 @@
 /** Tables in the PDF: a simple grid, wrapped cells, the header repeated on every page the table spans. */
-import type { Flow, TextStyle } from "./pdf-flow.js";
+import { type Flow, keepLines, type TextStyle } from "./pdf-flow.js";
 import { pdfSafe } from "./pdf-text.js";
 import type { Align } from "./types.js";
 
 const PAD = 3;
+const SLACK = 0.5;
 const KEEP_ROWS = 14;
 const CELL: TextStyle = { size: 7.5 };
 const HEAD: TextStyle = { size: 7.5, bold: true };
@@ -18,11 +19,13 @@ export function columnWidths(flow: Flow, header: string[], rows: string[][], tot
   const head = new Array<number>(n).fill(0);
   const headWord = new Array<number>(n).fill(0);
   const least = new Array<number>(n).fill(0);
+  // SLACK: a word measured to fit its column still fits after the widths' float arithmetic.
   const widthOf = (t: string, s: TextStyle) => {
     flow.style(s);
-    return flow.doc.widthOfString(pdfSafe(t)) + 2 * PAD;
+    return flow.doc.widthOfString(pdfSafe(t)) + 2 * PAD + SLACK;
   };
-  const longestWord = (t: string, s: TextStyle) => Math.max(0, ...pdfSafe(t).split(/\s+/).map((w) => Math.min(widthOf(w, s), total / n)));
+  // pdfkit's line breaker measures each word with the space after it, and cuts a word that does not fit so.
+  const longestWord = (t: string, s: TextStyle) => Math.max(0, ...pdfSafe(t).split(/\s+/).map((w) => Math.min(widthOf(`${w} `, s), total / n)));
   header.forEach((h, i) => {
     head[i] = widthOf(h, HEAD);
     headWord[i] = longestWord(h, HEAD);
@@ -56,44 +59,54 @@ function rowHeight(flow: Flow, cells: string[], widths: number[], s: TextStyle):
   return Math.max(...cells.map((c, i) => flow.height(c, (widths[i] as number) - 2 * PAD, s))) + 2 * PAD;
 }
 
-function drawRow(flow: Flow, cells: string[], widths: number[], align: Align[] | undefined, s: TextStyle, fill: string | null): number {
+function drawRow(flow: Flow, y: number, cells: string[], widths: number[], align: Align[] | undefined, s: TextStyle, fill: string | null): void {
   const h = rowHeight(flow, cells, widths, s);
   const doc = flow.doc;
   let x = flow.left;
   cells.forEach((c, i) => {
     const w = widths[i] as number;
-    if (fill) doc.rect(x, flow.y, w, h).fill(fill);
-    doc.rect(x, flow.y, w, h).lineWidth(0.6).undash().strokeColor("#000000").stroke();
-    flow.textAt(c, x + PAD, flow.y + PAD, w - 2 * PAD, s, align?.[i] === "right" ? "right" : "left");
+    if (fill) doc.rect(x, y, w, h).fill(fill);
+    doc.rect(x, y, w, h).lineWidth(0.6).undash().strokeColor("#000000").stroke();
+    flow.textAt(c, x + PAD, y + PAD, w - 2 * PAD, s, align?.[i] === "right" ? "right" : "left");
     x += w;
   });
-  flow.y += h;
-  return h;
 }
 
+/**
+ * A table as boxes: its title and header row kept with the first rows; each row a box that repeats the header
+ * when it starts a page; the rows of a short table chained so the table moves whole (as the HTML print keeps it).
+ */
 export function drawTable(flow: Flow, title: string | undefined, header: string[], rows: string[][], align?: Align[], note?: string): void {
   const widths = columnWidths(flow, header, rows, flow.width);
   const headH = rowHeight(flow, header, widths, HEAD);
   const titleH = title ? flow.height(title, flow.width, { size: 9, bold: true }) + 3 : 0;
-  const firstH = rows.length > 0 ? rowHeight(flow, rows[0] as string[], widths, CELL) : 0;
-  // Short tables move whole to the next page rather than split (as the HTML print keeps them).
-  const bodyH = rows.length <= KEEP_ROWS ? rows.reduce((h, r) => h + rowHeight(flow, r, widths, CELL), 0) : firstH;
-  const keepH = titleH + headH + bodyH;
-  flow.ensure(keepH <= flow.bottom - flow.top ? keepH : titleH + headH + firstH);
-  if (title) {
-    flow.textAt(title, flow.left, flow.y, flow.width, { size: 9, bold: true });
-    flow.y += titleH;
-  }
-  drawRow(flow, header, widths, align, HEAD, "#e0e0e0");
-  rows.forEach((r, k) => {
-    const h = rowHeight(flow, r, widths, CELL);
-    if (flow.y + h > flow.bottom) {
-      flow.newPage();
-      drawRow(flow, header, widths, align, HEAD, "#e0e0e0");
-    }
-    drawRow(flow, r, widths, align, CELL, k % 2 === 1 ? "#f2f2f2" : null);
+  const drawHead = (y: number) => drawRow(flow, y, header, widths, align, HEAD, "#e0e0e0");
+  flow.add({
+    kind: "table-head",
+    heightPt: titleH + headH,
+    gapAfterPt: 0,
+    ...(rows.length > 0 ? { keepWithNext: "always" as const } : {}),
+    draw: (y) => {
+      if (title) flow.textAt(title, flow.left, y, flow.width, { size: 9, bold: true });
+      drawHead(y + titleH);
+    },
   });
-  flow.y += 4;
-  if (note) flow.paragraph(note, { size: 7.5 });
-  flow.y += 4;
+  const short = rows.length <= KEEP_ROWS;
+  rows.forEach((r, k) => {
+    const last = k === rows.length - 1;
+    // A long table breaks between rows, but not after its first row or before its last.
+    const keep = last ? (note ? "always" : undefined) : short ? (keepLines(k, rows.length) ?? "prefer") : keepLines(k, rows.length);
+    flow.add({
+      kind: "row",
+      heightPt: rowHeight(flow, r, widths, CELL),
+      gapAfterPt: 0,
+      ...(keep ? { keepWithNext: keep } : {}),
+      repeatHeightPt: headH,
+      drawRepeat: drawHead,
+      draw: (y) => drawRow(flow, y, r, widths, align, CELL, k % 2 === 1 ? "#f2f2f2" : null),
+    });
+  });
+  flow.space(4);
+  if (note) flow.paragraph(note, { size: 7.5 }, 0, 5, "table-note");
+  flow.space(4);
 }

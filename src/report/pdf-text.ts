@@ -1,32 +1,20 @@
 /**
- * PDF text through the built-in Helvetica fonts, which only carry the WinAnsi (cp1252) characters:
- * symbols outside it are spelled out ("phi", "sqrt", "<="), anything else unknown becomes "?".
+ * Text for the PDF: characters the embedded font draws pass unchanged (Latin, Greek, Cyrillic, the report's
+ * symbols φ √ ≤ ₁ …); tabs and carriage returns become spaces; anything the font lacks becomes "?", so a missing
+ * glyph is seen rather than drawn as an empty box.
  */
+import { fontCovers } from "./pdf-fonts.js";
 
-const SPELLED: Record<string, string> = {
-  "φ": "phi", "Φ": "Phi", "√": "sqrt", "²": "^2", "³": "^3", "≤": "<=", "≥": ">=", "Σ": "Sum ", "∑": "Sum ",
-  "₀": "0", "₁": "1", "₂": "2", "₃": "3", "₄": "4", "₅": "5", "₆": "6", "₇": "7", "₈": "8", "₉": "9",
-  "−": "-", "∥": "||", "Δ": "delta ", "≈": "~", "→": "->", "←": "<-", "∞": "inf", "ω": "omega", "π": "pi",
-  "≠": "!=", "∙": "·", "θ": "theta", "Ω": "ohm", "‑": "-", "\u2009": " ", "\u202F": " ", "\u2002": " ", "\u2003": " ",
-};
-
-/** The cp1252 characters in 0x80–0x9F, which WinAnsi encodes besides Latin-1. */
-const CP1252_EXTRA = new Set("€‚ƒ„…†‡ˆ‰Š‹ŒŽ‘’“”•–—˜™š›œžŸ");
-
-export function isWinAnsi(ch: string): boolean {
-  const c = ch.codePointAt(0) as number;
-  return (c >= 0x20 && c <= 0x7e) || (c >= 0xa0 && c <= 0xff) || CP1252_EXTRA.has(ch) || ch === "\n";
-}
+/** Printable ASCII and newlines: the common case, which the font covers whole. */
+const PLAIN = /^[\x20-\x7e\n]*$/;
 
 export function pdfSafe(text: string): string {
+  if (PLAIN.test(text)) return text;
   let out = "";
-  // "√3" reads "sqrt(3)", not "sqrt3"; "√(…)" already has its parentheses.
-  for (const ch of text.replace(/√([\w.]+)/g, "sqrt($1)")) {
-    const spelled = SPELLED[ch];
-    if (spelled !== undefined) out += spelled;
-    else if (isWinAnsi(ch)) out += ch;
+  for (const ch of text) {
+    if (ch === "\n") out += ch;
     else if (ch === "\t" || ch === "\r") out += " ";
-    else out += "?";
+    else out += fontCovers(ch.codePointAt(0) as number) ? ch : "?";
   }
   return out;
 }

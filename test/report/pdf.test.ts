@@ -1,22 +1,9 @@
-import { getDocument } from "pdfjs-dist/legacy/build/pdf.mjs";
 import { describe, expect, it } from "vitest";
 import { buildReportModel, renderReportPdf, renderReportPdfWithStats } from "../../src/report/index.js";
+import { fontCovers } from "../../src/report/pdf-fonts.js";
 import { pdfSafe } from "../../src/report/pdf-text.js";
 import { fullReportInput, plainInput, sized } from "./fixtures.js";
-
-async function pdfText(buf: Buffer): Promise<{ pages: string[]; size: number[] }> {
-  const doc = await getDocument({ data: new Uint8Array(buf), isEvalSupported: false, disableFontFace: true, verbosity: 0 }).promise;
-  const pages: string[] = [];
-  for (let i = 1; i <= doc.numPages; i++) {
-    const page = await doc.getPage(i);
-    const content = await page.getTextContent();
-    pages.push(content.items.map((it) => ("str" in it ? it.str : "")).join(" ").replace(/\s+/g, " "));
-  }
-  const first = await doc.getPage(1);
-  const size = first.view.slice(2);
-  await doc.destroy();
-  return { pages, size };
-}
+import { readPdf } from "./pdfjs.js";
 
 const input = fullReportInput();
 const { result } = input;
@@ -26,7 +13,7 @@ describe("report PDF", () => {
   it("carries the sections, key figures and every caution title as text", async () => {
     const buf = await renderReportPdf(model);
     expect(buf.subarray(0, 5).toString("latin1")).toBe("%PDF-");
-    const { pages, size } = await pdfText(buf);
+    const { pages, size } = await readPdf(buf);
     expect(size.map(Math.round)).toEqual([595, 842]); // A4 in points
     const all = pages.join(" ");
     for (const h of ["Building and survey", "Readings and power triangle per load", "Site before and after correction", "Capacitor bank", "Resonance and harmonics", "Economics", "Warnings", "Safety cautions", "Methods and standards"])
@@ -38,10 +25,12 @@ describe("report PDF", () => {
     for (const w of result.warnings) expect(all).toContain(w.code);
     for (const c of result.cautions) expect(all).toContain(`CAUTION: ${c.title}`);
     expect(all).toContain("srv_TEST123");
-    // Symbols outside WinAnsi are spelled out, not dropped or turned into "?".
-    expect(all).toContain("h = sqrt(S_sc/Q)");
-    expect(all).toMatch(/phi \d+\.\d°/);
-    expect(all).not.toContain("√");
+    // The report's symbols print as in the HTML (the embedded font has them), and nothing became "?".
+    expect(all).toContain("h = √(S_sc/Q)");
+    expect(all).toMatch(/φ \d+\.\d°/);
+    expect(all).toContain("PF₁");
+    expect(JSON.stringify(model)).not.toContain("?");
+    expect(all).not.toContain("?");
     // Every page carries the running footer with its number.
     pages.forEach((p, i) => expect(p).toContain(`page ${i + 1} of ${pages.length}`));
   });
@@ -66,7 +55,7 @@ describe("report PDF", () => {
     const pi = plainInput();
     const r = sized(pi);
     const buf = await renderReportPdf(buildReportModel({ inputs: pi, result: { ...r, cautions: [] } }), { size: "LETTER" });
-    const { pages, size } = await pdfText(buf);
+    const { pages, size } = await readPdf(buf);
     expect(size.map(Math.round)).toEqual([612, 792]);
     const all = pages.join(" ");
     for (const t of ["Stored charge and discharge time", "Lockout/tagout and verification", "Never on a drive's output", "Motor-terminal capacitors and self-excitation", "Switching transients", "Generator operation", "Ventilation and ambient temperature", "Local codes and licensed practice"])
@@ -77,10 +66,13 @@ describe("report PDF", () => {
 });
 
 describe("PDF text mapping", () => {
-  it("spells out symbols the built-in fonts lack and keeps WinAnsi ones", () => {
-    expect(pdfSafe("φ √3 I² ≤ ≥ Σ PF₁ − ∥")).toBe("phi sqrt(3) I^2 <= >= Sum  PF1 - ||");
-    expect(pdfSafe("h = √(S_sc/Q), 1/√p")).toBe("h = sqrt(S_sc/Q), 1/sqrt(p)");
-    expect(pdfSafe("µF 35.2° 4 × 50 ± – · é")).toBe("µF 35.2° 4 × 50 ± – · é");
-    expect(pdfSafe("漢")).toBe("?");
+  it("keeps what the embedded font draws and marks the rest", () => {
+    // Symbols of the report, Latin Extended, Greek and Cyrillic: DejaVu Sans has them all (its coverage table).
+    for (const t of ["φ √3 I² ≤ ≥ Σ PF₁ − ∥ µF 35.2° 4 × 50 ± – · é", "Łódź Ţesătorie Țară Şiş İğdır Příliš", "Ωμέγα Щёлково"]) expect(pdfSafe(t)).toBe(t);
+    // Not in DejaVu Sans: a Han character, an emoji (one "?" for its two UTF-16 units), a control character.
+    expect(pdfSafe("漢 🔥 a\u0007b")).toBe("? ? a?b");
+    expect(pdfSafe("a\tb\r\nc")).toBe("a b \nc");
+    // pdfSafe passes printable ASCII through unchecked: the font must cover it all.
+    for (let cp = 0x20; cp <= 0x7e; cp++) expect(fontCovers(cp), String.fromCodePoint(cp)).toBe(true);
   });
 });
