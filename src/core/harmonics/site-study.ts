@@ -10,7 +10,11 @@ import {
 } from "./index.js";
 import { warning, type InputIssue, type Warning } from "../warnings.js";
 
-/** The site's harmonic sources: drives (typical six-pulse spectrum unless measured) and loads with a measured spectrum. */
+/**
+ * The site's harmonic sources: drives (typical six-pulse spectrum unless measured, scaled to the reading's current
+ * THD when it has one) and loads with a measured spectrum. A reading's kVA is rms when the meter gave V·I or kVA, or
+ * when a true PF stood in for the displacement PF; otherwise it is the fundamental triangle's.
+ */
 export function harmonicSourcesOf(input: SizingInput, loads: LoadResult[]): { sources: HarmonicSourceInput[]; loadIndex: number[] } {
   const sources: HarmonicSourceInput[] = [];
   const loadIndex: number[] = [];
@@ -23,6 +27,8 @@ export function harmonicSourcesOf(input: SizingInput, loads: LoadResult[]): { so
       phases: r.phases,
       ...(load.harmonics ? { spectrum: load.harmonics.map((c) => ({ order: c.order, pct: c.pct })) } : {}),
       isDrive: load.kind === "drive",
+      ...(load.measurement.currentTHDPct !== undefined ? { currentTHDPct: load.measurement.currentTHDPct } : {}),
+      kVABasis: r.measuredKVA !== undefined || (load.measurement.pfType === "true" && load.measurement.currentTHDPct === undefined) ? "rms" : "fundamental",
     });
     loadIndex.push(i);
   });
@@ -91,6 +97,7 @@ export function studySiteHarmonics(
     network: {
       voltageV: input.system.voltageV,
       frequencyHz: input.system.frequencyHz,
+      phases: input.system.phases,
       shortCircuitKVA,
       ...(input.transformer?.xOverR !== undefined ? { xOverR: input.transformer.xOverR } : {}),
       ...(input.transformer ? { transformerKVA: input.transformer.kVA } : {}),

@@ -246,6 +246,18 @@ function studySchema(compact: boolean) {
     source: z.object({ baseImpedanceOhm: z.number(), resistanceOhm: z.number(), reactanceOhm: z.number(), xOverR: z.number(), xOverRBasis: z.string() }),
     loadResistanceOhm: z.number().nullable(),
     presentOrders: z.array(z.number()),
+    sources: z
+      .array(
+        z.object({
+          label: z.string(),
+          spectrumBasis: z.enum(["measured_spectrum", "typical_six_pulse_scaled_to_measured_thd", "typical_six_pulse"]),
+          currentTHDPct: z.number(),
+          kVABasis: z.enum(["rms", "fundamental"]),
+          fundamentalA: z.number(),
+          note: z.string(),
+        }),
+      )
+      .describe("which spectrum and fundamental current each harmonic source was given"),
     thirdHarmonicSignificant: z.boolean(),
     withoutCapacitors: z.object(busStudy(fullLine)),
     banks: z.array(bank),
