@@ -1,7 +1,7 @@
 /** Where each load is corrected: at its terminals, at its group (MCC/feeder) bank, centrally, or not at all. */
 import { tanPhi } from "../conventions.js";
 import { STANDARD_UNIT_KVAR } from "../bank/standard-sizes.js";
-import { warning, type Warning } from "../warnings.js";
+import { mergeBySubject, warning, type Warning } from "../warnings.js";
 import {
   largestSizeAtMost,
   motorLineCurrentA,
@@ -46,16 +46,17 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
     const q = l.quantity ?? 1;
     const unitKW = l.kW / q;
     const safety = terminalSafety(l);
-    if (safety.code) warnings.push(warning(safety.code, `${l.label}: ${safety.reason}`, `${prefix}.${i}`));
+    const about = { subjects: [l.label] };
+    if (safety.code) warnings.push(warning(safety.code, `${l.label}: ${safety.reason}`, `${prefix}.${i}`, about));
     if (!safety.safe && l.kind === "motor" && l.starting === undefined && unitKW >= minKW) {
-      warnings.push(warning("starting_method_needed", `${l.label}: state how the motor is started (starting) to know whether a terminal capacitor is safe`, `${prefix}.${i}.starting`));
+      warnings.push(warning("starting_method_needed", `${l.label}: state how the motor is started (starting) to know whether a terminal capacitor is safe`, `${prefix}.${i}.starting`, about));
     }
     if (!safety.safe) return void (p.reason = safety.reason);
     if (unitKW < minKW) return void (p.reason = `${unitKW.toFixed(1)} kW per motor is below the ${minKW} kW worth a terminal capacitor (common practice)`);
     if (l.continuousDuty === false) return void (p.reason = "runs intermittently: a terminal capacitor would idle; corrected upstream");
     if (l.noLoadAmps === undefined) {
       const msg = `${l.label}: to size a terminal capacitor, measure the motor's no-load current uncoupled from its load at rated voltage (or take it from the maker's data) and give noLoadAmps`;
-      warnings.push(warning("no_load_current_needed", msg, `${prefix}.${i}.noLoadAmps`));
+      warnings.push(warning("no_load_current_needed", msg, `${prefix}.${i}.noLoadAmps`, about));
       return void (p.reason = "no-load current not given, so the self-excitation limit is unknown (NFPA 70 460.7)");
     }
     const limitKvar = selfExcitationLimitKvar(l.noLoadAmps, l.voltageV, l.phases);
@@ -178,5 +179,5 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
       ? `; the site basis needs ${basisGap.toFixed(1)} kvar more than its loads add up to (unmetered loads or readings at different times), taken at the central bank`
       : `; the loads add up to ${(-basisGap).toFixed(1)} kvar more need than the site basis (diversity or readings at different times), so upstream banks are held to the site's figure`;
   }
-  return { loads: out, locations, totalKvar, siteRequiredKvar: required, differenceKvar, balanceNote, notes, warnings };
+  return { loads: out, locations, totalKvar, siteRequiredKvar: required, differenceKvar, balanceNote, notes, warnings: mergeBySubject(warnings, prefix) };
 }

@@ -11,7 +11,13 @@ const triangle = {
   sense,
 };
 
-export const warningSchema = z.object({ code: z.string(), message: z.string(), path: z.string().optional() });
+export const warningSchema = z.object({
+  code: z.string(),
+  message: z.string(),
+  severity: z.enum(["info", "warning", "error"]).describe("info: worth knowing; warning: look before ordering; error: a standard's limit broken by the design"),
+  path: z.string().optional(),
+  subjects: z.array(z.string()).optional().describe("the stages or loads this one concern covers"),
+});
 export const cautionSchema = z.object({ code: z.string(), title: z.string(), text: z.string(), reference: z.string().optional() });
 
 export const loadResultSchema = z.object({
@@ -131,6 +137,7 @@ export const resonanceSchema = z.object({
   nonlinearKVA: z.number(),
   nonlinearSharePct: z.number().nullable(),
   harmonicStudyAdvised: z.boolean(),
+  harmonicStudyReasons: z.array(z.string()).describe("why the study is advised; a detuned proposal always is a reason"),
   recommendedBankVoltageRisePct: z.number().nullable(),
   proposedBankVoltageRisePct: z.number().nullable(),
 });
