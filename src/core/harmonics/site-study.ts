@@ -124,12 +124,12 @@ export function studySiteHarmonics(
   const study = outcome.result;
   const warnings = [...findingsAsWarnings(study.findings), ...study.banks.flatMap(dutyWarning)];
   if (study.proposals.length > 0) {
-    for (const p of study.proposals) {
+    for (const [i, p] of study.proposals.entries()) {
       warnings.push(
         warning(
           "detuned_bank_proposed",
           `the ${p.forBank} bank fails the harmonic study (${p.triggeredBy.join(", ")}): a ${p.design.reactorPct} % detuned design (tuning order ${p.design.tuningOrder}, capacitors rated ${p.design.ratedVoltageV} V) is proposed`,
-          `harmonics.proposals`,
+          `harmonics.proposals.${i}`,
         ),
       );
     }
