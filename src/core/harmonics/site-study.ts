@@ -216,7 +216,9 @@ function dutyWarning(bank: HarmonicStudyResult["banks"][number]): Warning[] {
  * Keeps the study's, which also weighs the harmonics.
  */
 export function withoutScreenVoltageRepeats(screen: readonly Warning[], study: readonly Warning[]): Warning[] {
-  const studied = new Set(study.filter((w) => DUTY_CODES.has(w.code) && /rms voltage/.test(w.message)).map((w) => w.path));
+  // The study's rms voltage is √(V₁² + ΣV_h²) with V₁ = U/(1 − p), the screen's figure: whenever the screen warns,
+  // the study's warning for that bank exists and names the rms voltage.
+  const studied = new Set(study.filter((w) => DUTY_CODES.has(w.code)).map((w) => w.path));
   return screen.filter(
     (w) => !((w.code === "capacitor_above_rated_voltage" || w.code === "capacitor_overvoltage") && studied.has(w.path?.replace(/\.ratedVoltageV$/, ""))),
   );
