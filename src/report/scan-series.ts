@@ -60,6 +60,7 @@ function busModel(input: ReportInput): BusModel | null {
   const network: NetworkInput = {
     voltageV: result.system.voltageV,
     frequencyHz: result.system.frequencyHz,
+    phases: result.system.phases,
     shortCircuitKVA: sc,
     ...(xOverR !== undefined ? { xOverR } : {}),
     ...(inputs.transformer ? { transformerKVA: inputs.transformer.kVA } : {}),

@@ -139,7 +139,7 @@ describe("report HTML: figures from the result", () => {
   });
 
   it("lists every warning code, the cautions' titles, economics and the design", () => {
-    const codes = rowsOf(doc.querySelector("#warnings table.data") as HTMLElement).map((r) => r[0]);
+    const codes = rowsOf(doc.querySelector("#warnings table.data") as HTMLElement).map((r) => r[1]);
     for (const w of result.warnings) expect(codes).toContain(w.code);
     expect(doc.querySelectorAll("#cautions .callout h4").map((h) => h.text).sort()).toEqual([...CAUTION_TOPICS].sort());
     expect(text).toContain(`${(input.economics?.savingPerYear ?? 0).toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 })} EUR`);

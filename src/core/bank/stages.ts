@@ -12,7 +12,7 @@ import {
 } from "./capacitor.js";
 import type { ProposedBankInput, SystemInput } from "../inputs.js";
 import { nearHarmonic, parallelResonanceOrder, voltageRisePct } from "../harmonics/resonance.js";
-import { warning, type Warning } from "../warnings.js";
+import { compactList, ieee18Severity, warning, type Warning } from "../warnings.js";
 
 export interface BankStage {
   /** 1-based: stage n has steps 1…n switched in. */
@@ -74,20 +74,24 @@ export function analyseBank(
   const capacitorVoltageV = capacitorVoltageWithReactorV(system.voltageV, p);
   const voltageRatio = capacitorVoltageV / bank.ratedVoltageV;
 
-  if (voltageRatio > IEEE18_MAX_VOLTAGE_RATIO) {
+  // IEEE Std 18 permits 110 % rms voltage: above 100 % information, above 105 % a warning, above 110 % an error.
+  const voltageSeverity = ieee18Severity(voltageRatio * 100, IEEE18_MAX_VOLTAGE_RATIO * 100);
+  if (voltageSeverity === "error") {
     warnings.push(
       warning(
         "capacitor_overvoltage",
         `capacitor terminal voltage ${capacitorVoltageV.toFixed(0)} V is ${(voltageRatio * 100).toFixed(1)} % of its ${bank.ratedVoltageV} V rating, above the IEEE Std 18 limit of 110 %`,
         `${pathPrefix}.ratedVoltageV`,
+        { severity: "error" },
       ),
     );
-  } else if (voltageRatio > 1) {
+  } else if (voltageSeverity !== null) {
     warnings.push(
       warning(
         "capacitor_above_rated_voltage",
-        `capacitor terminal voltage ${capacitorVoltageV.toFixed(0)} V exceeds its ${bank.ratedVoltageV} V rating (${(voltageRatio * 100).toFixed(1)} %): IEEE Std 18 allows 110 % for contingencies, not as a design basis`,
+        `capacitor terminal voltage ${capacitorVoltageV.toFixed(0)} V exceeds its ${bank.ratedVoltageV} V rating (${(voltageRatio * 100).toFixed(1)} %): IEEE Std 18 permits up to 110 % for contingencies, not as a design basis${voltageSeverity === "warning" ? "; above 105 % little margin is left" : ""}`,
         `${pathPrefix}.ratedVoltageV`,
+        { severity: voltageSeverity },
       ),
     );
   }
@@ -102,6 +106,7 @@ export function analyseBank(
   }
 
   const stages: BankStage[] = [];
+  const resonant: { stage: number; kvar: number; order: number; near: number }[] = [];
   let cumulative = 0;
   bank.steps.forEach((step, i) => {
     cumulative += step.kvar;
@@ -109,15 +114,7 @@ export function analyseBank(
     const qEff = effectiveKvarWithReactor(qc, p);
     const h = source.shortCircuitKVA ? parallelResonanceOrder(qc, source.shortCircuitKVA, p) : null;
     const near = h === null ? null : nearHarmonic(h, source.harmonicOrders);
-    if (near !== null && h !== null) {
-      warnings.push(
-        warning(
-          "resonance_near_harmonic",
-          `stage ${i + 1} (${qEff.toFixed(1)} kvar) resonates with the source at order ${h.toFixed(2)}, within 10 % of the ${ordinal(near)} harmonic the site produces`,
-          `${pathPrefix}.steps.${i}`,
-        ),
-      );
-    }
+    if (near !== null && h !== null) resonant.push({ stage: i + 1, kvar: qEff, order: h, near });
     stages.push({
       stage: i + 1,
       cumulativeNameplateKvar: cumulative,
@@ -129,6 +126,8 @@ export function analyseBank(
       voltageRisePct: source.shortCircuitKVA ? voltageRisePct(qEff, source.shortCircuitKVA) : null,
     });
   });
+
+  if (resonant.length > 0) warnings.push(resonanceWarning(resonant, `${pathPrefix}.steps`));
 
   const effectiveKvar = effectiveKvarWithReactor(capacitorKvar, p);
   const ht = p > 0 ? tuningOrder(p) : null;
@@ -153,6 +152,19 @@ export function analyseBank(
     stages,
   };
   return { analysis, warnings };
+}
+
+/** One warning for the bank, listing every stage that resonates near a present harmonic (one concern, not one per stage). */
+function resonanceWarning(resonant: { stage: number; kvar: number; order: number; near: number }[], path: string): Warning {
+  const orders = [...new Set(resonant.map((r) => r.near))].sort((a, b) => a - b);
+  const stages = resonant.map((r) => r.stage);
+  const detail = resonant.map((r) => `stage ${r.stage} (${r.kvar.toFixed(1)} kvar) at ${r.order.toFixed(2)}`).join("; ");
+  return warning(
+    "resonance_near_harmonic",
+    `${stages.length === 1 ? "stage" : "stages"} ${compactList(stages)} resonate with the source within 10 % of the ${orders.map(ordinal).join(" and ")} harmonic${orders.length > 1 ? "s" : ""} the site produces: ${detail}`,
+    path,
+    { subjects: stages.map((n) => `stage ${n}`) },
+  );
 }
 
 /** A single-phase bank is one capacitor: both fields carry its value. */

@@ -116,7 +116,8 @@ export function planSteps(input: StepsInput): StepPlan {
     minQ = Math.min(minQ, d.kvar[i] as number);
   }
   const fixed = chooseFixedPart(d, needAtCoverage, units, input.transformerKVA, o.fixedShareWithoutLightLoad);
-  if (!fixed.lightLoadKnown) {
+  // Only when there is a bank to design: no warning about a fixed part that is not designed.
+  if (!fixed.lightLoadKnown && needAtCoverage > 0) {
     warnings.push(warning("light_load_unknown", `without a light-load reading or interval data the fixed part is limited by a rule of thumb (${fixed.basis}); take a reading at the lightest load (nights, weekends) or log interval data so the fixed part can be sized to the minimum reactive demand`, "demand"));
   }
   const switchedNeeded = Math.max(0, needAtCoverage - fixed.fixedKvar);

@@ -26,7 +26,7 @@ export function capacitorKvarAtSystem(
   return kvarAtFrequency(kvarAtVoltage(ratedKvar, voltageV, ratedVoltageV), frequencyHz, ratedFrequencyHz);
 }
 
-/** X_C = V_LL²/Q_c (3-phase kvar at system voltage), the per-phase wye reactance. */
+/** X_C = V_LL²/Q_c (3-phase kvar at system voltage), the per-phase wye reactance; single-phase, V²/Q of the one capacitor. */
 export function capacitorBranch(
   voltageV: number,
   capacitorKvar: number,

@@ -1,13 +1,13 @@
 /** Bus harmonic voltages and THD_v from injected currents and the driving-point impedance. */
 import type { InjectedCurrents } from "./injection.js";
-import { drivingPointImpedanceOhm, type BusModel } from "./network.js";
-import { MAX_HARMONIC_ORDER, SQRT3, type SpectrumLine } from "./study-types.js";
+import { branchVoltageV, drivingPointImpedanceOhm, type BusModel } from "./network.js";
+import { MAX_HARMONIC_ORDER, type SpectrumLine } from "./study-types.js";
 
 export interface BusHarmonicLine {
   order: number;
   currentA: number;
   impedanceOhm: number;
-  /** I_h·|Z(h)|, phase volts, from this bus's own injection. */
+  /** I_h·|Z(h)|, volts across a branch of the model (phase volts; on single-phase, line volts), from this bus's own injection. */
   injectedPhaseV: number;
   injectedPct: number;
   backgroundPct: number;
@@ -38,7 +38,7 @@ export function busDistortion(
   currents: InjectedCurrents,
   background: readonly SpectrumLine[] = [],
 ): BusDistortion {
-  const phaseV = model.voltageV / SQRT3;
+  const phaseV = branchVoltageV(model.voltageV, model.phases);
   const bg = new Float64Array(MAX_HARMONIC_ORDER + 1);
   for (const line of background) bg[line.order] = bg[line.order]! + line.pct;
   const lines: BusHarmonicLine[] = [];

@@ -1,15 +1,18 @@
 /** Capacitor duty of a stage against the IEEE Std 18 continuous limits. */
 import { branchImpedance, capacitorBranch, capacitorKvarAtSystem, DEFAULT_REACTOR_QUALITY_FACTOR } from "./branch.js";
+import type { Phases } from "../conventions.js";
+import { capacitorCurrentA } from "../bank/capacitor.js";
 import { cAbs } from "./complex.js";
-import { limitCheck, SQRT3, type LimitCheck, type SpectrumLine } from "./study-types.js";
+import { branchVoltageV } from "./network.js";
+import { limitCheck, type LimitCheck, type SpectrumLine } from "./study-types.js";
 
 /** IEEE Std 18-2012 continuous limits, percent of rating (from memory). */
 export const IEEE18_LIMITS_PCT = { rmsVoltage: 110, peakVoltage: 120, rmsCurrent: 135, reactivePower: 135 } as const;
 
 export interface CapacitorRating {
-  /** Nameplate voltage, line-to-line. */
+  /** Nameplate voltage, line-to-line (single-phase: between its two terminals). */
   ratedVoltageV: number;
-  /** Nameplate 3-phase kvar at rated voltage and frequency (sum of the stage's switched steps). */
+  /** Nameplate kvar (3-phase, or 1-phase on a single-phase system) at rated voltage and frequency (sum of the stage's switched steps). */
   ratedKvar: number;
   ratedFrequencyHz: number;
 }
@@ -17,10 +20,12 @@ export interface CapacitorRating {
 export interface CapacitorDutyInput {
   voltageV: number;
   frequencyHz: number;
+  /** Default 3; 1 works the single capacitor between the two conductors. */
+  phases?: Phases;
   rating: CapacitorRating;
   reactorPct: number;
   reactorQualityFactor?: number;
-  /** Bus harmonic voltages, percent of the fundamental phase voltage, orders ≥ 2. */
+  /** Bus harmonic voltages, percent of the fundamental branch voltage (branchVoltageV), orders ≥ 2. */
   busHarmonics: readonly SpectrumLine[];
 }
 
@@ -36,7 +41,9 @@ export interface CapacitorOrderDuty {
 }
 
 export interface CapacitorDutyCheck {
+  /** Rated voltage across one capacitor of the model: V_r/√3 (wye equivalent), or V_r on single-phase. */
   ratedPhaseV: number;
+  /** Q_r/(√3·V_r) three-phase, Q_r/V_r single-phase: the sizing's capacitorCurrentA. */
   ratedCurrentA: number;
   /** Per order across the capacitor (order 1 included). */
   orders: CapacitorOrderDuty[];
@@ -55,21 +62,24 @@ function quantity(valuePct: number, limitPct: number): DutyQuantity {
 /**
  * Voltage across the capacitor: V_c,1 = V_phase/(1 − p) (fundamental rise with a series reactor) and
  * V_c,h = I_c,h·X_C/h with I_c,h = V_bus,h/|Z_cap(h)|. Peak ratio = Σ V_c,h / V_rated (rms values:
- * every harmonic crest assumed to coincide, worst case, the √2 cancels).
+ * every harmonic crest assumed to coincide, worst case, the √2 cancels). Three-phase: per phase of the wye equivalent,
+ * kvar = 3·V·I; single-phase: the one capacitor between the conductors, kvar = V·I.
  */
 export function capacitorDuty(input: CapacitorDutyInput): CapacitorDutyCheck {
   const { rating, voltageV, reactorPct } = input;
   const qc = capacitorKvarAtSystem(rating.ratedKvar, rating.ratedVoltageV, rating.ratedFrequencyHz, voltageV, input.frequencyHz);
   const branch = capacitorBranch(voltageV, qc, reactorPct, input.reactorQualityFactor ?? DEFAULT_REACTOR_QUALITY_FACTOR);
   const xc = branch.capacitorReactanceOhm;
-  const ratedPhaseV = rating.ratedVoltageV / SQRT3;
-  const ratedCurrentA = (rating.ratedKvar * 1000) / (SQRT3 * rating.ratedVoltageV);
+  const phases = input.phases ?? 3;
+  const ratedPhaseV = branchVoltageV(rating.ratedVoltageV, phases);
+  const ratedCurrentA = capacitorCurrentA(rating.ratedKvar, rating.ratedVoltageV, phases);
+  const busBranchV = branchVoltageV(voltageV, phases);
 
-  const vc1 = voltageV / SQRT3 / (1 - reactorPct / 100);
+  const vc1 = busBranchV / (1 - reactorPct / 100);
   const orders: CapacitorOrderDuty[] = [{ order: 1, voltagePhaseV: vc1, currentA: vc1 / xc }];
   for (const line of input.busHarmonics) {
     const h = line.order;
-    const busPhaseV = (line.pct / 100) * (voltageV / SQRT3);
+    const busPhaseV = (line.pct / 100) * busBranchV;
     const currentA = busPhaseV / cAbs(branchImpedance(branch, h));
     orders.push({ order: h, voltagePhaseV: (currentA * xc) / h, currentA });
   }
@@ -82,7 +92,7 @@ export function capacitorDuty(input: CapacitorDutyInput): CapacitorDutyCheck {
     sumV2 += o.voltagePhaseV ** 2;
     sumV += o.voltagePhaseV;
     sumI2 += o.currentA ** 2;
-    sumKvar += (3 * o.voltagePhaseV * o.currentA) / 1000;
+    sumKvar += (phases * o.voltagePhaseV * o.currentA) / 1000; // 3 capacitors of the wye equivalent, or 1
   }
   const rmsVoltage = quantity((Math.sqrt(sumV2) / ratedPhaseV) * 100, IEEE18_LIMITS_PCT.rmsVoltage);
   const peakVoltage = quantity((sumV / ratedPhaseV) * 100, IEEE18_LIMITS_PCT.peakVoltage);

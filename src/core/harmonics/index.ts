@@ -13,6 +13,7 @@ export {
   sourceImpedanceAt,
   drivingPointImpedance,
   drivingPointImpedanceOhm,
+  branchVoltageV,
   X_OVER_R_UNKNOWN,
 } from "./network.js";
 export type { CapacitorBranch } from "./branch.js";
@@ -22,8 +23,8 @@ export { parallelResonanceOrder, ordersNearResonance, nearHarmonic, withinResona
 export type { ScanOptions, ScanGrid, ResonancePeak, ImpedanceDip, ImpedanceScan } from "./scan.js";
 export { scanImpedance, validateScanOptions, resolveScanGrid, DEFAULT_SCAN, MAX_SCAN_POINTS } from "./scan.js";
 export { sixPulseSpectrum, validateSpectrum, MAX_SPECTRUM_SUM_PCT } from "./spectrum.js";
-export type { HarmonicSourceInput, CombinationMethod, InjectedCurrents } from "./injection.js";
-export { fundamentalCurrentA, sourceSpectrum, injectedCurrents } from "./injection.js";
+export type { HarmonicSourceInput, CombinationMethod, InjectedCurrents, KVABasis, SpectrumBasis, SourceSpectrumUse } from "./injection.js";
+export { fundamentalCurrentA, sourceSpectrum, injectedCurrents, TYPICAL_SIX_PULSE_THD_PCT } from "./injection.js";
 export type { BusDistortion, BusHarmonicLine } from "./distortion.js";
 export { busDistortion, thdPct } from "./distortion.js";
 export type { VoltageDistortionLimits, Ieee519Check } from "./limits.js";

@@ -1,17 +1,22 @@
 /**
- * Per-phase (wye-equivalent) network at the capacitor bus, as seen at harmonic order h:
- * source Z_s(h) ∥ linear-load resistance ∥ capacitor branches.
+ * Network at the capacitor bus, as seen at harmonic order h: source Z_s(h) ∥ linear-load resistance ∥ capacitor
+ * branches. Three-phase: per phase of the wye equivalent. Single-phase: the loop between the two conductors at the
+ * line voltage. Z_base = V²/S_sc, X_C = V²/Q and R = V²/P have the same form in both (V line-to-line, S, Q, P the
+ * system's total three-phase or single-phase figures); only the voltage across a branch and the current per kVA differ.
  */
+import { SQRT3, type Phases } from "../conventions.js";
 import { complex, cParallel, type Complex } from "./complex.js";
 import type { CapacitorBranch } from "./branch.js";
 import { branchImpedance } from "./branch.js";
 
 export interface NetworkInput {
-  /** Bus voltage, line-to-line. */
+  /** Bus voltage, line-to-line (on a single-phase system, the voltage between its two conductors). */
   voltageV: number;
   frequencyHz: number;
-  /** Three-phase short-circuit power at the bus. */
+  /** Short-circuit power at the bus: three-phase, or single-phase on a single-phase system. */
   shortCircuitKVA: number;
+  /** Default 3. */
+  phases?: Phases;
   /** Source X/R at the fundamental; when absent it is estimated from transformerKVA. */
   xOverR?: number;
   transformerKVA?: number;
@@ -34,6 +39,7 @@ export interface SourceImpedance {
 export interface BusModel {
   voltageV: number;
   frequencyHz: number;
+  phases: Phases;
   source: SourceImpedance;
   /** Linear load as a resistance in parallel; null when there is none. */
   loadResistanceOhm: number | null;
@@ -72,10 +78,19 @@ export function loadDampingResistanceOhm(voltageV: number, linearLoadKW?: number
   return (voltageV * voltageV) / (linearLoadKW * 1000);
 }
 
+/**
+ * The fundamental voltage across one branch of the model: V/√3 (line-to-neutral of the wye equivalent) on a
+ * three-phase system, V itself (between the two conductors) on a single-phase one. Harmonic voltages are percent of it.
+ */
+export function branchVoltageV(voltageV: number, phases: Phases = 3): number {
+  return phases === 3 ? voltageV / SQRT3 : voltageV;
+}
+
 export function buildBusModel(network: NetworkInput, branches: readonly CapacitorBranch[] = []): BusModel {
   return {
     voltageV: network.voltageV,
     frequencyHz: network.frequencyHz,
+    phases: network.phases ?? 3,
     source: sourceImpedance(network),
     loadResistanceOhm: loadDampingResistanceOhm(network.voltageV, network.linearLoadKW),
     branches: [...branches],

@@ -8,9 +8,14 @@ import {
   type HarmonicStudyResult,
   type HarmonicSourceInput,
 } from "./index.js";
-import { warning, type InputIssue, type Warning } from "../warnings.js";
+import { IEEE18_LIMITS_PCT } from "./duty.js";
+import { compactList, ieee18Severity, warning, worstSeverity, type InputIssue, type Severity, type Warning } from "../warnings.js";
 
-/** The site's harmonic sources: drives (typical six-pulse spectrum unless measured) and loads with a measured spectrum. */
+/**
+ * The site's harmonic sources: drives (typical six-pulse spectrum unless measured, scaled to the reading's current
+ * THD when it has one) and loads with a measured spectrum. A reading's kVA is rms when the meter gave V·I or kVA, or
+ * when a true PF stood in for the displacement PF; otherwise it is the fundamental triangle's.
+ */
 export function harmonicSourcesOf(input: SizingInput, loads: LoadResult[]): { sources: HarmonicSourceInput[]; loadIndex: number[] } {
   const sources: HarmonicSourceInput[] = [];
   const loadIndex: number[] = [];
@@ -23,6 +28,8 @@ export function harmonicSourcesOf(input: SizingInput, loads: LoadResult[]): { so
       phases: r.phases,
       ...(load.harmonics ? { spectrum: load.harmonics.map((c) => ({ order: c.order, pct: c.pct })) } : {}),
       isDrive: load.kind === "drive",
+      ...(load.measurement.currentTHDPct !== undefined ? { currentTHDPct: load.measurement.currentTHDPct } : {}),
+      kVABasis: r.measuredKVA !== undefined || (load.measurement.pfType === "true" && load.measurement.currentTHDPct === undefined) ? "rms" : "fundamental",
     });
     loadIndex.push(i);
   });
@@ -91,6 +98,7 @@ export function studySiteHarmonics(
     network: {
       voltageV: input.system.voltageV,
       frequencyHz: input.system.frequencyHz,
+      phases: input.system.phases,
       shortCircuitKVA,
       ...(input.transformer?.xOverR !== undefined ? { xOverR: input.transformer.xOverR } : {}),
       ...(input.transformer ? { transformerKVA: input.transformer.kVA } : {}),
@@ -114,14 +122,14 @@ export function studySiteHarmonics(
     return { issues, warnings: [] };
   }
   const study = outcome.result;
-  const warnings = findingsAsWarnings(study.findings.filter((f) => f.code !== "resonance_near_harmonic" || f.bankName === undefined));
+  const warnings = [...findingsAsWarnings(study.findings), ...study.banks.flatMap(dutyWarning)];
   if (study.proposals.length > 0) {
-    for (const p of study.proposals) {
+    for (const [i, p] of study.proposals.entries()) {
       warnings.push(
         warning(
           "detuned_bank_proposed",
           `the ${p.forBank} bank fails the harmonic study (${p.triggeredBy.join(", ")}): a ${p.design.reactorPct} % detuned design (tuning order ${p.design.tuningOrder}, capacitors rated ${p.design.ratedVoltageV} V) is proposed`,
-          `harmonics.proposals`,
+          `harmonics.proposals.${i}`,
         ),
       );
     }
@@ -129,21 +137,91 @@ export function studySiteHarmonics(
   return { study, issues: [], warnings };
 }
 
-/** One warning per failed limit, quantity and bank: the first stage's message, and which other stages fail it too. */
-function findingsAsWarnings(findings: HarmonicStudyResult["findings"]): Warning[] {
-  const groups = new Map<string, HarmonicStudyResult["findings"]>();
+type Finding = HarmonicStudyResult["findings"][number];
+const DUTY_CODES: ReadonlySet<string> = new Set(["capacitor_above_rating", "capacitor_duty_exceeds_limit"]);
+
+/**
+ * One warning per concern: a limit (IEEE 519 THD_v, individual orders, resonance of the bus without capacitors) for
+ * one bank, listing every stage (and order) that fails it. Stage resonances are the bank screen's warning (one per
+ * bank, analyseBank); capacitor duty is dutyWarning's.
+ */
+function findingsAsWarnings(findings: readonly Finding[]): Warning[] {
+  const groups = new Map<string, Finding[]>();
   for (const f of findings) {
-    const key = `${f.code}|${f.bankName ?? ""}|${f.subject}`;
+    if (DUTY_CODES.has(f.code) || (f.code === "resonance_near_harmonic" && f.bankName !== undefined)) continue;
+    const key = `${f.code}|${f.bankName ?? ""}`;
     const g = groups.get(key);
     if (g) g.push(f);
     else groups.set(key, [f]);
   }
   return [...groups.values()].map((g) => {
     const first = g[0]!;
-    const others = [...new Set(g.slice(1).map((f) => f.stageNumber).filter((n) => n !== undefined && n !== first.stageNumber))];
-    const message = others.length > 0 ? `${first.message}; also at stage${others.length > 1 ? "s" : ""} ${others.join(", ")}` : first.message;
-    return warning(first.code, message, first.bankName ? `${first.bankName}Bank` : "harmonics");
+    const stages = [...new Set(g.map((f) => f.stageNumber).filter((n): n is number => n !== undefined))];
+    const subjects = [...new Set(g.map((f) => f.subject))];
+    const extra: string[] = [];
+    if (subjects.length > 1) extra.push(`${subjects.join(", ")} in all`);
+    if (stages.length > 1) extra.push(`at stages ${compactList(stages)}`);
+    const message = extra.length > 0 ? `${first.message}; ${extra.join(", ")}` : first.message;
+    // A limit broken with the bank in is the design's error; the bus without capacitors is the site as it is.
+    const severity: Severity = first.bankName === undefined || first.code === "resonance_near_harmonic" ? "warning" : "error";
+    const covered = stages.length > 0 ? stages.map((n) => `stage ${n}`) : subjects;
+    return warning(first.code, message, first.bankName ? `${first.bankName}Bank` : "harmonics", { severity, subjects: covered });
   });
+}
+
+const DUTY_LABELS: readonly [keyof typeof IEEE18_LIMITS_PCT, string][] = [
+  ["rmsVoltage", "rms voltage"],
+  ["peakVoltage", "peak voltage"],
+  ["rmsCurrent", "rms current"],
+  ["reactivePower", "kvar"],
+];
+
+/**
+ * One warning per bank for its capacitor duty (IEEE Std 18): every quantity above 100 % of rating, its worst stage
+ * and the stages above rating. Severity per ieee18Severity: above 100 % info, past half the allowance a warning,
+ * above the limit an error (then the code is capacitor_duty_exceeds_limit).
+ */
+function dutyWarning(bank: HarmonicStudyResult["banks"][number]): Warning[] {
+  const parts: string[] = [];
+  const severities: Severity[] = [];
+  const stagesAbove = new Set<number>();
+  for (const [key, label] of DUTY_LABELS) {
+    const over = bank.stages.filter((st) => st.duty[key].valuePct > 100);
+    if (over.length === 0) continue;
+    const worst = over.reduce((a, b) => (b.duty[key].valuePct > a.duty[key].valuePct ? b : a));
+    const q = worst.duty[key];
+    severities.push(ieee18Severity(q.valuePct, q.limitPct) ?? "info");
+    over.forEach((st) => stagesAbove.add(st.stageNumber));
+    const at = over.length === 1 ? `stage ${over[0]!.stageNumber}` : `stages ${compactList(over.map((st) => st.stageNumber))}, worst stage ${worst.stageNumber}`;
+    parts.push(`${label} ${q.valuePct.toFixed(1)} % of rating (IEEE 18 limit ${q.limitPct} %; ${at})`);
+  }
+  if (parts.length === 0) return [];
+  const severity = worstSeverity(severities);
+  const code = severity === "error" ? "capacitor_duty_exceeds_limit" : "capacitor_above_rating";
+  const tail =
+    severity === "error"
+      ? "above the IEEE 18 limit: the capacitors as chosen are not fit for this bus"
+      : "within the IEEE 18 limits, which are for contingencies, not a design basis";
+  return [
+    warning(code, `bank "${bank.name}": capacitor ${parts.join("; ")}: ${tail}`, `${bank.name}Bank`, {
+      severity,
+      subjects: [...stagesAbove].sort((a, b) => a - b).map((n) => `stage ${n}`),
+    }),
+  ];
+}
+
+/**
+ * The bank screen's fundamental-voltage warning (capacitor_above_rated_voltage / capacitor_overvoltage) and the
+ * study's duty warning are one concern when the study covered the bank: its rms voltage includes the fundamental.
+ * Keeps the study's, which also weighs the harmonics.
+ */
+export function withoutScreenVoltageRepeats(screen: readonly Warning[], study: readonly Warning[]): Warning[] {
+  // The study's rms voltage is √(V₁² + ΣV_h²) with V₁ = U/(1 − p), the screen's figure: whenever the screen warns,
+  // the study's warning for that bank exists and names the rms voltage.
+  const studied = new Set(study.filter((w) => DUTY_CODES.has(w.code)).map((w) => w.path));
+  return screen.filter(
+    (w) => !((w.code === "capacitor_above_rated_voltage" || w.code === "capacitor_overvoltage") && studied.has(w.path?.replace(/\.ratedVoltageV$/, ""))),
+  );
 }
 
 type Stage = HarmonicStudyResult["banks"][number]["stages"][number];

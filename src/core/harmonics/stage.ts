@@ -139,6 +139,7 @@ export function studyBank(ctx: StudyContext, bank: CapacitorBankInput): BankStud
     const duty = capacitorDuty({
       voltageV,
       frequencyHz,
+      phases: ctx.model.phases,
       rating: { ratedVoltageV: bank.ratedVoltageV, ratedKvar: nameplateKvar, ratedFrequencyHz },
       reactorPct: bank.reactorPct,
       reactorQualityFactor: ctx.reactorQualityFactor,

@@ -8,7 +8,7 @@ import {
   type DetunedDesign,
   type KvarRounding,
 } from "./detuned.js";
-import { injectedCurrents, type CombinationMethod, type HarmonicSourceInput } from "./injection.js";
+import { injectedCurrents, type CombinationMethod, type HarmonicSourceInput, type SourceSpectrumUse } from "./injection.js";
 import { buildBusModel, type NetworkInput, type SourceImpedance } from "./network.js";
 import { RESONANCE_BAND_PCT } from "./resonance.js";
 import type { ScanOptions } from "./scan.js";
@@ -62,6 +62,8 @@ export interface HarmonicStudyResult {
   source: SourceImpedance;
   loadResistanceOhm: number | null;
   presentOrders: number[];
+  /** Which spectrum and fundamental current each harmonic source was given. */
+  sources: SourceSpectrumUse[];
   thirdHarmonicSignificant: boolean;
   withoutCapacitors: BusStudy;
   banks: BankStudy[];
@@ -84,7 +86,7 @@ function computeStudy(input: HarmonicStudyInput): HarmonicStudyResult {
   const { network } = input;
   const model = buildBusModel(network);
   const background = input.backgroundDistortion ?? [];
-  const currents = injectedCurrents(input.sources, network.voltageV, o.combination ?? "arithmetic");
+  const currents = injectedCurrents(input.sources, network.voltageV, o.combination ?? "arithmetic", model.phases);
   const presentOrders = [...new Set([...currents.orders, ...background.filter((l) => l.pct > 0).map((l) => l.order)])].sort((a, b) => a - b);
   const ctx: StudyContext = {
     network,
@@ -113,6 +115,7 @@ function computeStudy(input: HarmonicStudyInput): HarmonicStudyResult {
     source: model.source,
     loadResistanceOhm: model.loadResistanceOhm,
     presentOrders,
+    sources: currents.sources,
     thirdHarmonicSignificant,
     withoutCapacitors,
     banks,
@@ -173,8 +176,11 @@ function assumptions(source: SourceImpedance, ctx: StudyContext, o: HarmonicStud
       : source.xOverRBasis === "transformer_rule_of_thumb"
         ? `source X/R ${source.xOverR} estimated from transformer size (rule of thumb from typical transformer data, no standard)`
         : `source X/R unknown: ${source.xOverR} assumed (high end, little damping: conservative)`;
+  const singlePhase = ctx.model.phases === 1;
   return [
-    "Per-phase wye-equivalent, balanced positive-sequence model; triplen (zero-sequence) paths are not modelled separately.",
+    singlePhase
+      ? "Single-phase model: source, capacitor and load impedances seen between the two conductors at the line voltage (Z_base = V²/S_sc with S_sc the single-phase short-circuit kVA); currents S/V; capacitor rated current Q/V."
+      : "Per-phase wye-equivalent, balanced positive-sequence model; triplen (zero-sequence) paths are not modelled separately.",
     "Source impedance Z_s(h) = R_s + j·h·X_s from the short-circuit kVA; R held constant with h (less damping than reality: conservative).",
     xr,
     ctx.model.loadResistanceOhm === null
@@ -182,11 +188,11 @@ function assumptions(source: SourceImpedance, ctx: StudyContext, o: HarmonicStud
       : `Linear load modelled as a parallel resistance V²/P = ${ctx.model.loadResistanceOhm.toPrecision(4)} Ω.`,
     `Capacitor stage: Z(h) = R_r + j(h·p·X_C − X_C/h); reactor X/R ${ctx.reactorQualityFactor}, R held constant with h.`,
     "Stages are cumulative: steps switch in in the order given; each bank is studied alone on the bus.",
-    "Drives without a measured spectrum: ideal six-pulse spectrum I_h = I_1/h at 6k ± 1 (textbook; measured spectra are better).",
+    "Drives without a measured spectrum: the ideal six-pulse shape I_h = I_1/h at 6k ± 1 (textbook), scaled to the measured current THD when one is given; an rms (V·I or kVA) reading's fundamental is I_rms/√(1 + THD_i²).",
     o.combination === "rss"
       ? "Same-order currents of several sources combined as the square root of the sum of squares (random phase)."
       : "Same-order currents of several sources added arithmetically (all in phase: worst case).",
-    "Single-phase sources are taken as line-to-neutral loads, all on one phase (upper bound).",
+    ...(singlePhase ? [] : ["Single-phase sources are taken as line-to-neutral loads, all on one phase (upper bound)."]),
     "Background voltage distortion is added arithmetically per order and is not itself amplified by the bank.",
     "Bus fundamental voltage taken at nominal; IEEE 519 limits applied at the capacitor bus as if it were the PCC.",
     "Capacitor peak voltage: rms harmonic voltages added arithmetically (all crests coincide: worst case).",

@@ -1,7 +1,7 @@
 /** Non-throwing validation of a harmonic-study input: every problem as an issue with its path. */
 import type { HarmonicStudyInput } from "./study.js";
 import { validateScanOptions } from "./scan.js";
-import { validateSpectrum } from "./spectrum.js";
+import { MAX_SPECTRUM_SUM_PCT, validateSpectrum } from "./spectrum.js";
 import type { Issue } from "./study-types.js";
 
 /** A reactor at or beyond half of X_C is no longer a detuning reactor; the model stops making sense. */
@@ -26,11 +26,14 @@ export function validateHarmonicStudyInput(input: HarmonicStudyInput): Issue[] {
   positive(issues, "network.xOverR", n.xOverR, true);
   positive(issues, "network.transformerKVA", n.transformerKVA, true);
   nonNegative(issues, "network.linearLoadKW", n.linearLoadKW, true);
+  if (n.phases !== undefined && n.phases !== 1 && n.phases !== 3) issues.push({ path: "network.phases", message: "must be 1 or 3" });
 
   input.sources.forEach((s, i) => {
     const at = `sources[${i}]`;
     nonNegative(issues, `${at}.kVA`, s.kVA);
     if (s.phases !== 1 && s.phases !== 3) issues.push({ path: `${at}.phases`, message: "must be 1 or 3" });
+    if (s.currentTHDPct !== undefined && !(Number.isFinite(s.currentTHDPct) && s.currentTHDPct >= 0 && s.currentTHDPct <= MAX_SPECTRUM_SUM_PCT))
+      issues.push({ path: `${at}.currentTHDPct`, message: `must be a number from 0 to ${MAX_SPECTRUM_SUM_PCT}` });
     if (s.spectrum) issues.push(...validateSpectrum(s.spectrum, `${at}.spectrum`));
     else if (!s.isDrive) issues.push({ path: `${at}.spectrum`, message: "a source that is not a drive needs a measured spectrum" });
   });

@@ -13,7 +13,7 @@ import {
 import { shortCircuitAtBus } from "../harmonics/short-circuit.js";
 import { siteEconomics } from "../economics/of-sizing.js";
 import type { EconomicsResult } from "../economics/index.js";
-import { compactStudy, studySiteHarmonics, type SizingHarmonics } from "../harmonics/site-study.js";
+import { compactStudy, studySiteHarmonics, withoutScreenVoltageRepeats, type SizingHarmonics } from "../harmonics/site-study.js";
 import type { HarmonicStudyOptions, HarmonicStudyResult } from "../harmonics/index.js";
 import { evaluateSite, type LoadResult, type SiteResult } from "../readings/site-totals.js";
 import { ENGINE_VERSION } from "./engine-version.js";
@@ -29,7 +29,10 @@ export interface ResonanceSummary {
   /** kVA of drive loads (the nonlinear load the screen counts). */
   nonlinearKVA: number;
   nonlinearSharePct: number | null;
+  /** True when the nonlinear share calls for a study or the study changed the design (a detuned proposal). */
   harmonicStudyAdvised: boolean;
+  /** Why the study is advised, in plain words; empty when it is not. */
+  harmonicStudyReasons: string[];
   /** Voltage rise when the whole recommended bank switches in, percent. */
   recommendedBankVoltageRisePct: number | null;
   proposedBankVoltageRisePct: number | null;
@@ -134,6 +137,9 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       nonlinearKVA,
       nonlinearSharePct: share === null ? null : share * 100,
       harmonicStudyAdvised: advised,
+      harmonicStudyReasons: advised
+        ? [`nonlinear (drive) load is ${((share as number) * 100).toFixed(0)} % of the transformer kVA, above ${NONLINEAR_STUDY_SHARE * 100} % (makers' rule of thumb)`]
+        : [],
       recommendedBankVoltageRisePct: recommendedBank ? voltageRisePct(recommendedBank.effectiveKvar, sc.shortCircuitKVA) : null,
       proposedBankVoltageRisePct: proposedBank ? voltageRisePct(proposedBank.effectiveKvar, sc.shortCircuitKVA) : null,
     };
@@ -149,7 +155,13 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
 
   const h = studySiteHarmonics(input, loads, sc?.shortCircuitKVA ?? null, { recommended: recommendedBank ? { ...recommendedBank, steps: designed.screenSteps } : null, proposed: proposedBank }, options.harmonics, options.forceHarmonicStudy);
   if (h.issues.length > 0) return { ok: false, issues: h.issues };
-  warnings.push(...h.warnings);
+  warnings.splice(0, warnings.length, ...withoutScreenVoltageRepeats(warnings, h.warnings), ...h.warnings);
+  // The study changed the design: then it is advised whatever the nonlinear share, and the result says why.
+  if (resonance && h.study && h.study.proposals.length > 0) {
+    resonance.harmonicStudyAdvised = true;
+    for (const p of h.study.proposals)
+      resonance.harmonicStudyReasons.push(`the study proposes a ${p.design.reactorPct} % detuned ${p.forBank} bank (${p.triggeredBy.join(", ")})`);
+  }
 
   const econ = input.economics
     ? siteEconomics(

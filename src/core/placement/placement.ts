@@ -3,7 +3,7 @@ import { tanPhi } from "../conventions.js";
 import { capacitorCurrentA, kvarAtVoltage } from "../bank/capacitor.js";
 import { CONDUCTOR_AMPACITY_FACTOR, terminalCapacitorConductorMinA } from "../bank/protection.js";
 import { STANDARD_UNIT_KVAR } from "../bank/standard-sizes.js";
-import { warning, type Warning } from "../warnings.js";
+import { mergeBySubject, warning, type Warning } from "../warnings.js";
 import {
   largestSizeAtMost,
   motorLineCurrentA,
@@ -49,16 +49,17 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
     const q = l.quantity ?? 1;
     const unitKW = l.kW / q;
     const safety = terminalSafety(l);
-    if (safety.code) warnings.push(warning(safety.code, `${l.label}: ${safety.reason}`, `${prefix}.${i}`));
+    const about = { subjects: [l.label] };
+    if (safety.code) warnings.push(warning(safety.code, `${l.label}: ${safety.reason}`, `${prefix}.${i}`, about));
     if (!safety.safe && l.kind === "motor" && l.starting === undefined && unitKW >= minKW) {
-      warnings.push(warning("starting_method_needed", `${l.label}: state how the motor is started (starting) to know whether a terminal capacitor is safe`, `${prefix}.${i}.starting`));
+      warnings.push(warning("starting_method_needed", `${l.label}: state how the motor is started (starting) to know whether a terminal capacitor is safe`, `${prefix}.${i}.starting`, about));
     }
     if (!safety.safe) return void (p.reason = safety.reason);
     if (unitKW < minKW) return void (p.reason = `${unitKW.toFixed(1)} kW per motor is below the ${minKW} kW worth a terminal capacitor (common practice)`);
     if (l.continuousDuty === false) return void (p.reason = "runs intermittently: a terminal capacitor would idle; corrected upstream");
     if (l.noLoadAmps === undefined) {
       const msg = `${l.label}: to size a terminal capacitor, measure the motor's no-load current uncoupled from its load at rated voltage (or take it from the maker's data) and give noLoadAmps`;
-      warnings.push(warning("no_load_current_needed", msg, `${prefix}.${i}.noLoadAmps`));
+      warnings.push(warning("no_load_current_needed", msg, `${prefix}.${i}.noLoadAmps`, about));
       return void (p.reason = `no-load current not given, so the self-excitation limit is unknown (${SELF_EXCITATION_SOURCE})`);
     }
     // Q_max at the voltage the motor runs at (the reading's volts when given); units are standard sizes at their
@@ -209,7 +210,7 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
     // A balanced bank puts a third of its kvar on each phase; the single-phase need sits on one or two (common practice, no source).
     warnings.push(warning("single_phase_on_three_phase_bank", `single-phase loads corrected by a balanced three-phase bank: ${list}; the bank spreads its kvar over three phases while their need sits on one or two, so the phases are corrected unevenly — if they are large, correct them at their terminals or spread them across the phases`, prefix));
   }
-  return { loads: out, locations, totalKvar, siteRequiredKvar: required, differenceKvar, balanceNote, notes, warnings };
+  return { loads: out, locations, totalKvar, siteRequiredKvar: required, differenceKvar, balanceNote, notes, warnings: mergeBySubject(warnings, prefix) };
 }
 
 function conductorNoteText(ratedA: number, motorConductorAmpacityA: number | undefined): string {

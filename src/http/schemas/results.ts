@@ -11,7 +11,13 @@ const triangle = {
   sense,
 };
 
-export const warningSchema = z.object({ code: z.string(), message: z.string(), path: z.string().optional() });
+export const warningSchema = z.object({
+  code: z.string(),
+  message: z.string(),
+  severity: z.enum(["info", "warning", "error"]).describe("info: worth knowing; warning: look before ordering; error: a standard's limit broken by the design"),
+  path: z.string().optional(),
+  subjects: z.array(z.string()).optional().describe("the stages or loads this one concern covers"),
+});
 export const cautionSchema = z.object({ code: z.string(), title: z.string(), text: z.string(), reference: z.string().optional() });
 
 export const loadResultSchema = z.object({
@@ -159,6 +165,7 @@ export const resonanceSchema = z.object({
   nonlinearKVA: z.number(),
   nonlinearSharePct: z.number().nullable(),
   harmonicStudyAdvised: z.boolean(),
+  harmonicStudyReasons: z.array(z.string()).describe("why the study is advised; a detuned proposal always is a reason"),
   recommendedBankVoltageRisePct: z.number().nullable(),
   proposedBankVoltageRisePct: z.number().nullable(),
 });
@@ -279,6 +286,18 @@ function studySchema(compact: boolean) {
     source: z.object({ baseImpedanceOhm: z.number(), resistanceOhm: z.number(), reactanceOhm: z.number(), xOverR: z.number(), xOverRBasis: z.string() }),
     loadResistanceOhm: z.number().nullable(),
     presentOrders: z.array(z.number()),
+    sources: z
+      .array(
+        z.object({
+          label: z.string(),
+          spectrumBasis: z.enum(["measured_spectrum", "typical_six_pulse_scaled_to_measured_thd", "typical_six_pulse"]),
+          currentTHDPct: z.number(),
+          kVABasis: z.enum(["rms", "fundamental"]),
+          fundamentalA: z.number(),
+          note: z.string(),
+        }),
+      )
+      .describe("which spectrum and fundamental current each harmonic source was given"),
     thirdHarmonicSignificant: z.boolean(),
     withoutCapacitors: z.object(busStudy(fullLine)),
     banks: z.array(bank),

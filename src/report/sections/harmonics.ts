@@ -115,7 +115,11 @@ export function harmonicsSection(input: ReportInput): Section {
       { key: "Transformer alone / utility", value: `${r.transformerShortCircuitKVA === null ? "n/a" : fmt.kva0(r.transformerShortCircuitKVA)} kVA / ${r.utilityShortCircuitKVA === null ? "infinite" : `${fmt.kva0(r.utilityShortCircuitKVA)} kVA`}` },
       { key: "Harmonic orders of the site's sources", value: r.harmonicOrdersPresent.length > 0 ? r.harmonicOrdersPresent.join(", ") : "none declared" },
       { key: "Nonlinear (drive) load", value: `${fmt.power(r.nonlinearKVA)} kVA${r.nonlinearSharePct === null ? "" : ` (${fmt.pct(r.nonlinearSharePct)} % of the transformer)`}` },
-      { key: "Harmonic study advised (above 15 %, rule of thumb)", value: fmt.yesNo(r.harmonicStudyAdvised) },
+      {
+        key: "Harmonic study advised",
+        // Revisions stored before the reasons were kept have none: the flag alone is shown.
+        value: r.harmonicStudyAdvised && (r.harmonicStudyReasons ?? []).length > 0 ? `yes: ${r.harmonicStudyReasons.join("; ")}` : fmt.yesNo(r.harmonicStudyAdvised),
+      },
       { key: "Voltage rise, whole bank (recommended / proposed)", value: `${fmt.pct2(r.recommendedBankVoltageRisePct)} / ${fmt.pct2(r.proposedBankVoltageRisePct)} %` },
     ],
   });

@@ -22,18 +22,23 @@ export function warningsSection(input: ReportInput): Section {
   const ws = allWarnings(input);
   if (ws.length === 0) return { id: "warnings", heading: "Warnings", blocks: [{ kind: "paragraph", text: "No warnings: the readings and banks raised no findings." }] };
   const counts = new Map<string, number>();
-  for (const w of ws) counts.set(w.code, (counts.get(w.code) ?? 0) + 1);
-  const summary = [...counts].map(([code, n]) => `${code} × ${n}`).join(", ");
+  for (const w of ws) counts.set(w.severity ?? "warning", (counts.get(w.severity ?? "warning") ?? 0) + 1);
+  const summary = (["error", "warning", "info"] as const).filter((s) => counts.has(s)).map((s) => `${{ error: "errors", warning: "warnings", info: "information" }[s]} ${counts.get(s)}`).join(", ");
   return {
     id: "warnings",
     heading: "Warnings",
     blocks: [
-      { kind: "paragraph", text: `${ws.length} warning(s): ${summary}.` },
+      { kind: "paragraph", text: `${ws.length} finding(s), one per concern: ${summary}.` },
       {
         kind: "table",
-        header: ["Code", "Message", "Where"],
-        align: ["left", "left", "left"],
-        rows: ws.map((w) => [w.code, w.message, w.path ? `${w.from}: ${w.path}` : w.from]),
+        header: ["Severity", "Code", "Message", "Where"],
+        align: ["left", "left", "left", "left"],
+        rows: ws.map((w) => [
+          w.severity ?? "warning",
+          w.code,
+          w.message,
+          `${w.path ? `${w.from}: ${w.path}` : w.from}${w.subjects && w.subjects.length > 0 ? ` (${w.subjects.join(", ")})` : ""}`,
+        ]),
       },
     ],
   };

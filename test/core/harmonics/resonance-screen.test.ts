@@ -114,7 +114,7 @@ describe("resonance screen in size()", () => {
     expectClose(stage?.resonanceHz, 422.9, TOL.frequencyHz, "resonance Hz");
     expect(stage?.nearHarmonic).toBe(7);
     const flagged = r.warnings.filter((w) => w.code === "resonance_near_harmonic" && w.path?.startsWith("proposedBank"));
-    expect(flagged.map((w) => w.path)).toEqual(["proposedBank.steps.0"]);
+    expect(flagged.map((w) => [w.path, w.subjects])).toEqual([["proposedBank.steps", ["stage 1"]]]);
     expectClose(stage?.voltageRisePct, 2.0125, TOL.pct, "stage voltage rise (hand: 350/17 391.3)");
     expectClose(r.resonance?.proposedBankVoltageRisePct, 2.0125, TOL.pct, "bank voltage rise");
     expectClose(r.resonance?.shortCircuitKVA, 17_391, TOL.shortCircuitKVARounded, "S_sc in summary");
@@ -131,10 +131,10 @@ describe("resonance screen in size()", () => {
     expectClose(stages[2]?.resonanceOrder, 7.05, TOL.order, "stage 3 h");
     expect(stages.map((s) => s.nearHarmonic)).toEqual([13, null, 7]);
     const flagged = r.warnings.filter((w) => w.code === "resonance_near_harmonic" && w.path?.startsWith("proposedBank"));
-    expect(flagged.map((w) => w.path)).toEqual([
-      "proposedBank.steps.0",
-      "proposedBank.steps.2",
-    ]);
+    // One concern, one warning: both resonant stages listed in it, each with its order and harmonic.
+    expect(flagged.map((w) => [w.path, w.subjects])).toEqual([["proposedBank.steps", ["stage 1", "stage 3"]]]);
+    expect(flagged[0]!.message).toMatch(/^stages 1, 3 resonate .* 7th and 13th harmonics/);
+    expect(flagged[0]!.message).toContain("stage 1 (100.0 kvar) at 13.19; stage 3 (350.0 kvar) at 7.05");
   });
 
   it("the same bank with only motors (no harmonic source) is not flagged", () => {
@@ -182,7 +182,10 @@ describe("resonance screen in size()", () => {
     const at15: LoadInput = { label: "VFD", kind: "drive", measurement: { method: "kw_kva", kW: 200, kVA: 225 } };
     const r = run(supplyCase([MOTOR, at15], [50]));
     expectClose(r.resonance?.nonlinearSharePct, 15, TOL.pct, "share");
-    expect(r.resonance?.harmonicStudyAdvised).toBe(false);
+    expect(codes(r)).not.toContain("harmonic_study_advised");
+    // The share rule does not fire; the flag is still true when the study changed the design, and says so.
+    expect(r.resonance?.harmonicStudyReasons.some((x) => /nonlinear/.test(x))).toBe(false);
+    expect(r.resonance?.harmonicStudyAdvised).toBe((r.harmonics?.proposals.length ?? 0) > 0);
   });
 
   it("harmonic sources without any supply data → resonance_not_screened", () => {

@@ -81,13 +81,14 @@ describe("placement plan", () => {
     expectClose(plan.locations[1]?.kvar, required - 25, TOL.power, "central kvar");
     expectClose(plan.totalKvar, required, TOL.power, "total");
     expect(plan.differenceKvar).toBe(0);
-    expect(plan.warnings.map((w) => [w.code, w.path])).toEqual([
-      ["no_terminal_capacitor_starting", "loads.1"],
-      ["no_terminal_capacitor_starting", "loads.2"],
-      ["no_load_current_needed", "loads.3.noLoadAmps"],
-      ["no_terminal_capacitor_drive", "loads.4"],
+    // One warning per concern: the two loads whose starting rules out a terminal capacitor share one, listing both.
+    expect(plan.warnings.map((w) => [w.code, w.path, w.subjects])).toEqual([
+      ["no_terminal_capacitor_starting", "loads", ["Conveyor", "Pumps"]],
+      ["no_load_current_needed", "loads.3.noLoadAmps", ["Fan"]],
+      ["no_terminal_capacitor_drive", "loads.4", ["Line drive"]],
     ]);
-    expect(plan.warnings[2]?.message).toMatch(/no-load current uncoupled.*maker's data/);
+    expect(plan.warnings[0]?.message).toMatch(/^Conveyor: .*; Pumps: /);
+    expect(plan.warnings[1]?.message).toMatch(/no-load current uncoupled.*maker's data/);
     // hand calculation: the central loads need 12.92 (compressor's rest) + 15.14 + 30.42 + 10.77 = 69.25 kvar; the drive's
     // and lighting's margins (16.16 + 18.15 = 34.30) bring it to 34.94: said in a note
     expect(plan.notes.some((n) => n.includes("69.2 kvar its loads need"))).toBe(true);
