@@ -15,6 +15,8 @@ const nb = readJson(NEW_BUILDING_STORE, null) ?? { values: {}, idem: newKey() };
 const saveNb = () => writeJson(NEW_BUILDING_STORE, nb);
 let creating = false;
 
+const TARIFF_NAMES = Object.fromEntries(BUILDING_SECTIONS.flatMap((s) => s.fields).find((d) => d.path === "economics.tariff.form").options);
+
 export const buildingById = (id) => buildings.list.find((b) => b.id === id) ?? null;
 
 export function describeBuilding(b) {
@@ -22,7 +24,7 @@ export function describeBuilding(b) {
   const s = b.system;
   const parts = [`${s.voltageV} V, ${s.frequencyHz} Hz, ${s.phases === 1 ? "single" : "three"}-phase`];
   parts.push(b.transformer ? `transformer ${b.transformer.kVA} kVA at ${b.transformer.impedancePct} %` : "no transformer data (no resonance screen)");
-  if (b.economics) parts.push(`tariff: ${b.economics.tariff.form.replaceAll("_", " ")}`);
+  if (b.economics) parts.push(`tariff: ${TARIFF_NAMES[b.economics.tariff.form] ?? b.economics.tariff.form}`);
   return parts.join(" · ");
 }
 

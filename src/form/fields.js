@@ -151,12 +151,12 @@ export const SURVEY_FIELDS = [
 export function surveyExtraFields(values) {
   return [
     { title: "Service entrance reading", fields: [
-      { path: "serviceEntrance.label", label: "Where (optional)", check: (r) => (String(r).length > 200 ? "label must be at most 200 characters" : "") },
       ...readingFields("serviceEntrance.measurement", values["serviceEntrance.measurement.method"], { optional: true }),
+      { path: "serviceEntrance.label", label: "Where (optional)", when: (v) => !!v["serviceEntrance.measurement.method"], check: (r) => (String(r).length > 200 ? "label must be at most 200 characters" : "") },
     ] },
     { title: "Light-load reading at the main", fields: [
-      { path: "lightLoad.label", label: "When (optional)", check: (r) => (String(r).length > 200 ? "label must be at most 200 characters" : "") },
       ...readingFields("lightLoad.measurement", values["lightLoad.measurement.method"], { optional: true }),
+      { path: "lightLoad.label", label: "When (optional)", when: (v) => !!v["lightLoad.measurement.method"], check: (r) => (String(r).length > 200 ? "label must be at most 200 characters" : "") },
     ] },
     { title: "Controller CT", fields: [
       { path: "bankDesign.ctRatio", label: "CT ratio (e.g. 1000/5)", check: ctRatio, placeholder: "1000/5", parse: ctRatioOf },

@@ -266,6 +266,33 @@ describe.skipIf(!hasChromium)("survey page on a plain-HTTP LAN origin", () => {
     expect(await num("#t-kw")).toBeCloseTo(hand.kW, 1);
   });
 
+  it("takes the main's readings, the CT ratio and a load's details, and sizes from the main as the service does", async () => {
+    await page.click("#extra-serviceEntrance >> xpath=.. >> summary");
+    await page.selectOption("#se-method", "kw_kvar");
+    await page.fill("#se-label", "Main switchboard");
+    await page.fill("#se-kW", "80");
+    await page.fill("#se-kvar", "50");
+    await page.click("#extra-lightLoad >> xpath=.. >> summary");
+    await page.selectOption("#ll-method", "kw_pf");
+    await page.fill("#ll-kW", "20");
+    await page.fill("#ll-pf", "0.9");
+    await page.click("#extra-bankDesign >> xpath=.. >> summary");
+    await page.fill("#ctRatio", "1000/5");
+    expect(await page.locator("#se-row").isVisible()).toBe(true);
+    expect(await num("#se-kw")).toBeCloseTo(80, 6);
+    // 50 − 80·tan(acos 0.95) = 50 − 80 × 0.3286841 = 23.7053 kvar, from the main's reading, not the loads' sum.
+    expect(await num("#t-need")).toBeCloseTo(23.7053, 2);
+    expect(await page.locator("#t-basis").textContent()).toContain("main");
+
+    await page.click("#loads > li:nth-child(1) details.fold > summary");
+    await page.selectOption("#l0-starting", "star_delta");
+    await page.check("#l0-separateCapacitorContactor");
+    await page.fill("#l0-noLoadAmps", "14");
+    await page.fill("#l0-group", "MCC-1");
+    await page.check("#l0-continuousDuty");
+    await page.fill("#l0-harmonics", "5:30, 7:12");
+  });
+
   it("submits: success in the success style, the verdict from the stored result, the report, the trend; a second tap stores nothing", async () => {
     await page.click("#submit");
     await expect.poll(() => page.locator("#submit-msg").textContent()).toBe("Sent and stored.");
@@ -275,8 +302,17 @@ describe.skipIf(!hasChromium)("survey page on a plain-HTTP LAN origin", () => {
     expect(list.body.items).toHaveLength(1);
     const survey = (await api.get(`/v1/surveys/${list.body.items[0].id}`)).body;
     expect(survey.inputs.loads.map((l: { measurement: { method: string } }) => l.measurement.method)).toEqual(["kw_pf", "v_i_pf", "kw_kva"]);
-    expect(survey.result.site.kW).toBeCloseTo(hand.kW, 6);
+    expect(survey.result.site.sumOfLoads.kW).toBeCloseTo(hand.kW, 6);
     expect(survey.result.resonance).toBeDefined(); // the building's transformer gives the resonance screen
+    expect(survey.inputs.serviceEntrance).toEqual({ label: "Main switchboard", measurement: { method: "kw_kvar", kW: 80, kvar: 50, pfType: "displacement" } });
+    expect(survey.inputs.lightLoad).toEqual({ measurement: { method: "kw_pf", kW: 20, pf: 0.9, sense: "lagging", pfType: "displacement" } });
+    expect(survey.inputs.bankDesign).toEqual({ ctRatio: 200 });
+    expect(survey.result.site.basis).toBe("service_entrance");
+    expect(survey.result.correction.kvarRequired).toBeCloseTo(23.7053, 3);
+    expect(survey.inputs.loads[0]).toMatchObject({
+      starting: "star_delta", separateCapacitorContactor: true, noLoadAmps: 14, group: "MCC-1", continuousDuty: true,
+      harmonics: [{ order: 5, pct: 30 }, { order: 7, pct: 12 }],
+    });
 
     const bank = survey.result.recommendedBank;
     expect(bank).not.toBeNull();
