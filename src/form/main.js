@@ -4,7 +4,7 @@
 import { apiKey, onReachability, probe, problemText, setApiKey } from "./api.js";
 import { buildingById, createBuilding, describeBuilding, loadBuildings, onNewBuildingEdit, renderBuildings, renderNewBuilding } from "./building.js";
 import { $, placeErrors, say, setMsg } from "./dom.js";
-import { freshDraft, loadDraft, newKey, saveDraft } from "./drafts.js";
+import { changed, freshDraft, loadDraft, newKey, saveDraft } from "./drafts.js";
 import { enqueue, flush, readQueue, sending } from "./queue.js";
 import { lastSurvey, saveReport, showResult, showTrend } from "./result.js";
 import { renderOfflineNote, renderQueue, renderReach } from "./status.js";
@@ -104,8 +104,10 @@ async function submit() {
 // ---------- wiring ----------
 
 function selectBuilding(id) {
+  const other = id !== state.draft.buildingId;
   state.draft.buildingId = id;
-  saveDraft(state.draft);
+  if (other) changed(state.draft); // another building: a stored draft becomes a new survey
+  else saveDraft(state.draft);
   renderBuildings(id);
   updateFigures();
 }
