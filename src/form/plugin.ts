@@ -10,7 +10,7 @@ import type { FastifyInstance } from "fastify";
  * the key it asks for is sent only on its /v1 calls.
  */
 export const FORM_CSP =
-  "default-src 'none'; script-src 'self'; style-src 'self'; connect-src 'self'; img-src 'self'; manifest-src 'self'; worker-src 'self'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'";
+  "default-src 'none'; script-src 'self'; style-src 'self'; connect-src 'self'; img-src 'self'; worker-src 'self'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'";
 
 const TYPES: Record<string, string> = {
   ".html": "text/html; charset=utf-8",
