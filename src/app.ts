@@ -43,6 +43,8 @@ export interface AppOptions {
    * Default: one dedicated line on stdout — the only place a key is ever written; never the request log.
    */
   onGeneratedKey?: (key: string) => void;
+  /** PEM certificate and key: the app serves HTTPS (src/server.ts reads them from TLS_CERT_PATH / TLS_KEY_PATH). */
+  https?: { cert: Buffer; key: Buffer };
 }
 
 const printKey = (key: string) =>
@@ -72,6 +74,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
 async function assemble(options: AppOptions, store: Store): Promise<FastifyInstance> {
   const { config } = options;
   const app = Fastify({
+    ...(options.https ? { https: options.https } : {}),
     logger: options.logger ?? { level: config.LOG_LEVEL, redact: ["req.headers.authorization"] },
     bodyLimit: config.BODY_LIMIT_BYTES,
     requestTimeout: config.REQUEST_TIMEOUT_MS,

@@ -23,6 +23,13 @@ const schema = z.object({
     .refine((v) => corsOrigins(v).every((o) => ORIGIN.test(o)), "must be a comma-separated list of origins such as https://app.example")
     .default(""),
   REQUEST_TIMEOUT_MS: z.coerce.number().int().min(1000).max(600_000).default(30_000),
+  /** PEM certificate (chain) and private key: both set, the service speaks HTTPS only (the tablet page's offline reload needs it). */
+  TLS_CERT_PATH: z.string().min(1).optional(),
+  TLS_KEY_PATH: z.string().min(1).optional(),
+}).superRefine((c, ctx) => {
+  for (const [set, unset] of [["TLS_CERT_PATH", "TLS_KEY_PATH"], ["TLS_KEY_PATH", "TLS_CERT_PATH"]] as const) {
+    if (c[set] !== undefined && c[unset] === undefined) ctx.addIssue({ code: "custom", path: [unset], message: `must be set together with ${set}` });
+  }
 });
 
 export type Config = z.infer<typeof schema>;

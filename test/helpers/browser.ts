@@ -19,16 +19,20 @@ export const CHROMIUM_ARGS = [
   "--disable-sync",
 ];
 
-/** Chromium on a fresh profile directory (nothing cached from another run); the caller removes `profile`. */
+/**
+ * Chromium on a fresh profile directory (nothing cached from another run); the caller removes `profile`.
+ * `extraArgs` add flags, e.g. a host-name mapping for a LAN-like origin.
+ */
 export async function launchFreshChromium(
   viewport?: { width: number; height: number },
+  extraArgs: string[] = [],
 ): Promise<{ context: BrowserContext; profile: string }> {
   const profile = mkdtempSync(join(tmpdir(), "pfc-chromium-profile-"));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: CHROMIUM,
     headless: true,
     ...(viewport ? { viewport } : {}),
-    args: CHROMIUM_ARGS,
+    args: [...CHROMIUM_ARGS, ...extraArgs],
   });
   return { context, profile };
 }

@@ -1,0 +1,126 @@
+// The building part: the list from the service (kept on the tablet for offline use) and the new-building form.
+
+import { call, problemText } from "./api.js";
+import { $, drawFields, placeErrors, say, setMsg, controlFor } from "./dom.js";
+import { newKey, readJson, writeJson } from "./drafts.js";
+import { BUILDING_SECTIONS, COMMON_SYSTEMS } from "./fields.js";
+import { bodyOf, errorsOf, lastSegment } from "./model.js";
+
+const BUILDINGS_STORE = "pfc-form.buildings";
+const NEW_BUILDING_STORE = "pfc-form.new-building";
+
+export const buildings = { list: readJson(BUILDINGS_STORE, []) };
+/** The new-building form's values, kept across reloads; its key is made once per building being created. */
+const nb = readJson(NEW_BUILDING_STORE, null) ?? { values: {}, idem: newKey() };
+const saveNb = () => writeJson(NEW_BUILDING_STORE, nb);
+let creating = false;
+
+const TARIFF_NAMES = Object.fromEntries(BUILDING_SECTIONS.flatMap((s) => s.fields).find((d) => d.path === "economics.tariff.form").options);
+
+export const buildingById = (id) => buildings.list.find((b) => b.id === id) ?? null;
+
+export function describeBuilding(b) {
+  if (!b) return "";
+  const s = b.system;
+  const parts = [`${s.voltageV} V, ${s.frequencyHz} Hz, ${s.phases === 1 ? "single" : "three"}-phase`];
+  parts.push(b.transformer ? `transformer ${b.transformer.kVA} kVA at ${b.transformer.impedancePct} %` : "no transformer data (no resonance screen)");
+  if (b.economics) parts.push(`tariff: ${TARIFF_NAMES[b.economics.tariff.form] ?? b.economics.tariff.form}`);
+  return parts.join(" · ");
+}
+
+export function renderBuildings(selectedId) {
+  const sel = /** @type {HTMLSelectElement} */ ($("building"));
+  sel.replaceChildren(new Option("— choose —", ""), ...buildings.list.map((b) => new Option(b.name, b.id)));
+  sel.value = buildingById(selectedId) ? selectedId : "";
+  $("building-info").textContent = describeBuilding(buildingById(selectedId));
+}
+
+/** Fetch the list; offline, the saved one stays. Answers a line for the key's state, or "" when unchanged. */
+export async function loadBuildings() {
+  const r = await call("GET", "/v1/buildings?limit=100");
+  if (r.status === 0) return "No network to the service: showing the buildings saved on this tablet.";
+  if (r.status !== 200) return r.status === 401 ? "The key was not accepted." : problemText(r);
+  buildings.list = r.data.items;
+  writeJson(BUILDINGS_STORE, buildings.list);
+  return "Key accepted.";
+}
+
+const defs = () => BUILDING_SECTIONS.flatMap((s) => s.fields);
+const idOf = (def) => `nb-${lastSegment(def.path).replace(/^_/, "")}`;
+
+export function renderNewBuilding(openFolds) {
+  const box = $("nb-fields");
+  box.replaceChildren();
+  BUILDING_SECTIONS.forEach((section, i) => {
+    const part = document.createElement("div");
+    part.id = `nb-part-${i}`;
+    if (section.fold) drawFields(part, section.fields.map((d) => ({ ...d, fold: true })), nb.values, idOf, { foldTitle: section.title, foldKey: `nb-${i}`, openFolds });
+    else drawFields(part, section.fields, nb.values, idOf);
+    box.append(part);
+  });
+}
+
+export function onNewBuildingEdit(ev, openFolds) {
+  const input = /** @type {HTMLInputElement} */ (ev.target);
+  const path = input.dataset?.path;
+  if (!path) return;
+  nb.values[path] = input.type === "checkbox" ? input.checked : input.value;
+  nb.idem = newKey(); // another building now: a retry of the old one can no longer be meant
+  saveNb();
+  const def = defs().find((d) => d.path === path);
+  const msg = input.closest(".field")?.querySelector(".msg");
+  if (def && (ev.type === "change" || msg?.textContent)) setMsg(input, errorsOf([def], nb.values)[0]?.message ?? "");
+  if (ev.type === "change" && input.tagName === "SELECT") {
+    renderNewBuilding(openFolds);
+    $(input.id)?.focus();
+  }
+}
+
+/** The body: a common system expands to its three figures; "other" sends what was typed. */
+function buildingBody() {
+  const body = bodyOf(defs(), nb.values);
+  const common = COMMON_SYSTEMS.find((s) => s.id === nb.values._system);
+  if (common) body.system = { voltageV: common.voltageV, frequencyHz: common.frequencyHz, phases: common.phases };
+  return body;
+}
+
+/** Create the building; answers its id, or null (messages are shown). One key per building, so a retry is safe. */
+export async function createBuilding() {
+  if (creating) return null;
+  creating = true;
+  $("nb-create").toggleAttribute("disabled", true);
+  try {
+    say("nb-msg", "");
+    for (const input of $("nb-fields").querySelectorAll("[data-path]")) setMsg(input, "");
+    const errors = errorsOf(defs(), nb.values);
+    for (const e of errors) {
+      const input = controlFor(e.path, $("nb-fields"));
+      setMsg(input, e.message);
+      input?.closest("details")?.setAttribute("open", "");
+    }
+    if (errors.length) {
+      say("nb-msg", "Please correct the fields marked in red.", "error");
+      return null;
+    }
+    const r = await call("POST", "/v1/buildings", { body: buildingBody(), headers: { "idempotency-key": nb.idem } });
+    if (r.status === 0) {
+      say("nb-msg", "No network to the service: a building can only be created while it answers.", "error");
+      return null;
+    }
+    if (r.status !== 201 && r.status !== 200) {
+      const rest = placeErrors(r.data?.errors, $("nb-fields"));
+      say("nb-msg", `Not accepted: ${rest.length ? rest.join("; ") : "see the messages beside the fields"}`, "error");
+      return null;
+    }
+    buildings.list = [...buildings.list.filter((b) => b.id !== r.data.id), r.data];
+    writeJson(BUILDINGS_STORE, buildings.list);
+    nb.values = {};
+    nb.idem = newKey();
+    saveNb();
+    say("nb-msg", `Created ${r.data.name}.`, "ok");
+    return r.data.id;
+  } finally {
+    creating = false;
+    $("nb-create").toggleAttribute("disabled", false);
+  }
+}

@@ -1,0 +1,84 @@
+// The recommendation after a survey is stored: the verdict in a line, then the bank, its steps, whether it is
+// detuned, its cost and payback, from the stored result (src/http/schemas/results.ts); reports and the trend.
+
+import { call } from "./api.js";
+import { $, el, say } from "./dom.js";
+import { readJson, writeJson } from "./drafts.js";
+
+const LAST_STORE = "pfc-form.last";
+const f2 = (x) => x.toFixed(2);
+const f3 = (x) => x.toFixed(3);
+const ARRANGEMENT = { fixed: "Fixed bank", automatic: "Automatic (switched) bank", fixed_and_automatic: "Fixed part plus automatic steps" };
+
+export let lastSurvey = readJson(LAST_STORE, null);
+
+function money(economics, amount) {
+  try {
+    return new Intl.NumberFormat(undefined, { style: "currency", currency: economics.currency, maximumFractionDigits: 0 }).format(amount);
+  } catch {
+    return `${economics.currency} ${Math.round(amount)}`;
+  }
+}
+
+export function detunedText(bank) {
+  if (!bank) return "–";
+  if (!(bank.reactorPct > 0)) return "No: plain capacitors";
+  const tuned = bank.tuningOrder ? `, tuned to ${bank.tuningOrder.toFixed(2)} × fundamental (${Math.round(bank.tuningHz)} Hz)` : "";
+  return `Yes: ${bank.reactorPct} % reactor${tuned}`;
+}
+
+/** Show a stored survey's result: { id, buildingId, result }. */
+export function showResult(survey) {
+  lastSurvey = survey;
+  writeJson(LAST_STORE, survey);
+  const r = survey.result;
+  const bank = r.recommendedBank;
+  const eco = r.economics;
+  $("result-section").hidden = false;
+  $("r-pf").textContent = `${f3(r.site.displacementPF)} ${r.site.sense} (target ${r.correction.targetPF})`;
+  $("r-kvar").textContent = `${f2(r.correction.kvarRequired)} kvar`;
+  $("r-bank").textContent = bank ? `${ARRANGEMENT[bank.arrangement] ?? bank.arrangement}: ${f2(bank.nameplateKvar)} kvar nameplate at ${bank.ratedVoltageV} V` : "None needed";
+  $("r-detuned").textContent = detunedText(bank);
+  $("r-cost").textContent = eco?.installedCost != null ? money(eco, eco.installedCost) : "– (give the building a tariff and costs)";
+  $("r-payback").textContent =
+    eco?.simplePaybackYears != null ? `${eco.simplePaybackYears.toFixed(1)} years (saves ${money(eco, eco.savingPerYear)} a year)` : eco ? `– (saves ${money(eco, eco.savingPerYear)} a year)` : "–";
+  $("r-warnings").textContent = r.warnings.length ? `${r.warnings.length}: see the report` : "none";
+  $("r-verdict").textContent = bank
+    ? `${f2(bank.nameplateKvar)} kvar, ${bank.physicalSteps.length} step${bank.physicalSteps.length === 1 ? "" : "s"}, ${bank.reactorPct > 0 ? "detuned" : "not detuned"}${eco?.simplePaybackYears != null ? `, pays back in ${eco.simplePaybackYears.toFixed(1)} years` : ""}.`
+    : "No correction needed at this target.";
+  $("r-steps").replaceChildren(
+    ...(bank?.physicalSteps ?? []).map((s, i) => el("li", {}, `Step ${i + 1}: ${s.role}, ${s.nameplateKvar} kvar nameplate (${f2(s.effectiveKvar)} kvar effective)`)),
+  );
+  $("trend").hidden = true;
+  say("r-msg", "");
+}
+
+/** Fetch a report with the key and hand it to the browser as a download. */
+export async function saveReport(pdf) {
+  if (!lastSurvey) return;
+  const url = `/v1/surveys/${encodeURIComponent(lastSurvey.id)}/report${pdf ? ".pdf" : ""}`;
+  const r = await call("GET", url, { as: "blob" });
+  if (r.status !== 200) {
+    say("r-msg", r.status === 0 ? "No network to the service: the report can be saved once it answers." : `The report could not be fetched (${r.status}).`, "error");
+    return;
+  }
+  const a = /** @type {HTMLAnchorElement} */ ($("r-download"));
+  a.href = URL.createObjectURL(r.data);
+  a.download = `survey-${lastSurvey.id}.${pdf ? "pdf" : "html"}`;
+  a.click();
+  setTimeout(() => URL.revokeObjectURL(a.href), 60_000);
+  say("r-msg", `Saved ${a.download}.`, "ok");
+}
+
+export async function showTrend() {
+  if (!lastSurvey) return;
+  const r = await call("GET", `/v1/buildings/${encodeURIComponent(lastSurvey.buildingId)}/trend`);
+  if (r.status !== 200) {
+    say("r-msg", r.status === 0 ? "No network to the service: the trend can be shown once it answers." : `The trend could not be fetched (${r.status}).`, "error");
+    return;
+  }
+  $("trend").querySelector("tbody").replaceChildren(
+    ...r.data.items.map((p) => el("tr", {}, ...[p.surveyedAt.slice(0, 10), f2(p.kW), f2(p.kvar), f3(p.displacementPF), f2(p.kvarRequired)].map((v) => el("td", {}, v)))),
+  );
+  $("trend").hidden = false;
+}
