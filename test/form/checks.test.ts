@@ -5,7 +5,7 @@
  */
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { triangleOf } from "../../src/core/measurement.js";
+import { triangleOf } from "../../src/core/readings/triangle.js";
 import type { Measurement } from "../../src/core/inputs.js";
 import { expectClose, TOL } from "../helpers/tolerance.js";
 
