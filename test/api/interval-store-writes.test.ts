@@ -92,7 +92,7 @@ describe("Idempotency-Key on uploads (digest of the bytes read)", () => {
 describe("restart", () => {
   it("a stored analysis, and the survey that used it, survive closing and reopening the database file", async () => {
     const a = (await attach(twoDays)).json();
-    const survey = (await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody() })).json();
+    const survey = (await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ scope: "whole_site" }) })).json();
     const list = (await inject(app, url())).json();
     await app.close();
 
@@ -102,7 +102,7 @@ describe("restart", () => {
     expect(again.json().summary).toEqual(a.summary);
     expect((await inject(app, url())).json()).toEqual(list);
     expect((await inject(app, `/v1/surveys/${survey.id}`)).json().building.intervalAnalysisId).toBe(a.id);
-    const next = (await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody() })).json();
+    const next = (await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ scope: "whole_site" }) })).json();
     expect(next.result.recommendedBank.stepPlan.source).toBe("intervals");
   });
 });
