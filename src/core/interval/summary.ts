@@ -107,7 +107,7 @@ export function roughControllerEstimate(s: IntervalSummary, bank: CapacitorBank,
       const k = c.leastAtLeast(wanted);
       return k <= ceiling + 1e-9 ? k : c.largestAtMost(ceiling);
     };
-    const fresh = pickWithin(residual - target);
+    const fresh = c.freshKvar(kW, kvar);
     const least = Math.min(fresh, pickWithin(residual - target - th));
     const most = Math.max(fresh, c.largestAtMost(Math.min(residual + th, ceiling)));
     [fresh, least, most].forEach((kvarOn, j) => {
