@@ -1,4 +1,4 @@
-import { periodCharge, type BillingState, type PeriodCharge, type Tariff } from "./tariff.js";
+import { periodCharge, tariffWithDefaults, type BillingState, type PeriodCharge, type Tariff } from "./tariff.js";
 
 export interface BillingPeriod {
   /** e.g. "2026-03" or "typical month". */
@@ -32,11 +32,32 @@ export interface EconomicsInput {
   /** Loss reduction fraction 1 − (PF₁/PF₂)² from the correction (0–1). */
   lossReductionFraction?: number;
   basis: "interval_data" | "survey_demand";
+  /** With interval data: how the after-correction months were reached, and whether they are an estimate. */
+  intervalMethod?: IntervalMethod;
   assumptions?: string[];
+}
+
+export interface IntervalMethod {
+  method: "monthly_load_points" | "site_load_points_scaled";
+  estimate: boolean;
+  note: string;
+}
+
+/** The period's demand and energy before and after correction (the kvarh left, lagging and leading apart). */
+export interface PeriodFigures {
+  kWh: number;
+  peakKW: number;
+  peakKVABefore: number;
+  peakKVAAfter: number;
+  kvarhLaggingBefore: number;
+  kvarhLaggingAfter: number;
+  kvarhLeadingBefore: number;
+  kvarhLeadingAfter: number;
 }
 
 export interface PeriodSavings {
   label: string;
+  figures: PeriodFigures;
   before: PeriodCharge;
   after: PeriodCharge;
   tariffSaving: number;
@@ -49,6 +70,7 @@ export interface EconomicsResult {
   currency: string;
   tariff: Tariff;
   basis: EconomicsInput["basis"];
+  intervalMethod?: IntervalMethod;
   periods: PeriodSavings[];
   /** Mean saving per period (a month). */
   savingPerMonth: number;
@@ -73,7 +95,17 @@ export function economics(input: EconomicsInput): EconomicsResult {
     const lossSavingKWh = input.losses ? p.before.kWh * (input.losses.lossesPct / 100) * lossFraction : 0;
     const lossSaving = input.losses ? lossSavingKWh * input.losses.energyPricePerKWh : 0;
     const tariffSaving = before.charge - after.charge;
-    return { label: p.label, before, after, tariffSaving, lossSavingKWh, lossSaving, saving: tariffSaving + lossSaving };
+    const figures: PeriodFigures = {
+      kWh: p.before.kWh,
+      peakKW: p.before.peakKW,
+      peakKVABefore: p.before.peakKVA,
+      peakKVAAfter: p.after.peakKVA,
+      kvarhLaggingBefore: p.before.kvarh,
+      kvarhLaggingAfter: p.after.kvarh,
+      kvarhLeadingBefore: p.before.kvarhLeading ?? 0,
+      kvarhLeadingAfter: p.after.kvarhLeading ?? 0,
+    };
+    return { label: p.label, figures, before, after, tariffSaving, lossSavingKWh, lossSaving, saving: tariffSaving + lossSaving };
   });
   const total = periods.reduce((s, p) => s + p.saving, 0);
   const savingPerMonth = periods.length > 0 ? total / periods.length : 0;
@@ -100,8 +132,9 @@ export function economics(input: EconomicsInput): EconomicsResult {
   if (installedCost !== null && savingPerYear <= 0) assumptions.push("the bank saves nothing under this tariff: no payback");
   return {
     currency: input.currency,
-    tariff: { ...input.tariff },
+    tariff: tariffWithDefaults(input.tariff),
     basis: input.basis,
+    ...(input.intervalMethod ? { intervalMethod: { ...input.intervalMethod } } : {}),
     periods,
     savingPerMonth,
     savingPerYear,

@@ -10,7 +10,7 @@ import {
   voltageRisePct,
 } from "../harmonics/resonance.js";
 import { shortCircuitAtBus } from "../harmonics/short-circuit.js";
-import { siteEconomics } from "../economics/of-sizing.js";
+import { economicsBankOf, economicsIntervalsOf, siteEconomics } from "../economics/of-sizing.js";
 import type { EconomicsResult } from "../economics/index.js";
 import { compactStudy, studySiteHarmonics, type SizingHarmonics } from "../harmonics/site-study.js";
 import type { HarmonicStudyOptions, HarmonicStudyResult } from "../harmonics/index.js";
@@ -141,8 +141,8 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
         input.economics,
         site,
         correction,
-        recommendedBank ? { installedKvar: recommendedBank.effectiveKvar, steps: recommendedBank.physicalSteps.length } : null,
-        input.intervalDemand?.months,
+        recommendedBank ? economicsBankOf(recommendedBank) : null,
+        economicsIntervalsOf(input.intervalDemand),
       )
     : undefined;
 
