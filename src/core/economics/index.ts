@@ -2,3 +2,4 @@ export type { PfBasis, Tariff, KvaDemandTariff, PfAdjustedKwTariff, KvarhExcessT
 export { DEFAULT_PF_BASIS, periodCharge, tariffWithDefaults } from "./tariff.js";
 export type { BillingPeriod, IntervalMethod, PeriodFigures, EconomicsInput, EconomicsResult, InstalledCostInput, LossSavingsInput, PeriodSavings } from "./savings.js";
 export { economics } from "./savings.js";
+export type { CostItem, CostItemInput } from "./cost-items.js";

@@ -2,11 +2,13 @@ import { CONTROLLER_RULE } from "../bank/controller-rule.js";
 import { createController } from "../interval/controller.js";
 import type { CapacitorBank } from "../interval/series-types.js";
 import type { CorrectionResult } from "../correction/to-target.js";
-import { economics, type BillingPeriod, type BillingState, type EconomicsResult, type IntervalMethod, type Tariff } from "./index.js";
+import { economics, type InstalledCostInput, type BillingPeriod, type BillingState, type EconomicsResult, type IntervalMethod, type Tariff } from "./index.js";
 import { intervalMonths, type MonthlyDemand } from "./interval-billing.js";
 import type { SiteResult } from "../readings/site-totals.js";
 import type { IntervalDemandInput } from "../inputs.js";
 import type { RecommendedBank } from "../placement/site-plan.js";
+import type { PlacementPlan } from "../placement/placement-types.js";
+import type { CostItemInput } from "./cost-items.js";
 
 /** What the electrician tells about the bill and the costs; amounts in `currency` (ISO 4217, no conversion). */
 export interface EconomicsSettings {
@@ -15,7 +17,7 @@ export interface EconomicsSettings {
   /** Hours a month the surveyed demand lasts, for energy-based tariffs without interval data. */
   operatingHoursPerMonth?: number;
   losses?: { lossesPct: number; energyPricePerKWh: number };
-  cost?: { perKvar?: number; perStep?: number; fixed?: number };
+  cost?: InstalledCostInput;
 }
 
 export type { MonthlyDemand } from "./interval-billing.js";
@@ -46,6 +48,37 @@ export function economicsBankOf(b: Pick<RecommendedBank, "effectiveKvar" | "phys
   return { installedKvar: b.effectiveKvar, steps: b.physicalSteps.length, controlled: { fixedKvar, stepsKvar } };
 }
 
+/**
+ * The lines the answer proposes to buy: the central bank (the study's detuned design when it proposes one for the
+ * recommended bank, with the plain bank shown uncounted beside it), each motor-terminal capacitor load and each group bank.
+ */
+export function costItemsOf(
+  bank: Pick<RecommendedBank, "effectiveKvar" | "physicalSteps" | "reactorPct"> | null,
+  placement: PlacementPlan | undefined,
+  detuned: { forBank: string; design: { reactorPct: number; steps: { effectiveKvar: number }[] } }[] = [],
+): CostItemInput[] {
+  const items: CostItemInput[] = [];
+  const proposal = detuned.find((p) => p.forBank === "recommended");
+  if (bank) {
+    const plain: CostItemInput = { item: "central_bank", label: "central bank", kvar: bank.effectiveKvar, units: bank.physicalSteps.length, reactorPct: bank.reactorPct, counted: true };
+    if (proposal) {
+      const kvar = proposal.design.steps.reduce((s, x) => s + x.effectiveKvar, 0);
+      items.push({ item: "central_bank", label: `central bank, ${proposal.design.reactorPct} % detuned (proposed by the harmonic study)`, kvar, units: proposal.design.steps.length, reactorPct: proposal.design.reactorPct, counted: true });
+      items.push({ ...plain, item: "central_bank_plain", label: "central bank without reactors (for comparison)", counted: false });
+    } else items.push(plain);
+  }
+  for (const l of placement?.loads ?? []) {
+    if (l.location !== "terminal" || !l.terminal) continue;
+    const units = l.terminal.perMotorKvar > 0 ? Math.round(l.terminal.totalKvar / l.terminal.perMotorKvar) : 1;
+    items.push({ item: "motor_terminal", label: `${l.label}: ${units} × ${l.terminal.perMotorKvar} kvar at the motor terminals`, kvar: l.terminal.totalKvar, units, reactorPct: 0, counted: true });
+  }
+  for (const g of placement?.locations ?? []) {
+    if (!g.location.startsWith("group:") || g.kvar <= 0) continue;
+    items.push({ item: "group_bank", label: `group bank ${g.location.slice("group:".length)}`, kvar: g.kvar, units: 1, reactorPct: 0, counted: true });
+  }
+  return items;
+}
+
 /** The interval data of a sizing, when it carries months and their interval length. */
 export function economicsIntervalsOf(d: IntervalDemandInput | undefined): EconomicsIntervals | undefined {
   if (!d?.months || d.months.length === 0 || d.intervalMinutes === undefined) return undefined;
@@ -68,6 +101,7 @@ export function siteEconomics(
   correction: CorrectionResult,
   bank: EconomicsBank | null,
   intervals?: EconomicsIntervals,
+  items?: CostItemInput[],
 ): EconomicsResult {
   const target = correction.targetPF;
   const controlled = bank?.controlled ?? { fixedKvar: 0, stepsKvar: [] };
@@ -99,6 +133,7 @@ export function siteEconomics(
     ...(settings.losses ? { losses: settings.losses } : {}),
     ...(settings.cost ? { cost: settings.cost } : {}),
     ...(bank ? { bank: { installedKvar: bank.installedKvar, steps: bank.steps } } : {}),
+    ...(items ? { items } : {}),
     lossReductionFraction: correction.lossReductionPct / 100,
     basis,
     ...(intervalMethod ? { intervalMethod } : {}),

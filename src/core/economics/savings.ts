@@ -1,3 +1,4 @@
+import { priceItems, type CostItem, type CostItemInput } from "./cost-items.js";
 import { periodCharge, tariffWithDefaults, type BillingState, type PeriodCharge, type Tariff } from "./tariff.js";
 
 export interface BillingPeriod {
@@ -18,6 +19,9 @@ export interface InstalledCostInput {
   perKvar?: number;
   perStep?: number;
   fixed?: number;
+  /** Detuning reactors, per kvar of the bank and per step; neither given: reactors are not priced (and said so). */
+  reactorPerKvar?: number;
+  reactorPerStep?: number;
 }
 
 export interface EconomicsInput {
@@ -29,6 +33,8 @@ export interface EconomicsInput {
   losses?: LossSavingsInput;
   cost?: InstalledCostInput;
   bank?: { installedKvar: number; steps: number };
+  /** What is proposed, one line each; without it the bank alone is priced. */
+  items?: CostItemInput[];
   /** Loss reduction fraction 1 − (PF₁/PF₂)² from the correction (0–1). */
   lossReductionFraction?: number;
   basis: "interval_data" | "survey_demand";
@@ -77,6 +83,8 @@ export interface EconomicsResult {
   savingPerYear: number;
   installedCost: number | null;
   costBreakdown: { perKvar: number; perStep: number; fixed: number } | null;
+  /** The priced lines; those with counted = false are options shown for comparison. */
+  costItems: CostItem[];
   /** Simple payback = installed cost / yearly saving; null without cost or without a positive saving. */
   simplePaybackYears: number | null;
   assumptions: string[];
@@ -118,7 +126,20 @@ export function economics(input: EconomicsInput): EconomicsResult {
 
   let costBreakdown: EconomicsResult["costBreakdown"] = null;
   let installedCost: number | null = null;
-  if (input.cost && input.bank) {
+  let costItems: CostItem[] = [];
+  if (input.cost && input.items && input.items.some((i) => i.counted)) {
+    const priced = priceItems(input.items, input.cost);
+    costItems = priced.items;
+    const counted = costItems.filter((i) => i.counted);
+    costBreakdown = {
+      perKvar: counted.reduce((s, i) => s + (input.cost?.perKvar ?? 0) * i.kvar, 0),
+      perStep: counted.reduce((s, i) => s + (input.cost?.perStep ?? 0) * i.units, 0),
+      fixed: input.cost.fixed ?? 0,
+    };
+    installedCost = counted.reduce((s, i) => s + i.cost, 0) + costBreakdown.fixed;
+    if (priced.reactorsUnpriced) assumptions.push("the detuned bank's reactors are not priced (no reactorPerKvar or reactorPerStep given): the installed cost and payback leave them out");
+    if (costItems.some((i) => !i.counted)) assumptions.push("the plain bank is priced for comparison only; the installed cost is that of the detuned bank the harmonic study proposes");
+  } else if (input.cost && input.bank) {
     costBreakdown = {
       perKvar: (input.cost.perKvar ?? 0) * input.bank.installedKvar,
       perStep: (input.cost.perStep ?? 0) * input.bank.steps,
@@ -140,6 +161,7 @@ export function economics(input: EconomicsInput): EconomicsResult {
     savingPerYear,
     installedCost,
     costBreakdown,
+    costItems,
     simplePaybackYears,
     assumptions,
   };

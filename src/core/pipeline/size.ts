@@ -10,7 +10,7 @@ import {
   voltageRisePct,
 } from "../harmonics/resonance.js";
 import { shortCircuitAtBus } from "../harmonics/short-circuit.js";
-import { economicsBankOf, economicsIntervalsOf, siteEconomics } from "../economics/of-sizing.js";
+import { costItemsOf, economicsBankOf, economicsIntervalsOf, siteEconomics } from "../economics/of-sizing.js";
 import type { EconomicsResult } from "../economics/index.js";
 import { compactStudy, studySiteHarmonics, type SizingHarmonics } from "../harmonics/site-study.js";
 import type { HarmonicStudyOptions, HarmonicStudyResult } from "../harmonics/index.js";
@@ -143,6 +143,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
         correction,
         recommendedBank ? economicsBankOf(recommendedBank) : null,
         economicsIntervalsOf(input.intervalDemand),
+        costItemsOf(recommendedBank, designed.placement, h.study?.proposals),
       )
     : undefined;
 

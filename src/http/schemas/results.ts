@@ -168,6 +168,13 @@ export const economicsResultSchema = z.object({
   savingPerYear: z.number(),
   installedCost: z.number().nullable(),
   costBreakdown: z.object({ perKvar: z.number(), perStep: z.number(), fixed: z.number() }).nullable(),
+  costItems: z.array(
+    z.object({
+      item: z.enum(["central_bank", "central_bank_plain", "motor_terminal", "group_bank"]),
+      label: z.string(), kvar: z.number(), units: z.number(), reactorPct: z.number(), counted: z.boolean(),
+      capacitorCost: z.number(), reactorCost: z.number().nullable().describe("null: a detuned bank's reactors, not priced"), cost: z.number(),
+    }),
+  ).describe("what is proposed, one line each; counted = false: an option shown for comparison, not in the installed cost"),
   simplePaybackYears: z.number().nullable(),
   assumptions: z.array(z.string()),
 });

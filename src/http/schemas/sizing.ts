@@ -163,7 +163,15 @@ export const economicsSchema = z.strictObject({
       energyPricePerKWh: money("energyPricePerKWh"),
     })
     .optional(),
-  cost: z.strictObject({ perKvar: money("perKvar").optional(), perStep: money("perStep").optional(), fixed: money("fixed").optional() }).optional(),
+  cost: z
+    .strictObject({
+      perKvar: money("perKvar").optional(),
+      perStep: money("perStep").optional(),
+      fixed: money("fixed").optional(),
+      reactorPerKvar: money("reactorPerKvar").optional().describe("detuning reactors, per kvar of a detuned bank; with reactorPerStep absent too, reactors are not priced"),
+      reactorPerStep: money("reactorPerStep").optional().describe("detuning reactors, per step of a detuned bank"),
+    })
+    .optional(),
 });
 
 export const sizingRequestSchema = z.strictObject({

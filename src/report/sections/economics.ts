@@ -39,6 +39,22 @@ function economicsBlocks(e: EconomicsResult): Block[] {
       { key: "Fixed", value: fmt.money(e.costBreakdown.fixed, c) },
     ] });
   }
+  if (e.costItems.length > 0) {
+    blocks.push({
+      kind: "table",
+      title: "What is priced",
+      header: ["Item", "kvar", "Units", `Capacitors (${c})`, `Reactors (${c})`, `Cost (${c})`],
+      align: ["left", "right", "right", "right", "right", "right"],
+      rows: e.costItems.map((i) => [
+        i.counted ? i.label : `${i.label} (not counted)`,
+        fmt.num(i.kvar, 1),
+        String(i.units),
+        fmt.num(i.capacitorCost, 2),
+        i.reactorCost === null ? "not priced" : fmt.num(i.reactorCost, 2),
+        fmt.num(i.cost, 2),
+      ]),
+    });
+  }
   if (e.periods.length > 0) {
     blocks.push({
       kind: "table",
