@@ -42,7 +42,10 @@ describe("POST /v1/interval-analyses (text/csv)", () => {
     // 31 × 11 200 kWh, 31 × 8 000 kvarh → 11 200/√(11 200² + 8 000²)
     expectClose(b.monthly[0].billingPF, 11_200 / Math.hypot(11_200, 8_000), ITOL.pf, "billing PF");
     expect(b.monthly[0]).toMatchObject({ month: "2025-01", peakKW: 600, peakKVA: 750 });
-    expect(b.summary.summaryVersion).toBe(1);
+    expect(b.summary.summaryVersion).toBe(2);
+    // version 2 keeps, per month, the kvar of the peak-kW interval (600 kW / 450 kvar) and the month's load points
+    expect(b.summary.monthly[0].peakKWKvar).toBe(450);
+    expect(b.summary.monthly[0].loadPoints.count.reduce((a: number, c: number) => a + c, 0)).toBe(b.monthly[0].intervals);
     expect(JSON.stringify(b.summary).length).toBeLessThan(20_000);
   });
 

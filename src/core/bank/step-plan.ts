@@ -4,7 +4,8 @@ import { STANDARD_UNIT_KVAR } from "./standard-sizes.js";
 import { warning, type Warning } from "../warnings.js";
 import { chooseFixedPart, neededKvar, type DemandArrays, type FixedPart } from "./demand.js";
 import { percentileOf } from "../interval/percentiles.js";
-import { maxMultiple, simulateStepProgram, STEP_RATIOS, stepMultipliers, type SimulationResult, type StepRatio } from "./step-ranking.js";
+import { ruleSettings, type ControllerOptions } from "./controller-rule.js";
+import { simulateStepProgram, STEP_RATIOS, stepMultipliers, type SimulationResult, type StepRatio } from "./step-ranking.js";
 
 export interface StepSearchOptions {
   /** Share of samples whose need the bank is sized for (default 0.99: the 99th-percentile need). */
@@ -16,6 +17,8 @@ export interface StepSearchOptions {
   metTieShare?: number;
   /** Fixed-part share of the transformer kVA when there is no light-load information (default 0.05). */
   fixedShareWithoutLightLoad?: number;
+  /** Leading limit and response threshold of the controller the programs are ranked under (defaults: controller-rule.ts). */
+  controller?: ControllerOptions;
 }
 
 export interface StepsInput {
@@ -122,20 +125,19 @@ export function planSteps(input: StepsInput): StepPlan {
   }
   const switchedNeeded = Math.max(0, needAtCoverage - fixed.fixedKvar);
 
-  const tanT = Math.tan(Math.acos(input.targetPF));
-  const toTarget = new Float64Array(n);
-  const toUnity = new Float64Array(n);
+  const kWs = Float64Array.from(d.kW);
+  const residual = new Float64Array(n);
   const covered = new Uint8Array(n);
   for (let i = 0; i < n; i++) {
-    const q = (d.kvar[i] as number) - fixed.fixedKvar;
-    toUnity[i] = q;
-    toTarget[i] = q - (d.kW[i] as number) * tanT;
+    residual[i] = (d.kvar[i] as number) - fixed.fixedKvar;
     covered[i] = (need[i] as number) <= needAtCoverage + 1e-9 ? 1 : 0;
   }
-  const samples = { toTargetKvar: toTarget, toUnityKvar: toUnity, covered };
+  const samples = { kW: kWs, residualKvar: residual, covered };
+  // the rule's threshold is a share of the smallest step, the program's base
+  const ruleFor = (baseKvar: number) => ruleSettings(input.targetPF, baseKvar, o.controller);
 
   const candidates: StepCandidate[] = [
-    { ratio: "1:1:1", stepCount: 0, baseKvar: 0, stepsKvar: [], totalKvar: 0, rounding: "none", simulation: simulateStepProgram("1:1:1", 0, 1, samples) },
+    { ratio: "1:1:1", stepCount: 0, baseKvar: 0, stepsKvar: [], totalKvar: 0, rounding: "none", simulation: simulateStepProgram("1:1:1", 0, 1, samples, ruleFor(0)) },
   ];
   if (switchedNeeded > 1e-9) {
     const sizes = stepSizes(units, switchedNeeded, minSteps);
@@ -158,7 +160,7 @@ export function planSteps(input: StepsInput): StepPlan {
           const key = (STEP_RATIOS.indexOf(ratio) * 100 + steps) * 1e7 + base;
           if (seen.has(key)) continue;
           seen.add(key);
-          candidates.push({ ratio, stepCount: steps, baseKvar: base, stepsKvar: mults.slice(0, steps).map((m) => m * base), totalKvar: k * base, rounding, simulation: simulateStepProgram(ratio, steps, base, samples) });
+          candidates.push({ ratio, stepCount: steps, baseKvar: base, stepsKvar: mults.slice(0, steps).map((m) => m * base), totalKvar: k * base, rounding, simulation: simulateStepProgram(ratio, steps, base, samples, ruleFor(base)) });
         }
       }
     }

@@ -1,8 +1,9 @@
 /**
- * A small PF-controller simulation used to rank step plans: per sample the controller switches the step combination
- * whose kvar brings the PF closest to the target without leading. Deliberately simple (no time delays, no hysteresis,
- * no wear rotation); the interval-analysis module has the fuller controller simulation.
+ * Step programs (multiples of a base step) and their simulation under the controller rule (controller-rule.ts) to
+ * rank them: the same dead band, response threshold and leading limit as the interval simulation, over the
+ * arithmetic levels k × base that every multiples program reaches.
  */
+import { decideLevel, meetsRule, MultipleLevels, type RuleSettings } from "./controller-rule.js";
 
 /** Step ratio programs: 1:1:1… equal steps; 1:2:2… one single then doubles; 1:2:4… one, one double, then quadruples. */
 export type StepRatio = "1:1:1" | "1:2:2" | "1:2:4";
@@ -31,35 +32,21 @@ export function maxMultiple(ratio: StepRatio, n: number): number {
 
 /** Per-sample quantities after the fixed part, as typed arrays. */
 export interface ControllerSamples {
-  /** kvar still needed to reach the target after the fixed part (may be ≤ 0). */
-  toTargetKvar: Float64Array;
-  /** kvar that can be added before the site leads (Q − fixed). */
-  toUnityKvar: Float64Array;
+  kW: Float64Array;
+  /** kvar before the switched steps: the sample's kvar less the fixed part (may be ≤ 0). */
+  residualKvar: Float64Array;
   /** 1 for the samples within the design coverage. */
   covered: Uint8Array;
 }
 
 export interface SimulationResult {
   samples: number;
+  /** Samples whose kvar left meets the target without leading beyond the limit. */
   metCount: number;
   coveredCount: number;
   metCoveredCount: number;
   /** Sum over consecutive samples of the steps whose state changes. */
   switchingOperations: number;
-}
-
-/** Tolerance on kvar comparisons, kvar. */
-const EPS = 1e-6;
-
-/**
- * Number of base multiples k the controller switches in: the least k·b reaching the target if that does not lead,
- * otherwise the most k·b that does not lead (the PF nearest the target from below).
- */
-export function controllerMultiple(toTargetKvar: number, toUnityKvar: number, baseKvar: number, kMax: number): number {
-  if (toTargetKvar <= EPS) return 0;
-  let k = Math.min(kMax, Math.ceil((toTargetKvar - EPS) / baseKvar));
-  if (k * baseKvar > toUnityKvar + EPS) k = Math.max(0, Math.min(kMax, Math.floor((toUnityKvar + EPS) / baseKvar)));
-  return k;
 }
 
 /** Steps changing state between two multiples, each step combination being the program's unique one for k. */
@@ -78,39 +65,32 @@ function operationsByCode(code: number, a: number, b: number): number {
   return (x & 1) + (x >> 1) + Math.abs((a >> 2) - (b >> 2));
 }
 
-/** Simulate one step program (n steps, base kvar) over all samples. `trace`, when given, receives k per sample. */
+/**
+ * Simulate one step program (n steps, base kvar) over the samples in their order, starting with all steps off,
+ * under the controller rule with `rule`'s target, leading limit and threshold. `trace`, when given, receives k per sample.
+ */
 export function simulateStepProgram(
   ratio: StepRatio,
   n: number,
   baseKvar: number,
   s: ControllerSamples,
+  rule: RuleSettings,
   trace?: Int32Array,
 ): SimulationResult {
-  const kMax = n === 0 ? 0 : maxMultiple(ratio, n);
+  const levels = new MultipleLevels(baseKvar, n === 0 ? 0 : maxMultiple(ratio, n));
   const code = RATIO_CODE[ratio];
-  const { toTargetKvar, toUnityKvar, covered: cov } = s;
-  const len = toTargetKvar.length;
+  const { kW, residualKvar, covered: cov } = s;
+  const len = kW.length;
   let met = 0;
   let covered = 0;
   let metCovered = 0;
   let ops = 0;
   let prev = 0;
   for (let i = 0; i < len; i++) {
-    const need = toTargetKvar[i] as number;
-    const room = toUnityKvar[i] as number;
-    let k = 0;
-    if (kMax > 0 && need > EPS) {
-      // inline controllerMultiple: least k·b reaching the target, else the most that does not lead
-      k = Math.ceil((need - EPS) / baseKvar);
-      if (k > kMax) k = kMax;
-      if (k * baseKvar > room + EPS) {
-        k = Math.floor((room + EPS) / baseKvar);
-        if (k > kMax) k = kMax;
-        if (k < 0) k = 0;
-      }
-    }
-    const c = k * baseKvar;
-    const ok = need - c <= EPS && c <= room + EPS ? 1 : 0;
+    const p = kW[i] as number;
+    const q = residualKvar[i] as number;
+    const k = decideLevel(levels, q, p, prev, rule);
+    const ok = meetsRule(q - k * baseKvar, p, rule) ? 1 : 0;
     met += ok;
     if (cov[i] === 1) {
       covered++;

@@ -1,7 +1,14 @@
-import { tanPhi } from "../conventions.js";
+import { CONTROLLER_RULE } from "../bank/controller-rule.js";
+import { createController } from "../interval/controller.js";
+import type { CapacitorBank } from "../interval/series-types.js";
 import type { CorrectionResult } from "../correction/to-target.js";
-import { economics, type BillingPeriod, type BillingState, type EconomicsResult, type Tariff } from "./index.js";
+import { economics, type InstalledCostInput, type BillingPeriod, type BillingState, type EconomicsResult, type IntervalMethod, type Tariff } from "./index.js";
+import { intervalMonths, type MonthlyDemand } from "./interval-billing.js";
 import type { SiteResult } from "../readings/site-totals.js";
+import type { IntervalDemandInput } from "../inputs.js";
+import type { RecommendedBank } from "../placement/site-plan.js";
+import type { PlacementPlan } from "../placement/placement-types.js";
+import type { CostItemInput } from "./cost-items.js";
 
 /** What the electrician tells about the bill and the costs; amounts in `currency` (ISO 4217, no conversion). */
 export interface EconomicsSettings {
@@ -10,74 +17,113 @@ export interface EconomicsSettings {
   /** Hours a month the surveyed demand lasts, for energy-based tariffs without interval data. */
   operatingHoursPerMonth?: number;
   losses?: { lossesPct: number; energyPricePerKWh: number };
-  cost?: { perKvar?: number; perStep?: number; fixed?: number };
+  cost?: InstalledCostInput;
 }
 
-/** A month of interval data, as an interval summary keeps it. */
-export interface MonthlyDemand {
-  month: string;
-  peakKW: number;
-  peakKVA: number;
-  kWh: number;
-  kvarhLagging: number;
-}
+export type { MonthlyDemand } from "./interval-billing.js";
 
 /** Default operating hours a month when none are stated: two shifts, 22 days (common practice, no source). */
 export const DEFAULT_OPERATING_HOURS_PER_MONTH = 352;
 
+/** The recommended bank as the controller sees it (delivered kvar at the system voltage) and as it is priced. */
+export interface EconomicsBank {
+  installedKvar: number;
+  steps: number;
+  /** Fixed kvar and switched steps, delivered at the system voltage. */
+  controlled: CapacitorBank;
+}
+
+/** Interval data the sizing rests on: the months, the interval length and the site-wide samples. */
+export interface EconomicsIntervals {
+  months: MonthlyDemand[];
+  intervalMinutes: number;
+  kW: ArrayLike<number>;
+  kvar: ArrayLike<number>;
+}
+
+/** The bank the economics prices and simulates: its designed steps, delivered kvar at the system voltage. */
+export function economicsBankOf(b: Pick<RecommendedBank, "effectiveKvar" | "physicalSteps">): EconomicsBank {
+  const fixedKvar = b.physicalSteps.filter((s) => s.role === "fixed").reduce((a, s) => a + s.effectiveKvar, 0);
+  const stepsKvar = b.physicalSteps.filter((s) => s.role === "switched").map((s) => s.effectiveKvar);
+  return { installedKvar: b.effectiveKvar, steps: b.physicalSteps.length, controlled: { fixedKvar, stepsKvar } };
+}
+
 /**
- * The bank's effect on one demand point: the controller switches in what it needs to reach the target,
- * as far as the installed kvar reaches; a point already at or above the target is left alone.
+ * The lines the answer proposes to buy: the central bank (the study's detuned design when it proposes one for the
+ * recommended bank, with the plain bank shown uncounted beside it), each motor-terminal capacitor load and each group bank.
  */
-export function correctedKvar(kW: number, kvar: number, targetPF: number, bankKvar: number): number {
-  const allowed = kW * tanPhi(targetPF);
-  if (kvar <= allowed) return kvar;
-  return Math.max(allowed, kvar - bankKvar);
+export function costItemsOf(
+  bank: Pick<RecommendedBank, "effectiveKvar" | "physicalSteps" | "reactorPct"> | null,
+  placement: PlacementPlan | undefined,
+  detuned: { forBank: string; design: { reactorPct: number; steps: { effectiveKvar: number }[] } }[] = [],
+): CostItemInput[] {
+  const items: CostItemInput[] = [];
+  const proposal = detuned.find((p) => p.forBank === "recommended");
+  if (bank) {
+    const plain: CostItemInput = { item: "central_bank", label: "central bank", kvar: bank.effectiveKvar, units: bank.physicalSteps.length, reactorPct: bank.reactorPct, counted: true };
+    if (proposal) {
+      const kvar = proposal.design.steps.reduce((s, x) => s + x.effectiveKvar, 0);
+      items.push({ item: "central_bank", label: `central bank, ${proposal.design.reactorPct} % detuned (proposed by the harmonic study)`, kvar, units: proposal.design.steps.length, reactorPct: proposal.design.reactorPct, counted: true });
+      items.push({ ...plain, item: "central_bank_plain", label: "central bank without reactors (for comparison)", counted: false });
+    } else items.push(plain);
+  }
+  for (const l of placement?.loads ?? []) {
+    if (l.location !== "terminal" || !l.terminal) continue;
+    const units = l.terminal.perMotorKvar > 0 ? Math.round(l.terminal.totalKvar / l.terminal.perMotorKvar) : 1;
+    items.push({ item: "motor_terminal", label: `${l.label}: ${units} × ${l.terminal.perMotorKvar} kvar at the motor terminals`, kvar: l.terminal.totalKvar, units, reactorPct: 0, counted: true });
+  }
+  for (const g of placement?.locations ?? []) {
+    if (!g.location.startsWith("group:") || g.kvar <= 0) continue;
+    items.push({ item: "group_bank", label: `group bank ${g.location.slice("group:".length)}`, kvar: g.kvar, units: 1, reactorPct: 0, counted: true });
+  }
+  return items;
+}
+
+/** The interval data of a sizing, when it carries months and their interval length. */
+export function economicsIntervalsOf(d: IntervalDemandInput | undefined): EconomicsIntervals | undefined {
+  if (!d?.months || d.months.length === 0 || d.intervalMinutes === undefined) return undefined;
+  return { months: d.months, intervalMinutes: d.intervalMinutes, kW: d.kW, kvar: d.kvar };
 }
 
 function state(kW: number, kvar: number, hours: number): BillingState {
   const kVA = Math.hypot(kW, kvar);
-  return { peakKW: kW, peakKVA: kVA, peakPF: kVA > 0 ? kW / kVA : 1, kWh: kW * hours, kvarh: Math.max(0, kvar) * hours };
+  return { peakKW: kW, peakKVA: kVA, peakPF: kVA > 0 ? kW / kVA : 1, kWh: kW * hours, kvarh: Math.max(0, kvar) * hours, kvarhLeading: Math.max(0, -kvar) * hours };
 }
 
-/** Savings and payback of the recommended bank, from interval months when there are any, else from the survey's demand. */
+/**
+ * Savings and payback of the recommended bank: month by month from interval data when there is any (see
+ * interval-billing.ts), else from the survey's demand as one typical month. Either way the bank delivers what the
+ * controller rule (bank/controller-rule.ts) switches in, fixed part included.
+ */
 export function siteEconomics(
   settings: EconomicsSettings,
   site: SiteResult,
   correction: CorrectionResult,
-  bank: { installedKvar: number; steps: number } | null,
-  months: MonthlyDemand[] = [],
+  bank: EconomicsBank | null,
+  intervals?: EconomicsIntervals,
+  items?: CostItemInput[],
 ): EconomicsResult {
-  const bankKvar = bank?.installedKvar ?? 0;
   const target = correction.targetPF;
+  const controlled = bank?.controlled ?? { fixedKvar: 0, stepsKvar: [] };
   const assumptions: string[] = [];
   let periods: BillingPeriod[];
   let basis: "interval_data" | "survey_demand";
-  if (months.length > 0) {
+  let intervalMethod: IntervalMethod | undefined;
+  if (intervals && intervals.months.length > 0) {
     basis = "interval_data";
-    assumptions.push(
-      "each month's peak is corrected to the target as far as the bank reaches (the peak's kvar from its kW and kVA); kvarh after correction scale with the peak's kvar reduction",
-    );
-    periods = months.map((m) => {
-      const peakKvar = Math.sqrt(Math.max(0, m.peakKVA ** 2 - m.peakKW ** 2));
-      const afterKvar = correctedKvar(m.peakKW, peakKvar, target, bankKvar);
-      const before: BillingState = { peakKW: m.peakKW, peakKVA: m.peakKVA, peakPF: m.peakKVA > 0 ? m.peakKW / m.peakKVA : 1, kWh: m.kWh, kvarh: m.kvarhLagging };
-      const afterKVA = Math.hypot(m.peakKW, afterKvar);
-      const share = peakKvar > 0 ? afterKvar / peakKvar : 1;
-      return {
-        label: m.month,
-        before,
-        after: { peakKW: m.peakKW, peakKVA: afterKVA, peakPF: afterKVA > 0 ? m.peakKW / afterKVA : 1, kWh: m.kWh, kvarh: m.kvarhLagging * share },
-      };
-    });
+    const m = intervalMonths(intervals.months, controlled, target, intervals.intervalMinutes, intervals);
+    periods = m.periods;
+    intervalMethod = { method: m.method, estimate: true, note: m.note };
+    assumptions.push(`the bank's kvar in each interval follows the controller rule: ${CONTROLLER_RULE}`, m.note);
   } else {
     basis = "survey_demand";
     const hours = settings.operatingHoursPerMonth ?? DEFAULT_OPERATING_HOURS_PER_MONTH;
     assumptions.push(
-      `the surveyed demand (${site.kW.toFixed(1)} kW, PF ${site.displacementPF.toFixed(3)}) stands for the month's billing peak and lasts ${hours} h a month${settings.operatingHoursPerMonth === undefined ? " (default: two shifts, 22 days; state operatingHoursPerMonth)" : ""}`,
+      `the surveyed demand (${site.kW.toFixed(1)} kW, PF ${site.displacementPF.toFixed(3)}) stands for the month's billing peak and lasts ${hours} h a month${settings.operatingHoursPerMonth === undefined ? " (default: two shifts, 22 days; state operatingHoursPerMonth)" : ""}; the bank delivers what the controller rule switches in at that demand`,
     );
-    const after = correctedKvar(site.kW, site.kvar, target, bankKvar);
-    periods = [{ label: "typical month", before: state(site.kW, site.kvar, hours), after: state(site.kW, after, hours) }];
+    const controller = createController(controlled, target);
+    const after = site.kvar - controlled.fixedKvar - controller.freshKvar(site.kW, site.kvar);
+    periods = [{ label: "typical month", before: state(site.kW, site.kvar, hours), after: state(site.kW, bank ? after : site.kvar, hours) }];
   }
   return economics({
     currency: settings.currency,
@@ -86,9 +132,11 @@ export function siteEconomics(
     periodsPerYear: 12,
     ...(settings.losses ? { losses: settings.losses } : {}),
     ...(settings.cost ? { cost: settings.cost } : {}),
-    ...(bank ? { bank } : {}),
+    ...(bank ? { bank: { installedKvar: bank.installedKvar, steps: bank.steps } } : {}),
+    ...(items ? { items } : {}),
     lossReductionFraction: correction.lossReductionPct / 100,
     basis,
+    ...(intervalMethod ? { intervalMethod } : {}),
     assumptions,
   });
 }

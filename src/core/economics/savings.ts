@@ -1,4 +1,5 @@
-import { periodCharge, type BillingState, type PeriodCharge, type Tariff } from "./tariff.js";
+import { priceItems, type CostItem, type CostItemInput } from "./cost-items.js";
+import { periodCharge, tariffWithDefaults, type BillingState, type PeriodCharge, type Tariff } from "./tariff.js";
 
 export interface BillingPeriod {
   /** e.g. "2026-03" or "typical month". */
@@ -18,6 +19,9 @@ export interface InstalledCostInput {
   perKvar?: number;
   perStep?: number;
   fixed?: number;
+  /** Detuning reactors, per kvar of the bank and per step; neither given: reactors are not priced (and said so). */
+  reactorPerKvar?: number;
+  reactorPerStep?: number;
 }
 
 export interface EconomicsInput {
@@ -29,14 +33,37 @@ export interface EconomicsInput {
   losses?: LossSavingsInput;
   cost?: InstalledCostInput;
   bank?: { installedKvar: number; steps: number };
+  /** What is proposed, one line each; without it the bank alone is priced. */
+  items?: CostItemInput[];
   /** Loss reduction fraction 1 − (PF₁/PF₂)² from the correction (0–1). */
   lossReductionFraction?: number;
   basis: "interval_data" | "survey_demand";
+  /** With interval data: how the after-correction months were reached, and whether they are an estimate. */
+  intervalMethod?: IntervalMethod;
   assumptions?: string[];
+}
+
+export interface IntervalMethod {
+  method: "monthly_load_points" | "site_load_points_scaled";
+  estimate: boolean;
+  note: string;
+}
+
+/** The period's demand and energy before and after correction (the kvarh left, lagging and leading apart). */
+export interface PeriodFigures {
+  kWh: number;
+  peakKW: number;
+  peakKVABefore: number;
+  peakKVAAfter: number;
+  kvarhLaggingBefore: number;
+  kvarhLaggingAfter: number;
+  kvarhLeadingBefore: number;
+  kvarhLeadingAfter: number;
 }
 
 export interface PeriodSavings {
   label: string;
+  figures: PeriodFigures;
   before: PeriodCharge;
   after: PeriodCharge;
   tariffSaving: number;
@@ -49,12 +76,15 @@ export interface EconomicsResult {
   currency: string;
   tariff: Tariff;
   basis: EconomicsInput["basis"];
+  intervalMethod?: IntervalMethod;
   periods: PeriodSavings[];
   /** Mean saving per period (a month). */
   savingPerMonth: number;
   savingPerYear: number;
   installedCost: number | null;
   costBreakdown: { perKvar: number; perStep: number; fixed: number } | null;
+  /** The priced lines; those with counted = false are options shown for comparison. */
+  costItems: CostItem[];
   /** Simple payback = installed cost / yearly saving; null without cost or without a positive saving. */
   simplePaybackYears: number | null;
   assumptions: string[];
@@ -73,7 +103,17 @@ export function economics(input: EconomicsInput): EconomicsResult {
     const lossSavingKWh = input.losses ? p.before.kWh * (input.losses.lossesPct / 100) * lossFraction : 0;
     const lossSaving = input.losses ? lossSavingKWh * input.losses.energyPricePerKWh : 0;
     const tariffSaving = before.charge - after.charge;
-    return { label: p.label, before, after, tariffSaving, lossSavingKWh, lossSaving, saving: tariffSaving + lossSaving };
+    const figures: PeriodFigures = {
+      kWh: p.before.kWh,
+      peakKW: p.before.peakKW,
+      peakKVABefore: p.before.peakKVA,
+      peakKVAAfter: p.after.peakKVA,
+      kvarhLaggingBefore: p.before.kvarh,
+      kvarhLaggingAfter: p.after.kvarh,
+      kvarhLeadingBefore: p.before.kvarhLeading ?? 0,
+      kvarhLeadingAfter: p.after.kvarhLeading ?? 0,
+    };
+    return { label: p.label, figures, before, after, tariffSaving, lossSavingKWh, lossSaving, saving: tariffSaving + lossSaving };
   });
   const total = periods.reduce((s, p) => s + p.saving, 0);
   const savingPerMonth = periods.length > 0 ? total / periods.length : 0;
@@ -86,7 +126,20 @@ export function economics(input: EconomicsInput): EconomicsResult {
 
   let costBreakdown: EconomicsResult["costBreakdown"] = null;
   let installedCost: number | null = null;
-  if (input.cost && input.bank) {
+  let costItems: CostItem[] = [];
+  if (input.cost && input.items && input.items.some((i) => i.counted)) {
+    const priced = priceItems(input.items, input.cost);
+    costItems = priced.items;
+    const counted = costItems.filter((i) => i.counted);
+    costBreakdown = {
+      perKvar: counted.reduce((s, i) => s + (input.cost?.perKvar ?? 0) * i.kvar, 0),
+      perStep: counted.reduce((s, i) => s + (input.cost?.perStep ?? 0) * i.units, 0),
+      fixed: input.cost.fixed ?? 0,
+    };
+    installedCost = counted.reduce((s, i) => s + i.cost, 0) + costBreakdown.fixed;
+    if (priced.reactorsUnpriced) assumptions.push("the detuned bank's reactors are not priced (no reactorPerKvar or reactorPerStep given): the installed cost and payback leave them out");
+    if (costItems.some((i) => !i.counted)) assumptions.push("the plain bank is priced for comparison only; the installed cost is that of the detuned bank the harmonic study proposes");
+  } else if (input.cost && input.bank) {
     costBreakdown = {
       perKvar: (input.cost.perKvar ?? 0) * input.bank.installedKvar,
       perStep: (input.cost.perStep ?? 0) * input.bank.steps,
@@ -100,13 +153,15 @@ export function economics(input: EconomicsInput): EconomicsResult {
   if (installedCost !== null && savingPerYear <= 0) assumptions.push("the bank saves nothing under this tariff: no payback");
   return {
     currency: input.currency,
-    tariff: { ...input.tariff },
+    tariff: tariffWithDefaults(input.tariff),
     basis: input.basis,
+    ...(input.intervalMethod ? { intervalMethod: { ...input.intervalMethod } } : {}),
     periods,
     savingPerMonth,
     savingPerYear,
     installedCost,
     costBreakdown,
+    costItems,
     simplePaybackYears,
     assumptions,
   };

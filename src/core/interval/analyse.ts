@@ -6,6 +6,9 @@ import type { DurationCurve, IntervalSeries, LoadPoints, MonthlyDemand, Percenti
 
 export const LOAD_POINT_KW_BINS = 16;
 export const LOAD_POINT_KVAR_BINS = 24;
+/** A month's own kW × kvar grid is coarser: twelve of them are stored with a summary (see summary.ts). */
+export const MONTH_POINT_KW_BINS = 10;
+export const MONTH_POINT_KVAR_BINS = 12;
 
 /** The figures of a demand series (percentiles are nearest-rank over the intervals present). */
 export interface IntervalAnalysis {
@@ -29,6 +32,8 @@ export interface IntervalAnalysis {
   monthly: MonthlyDemand[];
   total: { kWh: number; kvarhLagging: number; kvarhLeading: number; billingPF: number };
   loadPoints: LoadPoints;
+  /** Each month's own load points (same order as `monthly`): what the economics needs to price any bank month by month. */
+  monthlyLoadPoints: LoadPoints[];
 }
 
 /** Stretch a running range to include v. */
@@ -50,11 +55,13 @@ export function assertSeries(series: IntervalSeries): void {
   for (let i = 1; i < n; i++) if (!((t[i] as number) > (t[i - 1] as number))) throw new RangeError(`timestamps not strictly increasing at index ${i}`);
 }
 
-/** Mean kW and kvar of the non-empty cells of a kW × kvar histogram (enough to re-estimate a controller). */
-export function loadPointsOf(series: IntervalSeries, kWBins = LOAD_POINT_KW_BINS, kvarBins = LOAD_POINT_KVAR_BINS): LoadPoints {
-  const n = series.length;
+/**
+ * Mean kW and kvar of the non-empty cells of a kW × kvar histogram (enough to re-estimate a controller), over the
+ * intervals start…end − 1 (the whole series by default).
+ */
+export function loadPointsOf(series: IntervalSeries, kWBins = LOAD_POINT_KW_BINS, kvarBins = LOAD_POINT_KVAR_BINS, start = 0, end = series.length): LoadPoints {
   let pMax = 0, qMin = Infinity, qMax = -Infinity;
-  for (let i = 0; i < n; i++) {
+  for (let i = start; i < end; i++) {
     const p = series.kW[i] as number, q = series.kvar[i] as number;
     if (p > pMax) pMax = p;
     if (q < qMin) qMin = q;
@@ -65,7 +72,7 @@ export function loadPointsOf(series: IntervalSeries, kWBins = LOAD_POINT_KW_BINS
   const finite = (x: number) => (Number.isFinite(x) ? x : 0); // a subnormal range would give ∞ · 0 = NaN
   const pScale = pMax > 0 ? finite(kWBins / pMax) : 0;
   const qScale = qMax > qMin ? finite(kvarBins / (qMax - qMin)) : 0;
-  for (let i = 0; i < n; i++) {
+  for (let i = start; i < end; i++) {
     const p = series.kW[i] as number, q = series.kvar[i] as number;
     const a = Math.min(kWBins - 1, Math.floor(p * pScale));
     const b = Math.min(kvarBins - 1, Math.floor((q - qMin) * qScale));
@@ -117,7 +124,8 @@ export function analyseIntervals(series: IntervalSeries, targetPF: number): Inte
   const neededP = percentiles(needed, n, undefined, r.need);
   const { curve, percentiles: kvarP } = durationCurve(kvar, n, r.q); // CURVE_PERCENTILES include every whole percent
   const zone = zoneOfSeries(series);
-  const monthly = monthlyDemand(series, kvar, monthRuns(series, zone), zone);
+  const runs = monthRuns(series, zone);
+  const monthly = monthlyDemand(series, kvar, runs, zone);
   const hours = series.intervalMinutes / 60;
   const kWh = monthly.reduce((a, m) => a + m.kWh, 0);
   const lag = monthly.reduce((a, m) => a + m.kvarhLagging, 0);
@@ -145,5 +153,6 @@ export function analyseIntervals(series: IntervalSeries, targetPF: number): Inte
     monthly,
     total: { kWh, kvarhLagging: lag, kvarhLeading: lead, billingPF: billingPF(kWh, lag - lead) },
     loadPoints: loadPointsOf(series),
+    monthlyLoadPoints: runs.map((r) => loadPointsOf(series, MONTH_POINT_KW_BINS, MONTH_POINT_KVAR_BINS, r.start, r.end)),
   };
 }

@@ -96,6 +96,7 @@ function monthlyDemandOf(series: IntervalSeries, kvar: Float64Array, runs: Month
       intervals: run.end - run.start,
       peakKW,
       peakKWAt: at(peakKWi),
+      peakKWKvar: kvar[peakKWi] as number,
       peakKVA,
       peakKVAAt: at(peakKVAi),
       kWh,

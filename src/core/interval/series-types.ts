@@ -38,6 +38,8 @@ export interface MonthlyDemand {
   intervals: number;
   peakKW: number;
   peakKWAt: string;
+  /** kvar of the interval with the peak kW (its PF is the "PF at the peak" of a PF-adjusted demand clause). */
+  peakKWKvar: number;
   peakKVA: number;
   peakKVAAt: string;
   kWh: number;

@@ -10,12 +10,16 @@ export interface MonthlyCorrection {
   kWh: number;
   kvarhNetBefore: number;
   kvarhNetAfter: number;
+  kvarhLaggingAfter: number;
+  kvarhLeadingAfter: number;
   billingPFBefore: number;
   billingPFAfter: number;
   billingPFLaggingOnlyBefore: number;
   billingPFLaggingOnlyAfter: number;
   peakKVABefore: number;
   peakKVAAfter: number;
+  /** PF of the interval with the peak kW, after correction. */
+  pfAtPeakKWAfter: number;
 }
 
 export interface ControllerSimulation {
@@ -94,12 +98,15 @@ export function simulateController(series: IntervalSeries, bank: CapacitorBank, 
       kWh: b.kWh,
       kvarhNetBefore: b.kvarhLagging - b.kvarhLeading,
       kvarhNetAfter: a.kvarhLagging - a.kvarhLeading,
+      kvarhLaggingAfter: a.kvarhLagging,
+      kvarhLeadingAfter: a.kvarhLeading,
       billingPFBefore: b.billingPF,
       billingPFAfter: a.billingPF,
       billingPFLaggingOnlyBefore: b.billingPFLaggingOnly,
       billingPFLaggingOnlyAfter: a.billingPFLaggingOnly,
       peakKVABefore: b.peakKVA,
       peakKVAAfter: a.peakKVA,
+      pfAtPeakKWAfter: intervalPF(a.peakKW, a.peakKWKvar),
     };
   });
   const kWh = monthly.reduce((s, m) => s + m.kWh, 0);

@@ -32,7 +32,8 @@ export function sampleCounts(count: readonly number[], maxSamples = INTERVAL_DEM
 
 /**
  * The interval demand a sizing rests on, rebuilt from a stored summary: each (kW, kvar) load point repeated in
- * proportion to its interval count (see sampleCounts), the summary's interval length, and its months for savings.
+ * proportion to its interval count (see sampleCounts), the summary's interval length, and its months for savings
+ * (with each month's own load points from summary version 2 on).
  *
  * Time order is lost: the samples are grouped by load point, not in the order the intervals came, and the spread
  * within a histogram cell is gone. Percentiles, coverage and the fixed/switched split of a bank design hold; switching
@@ -54,6 +55,16 @@ export function intervalDemandOf(s: IntervalSummary, maxSamples = INTERVAL_DEMAN
     kW,
     kvar,
     intervalMinutes: s.intervalMinutes,
-    months: s.monthly.map((m) => ({ month: m.month, peakKW: m.peakKW, peakKVA: m.peakKVA, kWh: m.kWh, kvarhLagging: m.kvarhLagging })),
+    months: s.monthly.map((m) => ({
+      month: m.month,
+      peakKW: m.peakKW,
+      peakKVA: m.peakKVA,
+      kWh: m.kWh,
+      kvarhLagging: m.kvarhLagging,
+      kvarhLeading: m.kvarhLeading,
+      // version 2 on: what the economics needs to price any bank month by month
+      ...(m.peakKWKvar !== undefined ? { peakKWKvar: m.peakKWKvar } : {}),
+      ...(m.loadPoints ? { loadPoints: m.loadPoints } : {}),
+    })),
   };
 }

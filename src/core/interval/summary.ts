@@ -4,7 +4,11 @@ import { createController, DEFAULT_LEADING_LIMIT_PF, type ControllerOptions } fr
 import { billingPF } from "./months.js";
 import type { CapacitorBank, DurationCurve, LoadPoints, Percentiles } from "./series-types.js";
 
-export const SUMMARY_VERSION = 1;
+/**
+ * 2: each month also keeps its own load points and the kvar at its peak kW (the economics prices any bank month by
+ * month from them). Version-1 summaries, stored before, lack both and stay readable.
+ */
+export const SUMMARY_VERSION = 2;
 /** Months kept in a summary (the latest ones). */
 export const SUMMARY_MAX_MONTHS = 36;
 
@@ -15,16 +19,30 @@ export const SUMMARY_MAX_MONTHS = 36;
  */
 export interface IntervalSummary
   extends Pick<IntervalAnalysis, "targetPF" | "intervalMinutes" | "intervalCount" | "firstTimestamp" | "lastTimestamp" | "coveredDays" | "timeZone" | "kW"> {
-  summaryVersion: typeof SUMMARY_VERSION;
+  summaryVersion: typeof SUMMARY_VERSION | 1;
   kvar: { mean: number; percentiles: Percentiles };
   minimumReactiveDemand: { minKvar: number; p1Kvar: number; p5Kvar: number };
   neededKvar: { percentiles: Percentiles; hold95PctKvar: number; hold99PctKvar: number; hold100PctKvar: number };
   pf: { percentiles: Percentiles; intervalsBelowTarget: number; intervalsLeading: number };
   durationCurve: DurationCurve;
-  monthly: { month: string; intervals: number; peakKW: number; peakKVA: number; kWh: number; kvarhLagging: number; kvarhLeading: number; billingPF: number }[];
+  monthly: SummaryMonth[];
   monthsOmitted: number;
   total: { kWh: number; kvarhLagging: number; kvarhLeading: number; billingPF: number };
   loadPoints: LoadPoints;
+}
+
+/** A month of a summary; `peakKWKvar` and `loadPoints` are absent from version-1 summaries. */
+export interface SummaryMonth {
+  month: string;
+  intervals: number;
+  peakKW: number;
+  peakKVA: number;
+  kWh: number;
+  kvarhLagging: number;
+  kvarhLeading: number;
+  billingPF: number;
+  peakKWKvar?: number;
+  loadPoints?: LoadPoints;
 }
 
 const r3 = (v: number) => round(v, 3);
@@ -34,6 +52,7 @@ const mapP = (p: Percentiles, f: (v: number) => number): Percentiles => Object.f
 
 export function summarise(a: IntervalAnalysis): IntervalSummary {
   const months = a.monthly.slice(-SUMMARY_MAX_MONTHS);
+  const monthPoints = a.monthlyLoadPoints.slice(-SUMMARY_MAX_MONTHS);
   return {
     summaryVersion: SUMMARY_VERSION,
     targetPF: a.targetPF,
@@ -54,7 +73,7 @@ export function summarise(a: IntervalAnalysis): IntervalSummary {
     },
     pf: { percentiles: mapP(a.pf.percentiles, r6), intervalsBelowTarget: a.pf.intervalsBelowTarget, intervalsLeading: a.pf.intervalsLeading },
     durationCurve: { exceedancePct: a.kvar.durationCurve.exceedancePct, kvar: a.kvar.durationCurve.kvar.map(r3) },
-    monthly: months.map((m) => ({
+    monthly: months.map((m, k) => ({
       month: m.month,
       intervals: m.intervals,
       peakKW: r3(m.peakKW),
@@ -63,11 +82,17 @@ export function summarise(a: IntervalAnalysis): IntervalSummary {
       kvarhLagging: r1(m.kvarhLagging),
       kvarhLeading: r1(m.kvarhLeading),
       billingPF: r6(m.billingPF),
+      peakKWKvar: r3(m.peakKWKvar),
+      loadPoints: roundPoints(monthPoints[k] as LoadPoints),
     })),
     monthsOmitted: a.monthly.length - months.length,
     total: { kWh: r1(a.total.kWh), kvarhLagging: r1(a.total.kvarhLagging), kvarhLeading: r1(a.total.kvarhLeading), billingPF: r6(a.total.billingPF) },
-    loadPoints: { ...a.loadPoints, kW: a.loadPoints.kW.map(r3), kvar: a.loadPoints.kvar.map(r3) },
+    loadPoints: roundPoints(a.loadPoints),
   };
+}
+
+function roundPoints(lp: LoadPoints): LoadPoints {
+  return { ...lp, kW: lp.kW.map(r3), kvar: lp.kvar.map(r3) };
 }
 
 export interface RoughControllerEstimate {
@@ -107,7 +132,7 @@ export function roughControllerEstimate(s: IntervalSummary, bank: CapacitorBank,
       const k = c.leastAtLeast(wanted);
       return k <= ceiling + 1e-9 ? k : c.largestAtMost(ceiling);
     };
-    const fresh = pickWithin(residual - target);
+    const fresh = c.freshKvar(kW, kvar);
     const least = Math.min(fresh, pickWithin(residual - target - th));
     const most = Math.max(fresh, c.largestAtMost(Math.min(residual + th, ceiling)));
     [fresh, least, most].forEach((kvarOn, j) => {

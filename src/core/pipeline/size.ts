@@ -11,7 +11,7 @@ import {
   voltageRisePct,
 } from "../harmonics/resonance.js";
 import { shortCircuitAtBus } from "../harmonics/short-circuit.js";
-import { siteEconomics } from "../economics/of-sizing.js";
+import { costItemsOf, economicsBankOf, economicsIntervalsOf, siteEconomics } from "../economics/of-sizing.js";
 import type { EconomicsResult } from "../economics/index.js";
 import { compactStudy, studySiteHarmonics, withoutScreenVoltageRepeats, type SizingHarmonics } from "../harmonics/site-study.js";
 import type { HarmonicStudyOptions, HarmonicStudyResult } from "../harmonics/index.js";
@@ -168,8 +168,9 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
         input.economics,
         site,
         correction,
-        recommendedBank ? { installedKvar: recommendedBank.effectiveKvar, steps: recommendedBank.physicalSteps.length } : null,
-        siteInput.intervalDemand?.months,
+        recommendedBank ? economicsBankOf(recommendedBank) : null,
+        economicsIntervalsOf(siteInput.intervalDemand),
+        costItemsOf(recommendedBank, designed.placement, h.study?.proposals),
       )
     : undefined;
 

@@ -170,14 +170,27 @@ export const resonanceSchema = z.object({
   proposedBankVoltageRisePct: z.number().nullable(),
 });
 
-const billedCharge = z.object({ billedQuantity: z.number(), billedUnit: z.enum(["kVA", "kW", "kvarh", "none"]), charge: z.number() });
+const billedCharge = z.object({
+  billedQuantity: z.number(),
+  billedUnit: z.enum(["kVA", "kW", "kvarh", "none"]),
+  charge: z.number(),
+  pf: z.number().optional().describe("the PF a PF-adjusted demand clause compared with its base"),
+});
 export const economicsResultSchema = z.object({
   currency: z.string(),
   tariff: z.object({ form: z.string() }).loose(),
   basis: z.enum(["interval_data", "survey_demand"]),
+  intervalMethod: z
+    .object({ method: z.enum(["monthly_load_points", "site_load_points_scaled"]), estimate: z.boolean(), note: z.string() })
+    .optional()
+    .describe("with interval data: how the after-correction months were worked, and whether they are an estimate"),
   periods: z.array(
     z.object({
       label: z.string(),
+      figures: z.object({
+        kWh: z.number(), peakKW: z.number(), peakKVABefore: z.number(), peakKVAAfter: z.number(),
+        kvarhLaggingBefore: z.number(), kvarhLaggingAfter: z.number(), kvarhLeadingBefore: z.number(), kvarhLeadingAfter: z.number(),
+      }).describe("the period's demand and energy before and after correction; leading kvarh shown apart"),
       before: billedCharge,
       after: billedCharge,
       tariffSaving: z.number(),
@@ -190,6 +203,13 @@ export const economicsResultSchema = z.object({
   savingPerYear: z.number(),
   installedCost: z.number().nullable(),
   costBreakdown: z.object({ perKvar: z.number(), perStep: z.number(), fixed: z.number() }).nullable(),
+  costItems: z.array(
+    z.object({
+      item: z.enum(["central_bank", "central_bank_plain", "motor_terminal", "group_bank"]),
+      label: z.string(), kvar: z.number(), units: z.number(), reactorPct: z.number(), counted: z.boolean(),
+      capacitorCost: z.number(), reactorCost: z.number().nullable().describe("null: a detuned bank's reactors, not priced"), cost: z.number(),
+    }),
+  ).describe("what is proposed, one line each; counted = false: an option shown for comparison, not in the installed cost"),
   simplePaybackYears: z.number().nullable(),
   assumptions: z.array(z.string()),
 });

@@ -139,6 +139,10 @@ export const tariffSchema = z.discriminatedUnion(
       form: z.literal("kw_demand_pf_adjusted"),
       chargePerKW: money("chargePerKW").describe("per billed kW, a month"),
       basePF: z.number().min(0.7, "basePF must be 0.70 to 1.00").max(1, "basePF must be 0.70 to 1.00").describe("billed kW = kW·basePF/PF below it"),
+      pfBasis: z
+        .enum(["average", "at_peak"], { error: "pfBasis must be average or at_peak" })
+        .optional()
+        .describe("the PF compared with basePF: average = the period's kWh / √(kWh² + lagging kvarh²); at_peak = the PF of the interval with the peak kW (default average)"),
     }),
     z.strictObject({
       form: z.literal("kvarh_excess"),
@@ -160,7 +164,15 @@ export const economicsSchema = z.strictObject({
       energyPricePerKWh: money("energyPricePerKWh"),
     })
     .optional(),
-  cost: z.strictObject({ perKvar: money("perKvar").optional(), perStep: money("perStep").optional(), fixed: money("fixed").optional() }).optional(),
+  cost: z
+    .strictObject({
+      perKvar: money("perKvar").optional(),
+      perStep: money("perStep").optional(),
+      fixed: money("fixed").optional(),
+      reactorPerKvar: money("reactorPerKvar").optional().describe("detuning reactors, per kvar of a detuned bank; with reactorPerStep absent too, reactors are not priced"),
+      reactorPerStep: money("reactorPerStep").optional().describe("detuning reactors, per step of a detuned bank"),
+    })
+    .optional(),
 });
 
 export const scopeSchema = z

@@ -8,7 +8,7 @@ export function tariffText(t: Tariff, currency: string): string {
     case "kva_demand":
       return `kVA demand charge: ${fmt.money(t.chargePerKVA, currency)} per kVA of the period's peak`;
     case "kw_demand_pf_adjusted":
-      return `kW demand charge ${fmt.money(t.chargePerKW, currency)} per kW, raised by base PF / PF below a base PF of ${fmt.pf(t.basePF)}`;
+      return `kW demand charge ${fmt.money(t.chargePerKW, currency)} per kW, raised by base PF / PF below a base PF of ${fmt.pf(t.basePF)} (PF ${t.pfBasis === "at_peak" ? "of the interval with the peak kW" : "averaged over the period"})`;
     case "kvarh_excess":
       return `${fmt.money(t.chargePerKvarh, currency)} per kvarh above ${fmt.num(t.allowanceRatio, 3)} × kWh`;
     case "none":
@@ -24,6 +24,7 @@ function economicsBlocks(e: EconomicsResult): Block[] {
       items: [
         { key: "Tariff", value: tariffText(e.tariff, c) },
         { key: "Basis", value: e.basis === "interval_data" ? "interval data" : "survey demand" },
+        ...(e.intervalMethod ? [{ key: "Interval method", value: e.intervalMethod.estimate ? `estimate: ${e.intervalMethod.method.replace(/_/g, " ")}` : e.intervalMethod.method.replace(/_/g, " ") }] : []),
         { key: "Saving per month", value: fmt.money(e.savingPerMonth, c) },
         { key: "Saving per year", value: fmt.money(e.savingPerYear, c) },
         { key: "Installed cost", value: e.installedCost === null ? "not given" : fmt.money(e.installedCost, c) },
@@ -37,6 +38,22 @@ function economicsBlocks(e: EconomicsResult): Block[] {
       { key: "Per step", value: fmt.money(e.costBreakdown.perStep, c) },
       { key: "Fixed", value: fmt.money(e.costBreakdown.fixed, c) },
     ] });
+  }
+  if (e.costItems.length > 0) {
+    blocks.push({
+      kind: "table",
+      title: "What is priced",
+      header: ["Item", "kvar", "Units", `Capacitors (${c})`, `Reactors (${c})`, `Cost (${c})`],
+      align: ["left", "right", "right", "right", "right", "right"],
+      rows: e.costItems.map((i) => [
+        i.counted ? i.label : `${i.label} (not counted)`,
+        fmt.num(i.kvar, 1),
+        String(i.units),
+        fmt.num(i.capacitorCost, 2),
+        i.reactorCost === null ? "not priced" : fmt.num(i.reactorCost, 2),
+        fmt.num(i.cost, 2),
+      ]),
+    });
   }
   if (e.periods.length > 0) {
     blocks.push({

@@ -27,7 +27,7 @@ describe("IntervalSummary", () => {
   });
 
   it("holds the figures a bank design needs, rounded to 0.001 kvar", () => {
-    expect(summary.summaryVersion).toBe(1);
+    expect(summary.summaryVersion).toBe(2);
     expect(summary.intervalCount).toBe(365 * 96);
     expect(summary.intervalMinutes).toBe(15);
     expect(summary.monthly).toHaveLength(12);
