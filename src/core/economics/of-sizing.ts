@@ -123,7 +123,12 @@ export function siteEconomics(
     );
     const controller = createController(controlled, target);
     const after = site.kvar - controlled.fixedKvar - controller.freshKvar(site.kW, site.kvar);
-    periods = [{ label: "typical month", before: state(site.kW, site.kvar, hours), after: state(site.kW, bank ? after : site.kvar, hours) }];
+    // A leading site adds no bank: its saving is the leading excess taken out of service (correction.kvarAfter).
+    const afterKvar = bank ? after : correction.action === "remove" ? correction.kvarAfter : site.kvar;
+    if (!bank && correction.action === "remove") {
+      assumptions.push(`the ${correction.leadingExcessKvar.toFixed(1)} kvar of leading excess is taken out of service: no purchase, the saving is the lower demand`);
+    }
+    periods = [{ label: "typical month", before: state(site.kW, site.kvar, hours), after: state(site.kW, afterKvar, hours) }];
   }
   return economics({
     currency: settings.currency,

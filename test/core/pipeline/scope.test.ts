@@ -127,3 +127,18 @@ describe("the report's correction sentence", () => {
     expect(note).not.toMatch(/no capacitors are needed/);
   });
 });
+
+describe("a leading site's saving", () => {
+  it("is the kVA the excess's removal releases, on a kVA tariff (hand-worked)", () => {
+    const r = ok({
+      system: { voltageV: 400, frequencyHz: 50, phases: 3 },
+      loads: [{ label: "Old bank", kind: "other", measurement: { method: "kw_kvar", kW: 200, kvar: -150 } }],
+      economics: { currency: "EUR", tariff: { form: "kva_demand", chargePerKVA: 8 } },
+    });
+    // hand: before √(200² + 150²) = 250 kVA; after PF 0.95 leading: 200/0.95 = 210.526 kVA;
+    // 39.474 kVA × 8 EUR × 12 months = 3789.47 EUR a year, with nothing bought
+    expect(r.correction.action).toBe("remove");
+    expectClose(r.economics?.savingPerYear ?? 0, (250 - 200 / 0.95) * 8 * 12, TOL.powerQuoted2, "saving a year");
+    expect(r.economics?.assumptions.join(" ")).toMatch(/taken out of service: no purchase/);
+  });
+});
