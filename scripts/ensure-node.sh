@@ -1,9 +1,9 @@
 # Source this file (". scripts/ensure-node.sh") from the repository root, or from .ci/run.
 #
 # Puts a Node.js of the major version in .nvmrc (or newer) first on PATH. When the machine's own `node` is
-# older, the official Linux build is taken from the npm registry (the package node-linux-<arch>, which holds
-# bin/node and the headers in include/node) and unpacked into .ci/node, which git ignores; a later run reuses
-# it. npm itself stays the machine's: its launcher runs under whichever `node` comes first on PATH.
+# older, Node's Linux binary is taken from the npm registry (the package node-linux-<arch>, which holds bin/node
+# and the headers in include/node) and unpacked into .ci/node, which git ignores; a later run reuses it. npm
+# itself stays the machine's: its launcher runs under whichever `node` comes first on PATH.
 #
 # npm_config_nodedir is pointed at the same Node, so that any native addon compiled by node-gyp is built
 # against the headers of the Node that will load it (a user or global .npmrc may name the machine's own).
