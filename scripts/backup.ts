@@ -1,4 +1,4 @@
-import { loadConfig } from "../src/config.js";
+import { loadConfig, loadEnvFileIfPresent } from "../src/config.js";
 import { backupDatabase } from "../src/store/backup.js";
 
 /** npm run backup -- <file>: an online copy of DATABASE_PATH, safe while the server runs. */
@@ -8,6 +8,7 @@ if (!target || target.startsWith("-")) {
   process.exit(2);
 }
 try {
+  loadEnvFileIfPresent();
   const config = loadConfig(process.env);
   const outcome = await backupDatabase(config.DATABASE_PATH, target);
   process.stdout.write(`${outcome.file}\n`);

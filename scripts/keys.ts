@@ -1,7 +1,7 @@
 import { parseArgs } from "node:util";
 import { issueKey, organisationNamed } from "../src/auth/bootstrap.js";
 import { ROLES, type Role } from "../src/auth/keys.js";
-import { loadConfig } from "../src/config.js";
+import { loadConfig, loadEnvFileIfPresent } from "../src/config.js";
 import { DEFAULT_ORG_ID, openStore } from "../src/store/store.js";
 
 /**
@@ -37,6 +37,7 @@ if (label !== null && label.length > 100) fail("--label must be at most 100 char
 
 let config;
 try {
+  loadEnvFileIfPresent();
   config = loadConfig(process.env);
 } catch (err) {
   fail((err as Error).message);

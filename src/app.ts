@@ -19,6 +19,8 @@ import { reportRoutes } from "./http/routes/reports.js";
 import { surveyReadRoutes } from "./http/routes/survey-reads.js";
 import { surveysRoutes } from "./http/routes/surveys.js";
 import { problem, ProblemError, sendProblem } from "./http/problem.js";
+import { problemsRoutes } from "./http/routes/problems.js";
+import { MAX_PARAM_CHARS, noRouteHandler, routerErrorHandler } from "./http/routing.js";
 import { openStore, type Store } from "./store/store.js";
 
 declare module "fastify" {
@@ -79,6 +81,8 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
     bodyLimit: config.BODY_LIMIT_BYTES,
     requestTimeout: config.REQUEST_TIMEOUT_MS,
     connectionTimeout: config.REQUEST_TIMEOUT_MS,
+    routerOptions: { maxParamLength: MAX_PARAM_CHARS },
+    frameworkErrors: routerErrorHandler,
     genReqId: (req) => {
       const given = req.headers["x-request-id"];
       return typeof given === "string" && /^[\w.:-]{1,128}$/.test(given) ? given : randomUUID();
@@ -113,9 +117,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
     return sendProblem(reply, problem(500, "internal", "Internal error", "an unexpected error occurred; it has been logged with this request id"));
   });
 
-  app.setNotFoundHandler((request, reply) =>
-    sendProblem(reply, problem(404, "not-found", "Not found", `no route ${request.method} ${request.url.split("?")[0]}`)),
-  );
+  app.setNotFoundHandler(noRouteHandler(app));
 
   app.decorate("store", store);
   app.addHook("onClose", async () => store.close());
@@ -133,6 +135,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
   await app.register(auditRoutes, { store });
   await app.register(keysRoutes, { store });
   await app.register(docsRoutes);
+  await app.register(problemsRoutes);
   await app.register(formRoutes);
   return app;
 }

@@ -1,5 +1,6 @@
+import { existsSync } from "node:fs";
 import { z } from "zod";
-import { KEY_PATTERN } from "./auth/keys.js";
+import { KEY_SHAPE_IN_WORDS, keyShapeProblem } from "./auth/keys.js";
 
 /** "https://a.example, http://localhost:5173" → origins; each must be scheme://host[:port] without a path. */
 export function corsOrigins(value: string): string[] {
@@ -15,7 +16,13 @@ const schema = z.object({
   DEMO_DATA: z.enum(["on", "off"]).default("on"),
   BODY_LIMIT_BYTES: z.coerce.number().int().min(1024).max(64 * 1024 * 1024).default(1024 * 1024),
   /** The first admin key, used only when the database has no key yet; otherwise one is generated and printed once. */
-  PFC_BOOTSTRAP_KEY: z.string().regex(KEY_PATTERN, "must look like pfc_<8 characters>_<43 base64url characters>").optional(),
+  PFC_BOOTSTRAP_KEY: z
+    .string()
+    .superRefine((key, ctx) => {
+      const wrong = keyShapeProblem(key);
+      if (wrong) ctx.addIssue({ code: "custom", message: `is not a key: ${wrong}; a key is ${KEY_SHAPE_IN_WORDS}` });
+    })
+    .optional(),
   RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).max(10_000_000).default(600),
   /** Comma-separated origins allowed by CORS; empty: no cross-origin access. */
   CORS_ORIGINS: z
@@ -34,12 +41,18 @@ const schema = z.object({
 
 export type Config = z.infer<typeof schema>;
 
+/** Variables whose value is never written out, not even in an error about it. */
+const SECRETS: ReadonlySet<string> = new Set(["PFC_BOOTSTRAP_KEY"]);
+
 /** Read and validate configuration; a bad value is reported with its variable name. */
 export function loadConfig(env: NodeJS.ProcessEnv): Config {
   const picked = Object.fromEntries(Object.keys(schema.shape).map((k) => [k, env[k] === "" ? undefined : env[k]]));
   const parsed = schema.safeParse(picked);
   if (!parsed.success) {
-    const lines = parsed.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message} (got ${JSON.stringify(picked[String(i.path[0])])})`);
+    const lines = parsed.error.issues.map((i) => {
+      const name = String(i.path[0]);
+      return `  ${i.path.join(".")}: ${i.message} (${SECRETS.has(name) ? "its value is a secret and is not shown" : `got ${JSON.stringify(picked[name])}`})`;
+    });
     throw new Error(`invalid configuration:\n${lines.join("\n")}`);
   }
   return parsed.data;
@@ -47,4 +60,13 @@ export function loadConfig(env: NodeJS.ProcessEnv): Config {
 
 export function defaultConfig(overrides: Partial<Config> = {}): Config {
   return { ...schema.parse({}), ...overrides };
+}
+
+/**
+ * The variables of `.env` in the working directory, when there is one, through Node's own parser; a variable
+ * already set in the environment wins. For the npm scripts run through tsx (`npm start` passes node
+ * --env-file-if-exists=.env instead: the flag would make tsx's loader thread warn about a missing file).
+ */
+export function loadEnvFileIfPresent(path = ".env"): void {
+  if (existsSync(path)) process.loadEnvFile(path);
 }

@@ -1,4 +1,4 @@
-import { generateKey, parseKey, hashSecret, type Role } from "./keys.js";
+import { generateKey, keyShapeProblem, parseKey, hashSecret, type Role } from "./keys.js";
 import { newId } from "../store/ids.js";
 import { DEFAULT_ORG_ID, type Store } from "../store/store.js";
 import type { ApiKeyRecord } from "../store/keys-repo.js";
@@ -16,7 +16,7 @@ export function issueKey(
   given?: string,
 ): IssuedKey {
   const parsed = given === undefined ? undefined : parseKey(given);
-  if (given !== undefined && !parsed) throw new Error("the key does not have the pfc_<prefix>_<secret> shape");
+  if (given !== undefined && !parsed) throw new Error(`the given key is not a key: ${keyShapeProblem(given) ?? "it does not have the key's shape"}`);
   const fresh = parsed ? { key: given as string, prefix: parsed.prefix, secretSha256: hashSecret(parsed.secret) } : generateKey();
   const at = store.now().toISOString();
   const record: ApiKeyRecord = {

@@ -10,23 +10,37 @@ export interface WriteOutcome {
   location?: string;
 }
 
-/** Keys answer replays for at least KEEP_MS; records older than PURGE_MS are deleted lazily. */
-export const KEEP_MS = 24 * 3600_000;
-export const PURGE_MS = 48 * 3600_000;
+/** How long a key answers replays: for KEEP_HOURS after its first use; older records are deleted lazily. */
+export const KEEP_HOURS = 48;
+const KEEP_MS = KEEP_HOURS * 3600_000;
 const PURGE_EVERY_MS = 10 * 60_000;
 const lastPurge = new WeakMap<Store, number>();
 
 const KEY = /^[\x21-\x7e]{1,255}$/;
+/** An RFC 8941 sf-string: DQUOTE, then printable ASCII with " and \ escaped by a backslash, then DQUOTE (§3.3.3). */
+const SF_STRING = /^"((?:[\x20\x21\x23-\x5b\x5d-\x7e]|\\["\\])*)"$/;
 
+/**
+ * The request's Idempotency-Key. The IETF draft defining the header makes its value a Structured Field string
+ * (`Idempotency-Key: "k1"`); clients also send the bare token (`k1`). Both name the same key: the quoted form is
+ * unescaped. Either way the key is 1 to 255 visible ASCII characters.
+ */
 export function idempotencyKeyOf(request: FastifyRequest): string | undefined {
   const raw = request.headers["idempotency-key"];
   if (raw === undefined) return undefined;
-  if (typeof raw !== "string" || !KEY.test(raw)) {
-    throw new ProblemError(
-      validationProblem([{ path: "headers.idempotency-key", message: "Idempotency-Key must be 1 to 255 visible ASCII characters, sent once" }]),
-    );
+  const key = typeof raw === "string" ? unquoted(raw) : undefined; // an array: the header was sent twice
+  if (key === undefined || !KEY.test(key)) {
+    const message = 'Idempotency-Key must be 1 to 255 visible ASCII characters, bare (k1) or as a quoted string ("k1"), sent once';
+    throw new ProblemError(validationProblem([{ path: "headers.idempotency-key", message }]));
   }
-  return raw;
+  return key;
+}
+
+/** The key a header value names: a quoted string unescaped, a bare value as it is; undefined for a broken quoted string. */
+function unquoted(value: string): string | undefined {
+  if (!value.startsWith('"')) return value;
+  const m = SF_STRING.exec(value);
+  return m ? (m[1] as string).replace(/\\(["\\])/g, "$1") : undefined;
 }
 
 /** JSON with object keys sorted at every level, so equal bodies hash equally whatever their key order. */
@@ -48,7 +62,7 @@ export function requestHash(method: string, url: string, body: unknown): string 
 function purgeNowAndThen(store: Store, nowMs: number): void {
   if (nowMs - (lastPurge.get(store) ?? 0) < PURGE_EVERY_MS) return;
   lastPurge.set(store, nowMs);
-  store.idempotency.purgeBefore(new Date(nowMs - PURGE_MS).toISOString());
+  store.idempotency.purgeBefore(new Date(nowMs - KEEP_MS).toISOString());
 }
 
 /**
@@ -72,7 +86,7 @@ export function idempotentWrite(
     const hash = key === undefined ? "" : requestHash(request.method, request.url, hashedBody);
     if (key !== undefined) {
       const prior = store.idempotency.find(orgId, key);
-      if (prior && Date.parse(prior.createdAt) > nowMs - PURGE_MS) {
+      if (prior && Date.parse(prior.createdAt) > nowMs - KEEP_MS) {
         if (prior.requestHash !== hash) {
           const message = `Idempotency-Key "${key}" was first used at ${prior.createdAt} with a different request; use a new key for a new request`;
           throw new ProblemError(

@@ -1,8 +1,8 @@
 import type { Measurement } from "../core/inputs.js";
 import type { RevisionRecord } from "../store/types.js";
-import { spreadsheetSafe, toCsv, type CsvValue } from "./csv.js";
+import { toCsv, type CsvValue } from "./csv.js";
 
-/** One row per load of a stored revision: what was measured, then what the engine computed then. */
+/** One row per load of a stored revision: what was measured, then what the engine computed then. Text cells are defused by csvField. */
 
 export const LOADS_CSV_HEADER = [
   "load",
@@ -41,7 +41,7 @@ export function loadsCsv(r: RevisionRecord): string {
     const c = r.result.loads[i];
     rows.push([
       i + 1,
-      spreadsheetSafe(load.label),
+      load.label, // free text: csvField defuses formulas
       c?.kind ?? load.kind,
       c?.quantity ?? load.quantity ?? 1,
       c?.phases ?? load.phases,

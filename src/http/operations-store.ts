@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { KEEP_HOURS } from "./idempotency.js";
 import { INTERVAL_MAX_BYTES } from "./interval/ingest.js";
 import { INTERVAL_OPTION_DOCS } from "./interval/options.js";
 import { intervalAnalysisCreatedSchema, intervalAnalysisPageSchema, storedIntervalAnalysisSchema } from "./interval/schema.js";
@@ -24,7 +25,7 @@ import {
 
 const idempotency = {
   "Idempotency-Key":
-    "optional; the same key with the same request returns the first response and writes nothing; with another request → 422. Kept at least 24 h.",
+    `optional, bare (k1) or quoted ("k1"); the same key with the same request returns the first response and writes nothing; with another request → 422. Kept ${KEEP_HOURS} h.`,
 };
 const paging = {
   limit: { type: "integer" as const, description: "page size, 1 to 100 (default 20)" },

@@ -33,6 +33,15 @@ export const operations: Operation[] = [
     problems: [],
   },
   {
+    method: "get",
+    path: "/problems/{type}",
+    operationId: "problemType",
+    summary: "What a problem type means and what to do (the page a problem's type points at)",
+    tags: ["service"],
+    responses: { "200": { description: "a short HTML page", contentType: "text/html" } },
+    problems: [404],
+  },
+  {
     method: "post",
     path: "/v1/sizing",
     operationId: "size",

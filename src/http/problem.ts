@@ -1,5 +1,6 @@
 import type { FastifyReply } from "fastify";
 import type { z } from "zod";
+import type { ProblemSlug } from "./problem-types.js";
 
 /** RFC 9457 problem details. `errors` names each offending field by its dotted path. */
 export interface Problem {
@@ -11,7 +12,12 @@ export interface Problem {
   errors?: { path: string; message: string }[];
 }
 
-export const PROBLEM_BASE = "https://pfc-sizing.invalid/problems/";
+/**
+ * Problem types are pages of this service (GET /problems/<slug>), named by a path-absolute reference resolved
+ * against the request's URI: the service does not know the host it is reached by. RFC 9457 §3.1.1 prefers absolute
+ * URIs where possible and, for a relative one, the full path, as here (recalled from the RFC, not quoted).
+ */
+export const PROBLEM_BASE = "/problems/";
 
 export class ProblemError extends Error {
   constructor(
@@ -23,7 +29,7 @@ export class ProblemError extends Error {
   }
 }
 
-export function problem(status: number, slug: string, title: string, detail: string, errors?: Problem["errors"]): Problem {
+export function problem(status: number, slug: ProblemSlug, title: string, detail: string, errors?: Problem["errors"]): Problem {
   return { type: PROBLEM_BASE + slug, title, status, detail, ...(errors ? { errors } : {}) };
 }
 

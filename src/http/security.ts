@@ -9,16 +9,18 @@ import { problem, ProblemError } from "./problem.js";
 export const DOCS_CSP =
   "default-src 'none'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data:; connect-src 'self'; font-src 'self'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'";
 
+/** helmet's options for every answer: CSP default-src 'none' (the JSON API loads nothing). */
+export const HELMET_OPTIONS = {
+  contentSecurityPolicy: { useDefaults: false, directives: { defaultSrc: ["'none'"], frameAncestors: ["'none'"], baseUri: ["'none'"], formAction: ["'none'"] } },
+} as const;
+
 /**
  * Security headers (helmet, CSP default-src 'none' for the JSON API), CORS for the configured origins
  * and the rate limit per API key (per IP address for requests without a valid key). Registered after the
  * actor hook, so the limiter's key generator sees the key id.
  */
 export async function installSecurity(app: FastifyInstance, config: Config): Promise<void> {
-  await app.register(helmet, {
-    global: true,
-    contentSecurityPolicy: { useDefaults: false, directives: { defaultSrc: ["'none'"], frameAncestors: ["'none'"], baseUri: ["'none'"], formAction: ["'none'"] } },
-  });
+  await app.register(helmet, { global: true, ...HELMET_OPTIONS });
   app.addHook("onSend", async (request, reply) => {
     const path = request.url.split("?")[0] ?? "";
     if (path === "/docs" || path.startsWith("/docs/")) reply.header("content-security-policy", DOCS_CSP);

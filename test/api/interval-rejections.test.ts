@@ -17,7 +17,7 @@ function expectProblem(r: { statusCode: number; headers: Record<string, unknown>
   expect(r.statusCode).toBe(status);
   expect(r.headers["content-type"]).toMatch(/^application\/problem\+json/);
   const p = r.json();
-  expect(p).toMatchObject({ status, type: expect.stringMatching(/^https:\/\//), title: expect.any(String), detail: expect.any(String) });
+  expect(p).toMatchObject({ status, type: expect.stringMatching(/^\/problems\/[a-z-]+$/), title: expect.any(String), detail: expect.any(String) });
   return p;
 }
 

@@ -213,9 +213,10 @@ describe("service routes", () => {
     expect(r.body.detail).toBe("no route GET /v1/nothing-here");
   });
 
-  it("GET /v1/sizing (wrong method) → 404 problem", async () => {
+  it("GET /v1/sizing (wrong method) → 405 problem with Allow: POST", async () => {
     const r = await api(app).get("/v1/sizing");
-    expect(r.status).toBe(404);
+    expect(r.status).toBe(405);
+    expect(r.headers.allow).toBe("POST");
     expect(r.headers["content-type"]).toMatch(/^application\/problem\+json/);
   });
 });

@@ -159,4 +159,19 @@ describe("GET /v1/surveys/{id}/loads.csv", () => {
     expect(lines.slice(4)).toEqual([""]); // the last record ends with CRLF too
     expect(l2.displacementPF).toBeGreaterThan(0.9); // derived from the true PF and THD by the engine
   });
+
+  it("gives a spreadsheet set to ';' or tab no cell that begins a formula (OWASP, CSV Injection)", async () => {
+    const labels = ['Feeder 3;=HYPERLINK("x")', ";-2+3", "Chiller\t@SUM(1)", "MCC-2; spare"];
+    const body = surveyBody({ loads: labels.map((label) => ({ label, measurement: { method: "kw_kvar", kW: 10, kvar: 4 } })) });
+    const s = (await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: body })).json();
+    const text = (await inject(app, `/v1/surveys/${s.id}/loads.csv`)).body;
+    for (const sep of [";", "\t"]) {
+      for (const cell of text.split(/\r\n/).flatMap((line) => line.split(sep))) {
+        expect(/^[ \t]*[=+\-@]/.test(cell), `${JSON.stringify(cell)} split on ${JSON.stringify(sep)}`).toBe(false);
+      }
+    }
+    expect(text).toContain(`"Feeder 3;'=HYPERLINK(""x"")"`);
+    expect(text).toContain(",;'-2+3,");
+    expect(text).toContain(",MCC-2; spare,"); // ordinary text is left alone
+  });
 });

@@ -45,6 +45,39 @@ describe("bootstrap key", () => {
     await app.close();
   });
 
+  it("says what is wrong with a malformed PFC_BOOTSTRAP_KEY, and the alphabets, without repeating it", () => {
+    const good = generateKey().key;
+    const secret = good.slice(13);
+    const cases: [string, RegExp][] = [
+      [`pfc_o${good.slice(5)}`, /prefix may hold only the digits 0-9 and the lower-case letters a-z except i, l, o and u/],
+      [`pfc_ABCDEFGH_${secret}`, /prefix may hold only/],
+      [`pfc_abc_${secret}`, /prefix \(between pfc_ and the next _\) has 3 characters, not 8/],
+      [`${good}\n`, /white space/],
+      [`key_${good.slice(4)}`, /does not start with pfc_/],
+      [`${good}Q`, /secret \(after the prefix's _\) has 44 characters, not 43/],
+      [`${good.slice(0, -1)}!`, /secret may hold only A-Z, a-z, 0-9, - and _/],
+      [good.slice(0, 12), /the _ between the prefix and the secret is missing/],
+    ];
+    for (const [value, reason] of cases) {
+      let message = "";
+      try {
+        loadConfig({ PFC_BOOTSTRAP_KEY: value });
+      } catch (err) {
+        message = (err as Error).message;
+      }
+      expect(message, JSON.stringify(value)).toMatch(/PFC_BOOTSTRAP_KEY/);
+      expect(message).toMatch(reason);
+      // every message states the whole shape with both alphabets
+      expect(message).toContain("a-z except i, l, o and u");
+      expect(message).toContain("43 characters: A-Z, a-z, 0-9, - and _");
+      expect(message).not.toContain(secret.slice(0, 20));
+      expect(message).not.toContain(value.slice(4, 12));
+      expect(message).toContain("not shown");
+    }
+    // other variables still show what they got
+    expect(() => loadConfig({ RATE_LIMIT_PER_MINUTE: "0" })).toThrow(/got "0"/);
+  });
+
   it("never writes a key to the request log", async () => {
     let log = "";
     const stream = new Writable({ write: (chunk, _e, done) => ((log += chunk.toString()), done()) });

@@ -1,6 +1,7 @@
 import { spawn } from "node:child_process";
 import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
+import { generateKey } from "../../src/auth/keys.js";
 import { tempDatabasePath } from "../helpers/db.js";
 import { freePort } from "./server-process.js";
 
@@ -56,4 +57,26 @@ describe("the server's first start", () => {
     expect(second.out + second.err).not.toContain(key.slice(13));
     expect(second.out + second.err).not.toContain(key.slice(13, -2));
   }, 60_000);
+});
+
+describe("a malformed PFC_BOOTSTRAP_KEY", () => {
+  it("stops the server with exit code 2 and a message that names the problem, never the value", async () => {
+    // a real-looking key whose prefix holds an 'l', outside the prefix alphabet
+    const good = generateKey().key;
+    const bad = `pfc_l${good.slice(5)}`;
+    const child = spawn(process.execPath, ["--import", "tsx", "src/server.ts"], {
+      cwd: root,
+      env: { ...process.env, PORT: "0", HOST: "127.0.0.1", DATABASE_PATH: tempDatabasePath(), DEMO_DATA: "off", PFC_BOOTSTRAP_KEY: bad },
+      stdio: ["ignore", "pipe", "pipe"],
+    });
+    let all = "";
+    child.stdout.on("data", (d: Buffer) => (all += d.toString()));
+    child.stderr.on("data", (d: Buffer) => (all += d.toString()));
+    const code = await new Promise((resolve) => child.on("exit", resolve));
+    expect(code).toBe(2);
+    expect(all).toContain("PFC_BOOTSTRAP_KEY");
+    expect(all).toContain("except i, l, o and u");
+    expect(all).not.toContain(bad.slice(13)); // the secret part
+    expect(all).not.toContain(bad.slice(4, 12)); // the prefix
+  }, 30_000);
 });

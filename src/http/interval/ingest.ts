@@ -2,6 +2,7 @@ import { isAscii } from "node:buffer";
 import type { Hash } from "node:crypto";
 import type { FatalKind, IntervalParser, ParseOutcome } from "../../core/interval/parser.js";
 import { problem, ProblemError, type Problem } from "../problem.js";
+import type { ProblemSlug } from "../problem-types.js";
 
 /** Largest upload this route reads, bytes (the app-wide JSON limit is 1 MiB; this route sets its own). */
 export const INTERVAL_MAX_BYTES = 64 * 1024 * 1024;
@@ -38,7 +39,7 @@ export async function feedStream(stream: AsyncIterable<Buffer | string>, parser:
   return bytes;
 }
 
-const FATAL: Record<FatalKind, { status: number; slug: string; title: string }> = {
+const FATAL: Record<FatalKind, { status: number; slug: ProblemSlug; title: string }> = {
   options: { status: 400, slug: "validation", title: "The request is not valid" },
   header: { status: 400, slug: "csv-header", title: "The CSV header does not give the needed columns" },
   line_too_long: { status: 400, slug: "csv-line-too-long", title: "A CSV line is too long" },

@@ -24,8 +24,8 @@ const surveyQuery = z.strictObject({
 });
 const sizingQuery = z.strictObject({ format: z.enum(["html", "pdf"], { error: "format must be html or pdf" }).optional(), paper });
 
-/** The document may not load anything: the report is self-contained. */
-const REPORT_CSP = "default-src 'none'; style-src 'unsafe-inline'; img-src data:";
+/** The document may not load anything (it is self-contained), nor be framed by another page, nor post or rebase links. */
+const REPORT_CSP = "default-src 'none'; style-src 'unsafe-inline'; img-src data:; frame-ancestors 'none'; base-uri 'none'; form-action 'none'";
 
 function revisionOf(store: Store, orgId: string, id: string, n?: string): RevisionRecord {
   if (n !== undefined) {
