@@ -55,15 +55,17 @@ export function economicsBankOf(b: Pick<RecommendedBank, "effectiveKvar" | "phys
 export function costItemsOf(
   bank: Pick<RecommendedBank, "effectiveKvar" | "physicalSteps" | "reactorPct"> | null,
   placement: PlacementPlan | undefined,
-  detuned: { forBank: string; design: { reactorPct: number; steps: { effectiveKvar: number }[] } }[] = [],
+  detuned: { forBank: string; design: { reactorPct: number; steps: { effectiveKvar: number }[] }; purchaseSteps?: { effectiveKvar: number }[] }[] = [],
 ): CostItemInput[] {
   const items: CostItemInput[] = [];
   const proposal = detuned.find((p) => p.forBank === "recommended");
   if (bank) {
     const plain: CostItemInput = { item: "central_bank", label: "central bank", kvar: bank.effectiveKvar, units: bank.physicalSteps.length, reactorPct: bank.reactorPct, counted: true };
     if (proposal) {
-      const kvar = proposal.design.steps.reduce((s, x) => s + x.effectiveKvar, 0);
-      items.push({ item: "central_bank", label: `central bank, ${proposal.design.reactorPct} % detuned (proposed by the harmonic study)`, kvar, units: proposal.design.steps.length, reactorPct: proposal.design.reactorPct, counted: true });
+      // priced as bought: the physical steps at the detuned rating (the study's stage increments when unknown)
+      const buy = proposal.purchaseSteps ?? proposal.design.steps;
+      const kvar = buy.reduce((s, x) => s + x.effectiveKvar, 0);
+      items.push({ item: "central_bank", label: `central bank, ${proposal.design.reactorPct} % detuned (proposed by the harmonic study)`, kvar, units: buy.length, reactorPct: proposal.design.reactorPct, counted: true });
       items.push({ ...plain, item: "central_bank_plain", label: "central bank without reactors (for comparison)", counted: false });
     } else items.push(plain);
   }

@@ -41,13 +41,14 @@ export function linearLoadKW(input: SizingInput, loads: LoadResult[]): number {
   return input.loads.reduce((s, load, i) => (load.kind === "drive" || load.harmonics ? s : s + (loads[i]?.kW ?? 0)), 0);
 }
 
-function asStudyBank(name: string, bank: BankAnalysis): CapacitorBankInput {
+function asStudyBank(name: string, bank: BankAnalysis & { physicalSteps?: { nameplateKvar: number }[] }): CapacitorBankInput {
   return {
     name,
     ratedVoltageV: bank.ratedVoltageV,
     ratedFrequencyHz: bank.ratedFrequencyHz,
     reactorPct: bank.reactorPct,
     steps: bank.steps.map((s) => ({ kvar: s.kvar })),
+    ...(bank.physicalSteps ? { purchaseSteps: bank.physicalSteps.map((s) => ({ kvar: s.nameplateKvar })) } : {}),
   };
 }
 

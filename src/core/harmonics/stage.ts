@@ -24,6 +24,11 @@ export interface CapacitorBankInput {
   /** Series reactor as percent of X_C; 0 for a plain bank. */
   reactorPct: number;
   steps: CapacitorStepInput[];
+  /**
+   * The steps to buy, nameplate kvar, when `steps` are the increments of every switchable total rather than the
+   * physical steps (a designed bank's screen): a detuned proposal then also says what to buy in its place.
+   */
+  purchaseSteps?: CapacitorStepInput[];
 }
 
 export interface StudyContext {

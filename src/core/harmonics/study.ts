@@ -53,7 +53,10 @@ export interface HarmonicStudyInput {
 export interface DetunedProposal {
   forBank: string;
   triggeredBy: FindingCode[];
+  /** The stages studied: one step per increment of the bank's switchable totals. */
   design: DetunedDesign;
+  /** What to buy: the bank's physical steps at the proposal's reactor, voltage and standard nameplates (when known). */
+  purchaseSteps?: DetunedDesign["steps"];
   study: BankStudy;
   findings: Finding[];
 }
@@ -162,7 +165,16 @@ function propose(
     const findings = bankFindings(study);
     const lower = nextLowerDetuning(design.reactorPct);
     if (!findings.some((f) => f.code === "resonance_near_harmonic") || lower === null) {
-      return { forBank: bank.name, triggeredBy, design: { ...design, rationale: [...notes, ...design.rationale] }, study, findings };
+      const purchase = bank.purchaseSteps
+        ? proposeDetunedDesign({
+            ...base,
+            reactorPct: design.reactorPct,
+            requiredEffectiveKvarPerStep: bank.purchaseSteps.map(
+              (s) => capacitorKvarAtSystem(s.kvar, bank.ratedVoltageV, fr, voltageV, frequencyHz) / (1 - bank.reactorPct / 100),
+            ),
+          }).steps
+        : undefined;
+      return { forBank: bank.name, triggeredBy, design: { ...design, rationale: [...notes, ...design.rationale] }, ...(purchase ? { purchaseSteps: purchase } : {}), study, findings };
     }
     notes.push(`${design.reactorPct} % still resonated near a present order; moved to ${lower.reactorPct} %`);
     design = proposeDetunedDesign({ ...base, reactorPct: lower.reactorPct });

@@ -337,6 +337,10 @@ function studySchema(compact: boolean) {
             rationale: z.array(z.string()),
           })
           .loose(),
+        purchaseSteps: z
+          .array(z.object({ nameplateKvar: z.number(), effectiveKvar: z.number(), requiredEffectiveKvar: z.number() }))
+          .optional()
+          .describe("what to buy: the bank's physical steps (fixed first) at the proposal's reactor and capacitor voltage"),
         study: bank,
         findings: z.array(finding),
       }),

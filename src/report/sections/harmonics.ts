@@ -83,7 +83,7 @@ function proposalBlocks(p: DetunedProposal, original: BankStudy | undefined): Bl
         { key: "Reactor", value: `${fmt.num(d.reactorPct, 2)} % (tuned to h = ${fmt.order(d.tuningOrder)})` },
         { key: "Capacitor rating", value: `${fmt.volts(d.ratedVoltageV)} V (fundamental on the capacitor ${fmt.volts(d.capacitorFundamentalVoltageV)} V)` },
         { key: "Steps (nameplate)", value: stepsText(d.steps.map((s) => ({ kvar: s.nameplateKvar }))) },
-        { key: "Findings after detuning", value: p.findings.length === 0 ? "none" : p.findings.map((f) => f.message).join("; ") },
+        { key: "Findings after detuning", value: p.findings.length === 0 ? "none" : groupedFindings(p.findings) },
       ],
     },
     { kind: "list", items: d.rationale },
@@ -145,4 +145,19 @@ export function harmonicsSection(input: ReportInput): Section {
   }
   if (h && h.assumptions.length > 0) blocks.push({ kind: "subheading", text: "Study assumptions" }, { kind: "list", items: h.assumptions });
   return { id: "harmonics", heading: "Resonance and harmonics", blocks };
+}
+
+/** Findings said once per concern: the first message of each code and subject, and the other stages it holds at. */
+export function groupedFindings(findings: readonly { code: string; subject: string; message: string; stageNumber?: number }[]): string {
+  const groups = new Map<string, { message: string; stages: number[] }>();
+  for (const f of findings) {
+    const key = `${f.code}|${f.subject}`;
+    const g = groups.get(key);
+    if (g) {
+      if (f.stageNumber !== undefined) g.stages.push(f.stageNumber);
+    } else groups.set(key, { message: f.message, stages: f.stageNumber !== undefined ? [f.stageNumber] : [] });
+  }
+  return [...groups.values()]
+    .map((g) => (g.stages.length > 1 ? `${g.message} (and likewise at stages ${g.stages.slice(1).join(", ")})` : g.message))
+    .join("; ");
 }

@@ -36,12 +36,25 @@ export function verdictOf(result: SizingResult): Verdict {
       switched.length > 0 ? `switched ${stepsText(switched.map((s) => ({ kvar: s.effectiveKvar })))}` : null,
     ].filter(Boolean);
     const kind = rec.arrangement === "fixed" ? "fixed bank" : "automatic bank";
+    const buy = detuned?.purchaseSteps;
+    if (detuned && buy && buy.length > 0) {
+      const fixed = rec.fixedKvar > 0 ? buy[0] : undefined;
+      const switchedBuy = rec.fixedKvar > 0 ? buy.slice(1) : buy;
+      const delivered = buy.reduce((s, x) => s + x.effectiveKvar, 0);
+      const deliveredParts = [
+        fixed ? `fixed ${fmt.power(fixed.effectiveKvar)} kvar` : null,
+        switchedBuy.length > 0 ? `switched ${stepsText(switchedBuy.map((s) => ({ kvar: s.effectiveKvar })))}` : null,
+      ].filter(Boolean);
+      install.push(
+        `Central ${kind} of ${fmt.power(delivered)} kvar at the service, detuned with ${fmt.num(detuned.design.reactorPct, 2)} % reactors (tuned to ${fmt.order(detuned.design.tuningOrder)}) as the harmonic study requires: ${deliveredParts.join(" + ")} delivered, from capacitors rated ${fmt.volts(detuned.design.ratedVoltageV)} V of ${stepsText(buy.map((s) => ({ kvar: s.nameplateKvar })))} nameplate.`,
+      );
+    }
     const tuning = detuned
       ? `, detuned with ${fmt.num(detuned.design.reactorPct, 2)} % reactors (tuned to ${fmt.order(detuned.design.tuningOrder)}, capacitors rated ${fmt.volts(detuned.design.ratedVoltageV)} V) as the harmonic study requires`
       : rec.reactorPct > 0
         ? `, detuned with ${fmt.num(rec.reactorPct, 2)} % reactors`
         : ", plain (no reactors)";
-    install.push(`Central ${kind} of ${fmt.power(total)} kvar at the service: ${parts.join(" + ")}${tuning}.`);
+    if (install.length === 0) install.push(`Central ${kind} of ${fmt.power(total)} kvar at the service: ${parts.join(" + ")}${tuning}.`);
   }
   for (const loc of result.placement?.locations ?? []) {
     if (loc.location === "terminal") install.push(`Motor-terminal capacitors, ${fmt.power(loc.kvar)} kvar in all, on ${loc.loads.join(", ")}.`);
