@@ -16,6 +16,9 @@ import { compactStudy, studySiteHarmonics, type SizingHarmonics } from "../harmo
 import type { HarmonicStudyOptions, HarmonicStudyResult } from "../harmonics/index.js";
 import { evaluateSite, type LoadResult, type SiteResult } from "../readings/site-totals.js";
 import { ENGINE_VERSION } from "./engine-version.js";
+import { assessInstalledBanks, clampCaution } from "./installed-banks.js";
+import type { InstalledBankResult } from "../bank/installed.js";
+import type { InstalledCredit } from "../correction/installed-credit.js";
 import { warning, type InputIssue, type Warning } from "../warnings.js";
 
 export type { RecommendedBank };
@@ -39,7 +42,10 @@ export interface SizingResult {
   system: SizingInput["system"];
   loads: LoadResult[];
   site: SiteResult;
-  correction: CorrectionResult;
+  /** With installed banks, also their credit: kvarInstalledInService, kvarRequiredTotal, kvarAdditional, repairFirst… */
+  correction: CorrectionResult & Partial<InstalledCredit>;
+  /** Installed banks step by step: expected and measured current, capacitance, status. */
+  installedBanks?: InstalledBankResult[];
   /** Where the correction goes: motor terminals, group banks, the central bank. */
   placement?: PlacementPlan;
   recommendedBank: RecommendedBank | null;
@@ -74,12 +80,15 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
   const targetPF = input.targetPF ?? DEFAULT_TARGET_PF;
   const { correction, warnings: corrWarnings } = correctionFor(site, targetPF, system.voltageV, system.phases);
   warnings.push(...corrWarnings);
+  const installed = assessInstalledBanks(input, site, loads, targetPF);
+  if (installed.issues.length > 0) return { ok: false, issues: installed.issues };
+  warnings.push(...installed.warnings);
 
   const sc = shortCircuitAtBus(input.transformer, input.utility);
   const orders = harmonicOrdersPresent(input.loads, input.harmonicSources);
   const sourceCtx = { shortCircuitKVA: sc?.shortCircuitKVA ?? null, harmonicOrders: orders };
 
-  const designed = designSiteCorrection(input, loads, site, correction, sourceCtx);
+  const designed = designSiteCorrection(input, loads, site, correction, sourceCtx, installed.design ?? undefined);
   if (designed.issues.length > 0) return { ok: false, issues: designed.issues };
   warnings.push(...designed.warnings);
   const recommendedBank = designed.recommendedBank;
@@ -146,6 +155,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       )
     : undefined;
 
+  const clamp = clampCaution(installed.banks, h.study ? h.study.withoutCapacitors.distortion.lines : null, h.study ? h.study.withoutCapacitors.distortion.thdVPct : null);
   return {
     ok: true,
     result: {
@@ -153,7 +163,8 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       system: { ...system },
       loads,
       site,
-      correction,
+      correction: installed.credit ? { ...correction, ...installed.credit } : correction,
+      ...(installed.credit ? { installedBanks: installed.banks } : {}),
       ...(designed.placement ? { placement: designed.placement } : {}),
       recommendedBank,
       ...(proposedBank ? { proposedBank } : {}),
@@ -161,7 +172,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       ...(h.study ? { harmonics: compactStudy(h.study) } : {}),
       ...(econ ? { economics: econ } : {}),
       warnings,
-      cautions: cautionsFor(),
+      cautions: clamp ? [...cautionsFor(), clamp] : cautionsFor(),
     },
     ...(h.study ? { study: h.study } : {}),
   };
