@@ -135,16 +135,26 @@ export interface InstalledOutcome {
   warnings: Warning[];
 }
 
+/** Checks of a list of banks as a whole (unique labels) and of fields that depend on each other; paths from the list. */
+export function installedBankIssues(banks: readonly InstalledBankInput[], banksPath: (string | number)[] = ["installedBanks"]): InputIssue[] {
+  const issues: InputIssue[] = [];
+  const labels = new Set<string>();
+  banks.forEach((b, i) => {
+    if (labels.has(b.label)) issues.push({ path: [...banksPath, i, "label"], message: `bank label "${b.label}" is used twice: labels are how readings refer to a bank` });
+    labels.add(b.label);
+    if (b.location === "group" && !b.group) issues.push({ path: [...banksPath, i, "group"], message: "a group bank needs the group (MCC or feeder) it corrects" });
+    if (b.location === "motor" && !b.loadLabel) issues.push({ path: [...banksPath, i, "loadLabel"], message: "a motor-terminal bank needs the loadLabel of its motor" });
+    if (b.control === "fixed" && b.steps.length !== 1) issues.push({ path: [...banksPath, i, "steps"], message: "a fixed bank is one step: give its total kvar as one step" });
+  });
+  return issues;
+}
+
 /** Checks that need the banks beside the readings (the schema checks each field alone). */
 function readingIssues(banks: readonly InstalledBankInput[], readings: readonly BankReadingInput[], system: SystemInput, banksPath: string): InputIssue[] {
-  const issues: InputIssue[] = [];
+  const issues: InputIssue[] = installedBankIssues(banks, [banksPath]);
   const labels = new Map<string, number>();
   banks.forEach((b, i) => {
-    if (labels.has(b.label)) issues.push({ path: [banksPath, i, "label"], message: `bank label "${b.label}" is used twice: labels are how readings refer to a bank` });
-    else labels.set(b.label, i);
-    if (b.location === "group" && !b.group) issues.push({ path: [banksPath, i, "group"], message: "a group bank needs the group (MCC or feeder) it corrects" });
-    if (b.location === "motor" && !b.loadLabel) issues.push({ path: [banksPath, i, "loadLabel"], message: "a motor-terminal bank needs the loadLabel of its motor" });
-    if (b.control === "fixed" && b.steps.length !== 1) issues.push({ path: [banksPath, i, "steps"], message: "a fixed bank is one step: give its total kvar as one step" });
+    if (!labels.has(b.label)) labels.set(b.label, i);
   });
   const seen = new Set<string>();
   readings.forEach((r, i) => {

@@ -1,9 +1,10 @@
 import { z } from "zod";
-import { economicsSettingsViewSchema } from "./buildings.js";
+import { economicsSettingsViewSchema, installedBankViewSchema } from "./buildings.js";
 import { sizingResultSchema } from "./results.js";
 import {
   backgroundDistortionSchema,
   bankDesignSchema,
+  bankReadingsSchema,
   bankSchema,
   harmonicSourcesSchema,
   loadsSchema,
@@ -30,6 +31,7 @@ export const surveyInputsSchema = z.strictObject({
   backgroundVoltageDistortion: backgroundDistortionSchema.optional(),
   lightLoad: serviceEntranceSchema.optional(),
   bankDesign: bankDesignSchema.optional(),
+  bankReadings: bankReadingsSchema.optional().describe("the building's installed banks as found: steps energised during the readings, measured currents"),
   intervalAnalysisId: z
     .string({ error: "intervalAnalysisId must be a string or null" })
     .trim()
@@ -68,6 +70,7 @@ export const buildingSnapshotSchema = z.object({
   utility: z.object({ faultMVA: z.number() }).nullable(),
   economics: economicsSettingsViewSchema.nullable().describe("the building's tariff and costs the economics were computed with"),
   intervalAnalysisId: z.string().nullable().describe("the interval analysis the bank design rests on; null when none"),
+  installedBanks: z.array(installedBankViewSchema).describe("the building's installed banks the result was computed with"),
 });
 
 export const surveyCreatedSchema = z.object({
@@ -124,6 +127,8 @@ export const trendSchema = z.object({
       kvar: z.number(),
       displacementPF: z.number(),
       kvarRequired: z.number(),
+      installedKvarInService: z.number().nullable().describe("rated kvar (at the system voltage) of the installed steps energised during the readings; null: no installed banks"),
+      kvarDelivered: z.number().nullable().describe("kvar those steps delivered, from the measured currents where given; null: no installed banks"),
     }),
   ),
 });
