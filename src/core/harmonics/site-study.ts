@@ -1,4 +1,4 @@
-import type { SizingInput } from "../inputs.js";
+import type { InstalledBankInput, SizingInput } from "../inputs.js";
 import type { BankAnalysis } from "../bank/stages.js";
 import type { LoadResult } from "../readings/site-totals.js";
 import {
@@ -65,7 +65,7 @@ export function studySiteHarmonics(
   input: SizingInput,
   loads: LoadResult[],
   shortCircuitKVA: number | null,
-  banks: { recommended: BankAnalysis | null; proposed?: BankAnalysis | undefined },
+  banks: { recommended: BankAnalysis | null; proposed?: BankAnalysis | undefined; installed?: readonly InstalledBankInput[] },
   options: HarmonicStudyOptions = {},
   force = false,
 ): SiteHarmonicsOutcome {
@@ -87,6 +87,10 @@ export function studySiteHarmonics(
   const studyBanks: CapacitorBankInput[] = [];
   if (banks.recommended) studyBanks.push(asStudyBank("recommended", banks.recommended));
   if (banks.proposed) studyBanks.push(asStudyBank("proposed", banks.proposed));
+  // Installed banks are studied stage by stage on their own; with new capacitors see the combined screen.
+  for (const b of banks.installed ?? []) {
+    studyBanks.push({ name: `installed ${b.label}`, ratedVoltageV: b.ratedVoltageV, ...(b.ratedFrequencyHz ? { ratedFrequencyHz: b.ratedFrequencyHz } : {}), reactorPct: b.reactorPct ?? 0, steps: b.steps.map((s) => ({ kvar: s.kvar })) });
+  }
   const outcome = runHarmonicStudy({
     network: {
       voltageV: input.system.voltageV,
@@ -142,7 +146,8 @@ function findingsAsWarnings(findings: HarmonicStudyResult["findings"]): Warning[
     const first = g[0]!;
     const others = [...new Set(g.slice(1).map((f) => f.stageNumber).filter((n) => n !== undefined && n !== first.stageNumber))];
     const message = others.length > 0 ? `${first.message}; also at stage${others.length > 1 ? "s" : ""} ${others.join(", ")}` : first.message;
-    return warning(first.code, message, first.bankName ? `${first.bankName}Bank` : "harmonics");
+    const path = !first.bankName ? "harmonics" : first.bankName.startsWith("installed ") ? "installedBanks" : `${first.bankName}Bank`;
+    return warning(first.code, message, path);
   });
 }
 

@@ -16,7 +16,7 @@ import { compactStudy, studySiteHarmonics, type SizingHarmonics } from "../harmo
 import type { HarmonicStudyOptions, HarmonicStudyResult } from "../harmonics/index.js";
 import { evaluateSite, type LoadResult, type SiteResult } from "../readings/site-totals.js";
 import { ENGINE_VERSION } from "./engine-version.js";
-import { assessInstalledBanks, clampCaution } from "./installed-banks.js";
+import { assessInstalledBanks, clampCaution, newBanksOf, screenWithInstalled, type InstalledScreen } from "./installed-banks.js";
 import type { InstalledBankResult } from "../bank/installed.js";
 import type { InstalledCredit } from "../correction/installed-credit.js";
 import { warning, type InputIssue, type Warning } from "../warnings.js";
@@ -46,6 +46,8 @@ export interface SizingResult {
   correction: CorrectionResult & Partial<InstalledCredit>;
   /** Installed banks step by step: expected and measured current, capacitance, status. */
   installedBanks?: InstalledBankResult[];
+  /** Resonance of every combination of installed and new steps (one screen per new-bank option). */
+  combinedStages?: InstalledScreen[];
   /** Where the correction goes: motor terminals, group banks, the central bank. */
   placement?: PlacementPlan;
   recommendedBank: RecommendedBank | null;
@@ -141,7 +143,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
     );
   }
 
-  const h = studySiteHarmonics(input, loads, sc?.shortCircuitKVA ?? null, { recommended: recommendedBank ? { ...recommendedBank, steps: designed.screenSteps } : null, proposed: proposedBank }, options.harmonics, options.forceHarmonicStudy);
+  const h = studySiteHarmonics(input, loads, sc?.shortCircuitKVA ?? null, { recommended: recommendedBank ? { ...recommendedBank, steps: designed.screenSteps } : null, proposed: proposedBank, installed: input.installedBanks ?? [] }, options.harmonics, options.forceHarmonicStudy);
   if (h.issues.length > 0) return { ok: false, issues: h.issues };
   warnings.push(...h.warnings);
 
@@ -155,6 +157,8 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       )
     : undefined;
 
+  const combined = screenWithInstalled(installed.banks, newBanksOf(recommendedBank, h.study?.proposals ?? [], system.voltageV), sc?.shortCircuitKVA ?? null, orders, system.voltageV);
+  warnings.push(...combined.warnings);
   const clamp = clampCaution(installed.banks, h.study ? h.study.withoutCapacitors.distortion.lines : null, h.study ? h.study.withoutCapacitors.distortion.thdVPct : null);
   return {
     ok: true,
@@ -165,6 +169,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       site,
       correction: installed.credit ? { ...correction, ...installed.credit } : correction,
       ...(installed.credit ? { installedBanks: installed.banks } : {}),
+      ...(combined.screens.length > 0 ? { combinedStages: combined.screens } : {}),
       ...(designed.placement ? { placement: designed.placement } : {}),
       recommendedBank,
       ...(proposedBank ? { proposedBank } : {}),

@@ -223,6 +223,27 @@ export const sizingResultSchema = z.object({
   site: siteResultSchema,
   correction: correctionSchema,
   installedBanks: z.array(installedBankResultSchema).optional(),
+  combinedStages: z
+    .array(
+      z.object({
+        withNewBank: z.string().describe('"recommended", "proposed detuned", or "none"'),
+        stagesScreened: z.number().int(),
+        hazards: z.array(
+          z.object({
+            installed: z.array(z.string()),
+            newStage: z.number().int().describe("the new bank's stage switched in with them; 0: none"),
+            totalKvar: z.number(),
+            resonanceOrders: z.array(z.number()),
+            nearHarmonics: z.array(z.number()),
+          }),
+        ),
+        lowestOrder: z.number().nullable(),
+        highestOrder: z.number().nullable(),
+        truncated: z.boolean(),
+      }),
+    )
+    .optional()
+    .describe("resonance of every combination of installed and new steps the controllers can switch"),
   placement: placementSchema.optional(),
   recommendedBank: recommendedBankSchema.nullable(),
   proposedBank: bankAnalysisSchema.optional(),
