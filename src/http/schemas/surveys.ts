@@ -133,6 +133,35 @@ export const trendSchema = z.object({
   ),
 });
 
+export const bankHealthSchema = z.object({
+  buildingId: z.string(),
+  order: z.literal("oldest_first"),
+  truncated: z.boolean().describe("true when the building has more surveys with installed banks than one answer reads"),
+  series: z.array(
+    z.object({
+      bank: z.string(),
+      startedBecause: z.enum(["first_seen", "replaced", "renamed"]).describe("a bank redefined (replaced) or relabelled (renamed) in the building history starts a new series"),
+      note: z.string().nullable(),
+      definition: installedBankViewSchema,
+      steps: z.array(
+        z.object({
+          step: z.number().int(),
+          nameplateKvar: z.number(),
+          points: z.array(
+            z.object({
+              surveyId: z.string(),
+              surveyedAt: z.string(),
+              capacitancePct: z.number().nullable().describe("null when the step's current was not measured"),
+              status: z.enum(["healthy", "degraded", "failed", "unbalanced", "not_measured"]),
+              measuredKvar: z.number().nullable(),
+            }),
+          ),
+        }),
+      ),
+    }),
+  ),
+});
+
 export const auditPageSchema = z.object({
   items: z.array(
     z.object({
