@@ -6,6 +6,7 @@ import { cautionsSection } from "./sections/cautions.js";
 import { economicsSection } from "./sections/economics.js";
 import { harmonicsSection } from "./sections/harmonics.js";
 import { intervalSection } from "./sections/interval.js";
+import { installedSection, installedVerdict } from "./sections/installed.js";
 import { methodsSection } from "./sections/methods.js";
 import { readingsSection } from "./sections/readings.js";
 import { siteSection } from "./sections/site.js";
@@ -15,7 +16,7 @@ import type { ReportInput, ReportModel } from "./types.js";
 export type { ReportInput, ReportModel } from "./types.js";
 
 /** Section headings in their fixed order (the interval section sits after the site's figures). */
-export const SECTION_ORDER = ["building", "readings", "site", "interval", "bank", "harmonics", "economics", "warnings", "cautions", "methods"] as const;
+export const SECTION_ORDER = ["building", "readings", "site", "interval", "installed", "bank", "harmonics", "economics", "warnings", "cautions", "methods"] as const;
 
 export function buildReportModel(input: ReportInput): ReportModel {
   const { result, building, survey } = input;
@@ -26,6 +27,7 @@ export function buildReportModel(input: ReportInput): ReportModel {
     ...(survey ? [{ key: "Surveyed", value: `${dateTime(survey.surveyedAt)} by ${survey.surveyor}` }, { key: "Revision", value: `${survey.revision} (recorded ${dateTime(survey.createdAt)})` }] : []),
     { key: "Site now", value: `${fmt.power(result.site.kW)} kW, ${fmt.power(result.site.kvar)} kvar, PF ${fmt.pf(result.site.displacementPF)}` },
     { key: "Correction", value: `${fmt.power(result.correction.kvarRequired)} kvar to PF ${fmt.pf(result.correction.targetPF)}` },
+    ...(installedVerdict(result) ? [{ key: "Installed banks", value: installedVerdict(result) as string }] : []),
     { key: "Engine version", value: survey?.engineVersion ?? result.engineVersion },
   ];
   const sections = [
@@ -33,6 +35,7 @@ export function buildReportModel(input: ReportInput): ReportModel {
     readingsSection(input),
     siteSection(input),
     intervalSection(input),
+    installedSection(input),
     bankSection(input),
     harmonicsSection(input),
     economicsSection(input),
