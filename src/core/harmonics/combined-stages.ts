@@ -20,7 +20,10 @@ export interface Branch {
  * closed form h = √(1/(Q_C/S_sc + p)).
  */
 export function parallelResonanceOrders(branches: readonly Branch[], shortCircuitKVA: number, maxOrder = 50): number[] {
-  const live = branches.filter((b) => b.capacitorKvar > 0);
+  // Branches with the same p add (Q_i·h/(1 − p·h²) is linear in Q_i): one term per reactor value.
+  const byP = new Map<number, number>();
+  for (const b of branches) if (b.capacitorKvar > 0) byP.set(b.reactorFraction, (byP.get(b.reactorFraction) ?? 0) + b.capacitorKvar);
+  const live = [...byP.entries()].map(([reactorFraction, capacitorKvar]) => ({ reactorFraction, capacitorKvar }));
   if (live.length === 0) return [];
   const f = (h: number) => live.reduce((s, b) => s + (b.capacitorKvar * h) / (1 - b.reactorFraction * h * h), 0) - shortCircuitKVA / h;
   const poles = [...new Set(live.filter((b) => b.reactorFraction > 0).map((b) => 1 / Math.sqrt(b.reactorFraction)))].sort((a, b) => a - b);
@@ -34,7 +37,7 @@ export function parallelResonanceOrders(branches: readonly Branch[], shortCircui
     let lo = lo0 + (hi0 - lo0) * 1e-12 + 1e-12;
     let hi = hi0 - (hi0 - lo0) * 1e-12;
     if (!(f(lo) < 0 && f(hi) > 0)) continue;
-    for (let k = 0; k < 200 && hi - lo > 1e-12; k++) {
+    for (let k = 0; k < 64 && hi - lo > 1e-12; k++) {
       const mid = (lo + hi) / 2;
       if (f(mid) < 0) lo = mid;
       else hi = mid;
@@ -78,7 +81,7 @@ export interface CombinedScreen {
 }
 
 /** Most combinations screened (installed subsets × new stages); beyond it, the answer says so. */
-export const MAX_COMBINATIONS = 20_000;
+export const MAX_COMBINATIONS = 4000;
 
 /**
  * Every combination: each installed switchable unit in or out (identical units counted, not permuted), fixed units

@@ -11,7 +11,7 @@ import { warning, type InputIssue, type Warning } from "../warnings.js";
 import type { BankAnalysis } from "../bank/stages.js";
 import { kvarAtVoltage } from "../bank/capacitor.js";
 import type { DetunedDesign } from "../harmonics/detuned.js";
-import { screenCombinedStages, type CombinedScreen, type SwitchUnit } from "../harmonics/combined-stages.js";
+import { MAX_COMBINATIONS, screenCombinedStages, type CombinedScreen, type SwitchUnit } from "../harmonics/combined-stages.js";
 
 export interface InstalledAssessment {
   banks: InstalledBankResult[];
@@ -136,6 +136,9 @@ export function screenWithInstalled(
         "installedBanks",
       ),
     );
+  }
+  if (screens.some((sc) => sc.truncated)) {
+    warnings.push(warning("combined_screen_truncated", `more switchable combinations exist than the ${MAX_COMBINATIONS} screened: the combined resonance screen is incomplete`, "installedBanks"));
   }
   const plain = banks.filter((b) => b.reactorPct === 0);
   const detuned = newBanks.find((nb) => nb.reactorPct > 0);
