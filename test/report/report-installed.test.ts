@@ -47,15 +47,15 @@ describe("report of a survey with installed banks", () => {
 describe("capacitance chart geometry", () => {
   it("puts each point at its percentage and draws the 95 % and 50 % lines", () => {
     const chart = capacitanceChart({ surveys: ["2024-01-10", "2024-04-10"], lines: [{ label: "A step 1", pct: [98, 86] }], degradedBelowPct: 95, failedBelowPct: 50 });
-    const area = chart.shapes.find((s) => s.role === "plot-area") as { y: number; h: number; data: { y0: string; y1: string } };
+    const area = chart.shapes.find((s) => s.role === "plot-area") as unknown as { y: number; h: number; data: { y0: string; y1: string } };
     const y0 = Number(area.data.y0);
     const y1 = Number(area.data.y1);
     const yOf = (pct: number) => area.y + area.h - ((pct - y0) / (y1 - y0)) * area.h; // linear axis, y down
-    const pts = chart.shapes.filter((s) => s.role === "step-point") as { y: number; h: number }[];
+    const pts = chart.shapes.filter((s) => s.role === "step-point") as unknown as { y: number; h: number }[];
     expect(pts).toHaveLength(2);
     expectClose(pts[0]!.y + pts[0]!.h / 2, yOf(98), TOL.ohm, "98 %");
     expectClose(pts[1]!.y + pts[1]!.h / 2, yOf(86), TOL.ohm, "86 %");
-    const thresholds = chart.shapes.filter((s) => s.role === "threshold") as { y1: number; data: { pct: string } }[];
+    const thresholds = chart.shapes.filter((s) => s.role === "threshold") as unknown as { y1: number; data: { pct: string } }[];
     expect(thresholds.map((t) => t.data.pct)).toEqual(["95", "50"]);
     expectClose(thresholds[0]!.y1, yOf(95), TOL.ohm, "95 % line");
   });
