@@ -18,6 +18,7 @@ import { sizingRoutes } from "./http/routes/sizing.js";
 import { reportRoutes } from "./http/routes/reports.js";
 import { surveyReadRoutes } from "./http/routes/survey-reads.js";
 import { surveysRoutes } from "./http/routes/surveys.js";
+import { bankHealthRoutes } from "./http/routes/bank-health.js";
 import { problem, ProblemError, sendProblem } from "./http/problem.js";
 import { problemsRoutes } from "./http/routes/problems.js";
 import { MAX_PARAM_CHARS, noRouteHandler, routerErrorHandler } from "./http/routing.js";
@@ -131,6 +132,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
   await app.register(buildingsRoutes, { store });
   await app.register(surveysRoutes, { store });
   await app.register(surveyReadRoutes, { store });
+  await app.register(bankHealthRoutes, { store });
   await app.register(reportRoutes, { store });
   await app.register(auditRoutes, { store });
   await app.register(keysRoutes, { store });

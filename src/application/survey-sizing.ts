@@ -16,6 +16,7 @@ export function snapshotOf(b: BuildingRecord, intervalAnalysisId: string | null 
     utility: b.utility,
     economics: b.economics,
     intervalAnalysisId,
+    ...(b.installedBanks && b.installedBanks.length > 0 ? { installedBanks: b.installedBanks } : {}),
   };
 }
 
@@ -28,6 +29,7 @@ export function engineInputOf(snapshot: BuildingSnapshot, s: SurveyInputs, inter
     ...(snapshot.transformer ? { transformer: snapshot.transformer } : {}),
     ...(snapshot.utility ? { utility: snapshot.utility } : {}),
     ...(snapshot.economics ? { economics: snapshot.economics } : {}),
+    ...(snapshot.installedBanks && snapshot.installedBanks.length > 0 ? { installedBanks: snapshot.installedBanks } : {}),
     ...(intervalDemand ? { intervalDemand } : {}),
   };
 }
@@ -40,6 +42,8 @@ export function summaryOf(result: SizingResult): SurveySummary {
     displacementPF: result.site.displacementPF,
     kvarRequired: result.correction.kvarRequired,
     warningCount: result.warnings.length,
+    installedKvarInService: result.installedBanks ? result.installedBanks.reduce((s, b) => s + b.inServiceKvar, 0) : null,
+    installedKvarDelivered: result.correction.kvarInstalledInService ?? null,
   };
 }
 

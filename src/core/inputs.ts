@@ -119,6 +119,40 @@ export interface ProposedBankInput {
   reactorPct?: number;
 }
 
+/** A capacitor bank already on the wall: nameplate kvar per step at its rated voltage and frequency. */
+export interface InstalledBankInput {
+  /** Unique within the building: how bank readings refer to it. */
+  label: string;
+  /** At the service (main switchboard), on a group (MCC/feeder) or at a motor's terminals. */
+  location: "service" | "group" | "motor";
+  /** The MCC or feeder of a group bank. */
+  group?: string;
+  /** The motor (load label) of a terminal unit. */
+  loadLabel?: string;
+  control: "fixed" | "automatic";
+  ratedVoltageV: number;
+  ratedFrequencyHz?: 50 | 60;
+  connection?: "delta" | "wye";
+  /** Series (detuning) reactor, percent of the capacitor reactance; 0 or absent: a plain bank. */
+  reactorPct?: number;
+  /** Nameplate kvar per step; a fixed bank is one step. */
+  steps: BankStepInput[];
+  /** ISO date it was put in service. */
+  installedOn?: string;
+}
+
+/** The state of an installed bank while the site readings were taken, and what was measured at it. */
+export interface BankReadingInput {
+  /** The installed bank's label. */
+  bank: string;
+  /** 1-based numbers of the steps energised while the site readings were taken. */
+  inServiceSteps: number[];
+  /** Voltage measured at the bank (line-to-line on three phases); default the system voltage. */
+  voltageV?: number;
+  /** Current measured in a step (1-based): one figure per phase on three phases, or one figure. */
+  stepCurrents?: { step: number; amps: number[] | number }[];
+}
+
 export interface ServiceEntranceInput {
   label?: string;
   measurement: Measurement;
@@ -150,6 +184,10 @@ export interface SizingInput {
   intervalDemand?: IntervalDemandInput;
   /** Tariff and costs, for savings and payback. */
   economics?: EconomicsSettings;
+  /** Capacitor banks already installed (a building's, or given inline). */
+  installedBanks?: InstalledBankInput[];
+  /** Which installed steps were energised during the readings, and their measured currents. */
+  bankReadings?: BankReadingInput[];
 }
 
 export const DEFAULT_TARGET_PF = 0.95;

@@ -1,9 +1,11 @@
 import type { BuildingData, SurveyInputs } from "../store/types.js";
 
 /**
- * An invented site for the demo: a bottling hall at a fictional works, surveyed before an
- * automatic capacitor bank was fitted and again a year later, when the main meter shows the
- * power factor drifting back down (a failed step, and a third compressor added since).
+ * An invented site for the demo: a bottling hall at a fictional works with an automatic capacitor bank
+ * whose controller had failed, so the first survey found the power factor poor with the bank off (each
+ * step was switched in by hand and its current read). A year later, with the controller replaced, the
+ * main meter shows the power factor drifting back down: step 3 has lost capacitance, step 5's contactor
+ * has failed open, and a third compressor has been added.
  */
 
 export const DEMO_BUILDING: BuildingData = {
@@ -21,6 +23,21 @@ export const DEMO_BUILDING: BuildingData = {
     losses: { lossesPct: 2.5, energyPricePerKWh: 0.11 },
     cost: { perKvar: 38, perStep: 350, fixed: 4200 },
   },
+  // Invented: 5 × 50 kvar at 525 V behind 7 % reactors, on MSB-2. A healthy step draws
+  // 50·(480/525)²/0.93 = 44.94 kvar → 44 942/(√3·480) = 54.06 A at 480 V.
+  installedBanks: [
+    {
+      label: "MSB-2 automatic bank",
+      location: "service",
+      control: "automatic",
+      ratedVoltageV: 525,
+      ratedFrequencyHz: 60,
+      connection: "delta",
+      reactorPct: 7,
+      steps: [50, 50, 50, 50, 50].map((kvar) => ({ kvar })),
+      installedOn: "2019-06-20",
+    },
+  ],
 };
 
 const commonLoads: SurveyInputs["loads"] = [
@@ -38,22 +55,51 @@ export const DEMO_SURVEYS: SurveyInputs[] = [
   {
     surveyedAt: "2023-03-14T09:30:00-05:00",
     surveyor: "T. Ashgrove (demo surveyor)",
-    notes: "Baseline before correction. Readings at each MCC feeder during the morning shift, line 2 at full rate.",
+    notes:
+      "Readings at each MCC feeder during the morning shift, line 2 at full rate. The bank's controller had failed: " +
+      "all steps off during the readings; afterwards each step was switched in by hand and its currents read.",
     targetPF: 0.95,
     loads: commonLoads,
-    proposedBank: { ratedVoltageV: 525, steps: [50, 50, 50, 50, 50].map((kvar) => ({ kvar })), reactorPct: 7 },
+    bankReadings: [
+      {
+        bank: "MSB-2 automatic bank",
+        inServiceSteps: [],
+        voltageV: 482,
+        stepCurrents: [
+          { step: 1, amps: [54.5, 54.3, 54.6] },
+          { step: 2, amps: [54.2, 54.4, 54.1] },
+          { step: 3, amps: [53.0, 53.3, 52.8] },
+          { step: 4, amps: [54.3, 54.0, 54.2] },
+          { step: 5, amps: [54.1, 54.4, 54.2] },
+        ],
+      },
+    ],
   },
   {
     surveyedAt: "2024-03-19T10:15:00-05:00",
     surveyor: "T. Ashgrove (demo surveyor)",
     notes:
-      "Automatic bank (5 × 50 kvar at 525 V, 7 % detuned) in service since June 2023. Main meter read with the bank online: " +
-      "step 5 contactor found failed open. Compressor C3 added in January 2024.",
+      "Controller replaced in June 2023. Main meter read with the bank online (steps 1-4 switched in): " +
+      "step 5 contactor found failed open, step 3 reading low. Compressor C3 added in January 2024.",
     targetPF: 0.95,
     loads: [
       ...commonLoads,
       { label: "Air compressor C3", kind: "motor", measurement: { method: "v_i_pf", volts: 479, amps: 104, pf: 0.81, sense: "lagging" } },
     ],
     serviceEntrance: { label: "MSB-2 main meter (bank online)", measurement: { method: "kw_kvar", kW: 603, kvar: 236 } },
+    bankReadings: [
+      {
+        bank: "MSB-2 automatic bank",
+        inServiceSteps: [1, 2, 3, 4],
+        voltageV: 479,
+        stepCurrents: [
+          { step: 1, amps: [53.9, 54.1, 53.8] },
+          { step: 2, amps: [53.7, 53.9, 53.6] },
+          { step: 3, amps: [47.2, 46.9, 47.4] },
+          { step: 4, amps: [53.8, 53.6, 53.9] },
+          { step: 5, amps: [0, 0, 0] },
+        ],
+      },
+    ],
   },
 ];

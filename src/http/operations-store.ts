@@ -21,6 +21,7 @@ import {
   surveyPageSchema,
   surveySchema,
   trendSchema,
+  bankHealthSchema,
 } from "./schemas/surveys.js";
 
 const idempotency = {
@@ -82,6 +83,10 @@ export const storeOperations: Operation[] = [
     method: "get", path: "/v1/buildings/{id}/trend", operationId: "buildingTrend", summary: "PF and kvar over time, oldest first", tags: ["surveys"],
     query: range,
     responses: { "200": { description: "one point per survey (its latest revision)", schema: trendSchema } }, problems: [400, 404],
+  },
+  {
+    method: "get", path: "/v1/buildings/{id}/bank-health", operationId: "buildingBankHealth", summary: "Installed banks' capacitance and status per step across surveys, oldest first", tags: ["surveys"],
+    responses: { "200": { description: "one series per installed bank (a new one when the bank was replaced or renamed), one point per survey", schema: bankHealthSchema } }, problems: [404],
   },
   {
     method: "get", path: "/v1/surveys/{id}", operationId: "getSurvey", summary: "A survey's latest revision as stored", tags: ["surveys"],

@@ -22,18 +22,19 @@ export function buildingView(b: BuildingRecord) {
     transformer: b.transformer,
     utility: b.utility,
     economics: b.economics,
+    installedBanks: b.installedBanks ?? [],
     createdAt: b.createdAt,
     updatedAt: b.updatedAt,
   };
 }
 
 export function buildingVersionView(v: BuildingVersion) {
-  return { version: v.version, recordedAt: v.recordedAt, actor: v.actor, ...v.data, economics: v.data.economics ?? null };
+  return { version: v.version, recordedAt: v.recordedAt, actor: v.actor, ...v.data, economics: v.data.economics ?? null, installedBanks: v.data.installedBanks ?? [] };
 }
 
 /** Snapshots stored before economics and interval analyses existed lack those keys: they had none. */
 function snapshotView(s: BuildingSnapshot) {
-  return { ...s, economics: s.economics ?? null, intervalAnalysisId: s.intervalAnalysisId ?? null };
+  return { ...s, economics: s.economics ?? null, intervalAnalysisId: s.intervalAnalysisId ?? null, installedBanks: s.installedBanks ?? [] };
 }
 
 function revisionFields(r: RevisionRecord) {
@@ -81,6 +82,8 @@ export function trendPointView(h: SurveyHead) {
     kvar: h.kvar,
     displacementPF: h.displacementPF,
     kvarRequired: h.kvarRequired,
+    installedKvarInService: h.installedKvarInService,
+    kvarDelivered: h.installedKvarDelivered,
   };
 }
 

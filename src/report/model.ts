@@ -6,6 +6,7 @@ import { cautionsSection } from "./sections/cautions.js";
 import { economicsSection } from "./sections/economics.js";
 import { harmonicsSection } from "./sections/harmonics.js";
 import { intervalSection } from "./sections/interval.js";
+import { installedSection } from "./sections/installed.js";
 import { methodsSection } from "./sections/methods.js";
 import { readingsSection } from "./sections/readings.js";
 import { siteSection } from "./sections/site.js";
@@ -16,7 +17,7 @@ import type { ReportInput, ReportModel } from "./types.js";
 export type { ReportInput, ReportModel } from "./types.js";
 
 /** Section headings in their fixed order (the interval section sits after the site's figures). */
-export const SECTION_ORDER = ["building", "readings", "site", "interval", "bank", "harmonics", "economics", "warnings", "cautions", "methods"] as const;
+export const SECTION_ORDER = ["building", "readings", "site", "interval", "installed", "bank", "harmonics", "economics", "warnings", "cautions", "methods"] as const;
 
 export function buildReportModel(input: ReportInput): ReportModel {
   const { result, building, survey } = input;
@@ -32,6 +33,7 @@ export function buildReportModel(input: ReportInput): ReportModel {
     readingsSection(input),
     siteSection(input),
     intervalSection(input),
+    installedSection(input),
     bankSection(input),
     harmonicsSection(input),
     economicsSection(input),

@@ -6,6 +6,7 @@ import type { SizingInput } from "../core/inputs.js";
 import type { IntervalSummary } from "../core/interval/index.js";
 import type { SizingResult } from "../core/pipeline/size.js";
 import type { Chart } from "./charts/geometry.js";
+import type { HealthSeries } from "../application/bank-health.js";
 
 export type Align = "left" | "right";
 
@@ -75,4 +76,6 @@ export interface ReportInput {
   interval?: IntervalSummary;
   /** Supplied scan series; when absent they are computed from the result's network figures. */
   scanSeries?: ScanSeriesInput[];
+  /** The building's installed banks across its surveys (GET /v1/buildings/{id}/bank-health), for the capacitance chart. */
+  bankHistory?: HealthSeries[];
 }

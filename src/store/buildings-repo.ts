@@ -1,4 +1,5 @@
 import type { EconomicsSettings } from "../core/economics/of-sizing.js";
+import type { InstalledBankInput } from "../core/inputs.js";
 import type { Db } from "./database.js";
 import type { BuildingData, BuildingRecord, BuildingVersion } from "./types.js";
 
@@ -15,13 +16,14 @@ interface BuildingRow {
   transformer_x_over_r: number | null;
   utility_fault_mva: number | null;
   economics_json: string | null;
+  installed_banks_json: string | null;
   version: number;
   created_at: string;
   updated_at: string;
 }
 
 const COLUMNS =
-  "id, name, address, notes, voltage_v, frequency_hz, phases, transformer_kva, transformer_impedance_pct, transformer_x_over_r, utility_fault_mva, economics_json, version, created_at, updated_at";
+  "id, name, address, notes, voltage_v, frequency_hz, phases, transformer_kva, transformer_impedance_pct, transformer_x_over_r, utility_fault_mva, economics_json, installed_banks_json, version, created_at, updated_at";
 
 export function buildingFromRow(r: BuildingRow): BuildingRecord {
   return {
@@ -41,6 +43,7 @@ export function buildingFromRow(r: BuildingRow): BuildingRecord {
           },
     utility: r.utility_fault_mva === null ? null : { faultMVA: r.utility_fault_mva },
     economics: r.economics_json === null ? null : (JSON.parse(r.economics_json) as EconomicsSettings),
+    ...(r.installed_banks_json === null ? {} : { installedBanks: JSON.parse(r.installed_banks_json) as InstalledBankInput[] }),
     createdAt: r.created_at,
     updatedAt: r.updated_at,
   };
@@ -59,11 +62,12 @@ function columnsOf(d: BuildingData) {
     transformer_x_over_r: d.transformer?.xOverR ?? null,
     utility_fault_mva: d.utility?.faultMVA ?? null,
     economics_json: d.economics ? JSON.stringify(d.economics) : null,
+    installed_banks_json: d.installedBanks && d.installedBanks.length > 0 ? JSON.stringify(d.installedBanks) : null,
   };
 }
 
 export function dataOf(b: BuildingRecord): BuildingData {
-  return { name: b.name, address: b.address, notes: b.notes, system: b.system, transformer: b.transformer, utility: b.utility, economics: b.economics };
+  return { name: b.name, address: b.address, notes: b.notes, system: b.system, transformer: b.transformer, utility: b.utility, economics: b.economics, ...(b.installedBanks ? { installedBanks: b.installedBanks } : {}) };
 }
 
 export interface BuildingListQuery {
@@ -81,13 +85,13 @@ export function buildingsRepo(db: Db) {
   const insert = db.prepare(
     `INSERT INTO buildings (org_id, ${COLUMNS})
      VALUES (@org_id, @id, @name, @address, @notes, @voltage_v, @frequency_hz, @phases, @transformer_kva,
-             @transformer_impedance_pct, @transformer_x_over_r, @utility_fault_mva, @economics_json, 1, @at, @at)`,
+             @transformer_impedance_pct, @transformer_x_over_r, @utility_fault_mva, @economics_json, @installed_banks_json, 1, @at, @at)`,
   );
   const update = db.prepare(
     `UPDATE buildings SET name = @name, address = @address, notes = @notes, voltage_v = @voltage_v,
        frequency_hz = @frequency_hz, phases = @phases, transformer_kva = @transformer_kva,
        transformer_impedance_pct = @transformer_impedance_pct, transformer_x_over_r = @transformer_x_over_r,
-       utility_fault_mva = @utility_fault_mva, economics_json = @economics_json, version = version + 1, updated_at = @at
+       utility_fault_mva = @utility_fault_mva, economics_json = @economics_json, installed_banks_json = @installed_banks_json, version = version + 1, updated_at = @at
      WHERE org_id = @org_id AND id = @id AND version = @version`,
   );
   const insertVersion = db.prepare(

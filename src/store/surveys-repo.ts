@@ -23,6 +23,8 @@ interface HeadRow {
   displacement_pf: number;
   kvar_required: number;
   warning_count: number;
+  installed_kvar_in_service: number | null;
+  installed_kvar_delivered: number | null;
 }
 
 interface RevisionRow {
@@ -42,10 +44,12 @@ interface RevisionRow {
   displacement_pf: number;
   kvar_required: number;
   warning_count: number;
+  installed_kvar_in_service: number | null;
+  installed_kvar_delivered: number | null;
 }
 
 const HEAD =
-  "id, building_id, created_at, latest_revision, surveyed_at, surveyed_at_utc, surveyor, kw, kvar, kva, displacement_pf, kvar_required, warning_count";
+  "id, building_id, created_at, latest_revision, surveyed_at, surveyed_at_utc, surveyor, kw, kvar, kva, displacement_pf, kvar_required, warning_count, installed_kvar_in_service, installed_kvar_delivered";
 
 function headFromRow(r: HeadRow): SurveyHead {
   return {
@@ -62,6 +66,8 @@ function headFromRow(r: HeadRow): SurveyHead {
     displacementPF: r.displacement_pf,
     kvarRequired: r.kvar_required,
     warningCount: r.warning_count,
+    installedKvarInService: r.installed_kvar_in_service ?? null,
+    installedKvarDelivered: r.installed_kvar_delivered ?? null,
   };
 }
 
@@ -84,6 +90,8 @@ function revisionFromRow(r: RevisionRow): RevisionRecord {
       displacementPF: r.displacement_pf,
       kvarRequired: r.kvar_required,
       warningCount: r.warning_count,
+      installedKvarInService: r.installed_kvar_in_service ?? null,
+      installedKvarDelivered: r.installed_kvar_delivered ?? null,
     },
   };
 }
@@ -107,19 +115,23 @@ export function surveysRepo(db: Db) {
   const insertHead = db.prepare(
     `INSERT INTO surveys (org_id, ${HEAD})
      VALUES (@org_id, @id, @building_id, @created_at, @n, @surveyed_at, @surveyed_at_utc, @surveyor,
-             @kw, @kvar, @kva, @displacement_pf, @kvar_required, @warning_count)`,
+             @kw, @kvar, @kva, @displacement_pf, @kvar_required, @warning_count,
+             @installed_kvar_in_service, @installed_kvar_delivered)`,
   );
   const moveHead = db.prepare(
     `UPDATE surveys SET latest_revision = @n, surveyed_at = @surveyed_at, surveyed_at_utc = @surveyed_at_utc,
        surveyor = @surveyor, kw = @kw, kvar = @kvar, kva = @kva, displacement_pf = @displacement_pf,
-       kvar_required = @kvar_required, warning_count = @warning_count
+       kvar_required = @kvar_required, warning_count = @warning_count,
+       installed_kvar_in_service = @installed_kvar_in_service, installed_kvar_delivered = @installed_kvar_delivered
      WHERE org_id = @org_id AND id = @id AND latest_revision = @n - 1`,
   );
   const insertRevision = db.prepare(
     `INSERT INTO survey_revisions (org_id, survey_id, n, reason, created_at, actor, inputs_json, result_json,
-       engine_version, building_snapshot_json, kw, kvar, kva, displacement_pf, kvar_required, warning_count)
+       engine_version, building_snapshot_json, kw, kvar, kva, displacement_pf, kvar_required, warning_count,
+       installed_kvar_in_service, installed_kvar_delivered)
      VALUES (@org_id, @id, @n, @reason, @created_at, @actor, @inputs_json, @result_json, @engine_version,
-       @building_snapshot_json, @kw, @kvar, @kva, @displacement_pf, @kvar_required, @warning_count)`,
+       @building_snapshot_json, @kw, @kvar, @kva, @displacement_pf, @kvar_required, @warning_count,
+       @installed_kvar_in_service, @installed_kvar_delivered)`,
   );
   const headById = db.prepare(`SELECT ${HEAD} FROM surveys WHERE org_id = ? AND id = ?`);
   const revision = db.prepare(
@@ -159,6 +171,8 @@ export function surveysRepo(db: Db) {
       displacement_pf: r.summary.displacementPF,
       kvar_required: r.summary.kvarRequired,
       warning_count: r.summary.warningCount,
+      installed_kvar_in_service: r.summary.installedKvarInService,
+      installed_kvar_delivered: r.summary.installedKvarDelivered,
     };
   }
   const range = (orgId: string, buildingId: string, q: SurveyRange) => ({

@@ -1,4 +1,5 @@
 import type {
+  InstalledBankInput,
   SizingInput,
   SystemInput,
   TransformerInput,
@@ -19,6 +20,8 @@ export interface BuildingData {
   utility: UtilityInput | null;
   /** Tariff and costs for savings; null when none. Absent in versions recorded before it existed (= null). */
   economics?: EconomicsSettings | null;
+  /** Capacitor banks already installed. Absent in versions recorded before it existed (= none). */
+  installedBanks?: InstalledBankInput[];
 }
 
 export interface BuildingRecord extends BuildingData {
@@ -40,7 +43,7 @@ export interface BuildingVersion {
  * What a survey submits (the revision's reason is kept beside, not inside): the sizing body less the building's
  * data (system, transformer, utility, economics, interval demand), plus who and when.
  */
-export interface SurveyInputs extends Omit<SizingInput, "system" | "transformer" | "utility" | "targetPF" | "economics" | "intervalDemand"> {
+export interface SurveyInputs extends Omit<SizingInput, "system" | "transformer" | "utility" | "targetPF" | "economics" | "intervalDemand" | "installedBanks"> {
   surveyedAt: string;
   surveyor: string;
   notes?: string;
@@ -59,6 +62,8 @@ export interface BuildingSnapshot {
   economics?: EconomicsSettings | null;
   /** The interval analysis the bank design rests on, null when none. Absent in older snapshots (= null). */
   intervalAnalysisId?: string | null;
+  /** The building's installed banks. Absent in older snapshots (= none). */
+  installedBanks?: InstalledBankInput[];
 }
 
 /** An interval analysis stored with a building: its summary and the figures lists show. */
@@ -91,6 +96,10 @@ export interface SurveySummary {
   displacementPF: number;
   kvarRequired: number;
   warningCount: number;
+  /** Rated kvar of the installed steps energised during the readings; null without installed banks. */
+  installedKvarInService: number | null;
+  /** kvar those steps delivered (measured where given); null without installed banks. */
+  installedKvarDelivered: number | null;
 }
 
 export interface NewRevision {

@@ -115,7 +115,7 @@ describe("GET /v1/buildings/{id}/trend", () => {
     const list = (await allPages("", 100)).items.flat() as Record<string, unknown>[];
     for (const p of trend.items) {
       const s = list.find((x) => x.id === p.surveyId)!;
-      expect(p).toEqual({ surveyId: s.id, revision: s.revision, surveyedAt: s.surveyedAt, kW: s.kW, kvar: s.kvar, displacementPF: s.displacementPF, kvarRequired: s.kvarRequired });
+      expect(p).toEqual({ surveyId: s.id, revision: s.revision, surveyedAt: s.surveyedAt, kW: s.kW, kvar: s.kvar, displacementPF: s.displacementPF, kvarRequired: s.kvarRequired, installedKvarInService: null, kvarDelivered: null });
     }
     const narrowed = (await inject(app, `/v1/buildings/${buildingId}/trend?from=2023-06-01&to=2023-06-30`)).json();
     expect(narrowed.items.map((p: { surveyedAt: string }) => p.surveyedAt)).toEqual(dates.filter((d) => d.startsWith("2023-06")));

@@ -9,6 +9,7 @@ const HEADINGS = [
   "Readings and power triangle per load",
   "Site before and after correction",
   "Reactive demand over time",
+  "Installed banks",
   "Capacitor bank",
   "Resonance and harmonics",
   "Economics",

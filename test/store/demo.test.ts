@@ -34,6 +34,15 @@ describe("demo data", () => {
     expect(after.displacementPF).toBeLessThan(0.95);
     expect(after.kvarRequired).toBeGreaterThan(0);
 
+    // the installed bank: step 3 loses capacitance between the surveys, step 5 fails (0 A in every phase)
+    const health = (await inject(app, `/v1/buildings/${building.id}/bank-health`)).json();
+    expect(health.series).toHaveLength(1);
+    const step3 = health.series[0].steps[2].points;
+    expect(step3.map((p: { status: string }) => p.status)).toEqual(["healthy", "degraded"]);
+    expect(step3[1].capacitancePct).toBeLessThan(step3[0].capacitancePct - 5);
+    expect(health.series[0].steps[4].points.map((p: { status: string }) => p.status)).toEqual(["healthy", "failed"]);
+    expect(after.kvarDelivered).toBeGreaterThan(0);
+
     for (const [i, point] of trend.items.entries()) {
       const stored = (await inject(app, `/v1/surveys/${point.surveyId}`)).json();
       const fresh = size(engineInputOf(stored.building, DEMO_SURVEYS[i]!));

@@ -102,8 +102,8 @@ describe("migration 002 on a database written by 001", () => {
     const app = await buildApp({ config: defaultConfig({ DATABASE_PATH: path, DEMO_DATA: "off", PFC_BOOTSTRAP_KEY: key }), logger: false });
     registerAdminKey(app, key);
     try {
-      // 003 (API keys) came after 002 and is applied too.
-      expect(app.store.migration.applied).toEqual([2, 3]);
+      // 003 (API keys) and 004 (installed banks) came after 002 and are applied too.
+      expect(app.store.migration.applied).toEqual([2, 3, 4]);
       expect((await inject(app, "/v1/buildings/bld_old")).json()).toMatchObject({ name: "Old hall", economics: null });
       expect((await inject(app, "/v1/buildings/bld_old/history")).json().items[0].economics).toBeNull();
       const s = (await inject(app, "/v1/surveys/srv_old")).json();

@@ -1,4 +1,4 @@
-import type { SizingInput } from "../inputs.js";
+import type { InstalledBankInput, SizingInput } from "../inputs.js";
 import type { BankAnalysis } from "../bank/stages.js";
 import type { LoadResult } from "../readings/site-totals.js";
 import {
@@ -73,7 +73,7 @@ export function studySiteHarmonics(
   input: SizingInput,
   loads: LoadResult[],
   shortCircuitKVA: number | null,
-  banks: { recommended: BankAnalysis | null; proposed?: BankAnalysis | undefined },
+  banks: { recommended: BankAnalysis | null; proposed?: BankAnalysis | undefined; installed?: readonly InstalledBankInput[] },
   options: HarmonicStudyOptions = {},
   force = false,
 ): SiteHarmonicsOutcome {
@@ -95,6 +95,10 @@ export function studySiteHarmonics(
   const studyBanks: CapacitorBankInput[] = [];
   if (banks.recommended) studyBanks.push(asStudyBank("recommended", banks.recommended));
   if (banks.proposed) studyBanks.push(asStudyBank("proposed", banks.proposed));
+  // Installed banks are studied stage by stage on their own; with new capacitors see the combined screen.
+  for (const b of banks.installed ?? []) {
+    studyBanks.push({ name: `installed ${b.label}`, ratedVoltageV: b.ratedVoltageV, ...(b.ratedFrequencyHz ? { ratedFrequencyHz: b.ratedFrequencyHz } : {}), reactorPct: b.reactorPct ?? 0, steps: b.steps.map((s) => ({ kvar: s.kvar })) });
+  }
   const outcome = runHarmonicStudy({
     network: {
       voltageV: input.system.voltageV,
@@ -166,7 +170,8 @@ function findingsAsWarnings(findings: readonly Finding[]): Warning[] {
     // A limit broken with the bank in is the design's error; the bus without capacitors is the site as it is.
     const severity: Severity = first.bankName === undefined || first.code === "resonance_near_harmonic" ? "warning" : "error";
     const covered = stages.length > 0 ? stages.map((n) => `stage ${n}`) : subjects;
-    return warning(first.code, message, first.bankName ? `${first.bankName}Bank` : "harmonics", { severity, subjects: covered });
+    const path = !first.bankName ? "harmonics" : first.bankName.startsWith("installed ") ? "installedBanks" : `${first.bankName}Bank`;
+    return warning(first.code, message, path, { severity, subjects: covered });
   });
 }
 

@@ -17,6 +17,9 @@ import { compactStudy, studySiteHarmonics, withoutScreenVoltageRepeats, type Siz
 import type { HarmonicStudyOptions, HarmonicStudyResult } from "../harmonics/index.js";
 import { evaluateSite, type LoadResult, type SiteResult } from "../readings/site-totals.js";
 import { ENGINE_VERSION } from "./engine-version.js";
+import { assessInstalledBanks, clampCaution, newBanksOf, screenWithInstalled, type InstalledScreen } from "./installed-banks.js";
+import type { InstalledBankResult } from "../bank/installed.js";
+import type { InstalledCredit } from "../correction/installed-credit.js";
 import { warning, type InputIssue, type Warning } from "../warnings.js";
 
 export type { RecommendedBank };
@@ -53,7 +56,12 @@ export interface SizingResult {
   scope: ScopeResult;
   loads: LoadResult[];
   site: SiteResult;
-  correction: CorrectionResult;
+  /** With installed banks, also their credit: kvarInstalledInService, kvarRequiredTotal, kvarAdditional, repairFirst… */
+  correction: CorrectionResult & Partial<InstalledCredit>;
+  /** Installed banks step by step: expected and measured current, capacitance, status. */
+  installedBanks?: InstalledBankResult[];
+  /** Resonance of every combination of installed and new steps (one screen per new-bank option). */
+  combinedStages?: InstalledScreen[];
   /** Where the correction goes: motor terminals, group banks, the central bank. */
   placement?: PlacementPlan;
   recommendedBank: RecommendedBank | null;
@@ -88,6 +96,9 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
   const targetPF = input.targetPF ?? DEFAULT_TARGET_PF;
   const { correction, warnings: corrWarnings } = correctionFor(site, targetPF, system.voltageV, system.phases);
   warnings.push(...corrWarnings);
+  const installed = assessInstalledBanks(input, site, loads, targetPF);
+  if (installed.issues.length > 0) return { ok: false, issues: installed.issues };
+  warnings.push(...installed.warnings);
 
   const sc = shortCircuitAtBus(input.transformer, input.utility);
   const orders = harmonicOrdersPresent(input.loads, input.harmonicSources);
@@ -97,7 +108,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
   warnings.push(...scope.warnings);
   const siteInput = scope.result.scope === "whole_site" ? input : withoutIntervalDemand(input);
 
-  const designed = designSiteCorrection(siteInput, loads, site, correction, sourceCtx);
+  const designed = designSiteCorrection(siteInput, loads, site, correction, sourceCtx, installed.design ?? undefined);
   if (designed.issues.length > 0) return { ok: false, issues: designed.issues };
   warnings.push(...designed.warnings);
   const recommendedBank = designed.recommendedBank;
@@ -153,7 +164,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
     );
   }
 
-  const h = studySiteHarmonics(input, loads, sc?.shortCircuitKVA ?? null, { recommended: recommendedBank ? { ...recommendedBank, steps: designed.screenSteps } : null, proposed: proposedBank }, options.harmonics, options.forceHarmonicStudy);
+  const h = studySiteHarmonics(input, loads, sc?.shortCircuitKVA ?? null, { recommended: recommendedBank ? { ...recommendedBank, steps: designed.screenSteps } : null, proposed: proposedBank, installed: input.installedBanks ?? [] }, options.harmonics, options.forceHarmonicStudy);
   if (h.issues.length > 0) return { ok: false, issues: h.issues };
   warnings.splice(0, warnings.length, ...withoutScreenVoltageRepeats(warnings, h.warnings), ...h.warnings);
   // The study changed the design: then it is advised whatever the nonlinear share, and the result says why.
@@ -174,6 +185,9 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       )
     : undefined;
 
+  const combined = screenWithInstalled(installed.banks, newBanksOf(recommendedBank, h.study?.proposals ?? [], system.voltageV), sc?.shortCircuitKVA ?? null, orders, system.voltageV);
+  warnings.push(...combined.warnings);
+  const clamp = clampCaution(installed.banks, h.study ? h.study.withoutCapacitors.distortion.lines : null, h.study ? h.study.withoutCapacitors.distortion.thdVPct : null);
   return {
     ok: true,
     result: {
@@ -182,7 +196,9 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       scope: scope.result,
       loads,
       site,
-      correction,
+      correction: installed.credit ? { ...correction, ...installed.credit } : correction,
+      ...(installed.credit ? { installedBanks: installed.banks } : {}),
+      ...(combined.screens.length > 0 ? { combinedStages: combined.screens } : {}),
       ...(designed.placement ? { placement: designed.placement } : {}),
       recommendedBank,
       ...(proposedBank ? { proposedBank } : {}),
@@ -190,7 +206,7 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       ...(h.study ? { harmonics: compactStudy(h.study) } : {}),
       ...(econ ? { economics: econ } : {}),
       warnings,
-      cautions: cautionsFor(),
+      cautions: clamp ? [...cautionsFor(), clamp] : cautionsFor(),
     },
     ...(h.study ? { study: h.study } : {}),
   };

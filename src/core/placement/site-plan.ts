@@ -42,12 +42,19 @@ export interface SiteDesignOutcome {
   warnings: Warning[];
 }
 
-function demandOf(input: SizingInput, site: SiteResult): { demand?: ReactiveDemand; issues: InputIssue[]; warnings: Warning[] } {
+/** Installed banks the new bank's design stands beside: kvar to add back to the survey reading, and their rated kvar. */
+export interface InstalledForDesign {
+  addBackKvar: number;
+  installedKvar: number;
+}
+
+function demandOf(input: SizingInput, site: SiteResult, installed?: InstalledForDesign): { demand?: ReactiveDemand; issues: InputIssue[]; warnings: Warning[] } {
   if (input.intervalDemand) {
     const { kW, kvar, intervalMinutes } = input.intervalDemand;
     return { demand: { kind: "intervals", samples: { kW, kvar }, ...(intervalMinutes ? { intervalMinutes } : {}) }, issues: [], warnings: [] };
   }
-  const survey = { kW: site.kW, kvar: site.kvar };
+  // Readings taken with installed steps energised include their kvar: the design starts from the uncorrected site.
+  const survey = { kW: site.kW, kvar: site.kvar + (installed?.addBackKvar ?? 0) };
   if (!input.lightLoad) return { demand: { kind: "readings", survey }, issues: [], warnings: [] };
   const at = ["lightLoad", "measurement"];
   const volts = readingVolts(input.lightLoad.measurement);
@@ -68,6 +75,7 @@ export function designSiteCorrection(
   site: SiteResult,
   correction: CorrectionResult,
   source: SourceContext,
+  installed?: InstalledForDesign,
 ): SiteDesignOutcome {
   const warnings: Warning[] = [];
   const o = input.bankDesign ?? {};
@@ -100,14 +108,15 @@ export function designSiteCorrection(
   warnings.push(...placement.warnings);
   const localKvar = placement.locations.filter((l) => l.location !== "central" && l.location !== "none").reduce((s, l) => s + l.kvar, 0);
 
-  const d = demandOf(input, site);
+  const d = demandOf(input, site, installed);
   warnings.push(...d.warnings);
   if (!d.demand) return { placement, recommendedBank: null, screenSteps: [], issues: d.issues, warnings };
   const outcome = designBank({
     system: input.system,
     targetPF: correction.targetPF,
     demand: d.demand,
-    localCorrectionKvar: localKvar,
+    // The installed banks, restored and fully used, come off every sample like local correction does.
+    localCorrectionKvar: localKvar + (installed?.installedKvar ?? 0),
     ...(input.transformer ? { transformerKVA: input.transformer.kVA } : {}),
     ...(o.ctRatio !== undefined ? { ctRatio: o.ctRatio } : {}),
     ...(o.ratedVoltageV !== undefined ? { ratedVoltageV: o.ratedVoltageV } : {}),

@@ -24,6 +24,7 @@ function normalised(d: BuildingData): BuildingData {
     transformer: d.transformer,
     utility: d.utility,
     economics: d.economics ?? null,
+    installedBanks: d.installedBanks ?? [],
   };
 }
 
@@ -37,6 +38,7 @@ function patched(current: BuildingRecord, p: BuildingPatch): BuildingData {
     transformer: p.transformer === undefined ? d.transformer : p.transformer,
     utility: p.utility === undefined ? d.utility : p.utility,
     economics: p.economics === undefined ? d.economics : p.economics,
+    installedBanks: p.installedBanks === undefined ? d.installedBanks : p.installedBanks,
   });
 }
 
@@ -62,6 +64,7 @@ export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store
         transformer: body.transformer ?? null,
         utility: body.utility ?? null,
         economics: body.economics ?? null,
+        installedBanks: body.installedBanks ?? [],
       });
       const b = store.buildings.create(orgId, newId("bld"), data, actorId, at);
       store.audit.record({ orgId, actor: actorId, action: "building.create", resourceType: "building", resourceId: b.id, requestId: request.id, at });

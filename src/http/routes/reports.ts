@@ -15,6 +15,8 @@ import { buildReportModel } from "../../report/model.js";
 import { renderReportPdf } from "../../report/pdf.js";
 import { surveyReportInput } from "../../report/survey-input.js";
 import type { ReportInput } from "../../report/types.js";
+import { bankHealthSeries } from "../../application/bank-health.js";
+import { surveyResultsRepo } from "../../store/bank-health-repo.js";
 
 const idParams = z.object({ id: z.string() });
 const paper = z.enum(["a4", "letter"], { error: "paper must be a4 or letter" }).optional();
@@ -40,12 +42,22 @@ function revisionOf(store: Store, orgId: string, id: string, n?: string): Revisi
 }
 
 /** The revision, its building's data at the snapshot, and the interval analysis the snapshot names (its duration curve). */
-function reportInputOf(store: Store, orgId: string, r: RevisionRecord): ReportInput {
+function reportInputOf(store: Store, orgId: string, r: RevisionRecord, health?: ReturnType<typeof surveyResultsRepo>): ReportInput {
   const current = store.buildings.get(orgId, r.buildingId);
   const atSnapshot = current && store.buildings.history(orgId, r.buildingId).find((v) => v.version === r.building.buildingVersion)?.data;
   const analysisId = r.building.intervalAnalysisId;
   const interval = analysisId ? store.intervalAnalyses.get(orgId, analysisId)?.summary : undefined;
-  return { ...surveyReportInput(r, atSnapshot ?? current), ...(interval ? { interval } : {}) };
+  return { ...surveyReportInput(r, atSnapshot ?? current), ...(interval ? { interval } : {}), ...(health ? bankHistoryOf(health, orgId, r) : {}) };
+}
+
+/** The building's installed-bank series up to this survey (this revision in place of its latest), for the capacitance chart. */
+function bankHistoryOf(health: ReturnType<typeof surveyResultsRepo>, orgId: string, r: RevisionRecord): Pick<ReportInput, "bankHistory"> {
+  if (!r.result.installedBanks) return {};
+  const rows = health.withInstalledBanks(orgId, r.buildingId, 1000);
+  const upTo = rows.findIndex((x) => x.surveyId === r.surveyId);
+  const used = (upTo >= 0 ? rows.slice(0, upTo + 1) : rows).map((x) => (x.surveyId === r.surveyId ? { ...x, result: r.result, building: r.building } : x));
+  const bankHistory = bankHealthSeries(used.map((x) => ({ surveyId: x.surveyId, surveyedAt: x.surveyedAt, definitions: x.building.installedBanks ?? [], results: x.result.installedBanks ?? [] })));
+  return { bankHistory };
 }
 
 function sendHtml(reply: FastifyReply, html: string): FastifyReply {
@@ -60,19 +72,20 @@ const sizeOf = (p: "a4" | "letter" | undefined) => (p === "letter" ? "LETTER" : 
 
 export async function reportRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
+  const health = surveyResultsRepo(store.db);
 
   app.get("/v1/surveys/:id/report", async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const q = parseOr400(surveyQuery, request.query);
     const r = revisionOf(store, request.actor.orgId, id, q.revision);
-    return sendHtml(reply, renderReportHtml(buildReportModel(reportInputOf(store, request.actor.orgId, r))));
+    return sendHtml(reply, renderReportHtml(buildReportModel(reportInputOf(store, request.actor.orgId, r, health))));
   });
 
   app.get("/v1/surveys/:id/report.pdf", async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const q = parseOr400(surveyQuery, request.query);
     const r = revisionOf(store, request.actor.orgId, id, q.revision);
-    const pdf = await renderReportPdf(buildReportModel(reportInputOf(store, request.actor.orgId, r)), { size: sizeOf(q.paper) });
+    const pdf = await renderReportPdf(buildReportModel(reportInputOf(store, request.actor.orgId, r, health)), { size: sizeOf(q.paper) });
     return sendPdf(reply, pdf, `${r.surveyId}-r${r.n}-report.pdf`);
   });
 

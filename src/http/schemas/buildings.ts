@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { economicsSchema, systemSchema, transformerSchema, utilitySchema } from "./sizing.js";
+import { economicsSchema, installedBanksSchema, systemSchema, transformerSchema, utilitySchema } from "./sizing.js";
 
 /** Request and response schemas of /v1/buildings. */
 
@@ -15,6 +15,7 @@ export const buildingCreateSchema = z.strictObject({
   transformer: transformerSchema.optional(),
   utility: utilitySchema.optional(),
   economics: economicsSchema.optional().describe("tariff and costs: surveys of the building get savings and payback"),
+  installedBanks: installedBanksSchema.optional().describe("capacitor banks already installed; surveys read them with bankReadings"),
 });
 
 /** Partial update: omitted fields stay; null clears an optional one. */
@@ -27,6 +28,7 @@ export const buildingPatchSchema = z
     transformer: transformerSchema.nullable().optional(),
     utility: utilitySchema.nullable().optional(),
     economics: economicsSchema.nullable().optional().describe("replaces the whole settings; null clears them"),
+    installedBanks: installedBanksSchema.optional().describe("replaces the whole list; [] when none are left"),
   })
   .refine((p) => Object.keys(p).length > 0, "send at least one field to change");
 
@@ -48,11 +50,27 @@ export const economicsSettingsViewSchema = z.object({
   cost: z.object({ perKvar: z.number().optional(), perStep: z.number().optional(), fixed: z.number().optional() }).optional(),
 });
 
+/** An installed bank as responses show it (the request side is installedBankSchema). */
+export const installedBankViewSchema = z.object({
+  label: z.string(),
+  location: z.enum(["service", "group", "motor"]),
+  group: z.string().optional(),
+  loadLabel: z.string().optional(),
+  control: z.enum(["fixed", "automatic"]),
+  ratedVoltageV: z.number(),
+  ratedFrequencyHz: z.number().optional(),
+  connection: z.enum(["delta", "wye"]).optional(),
+  reactorPct: z.number().optional(),
+  steps: z.array(z.object({ kvar: z.number() })),
+  installedOn: z.string().optional(),
+});
+
 const electrical = {
   system: z.object({ voltageV: z.number(), frequencyHz: z.number(), phases: z.number() }),
   transformer: z.object({ kVA: z.number(), impedancePct: z.number(), xOverR: z.number().optional() }).nullable(),
   utility: z.object({ faultMVA: z.number() }).nullable(),
   economics: economicsSettingsViewSchema.nullable().describe("tariff and costs; null when none"),
+  installedBanks: z.array(installedBankViewSchema).describe("capacitor banks already installed; [] when none"),
 };
 
 export const buildingSchema = z.object({

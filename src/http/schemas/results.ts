@@ -57,6 +57,63 @@ export const correctionSchema = z.object({
   lineCurrentBeforeA: z.number(),
   lineCurrentAfterA: z.number(),
   lossReductionPct: z.number(),
+  kvarInstalledInService: z.number().optional().describe("with installed banks: kvar the energised steps delivered during the readings (measured where given, else rated)"),
+  kvarIncludedInReadings: z.number().optional().describe("installed kvar the readings already include, added back to find the uncorrected site"),
+  kvarRequiredTotal: z.number().optional().describe("what the uncorrected site needs to reach the target"),
+  kvarInstalledRated: z.number().optional().describe("rated kvar of every installed step at the system voltage and frequency"),
+  kvarAdditional: z.number().optional().describe("what remains after the installed banks are restored to health and fully used"),
+  repairFirst: z
+    .array(z.object({ bank: z.string(), step: z.number().int(), status: z.enum(["failed", "degraded", "unbalanced"]), restoresKvar: z.number(), finding: z.string() }))
+    .optional()
+    .describe("steps whose repair gives kvar before any new capacitor is bought, largest first"),
+  kvarRestoredByRepair: z.number().optional(),
+  leadingRelief: z
+    .object({
+      takeOutOfService: z.array(z.object({ bank: z.string(), step: z.number().int(), control: z.enum(["fixed", "automatic"]), kvar: z.number() })),
+      kvarRemoved: z.number(),
+      kvarAfter: z.number(),
+      pfAfter: z.number(),
+      senseAfter: sense,
+      reachesTarget: z.boolean(),
+    })
+    .optional()
+    .describe("a site leading beyond the target: the energised installed steps to take out, and the PF after"),
+  basisNote: z.string().optional(),
+});
+
+export const installedStepResultSchema = z.object({
+  step: z.number().int(),
+  nameplateKvar: z.number(),
+  ratedKvarAtSystem: z.number(),
+  inService: z.boolean(),
+  expectedCurrentA: z.number().describe("a healthy step's current at the measured (or system) voltage and frequency"),
+  expectedKvar: z.number(),
+  measuredCurrentA: z.number().optional().describe("mean of the measured phases"),
+  phaseCurrentsA: z.array(z.number()).optional(),
+  currentPct: z.number().optional().describe("measured / expected × 100"),
+  capacitancePct: z.number().optional().describe("measured capacitance, percent of rated (= currentPct on a plain step)"),
+  unbalancePct: z.number().optional().describe("largest phase deviation from the mean, percent of the mean"),
+  measuredKvar: z.number().optional(),
+  status: z.enum(["healthy", "degraded", "failed", "unbalanced", "not_measured"]),
+  finding: z.string(),
+});
+
+export const installedBankResultSchema = z.object({
+  label: z.string(),
+  location: z.enum(["service", "group", "motor"]),
+  group: z.string().optional(),
+  loadLabel: z.string().optional(),
+  control: z.enum(["fixed", "automatic"]),
+  reactorPct: z.number(),
+  nameplateKvar: z.number(),
+  ratedKvarAtSystem: z.number().describe("what a healthy bank delivers at the system voltage and frequency, reactor included"),
+  inServiceKvar: z.number().describe("rated kvar at the system voltage of the steps energised during the readings"),
+  measuredKvar: z.number().optional(),
+  deliveredKvar: z.number(),
+  voltageV: z.number(),
+  voltageMeasured: z.boolean(),
+  read: z.boolean(),
+  steps: z.array(installedStepResultSchema),
 });
 
 export const bankStageSchema = z.object({
@@ -225,6 +282,28 @@ export const sizingResultSchema = z.object({
   loads: z.array(loadResultSchema),
   site: siteResultSchema,
   correction: correctionSchema,
+  installedBanks: z.array(installedBankResultSchema).optional(),
+  combinedStages: z
+    .array(
+      z.object({
+        withNewBank: z.string().describe('"recommended", "proposed detuned", or "none"'),
+        stagesScreened: z.number().int(),
+        hazards: z.array(
+          z.object({
+            installed: z.array(z.string()),
+            newStage: z.number().int().describe("the new bank's stage switched in with them; 0: none"),
+            totalKvar: z.number(),
+            resonanceOrders: z.array(z.number()),
+            nearHarmonics: z.array(z.number()),
+          }),
+        ),
+        lowestOrder: z.number().nullable(),
+        highestOrder: z.number().nullable(),
+        truncated: z.boolean(),
+      }),
+    )
+    .optional()
+    .describe("resonance of every combination of installed and new steps the controllers can switch"),
   placement: placementSchema.optional(),
   recommendedBank: recommendedBankSchema.nullable(),
   proposedBank: bankAnalysisSchema.optional(),

@@ -7,6 +7,7 @@ import {
   VOLTS_MIN,
   type SizingInput,
 } from "../../core/inputs.js";
+import { installedBankIssues } from "../../core/bank/installed.js";
 
 /** Request schemas. They produce the engine's input types; results have their own schemas in ./results.ts. */
 
@@ -96,6 +97,49 @@ export const bankSchema = z.strictObject({
   steps: z.array(z.strictObject({ kvar: positive("kvar").max(100_000) })).min(1, "a bank needs at least one step").max(64),
   reactorPct: z.number().min(0).max(20, "reactorPct must be 0 to 20 %").optional(),
 });
+
+const isoDate = z.iso.date({ error: "installedOn must be an ISO 8601 date such as 2021-06-30" });
+
+export const installedBankSchema = z.strictObject({
+  label: z.string().trim().min(1, "label must not be empty").max(100, "label must be at most 100 characters").describe("unique within the building; bank readings refer to it"),
+  location: z.enum(["service", "group", "motor"], { error: "location must be service, group or motor" }),
+  group: z.string().trim().min(1).max(100).optional().describe("the MCC or feeder of a group bank"),
+  loadLabel: z.string().trim().min(1).max(200).optional().describe("the motor (load label) of a terminal unit"),
+  control: z.enum(["fixed", "automatic"], { error: "control must be fixed or automatic" }),
+  ratedVoltageV: volts.describe("nameplate voltage, line-to-line on three phases"),
+  ratedFrequencyHz: z.union([z.literal(50), z.literal(60)], { error: "ratedFrequencyHz must be 50 or 60" }).optional(),
+  connection: z.enum(["delta", "wye"]).optional(),
+  reactorPct: z.number().min(0).max(20, "reactorPct must be 0 to 20 %").optional().describe("series (detuning) reactor; 0 or absent: plain"),
+  steps: z.array(z.strictObject({ kvar: positive("kvar").max(100_000) })).min(1, "a bank needs at least one step").max(32).describe("nameplate kvar per step at the rated voltage and frequency; a fixed bank is one step"),
+  installedOn: isoDate.optional(),
+});
+
+export const installedBanksSchema = z
+  .array(installedBankSchema)
+  .max(50, "at most 50 installed banks")
+  .superRefine((banks, ctx) => {
+    for (const i of installedBankIssues(banks, [])) ctx.addIssue({ code: "custom", path: i.path, message: i.message });
+  });
+
+const stepNumber = z.number().int("step must be a whole number").min(1, "steps are numbered from 1").max(32, "steps are numbered 1 to 32");
+const amps = z.number({ error: "amps must be a number" }).min(0, "amps must not be negative").max(MAX_FIGURE, `amps must be at most ${MAX_FIGURE}`);
+
+export const bankReadingSchema = z.strictObject({
+  bank: z.string().trim().min(1, "bank must name an installed bank's label").max(100),
+  inServiceSteps: z.array(stepNumber).max(32).describe("steps energised while the site readings were taken (1-based)"),
+  voltageV: volts.optional().describe("voltage measured at the bank; default the system voltage"),
+  stepCurrents: z
+    .array(
+      z.strictObject({
+        step: stepNumber,
+        amps: z.union([z.tuple([amps, amps, amps]), amps], { error: "amps must be one figure, or three (one per phase)" }).describe("per phase [a, b, c], or one figure; 0 in a phase is a finding"),
+      }),
+    )
+    .max(32)
+    .optional(),
+});
+
+export const bankReadingsSchema = z.array(bankReadingSchema).max(50);
 
 export const backgroundDistortionSchema = z
   .array(
@@ -193,6 +237,8 @@ export const sizingRequestSchema = z.strictObject({
   lightLoad: serviceEntranceSchema.optional().describe("a reading at the main at light load: caps the fixed part of the bank"),
   bankDesign: bankDesignSchema.optional(),
   economics: economicsSchema.optional(),
+  installedBanks: installedBanksSchema.optional().describe("capacitor banks already installed"),
+  bankReadings: bankReadingsSchema.optional().describe("which installed steps were energised during the readings, and their measured currents"),
 });
 
 export type SizingRequest = z.infer<typeof sizingRequestSchema>;

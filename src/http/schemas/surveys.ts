@@ -1,9 +1,10 @@
 import { z } from "zod";
-import { economicsSettingsViewSchema } from "./buildings.js";
+import { economicsSettingsViewSchema, installedBankViewSchema } from "./buildings.js";
 import { sizingResultSchema } from "./results.js";
 import {
   backgroundDistortionSchema,
   bankDesignSchema,
+  bankReadingsSchema,
   bankSchema,
   harmonicSourcesSchema,
   loadsSchema,
@@ -32,6 +33,7 @@ export const surveyInputsSchema = z.strictObject({
   backgroundVoltageDistortion: backgroundDistortionSchema.optional(),
   lightLoad: serviceEntranceSchema.optional(),
   bankDesign: bankDesignSchema.optional(),
+  bankReadings: bankReadingsSchema.optional().describe("the building's installed banks as found: steps energised during the readings, measured currents"),
   intervalAnalysisId: z
     .string({ error: "intervalAnalysisId must be a string or null" })
     .trim()
@@ -70,6 +72,7 @@ export const buildingSnapshotSchema = z.object({
   utility: z.object({ faultMVA: z.number() }).nullable(),
   economics: economicsSettingsViewSchema.nullable().describe("the building's tariff and costs the economics were computed with"),
   intervalAnalysisId: z.string().nullable().describe("the interval analysis the bank design rests on; null when none"),
+  installedBanks: z.array(installedBankViewSchema).describe("the building's installed banks the result was computed with"),
 });
 
 export const surveyCreatedSchema = z.object({
@@ -126,6 +129,37 @@ export const trendSchema = z.object({
       kvar: z.number(),
       displacementPF: z.number(),
       kvarRequired: z.number(),
+      installedKvarInService: z.number().nullable().describe("rated kvar (at the system voltage) of the installed steps energised during the readings; null: no installed banks"),
+      kvarDelivered: z.number().nullable().describe("kvar those steps delivered, from the measured currents where given; null: no installed banks"),
+    }),
+  ),
+});
+
+export const bankHealthSchema = z.object({
+  buildingId: z.string(),
+  order: z.literal("oldest_first"),
+  truncated: z.boolean().describe("true when the building has more surveys with installed banks than one answer reads"),
+  series: z.array(
+    z.object({
+      bank: z.string(),
+      startedBecause: z.enum(["first_seen", "replaced", "renamed"]).describe("a bank redefined (replaced) or relabelled (renamed) in the building history starts a new series"),
+      note: z.string().nullable(),
+      definition: installedBankViewSchema,
+      steps: z.array(
+        z.object({
+          step: z.number().int(),
+          nameplateKvar: z.number(),
+          points: z.array(
+            z.object({
+              surveyId: z.string(),
+              surveyedAt: z.string(),
+              capacitancePct: z.number().nullable().describe("null when the step's current was not measured"),
+              status: z.enum(["healthy", "degraded", "failed", "unbalanced", "not_measured"]),
+              measuredKvar: z.number().nullable(),
+            }),
+          ),
+        }),
+      ),
     }),
   ),
 });

@@ -4,3 +4,4 @@ export { chartToSvg } from "./svg.js";
 export { powerTriangleChart, triangleScale, type TriangleChartInput, type TriangleData } from "./triangle.js";
 export { impedanceScanChart, type ScanChartInput, type ScanLine } from "./scan.js";
 export { durationCurveChart, type DurationChartInput, type StepLevel } from "./duration.js";
+export { capacitanceChart, type CapacitanceChartInput, type CapacitanceLine } from "./capacitance.js";

@@ -7,6 +7,7 @@ import type { SizingResult } from "../../core/pipeline/size.js";
 import { fmt } from "../format.js";
 import type { Block, ReportInput, Section } from "../types.js";
 import { noBankText, stepsText } from "./bank.js";
+import { installedVerdict } from "./installed.js";
 
 export interface Verdict {
   /** What to install, one line per place (central, group, motor terminals); empty when nothing is to be bought. */
@@ -63,10 +64,14 @@ export function verdictOf(result: SizingResult): Verdict {
   const c = result.correction;
   const instead = install.length > 0 ? null : noBankText(result);
   const before = `PF ${fmt.pf(result.site.displacementPF)} ${result.site.sense}, ${fmt.power(c.kVABefore)} kVA`;
+  const relief = c.action === "remove" ? c.leadingRelief : undefined;
+  const reliefKVA = relief ? Math.hypot(result.site.kW, relief.kvarAfter) : 0;
   const after =
     c.action === "none"
       ? `Stays at ${before}: the target PF ${fmt.pf(c.targetPF)} is already met.`
-      : `PF ${fmt.pf(c.pfAfter)} ${c.pfAfterSense ?? "lagging"} and ${fmt.power(c.kVAAfter)} kVA, from ${before} (${fmt.power(c.kVAReleased)} kVA released).`;
+      : relief && relief.takeOutOfService.length > 0
+        ? `PF ${fmt.pf(relief.pfAfter)} ${relief.senseAfter} and ${fmt.power(reliefKVA)} kVA with those steps out, from ${before} (${fmt.power(c.kVABefore - reliefKVA)} kVA released).`
+        : `PF ${fmt.pf(c.pfAfter)} ${c.pfAfterSense ?? "lagging"} and ${fmt.power(c.kVAAfter)} kVA, from ${before} (${fmt.power(c.kVAReleased)} kVA released).`;
   const e = result.economics;
   const money = e
     ? {
@@ -75,7 +80,8 @@ export function verdictOf(result: SizingResult): Verdict {
         payback: e.simplePaybackYears === null ? null : `${fmt.num(e.simplePaybackYears, 1)} years (simple payback)`,
       }
     : null;
-  return { install, instead, repairFirst: [], after, money, risks: risksOf(result) };
+  const repair = installedVerdict(result);
+  return { install, instead, repairFirst: repair ? [repair] : [], after, money, risks: risksOf(result) };
 }
 
 /** The one or two risks that matter, most serious first. */
@@ -91,6 +97,10 @@ function risksOf(result: SizingResult): string[] {
     );
   } else if (detuned) {
     risks.push(`Harmonics: the plain bank fails the harmonic study (${detuned.triggeredBy.join(", ").replace(/_/g, " ")}) — hence the detuned design.`);
+  }
+  const failing = (result.correction.repairFirst ?? []).filter((r) => r.status === "failed" || r.status === "degraded");
+  if (failing.length > 0) {
+    risks.push(`Failing bank: ${failing.map((r) => `${r.bank} step ${r.step} (${r.status})`).join(", ")} — repair before buying new capacitors.`);
   }
   if (result.correction.action === "remove") {
     risks.push(`Leading operation: the site leads now (PF ${fmt.pf(result.site.displacementPF)}); leading PF raises the voltage and can upset generators and motor controls.`);

@@ -1,0 +1,148 @@
+/**
+ * Resonance of every combination the controllers can switch when installed and new capacitors share a bus:
+ * plain and detuned branches together, which the one-reactor closed form cannot describe.
+ */
+import { nearHarmonic } from "./resonance.js";
+
+export interface Branch {
+  /** Capacitor kvar at the system voltage and frequency, before the reactor's rise (Q_C). */
+  capacitorKvar: number;
+  /** Reactor p = X_L/X_C; 0 for a plain branch. */
+  reactorFraction: number;
+}
+
+/**
+ * Parallel resonance orders of the source with capacitor branches on one bus, lossless: the orders where the
+ * branches' capacitive susceptance equals the source's inductive one, Σ Q_i·h/(1 − p_i·h²) = S_sc/h
+ * (each branch X(h) = p·X_C·h − X_C/h with X_C = V²/Q_C; source X_s·h with X_s = V²/S_sc). f(h) = LHS − RHS rises
+ * between consecutive branch tuning orders 1/√p (its derivative is positive term by term), from −∞ to +∞: one root
+ * in each interval, and one above the highest tuning order when a plain branch is present. With one p this is the
+ * closed form h = √(1/(Q_C/S_sc + p)).
+ */
+export function parallelResonanceOrders(branches: readonly Branch[], shortCircuitKVA: number, maxOrder = 50): number[] {
+  // Branches with the same p add (Q_i·h/(1 − p·h²) is linear in Q_i): one term per reactor value.
+  const byP = new Map<number, number>();
+  for (const b of branches) if (b.capacitorKvar > 0) byP.set(b.reactorFraction, (byP.get(b.reactorFraction) ?? 0) + b.capacitorKvar);
+  const live = [...byP.entries()].map(([reactorFraction, capacitorKvar]) => ({ reactorFraction, capacitorKvar }));
+  if (live.length === 0) return [];
+  const f = (h: number) => live.reduce((s, b) => s + (b.capacitorKvar * h) / (1 - b.reactorFraction * h * h), 0) - shortCircuitKVA / h;
+  const poles = [...new Set(live.filter((b) => b.reactorFraction > 0).map((b) => 1 / Math.sqrt(b.reactorFraction)))].sort((a, b) => a - b);
+  const hasPlain = live.some((b) => b.reactorFraction === 0);
+  const edges = [0, ...poles, ...(hasPlain ? [maxOrder] : [])];
+  const roots: number[] = [];
+  for (let i = 0; i + 1 < edges.length; i++) {
+    const lo0 = edges[i]!;
+    const hi0 = edges[i + 1]!;
+    // bisection inside the open interval; f is monotonic there
+    let lo = lo0 + (hi0 - lo0) * 1e-12 + 1e-12;
+    let hi = hi0 - (hi0 - lo0) * 1e-12;
+    if (!(f(lo) < 0 && f(hi) > 0)) continue;
+    for (let k = 0; k < 64 && hi - lo > 1e-12; k++) {
+      const mid = (lo + hi) / 2;
+      if (f(mid) < 0) lo = mid;
+      else hi = mid;
+    }
+    const h = (lo + hi) / 2;
+    if (h <= maxOrder) roots.push(h);
+  }
+  return roots;
+}
+
+/** A switchable unit on the bus: a step of an installed bank, or a stage option of the new bank. */
+export interface SwitchUnit {
+  /** Who it is, e.g. "MSB bank step 2". */
+  label: string;
+  capacitorKvar: number;
+  reactorFraction: number;
+  /** Delivered kvar (Q_C/(1 − p)). */
+  effectiveKvar: number;
+  /** Always energised (a fixed bank). */
+  fixed: boolean;
+}
+
+export interface CombinedStage {
+  /** Installed units energised, and the new bank's stage (0: none of its switched part). */
+  installed: string[];
+  newStage: number;
+  totalKvar: number;
+  resonanceOrders: number[];
+  /** Present harmonic orders within ±10 % of a resonance. */
+  nearHarmonics: number[];
+}
+
+export interface CombinedScreen {
+  stagesScreened: number;
+  /** Only the combinations near a present harmonic, fewest kvar first (at most 50). */
+  hazards: CombinedStage[];
+  /** The lowest and highest resonance over all combinations. */
+  lowestOrder: number | null;
+  highestOrder: number | null;
+  truncated: boolean;
+}
+
+/** Most combinations screened (installed subsets × new stages); beyond it, the answer says so. */
+export const MAX_COMBINATIONS = 4000;
+
+/**
+ * Every combination: each installed switchable unit in or out (identical units counted, not permuted), fixed units
+ * always in, times each stage of the new bank (its cumulative stages in order, or none of it).
+ */
+export function screenCombinedStages(
+  installed: readonly SwitchUnit[],
+  newStages: readonly { capacitorKvar: number; effectiveKvar: number; reactorFraction: number }[],
+  shortCircuitKVA: number,
+  harmonicOrders: readonly number[],
+): CombinedScreen {
+  const fixed = installed.filter((u) => u.fixed);
+  const groups = new Map<string, SwitchUnit[]>();
+  for (const u of installed.filter((x) => !x.fixed)) {
+    const key = `${u.capacitorKvar.toFixed(6)}|${u.reactorFraction}`;
+    groups.set(key, [...(groups.get(key) ?? []), u]);
+  }
+  const kinds = [...groups.values()];
+  const newOptions = [{ capacitorKvar: 0, effectiveKvar: 0, reactorFraction: 0 }, ...newStages];
+  const hazards: CombinedStage[] = [];
+  let screened = 0;
+  let lowest: number | null = null;
+  let highest: number | null = null;
+  let truncated = false;
+  const counts = kinds.map(() => 0);
+  const visit = (): void => {
+    const on = [...fixed, ...kinds.flatMap((g, i) => g.slice(0, counts[i]))];
+    for (const [n, stage] of newOptions.entries()) {
+      if (on.length === 0 && n === 0) continue;
+      if (screened >= MAX_COMBINATIONS) {
+        truncated = true;
+        return;
+      }
+      screened++;
+      const branches: Branch[] = [...on, ...(n > 0 ? [stage] : [])].map((u) => ({ capacitorKvar: u.capacitorKvar, reactorFraction: u.reactorFraction }));
+      const orders = parallelResonanceOrders(branches, shortCircuitKVA);
+      for (const h of orders) {
+        lowest = lowest === null ? h : Math.min(lowest, h);
+        highest = highest === null ? h : Math.max(highest, h);
+      }
+      const near = [...new Set(orders.map((h) => nearHarmonic(h, harmonicOrders)).filter((x): x is number => x !== null))];
+      if (near.length > 0 && on.length > 0) {
+        hazards.push({
+          installed: on.map((u) => u.label),
+          newStage: n,
+          totalKvar: on.reduce((s, u) => s + u.effectiveKvar, 0) + (n > 0 ? stage.effectiveKvar : 0),
+          resonanceOrders: orders,
+          nearHarmonics: near,
+        });
+      }
+    }
+  };
+  // odometer over the counts of each kind of identical unit
+  for (;;) {
+    visit();
+    if (truncated) break;
+    let i = 0;
+    while (i < kinds.length && counts[i] === kinds[i]!.length) counts[i++] = 0;
+    if (i === kinds.length) break;
+    counts[i] = (counts[i] ?? 0) + 1;
+  }
+  hazards.sort((a, b) => a.totalKvar - b.totalKvar);
+  return { stagesScreened: screened, hazards: hazards.slice(0, 50), lowestOrder: lowest, highestOrder: highest, truncated };
+}

@@ -1,0 +1,186 @@
+/**
+ * The installed banks inside a sizing: their step-by-step health, the credit they earn, the warnings that go with
+ * them, and the caution on reading a plain bank's current with a true-RMS clamp on a distorted bus.
+ */
+import { evaluateInstalledBanks, type InstalledBankResult } from "../bank/installed.js";
+import type { Caution } from "../cautions/safety-cautions.js";
+import { installedCredit, type InstalledCredit } from "../correction/installed-credit.js";
+import type { SizingInput } from "../inputs.js";
+import type { LoadResult, SiteResult } from "../readings/site-totals.js";
+import { warning, type InputIssue, type Warning } from "../warnings.js";
+import type { BankAnalysis } from "../bank/stages.js";
+import { kvarAtVoltage } from "../bank/capacitor.js";
+import type { DetunedDesign } from "../harmonics/detuned.js";
+import { MAX_COMBINATIONS, screenCombinedStages, type CombinedScreen, type SwitchUnit } from "../harmonics/combined-stages.js";
+
+export interface InstalledAssessment {
+  banks: InstalledBankResult[];
+  credit: InstalledCredit | null;
+  /** What the new bank's design must know: kvar to add back to the survey's site reading, and the installed rated kvar. */
+  design: { addBackKvar: number; installedKvar: number } | null;
+  issues: InputIssue[];
+  warnings: Warning[];
+}
+
+export function assessInstalledBanks(input: SizingInput, site: SiteResult, loads: readonly LoadResult[], targetPF: number): InstalledAssessment {
+  const banks = input.installedBanks ?? [];
+  const readings = input.bankReadings ?? [];
+  if (banks.length === 0 && readings.length === 0) return { banks: [], credit: null, design: null, issues: [], warnings: [] };
+  const evaluated = evaluateInstalledBanks(banks, readings, input.system);
+  if (evaluated.issues.length > 0) return { banks: [], credit: null, design: null, issues: evaluated.issues, warnings: [] };
+  const warnings = [...evaluated.warnings];
+  const labels = loads.map((l) => l.label);
+  for (const [i, b] of evaluated.banks.entries()) {
+    if (b.location === "motor" && b.loadLabel && !labels.includes(b.loadLabel)) {
+      warnings.push(warning("installed_bank_load_not_read", `bank "${b.label}" sits at motor "${b.loadLabel}", which this survey did not read: its kvar is taken as outside the readings`, `installedBanks.${i}.loadLabel`));
+    }
+  }
+  const credit = installedCredit(site, targetPF, evaluated.banks, labels);
+  if (credit.repairFirst.length > 0) {
+    const list = credit.repairFirst.map((r) => `${r.bank} step ${r.step} (${r.status}, ${r.restoresKvar.toFixed(1)} kvar)`).join(", ");
+    warnings.push(
+      warning(
+        "installed_steps_need_repair",
+        `repair before buying new capacitors: ${list} — ${credit.kvarRestoredByRepair.toFixed(1)} kvar restored in all; after repair the installed banks give ${credit.kvarInstalledRated.toFixed(1)} kvar against ${credit.kvarRequiredTotal.toFixed(1)} kvar required, leaving ${credit.kvarAdditional.toFixed(1)} kvar to add`,
+        "installedBanks",
+      ),
+    );
+  }
+  if (credit.leadingRelief) {
+    const r = credit.leadingRelief;
+    const steps = r.takeOutOfService.map((s) => (s.control === "fixed" ? `remove fixed bank ${s.bank}` : `${s.bank} step ${s.step}`)).join(", ");
+    warnings.push(
+      warning(
+        "installed_steps_lead",
+        `the site leads beyond the target with installed steps energised: take out ${steps} (${r.kvarRemoved.toFixed(1)} kvar) → PF ${r.pfAfter.toFixed(3)} ${r.senseAfter}${r.reachesTarget ? "" : ", still short of the target"}`,
+        "bankReadings",
+      ),
+    );
+  }
+  return {
+    banks: evaluated.banks,
+    credit,
+    design: { addBackKvar: credit.kvarIncludedInReadings, installedKvar: credit.kvarInstalledRated },
+    issues: [],
+    warnings,
+  };
+}
+
+/**
+ * Over-reading of a true-RMS clamp on a plain capacitor: its current at order h is h·V_h·ωC, so
+ * I_rms/I_1 = √(1 + Σ (h·V_h/V_1)²) (circuit theory; the capacitor's admittance rises with h).
+ */
+export function clampOverReadPct(lines: readonly { order: number; voltagePct: number }[]): number {
+  const sum = lines.reduce((s, l) => s + (l.order * l.voltagePct / 100) ** 2, 0);
+  return (Math.sqrt(1 + sum) - 1) * 100;
+}
+
+/** The clamp caution, when a plain installed step was measured; with the bus's distortion lines when known. */
+export function clampCaution(banks: readonly InstalledBankResult[], lines: readonly { order: number; voltagePct: number }[] | null, thdVPct: number | null): Caution | null {
+  const plainMeasured = banks.filter((b) => b.reactorPct === 0 && b.steps.some((s) => s.measuredCurrentA !== undefined));
+  if (plainMeasured.length === 0) return null;
+  const by =
+    lines && lines.length > 0 && thdVPct !== null
+      ? `At this bus's THD_v of ${thdVPct.toFixed(1)} % the reading is about ${clampOverReadPct(lines).toFixed(1)} % above the fundamental, so a step that reads healthy may have lost that much capacitance.`
+      : "For example, 5 % of 5th-harmonic voltage makes it read √(1 + (5 × 0.05)²) − 1 = 3.1 % high; give the bus distortion (or drives and the transformer) to have it worked for this site.";
+  return {
+    code: "clamp_reading_plain_bank",
+    title: "True-RMS current readings of a plain bank",
+    text: `A plain (not detuned) capacitor draws more current at each harmonic than at the fundamental (its reactance falls as 1/h), so a true-RMS clamp on a distorted bus reads more than the fundamental current the capacitance check assumes (banks: ${plainMeasured.map((b) => b.label).join(", ")}). ${by} Use a meter that shows the fundamental, or read with the drives stopped.`,
+    reference: "I_rms/I_1 = √(1 + Σ(h·V_h/V_1)²), circuit theory",
+  };
+}
+
+/** The new bank as the combined screen sees it: cumulative stages with one reactor. */
+export interface NewBankStages {
+  name: string;
+  reactorPct: number;
+  stages: { capacitorKvar: number; effectiveKvar: number }[];
+}
+
+/**
+ * Installed steps join the resonance screen: every combination the controllers can switch, installed and new
+ * together (src/core/harmonics/combined-stages.ts). When the new bank is (or is proposed) detuned and a plain
+ * installed bank shares the bus, say what to do with the plain one.
+ */
+export function screenWithInstalled(
+  banks: readonly InstalledBankResult[],
+  newBanks: readonly NewBankStages[],
+  shortCircuitKVA: number | null,
+  harmonicOrders: readonly number[],
+  busVoltageV: number,
+): { screens: InstalledScreen[]; warnings: Warning[] } {
+  if (banks.length === 0 || shortCircuitKVA === null) return { screens: [], warnings: [] };
+  const units: SwitchUnit[] = banks.flatMap((b) =>
+    b.steps.map((s) => ({
+      label: b.steps.length > 1 ? `${b.label} step ${s.step}` : b.label,
+      capacitorKvar: s.ratedKvarAtSystem * (1 - b.reactorPct / 100),
+      reactorFraction: b.reactorPct / 100,
+      effectiveKvar: s.ratedKvarAtSystem,
+      fixed: b.control === "fixed" && b.location === "service",
+    })),
+  );
+  const options = newBanks.length > 0 ? newBanks : [{ name: "none", reactorPct: 0, stages: [] }];
+  const screens = options.map((nb) => ({
+    withNewBank: nb.name,
+    ...screenCombinedStages(units, nb.stages.map((s) => ({ ...s, reactorFraction: nb.reactorPct / 100 })), shortCircuitKVA, harmonicOrders),
+  }));
+  const warnings: Warning[] = [];
+  for (const sc of screens) {
+    if (sc.hazards.length === 0) continue;
+    const first = sc.hazards[0]!;
+    warnings.push(
+      warning(
+        "combined_stage_resonance",
+        `${sc.hazards.length}${sc.hazards.length === 50 ? "+" : ""} of ${sc.stagesScreened} switchable combinations of the installed steps${sc.withNewBank === "none" ? "" : ` and the ${sc.withNewBank} bank`} resonate within 10 % of a harmonic the site produces; the smallest: ${first.installed.join(" + ")}${first.newStage > 0 ? ` + new stage ${first.newStage}` : ""} (${first.totalKvar.toFixed(1)} kvar) at order${first.resonanceOrders.length > 1 ? "s" : ""} ${first.resonanceOrders.map((h) => h.toFixed(2)).join(", ")}`,
+        "installedBanks",
+      ),
+    );
+  }
+  if (screens.some((sc) => sc.truncated)) {
+    warnings.push(warning("combined_screen_truncated", `more switchable combinations exist than the ${MAX_COMBINATIONS} screened: the combined resonance screen is incomplete`, "installedBanks"));
+  }
+  const plain = banks.filter((b) => b.reactorPct === 0);
+  const detuned = newBanks.find((nb) => nb.reactorPct > 0);
+  if (plain.length > 0 && detuned) {
+    const p = detuned.reactorPct / 100;
+    const screen = screens.find((s) => s.withNewBank === detuned.name);
+    const mixed = screen?.hazards.find((hz) => hz.newStage > 0);
+    warnings.push(
+      warning(
+        "plain_bank_beside_detuned",
+        `the ${detuned.name} bank is detuned (${detuned.reactorPct} %) but installed bank${plain.length > 1 ? "s" : ""} ${plain.map((b) => b.label).join(", ")} ${plain.length > 1 ? "are" : "is"} plain on the same bus: a plain capacitor in parallel with a detuned one resonates above the tuning order${mixed ? ` (here at order ${mixed.resonanceOrders.map((h) => h.toFixed(2)).join(", ")})` : ""}. Rebuild it detuned (${detuned.reactorPct} % reactors, capacitors rated at least ${(busVoltageV / (1 - p)).toFixed(0)} V plus margin) or take it out of service when the new bank is energised`,
+        "installedBanks",
+      ),
+    );
+  }
+  return { screens, warnings };
+}
+
+export type InstalledScreen = CombinedScreen & { withNewBank: string };
+
+/** The recommended bank's stages, and the study's detuned proposal for it when there is one. */
+export function newBanksOf(
+  recommended: Pick<BankAnalysis, "reactorPct" | "stages"> | null,
+  proposals: readonly { forBank: string; design: DetunedDesign }[],
+  voltageV: number,
+): NewBankStages[] {
+  const out: NewBankStages[] = [];
+  if (recommended) {
+    out.push({ name: "recommended", reactorPct: recommended.reactorPct, stages: recommended.stages.map((s) => ({ capacitorKvar: s.cumulativeCapacitorKvar, effectiveKvar: s.cumulativeKvar })) });
+  }
+  const proposal = proposals.find((p) => p.forBank === "recommended");
+  if (proposal) {
+    const d = proposal.design;
+    let capacitorKvar = 0;
+    let effectiveKvar = 0;
+    const stages = d.steps.map((s) => {
+      // Q_C at the bus from the nameplate: Q_r·(V/V_r)² (IEEE Std 18 rating basis; same frequency)
+      capacitorKvar += kvarAtVoltage(s.nameplateKvar, voltageV, d.ratedVoltageV);
+      effectiveKvar += s.effectiveKvar;
+      return { capacitorKvar, effectiveKvar };
+    });
+    out.push({ name: "proposed detuned", reactorPct: d.reactorPct, stages });
+  }
+  return out;
+}
