@@ -1,2 +1,2 @@
 /** Bumped whenever a change to the engine can change a stored result. Stored with every survey. */
-export const ENGINE_VERSION = "1.0.0";
+export const ENGINE_VERSION = "2.0.0";
