@@ -1,5 +1,5 @@
 import { performance } from "node:perf_hooks";
-import { buildBusModel, capacitorBranch, scanImpedance, withBranches } from "../src/core/harmonics/index.js";
+import { buildBusModel, capacitorBranch, scanImpedance, withBranches } from "../src/core/harmonics/harmonics-api.js";
 
 export interface ScanBenchResult {
   lines: string[];

@@ -5,7 +5,7 @@
  *
  * `problem()` takes only these slugs, so a new type cannot be answered without its page.
  */
-import { DEFAULT_MAX_BAD_ROW_FRACTION } from "../core/interval/index.js";
+import { DEFAULT_MAX_BAD_ROW_FRACTION } from "../core/interval/interval-api.js";
 import { INTERVAL_MAX_BYTES, INTERVAL_MAX_ROWS } from "./interval/ingest.js";
 
 export interface ProblemTypeDoc {

@@ -3,7 +3,7 @@
  * so they are recomputed here with the pure harmonic engine from the result's own network figures (or taken as
  * supplied, e.g. from POST /v1/harmonics/scan).
  */
-import { buildBusModel, capacitorBranch, DEFAULT_REACTOR_QUALITY_FACTOR, scanImpedance, withBranches, type BusModel, type NetworkInput } from "../core/harmonics/index.js";
+import { buildBusModel, capacitorBranch, DEFAULT_REACTOR_QUALITY_FACTOR, scanImpedance, withBranches, type BusModel, type NetworkInput } from "../core/harmonics/harmonics-api.js";
 import { linearLoadKW } from "../core/harmonics/site-study.js";
 import type { ScanLine } from "./charts/index.js";
 import type { ReportInput } from "./types.js";

@@ -1,9 +1,9 @@
 /** The report model: renderer-neutral sections of formatted strings and chart geometry. */
 import type { BankDesign } from "../core/bank/bank-design.js";
 import type { PlacementPlan } from "../core/placement/placement-types.js";
-import type { EconomicsResult } from "../core/economics/index.js";
+import type { EconomicsResult } from "../core/economics/economics-api.js";
 import type { SizingInput } from "../core/inputs.js";
-import type { IntervalSummary } from "../core/interval/index.js";
+import type { IntervalSummary } from "../core/interval/interval-api.js";
 import type { SizingResult } from "../core/pipeline/size.js";
 import type { Chart } from "./charts/geometry.js";
 import type { HealthSeries } from "../application/bank-health.js";

@@ -2,9 +2,9 @@
 import { designBank, type BankDesign } from "../../src/core/bank/bank-design.js";
 import { planPlacement } from "../../src/core/placement/placement.js";
 import type { PlacementPlan } from "../../src/core/placement/placement-types.js";
-import { economics, type EconomicsResult } from "../../src/core/economics/index.js";
+import { economics, type EconomicsResult } from "../../src/core/economics/economics-api.js";
 import type { SizingInput } from "../../src/core/inputs.js";
-import { analyseIntervals, summarise, type IntervalSummary } from "../../src/core/interval/index.js";
+import { analyseIntervals, summarise, type IntervalSummary } from "../../src/core/interval/interval-api.js";
 import { size, type SizingResult } from "../../src/core/pipeline/size.js";
 import type { ReportInput } from "../../src/report/index.js";
 

@@ -2,7 +2,7 @@ import { CONTROLLER_RULE } from "../bank/controller-rule.js";
 import { createController } from "../interval/controller.js";
 import type { CapacitorBank } from "../interval/series-types.js";
 import type { CorrectionResult } from "../correction/to-target.js";
-import { economics, type InstalledCostInput, type BillingPeriod, type BillingState, type EconomicsResult, type IntervalMethod, type Tariff } from "./index.js";
+import { economics, type InstalledCostInput, type BillingPeriod, type BillingState, type EconomicsResult, type IntervalMethod, type Tariff } from "./economics-api.js";
 import { intervalMonths, type MonthlyDemand } from "./interval-billing.js";
 import type { SiteResult } from "../readings/site-totals.js";
 import type { IntervalDemandInput } from "../inputs.js";

@@ -7,7 +7,7 @@ import {
   type HarmonicStudyOptions,
   type HarmonicStudyResult,
   type HarmonicSourceInput,
-} from "./index.js";
+} from "./harmonics-api.js";
 import { IEEE18_LIMITS_PCT } from "./duty.js";
 import { compactList, ieee18Severity, warning, worstSeverity, type InputIssue, type Severity, type Warning } from "../warnings.js";
 

@@ -12,9 +12,9 @@ import {
 } from "../harmonics/resonance.js";
 import { shortCircuitAtBus } from "../harmonics/short-circuit.js";
 import { costItemsOf, economicsBankOf, economicsIntervalsOf, siteEconomics } from "../economics/of-sizing.js";
-import type { EconomicsResult } from "../economics/index.js";
+import type { EconomicsResult } from "../economics/economics-api.js";
 import { compactStudy, studySiteHarmonics, withoutScreenVoltageRepeats, type SizingHarmonics } from "../harmonics/site-study.js";
-import type { HarmonicStudyOptions, HarmonicStudyResult } from "../harmonics/index.js";
+import type { HarmonicStudyOptions, HarmonicStudyResult } from "../harmonics/harmonics-api.js";
 import { evaluateSite, type LoadResult, type SiteResult } from "../readings/site-totals.js";
 import { ENGINE_VERSION } from "./engine-version.js";
 import { assessInstalledBanks, clampCaution, newBanksOf, screenWithInstalled, type InstalledScreen } from "./installed-banks.js";

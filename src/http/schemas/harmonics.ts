@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { MAX_SCAN_POINTS } from "../../core/harmonics/index.js";
+import { MAX_SCAN_POINTS } from "../../core/harmonics/harmonics-api.js";
 import { sizingRequestSchema } from "./sizing.js";
 
 export const scanOptionsSchema = z

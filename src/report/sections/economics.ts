@@ -1,5 +1,5 @@
 /** Economics: tariff, savings, installed cost and simple payback, or a sentence saying they were not evaluated. */
-import type { EconomicsResult, Tariff } from "../../core/economics/index.js";
+import type { EconomicsResult, Tariff } from "../../core/economics/economics-api.js";
 import { fmt } from "../format.js";
 import type { Block, ReportInput, Section } from "../types.js";
 

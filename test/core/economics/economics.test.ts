@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { economics, periodCharge, type BillingState, type Tariff } from "../../../src/core/economics/index.js";
+import { economics, periodCharge, type BillingState, type Tariff } from "../../../src/core/economics/economics-api.js";
 import { expectClose } from "../../helpers/tolerance.js";
 
 const MONEY = { abs: 0.005 }; // currency amounts to the cent

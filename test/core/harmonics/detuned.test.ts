@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { chooseDetuning, nearestStandardKvar, proposeDetunedDesign, standardCapacitorVoltageV } from "../../../src/core/harmonics/index.js";
+import { chooseDetuning, nearestStandardKvar, proposeDetunedDesign, standardCapacitorVoltageV } from "../../../src/core/harmonics/harmonics-api.js";
 
 describe("detuning choice", () => {
   it.each([

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { capacitorDuty } from "../../../src/core/harmonics/index.js";
+import { capacitorDuty } from "../../../src/core/harmonics/harmonics-api.js";
 
 const plain480 = { voltageV: 480, frequencyHz: 60, rating: { ratedVoltageV: 480, ratedKvar: 300, ratedFrequencyHz: 60 }, reactorPct: 0 };
 

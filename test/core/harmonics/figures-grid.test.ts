@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { runHarmonicStudy, type HarmonicStudyInput } from "../../../src/core/harmonics/index.js";
+import { runHarmonicStudy, type HarmonicStudyInput } from "../../../src/core/harmonics/harmonics-api.js";
 import { FIGURES_SCAN_STEP_ORDER } from "../../../src/core/harmonics/site-study.js";
 
 // The sizing section scans on a coarse grid and refines extrema on the exact |Z(h)|; it must find the same

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { checkIeee519, ieee519VoltageLimits } from "../../../src/core/harmonics/index.js";
+import { checkIeee519, ieee519VoltageLimits } from "../../../src/core/harmonics/harmonics-api.js";
 
 describe("IEEE 519 voltage limits", () => {
   it.each([

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { injectedCurrents, sixPulseSpectrum, TYPICAL_SIX_PULSE_THD_PCT } from "../../../src/core/harmonics/index.js";
+import { injectedCurrents, sixPulseSpectrum, TYPICAL_SIX_PULSE_THD_PCT } from "../../../src/core/harmonics/harmonics-api.js";
 import { size } from "../../../src/core/pipeline/size.js";
 import { expectClose, TOL } from "../../helpers/tolerance.js";
 

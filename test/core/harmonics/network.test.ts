@@ -7,7 +7,7 @@ import {
   loadDampingResistanceOhm,
   sourceImpedance,
   transformerShortCircuitKVA,
-} from "../../../src/core/harmonics/index.js";
+} from "../../../src/core/harmonics/harmonics-api.js";
 
 const rel = (a: number, b: number): number => Math.abs(a - b) / Math.abs(b);
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { buildBusModel, capacitorBranch, scanImpedance, validateScanOptions } from "../../../src/core/harmonics/index.js";
+import { buildBusModel, capacitorBranch, scanImpedance, validateScanOptions } from "../../../src/core/harmonics/harmonics-api.js";
 
 const lowDamping = (voltageV: number, frequencyHz: number, shortCircuitKVA: number) =>
   ({ voltageV, frequencyHz, shortCircuitKVA, xOverR: 200 }) as const;

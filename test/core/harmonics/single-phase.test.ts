@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { runHarmonicStudy, type HarmonicStudyResult } from "../../../src/core/harmonics/index.js";
+import { runHarmonicStudy, type HarmonicStudyResult } from "../../../src/core/harmonics/harmonics-api.js";
 import { size } from "../../../src/core/pipeline/size.js";
 import { expectClose, TOL } from "../../helpers/tolerance.js";
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { fundamentalCurrentA, injectedCurrents, sixPulseSpectrum, validateSpectrum } from "../../../src/core/harmonics/index.js";
+import { fundamentalCurrentA, injectedCurrents, sixPulseSpectrum, validateSpectrum } from "../../../src/core/harmonics/harmonics-api.js";
 
 describe("six-pulse spectrum", () => {
   it("holds 6k ± 1 up to 49 at 1/h", () => {

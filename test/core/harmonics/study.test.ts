@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { runHarmonicStudy, type HarmonicStudyInput, type HarmonicStudyResult } from "../../../src/core/harmonics/index.js";
+import { runHarmonicStudy, type HarmonicStudyInput, type HarmonicStudyResult } from "../../../src/core/harmonics/harmonics-api.js";
 
 /** Same site as worked-example.test.ts, the 300 kvar bank in three 100 kvar steps. */
 const site = (): HarmonicStudyInput => ({

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { buildBusModel, busDistortion, capacitorBranch, drivingPointImpedanceOhm, injectedCurrents } from "../../../src/core/harmonics/index.js";
+import { buildBusModel, busDistortion, capacitorBranch, drivingPointImpedanceOhm, injectedCurrents } from "../../../src/core/harmonics/harmonics-api.js";
 
 /**
  * 480 V 60 Hz bus fed by a 1500 kVA, 5.75 % transformer (infinite upstream), X/R 8;

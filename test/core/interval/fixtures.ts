@@ -1,4 +1,4 @@
-import type { IntervalSeries } from "../../../src/core/interval/index.js";
+import type { IntervalSeries } from "../../../src/core/interval/interval-api.js";
 
 /** Tolerances of the interval tests (same rule as test/helpers/tolerance.ts: |a − e| ≤ max(abs, rel·|e|)). */
 export const ITOL = {
