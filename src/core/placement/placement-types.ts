@@ -1,10 +1,11 @@
 /** Input and output shapes of the placement plan. */
 import type { Phases } from "../conventions.js";
-import type { LoadKind } from "../inputs.js";
+import type { LoadInput, LoadKind } from "../inputs.js";
 import type { Warning } from "../warnings.js";
-import type { StartingMethod } from "./rules.js";
 
-export interface PlacementLoad {
+/** The placement fields of a load are the load input's own (starting, contactor, group, no-load amps, duty, conductors). */
+export interface PlacementLoad
+  extends Pick<LoadInput, "starting" | "separateCapacitorContactor" | "group" | "noLoadAmps" | "continuousDuty" | "motorConductorAmpacityA"> {
   label: string;
   kind: LoadKind;
   /** kW and signed kvar of the whole entry (all `quantity` units) at the measured load. */
@@ -14,16 +15,6 @@ export interface PlacementLoad {
   /** The voltage the motor runs at: the reading's volts when it has them, else the system voltage. */
   voltageV: number;
   phases: Phases;
-  starting?: StartingMethod;
-  separateCapacitorContactor?: boolean;
-  /** MCC or feeder the load is fed from. */
-  group?: string;
-  /** No-load (uncoupled) line current of one motor, A. */
-  noLoadAmps?: number;
-  /** false: the motor runs intermittently (a terminal capacitor would idle). Unstated is taken as continuous. */
-  continuousDuty?: boolean;
-  /** Ampacity of the motor-circuit conductors, A: sets the capacitor conductors' one-third floor (NFPA 70 460.8(A)). */
-  motorConductorAmpacityA?: number;
 }
 
 export interface PlacementOptions {
