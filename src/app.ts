@@ -83,7 +83,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
     requestTimeout: config.REQUEST_TIMEOUT_MS,
     connectionTimeout: config.REQUEST_TIMEOUT_MS,
     routerOptions: { maxParamLength: MAX_PARAM_CHARS },
-    frameworkErrors: routerErrorHandler,
+    frameworkErrors: (error, request, reply) => void routerErrorHandler(error, request, reply),
     genReqId: (req) => {
       const given = req.headers["x-request-id"];
       return typeof given === "string" && /^[\w.:-]{1,128}$/.test(given) ? given : randomUUID();

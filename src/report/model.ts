@@ -1,5 +1,5 @@
 /** The report model of a sizing: pure, from the stored (or just computed) result and its inputs. */
-import { dateTime, fmt } from "./format.js";
+import { dateTime } from "./format.js";
 import { bankSection } from "./sections/bank.js";
 import { buildingSection } from "./sections/building.js";
 import { cautionsSection } from "./sections/cautions.js";

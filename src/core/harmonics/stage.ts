@@ -168,7 +168,7 @@ const f1 = (x: number): string => x.toFixed(1);
 
 export function busFindings(bus: BusStudy, where: string, at: Pick<Finding, "bankName" | "stageNumber">): Finding[] {
   const out: Finding[] = [];
-  const { thd, individual, limits } = bus.ieee519;
+  const { thd, limits } = bus.ieee519;
   if (!thd.pass)
     out.push({ code: "thd_v_exceeds_limit", subject: "thd", message: `${where}: THD_v ${f1(thd.valuePct)} % exceeds the IEEE 519 limit of ${f1(thd.limitPct)} %`, ...at });
   for (const line of bus.distortion.lines)

@@ -85,7 +85,7 @@ export class RowDecoder {
             break;
           }
         }
-        let k = s.indexOf(delim, fe + 1);
+        const k = s.indexOf(delim, fe + 1);
         pos = k < 0 || k >= end ? end : k;
       } else {
         const k = s.indexOf(delim, pos);
