@@ -84,65 +84,72 @@ export interface CombinedScreen {
 export const MAX_COMBINATIONS = 4000;
 
 /**
- * Every combination: each installed switchable unit in or out (identical units counted, not permuted), fixed units
- * always in, times each stage of the new bank (its cumulative stages in order, or none of it).
+ * Every combination the controllers can switch: each installed switchable unit in or out (identical units counted,
+ * not permuted), fixed units always in, times each option of the new bank (index 0: none of it). Calls `visit` with
+ * the energised installed units and the option's index, skipping the empty bus, at most `max` times; returns
+ * whether it stopped short.
  */
+export function forEachCombination<U extends Pick<SwitchUnit, "capacitorKvar" | "reactorFraction" | "fixed">>(
+  installed: readonly U[],
+  newOptionCount: number,
+  max: number,
+  visit: (on: U[], newIndex: number) => void,
+): { visited: number; truncated: boolean } {
+  const fixed = installed.filter((u) => u.fixed);
+  const groups = new Map<string, U[]>();
+  for (const u of installed.filter((x) => !x.fixed)) {
+    const key = `${u.capacitorKvar.toFixed(6)}|${u.reactorFraction}`;
+    groups.set(key, [...(groups.get(key) ?? []), u]);
+  }
+  const kinds = [...groups.values()];
+  const counts = kinds.map(() => 0);
+  let visited = 0;
+  // odometer over the counts of each kind of identical unit
+  for (;;) {
+    const on = [...fixed, ...kinds.flatMap((g, i) => g.slice(0, counts[i]))];
+    for (let n = 0; n < newOptionCount; n++) {
+      if (on.length === 0 && n === 0) continue;
+      if (visited >= max) return { visited, truncated: true };
+      visited++;
+      visit(on, n);
+    }
+    let i = 0;
+    while (i < kinds.length && counts[i] === kinds[i]!.length) counts[i++] = 0;
+    if (i === kinds.length) return { visited, truncated: false };
+    counts[i] = (counts[i] ?? 0) + 1;
+  }
+}
+
+/** Every combination (forEachCombination), screened for parallel resonance near a present harmonic. */
 export function screenCombinedStages(
   installed: readonly SwitchUnit[],
   newStages: readonly { capacitorKvar: number; effectiveKvar: number; reactorFraction: number }[],
   shortCircuitKVA: number,
   harmonicOrders: readonly number[],
 ): CombinedScreen {
-  const fixed = installed.filter((u) => u.fixed);
-  const groups = new Map<string, SwitchUnit[]>();
-  for (const u of installed.filter((x) => !x.fixed)) {
-    const key = `${u.capacitorKvar.toFixed(6)}|${u.reactorFraction}`;
-    groups.set(key, [...(groups.get(key) ?? []), u]);
-  }
-  const kinds = [...groups.values()];
   const newOptions = [{ capacitorKvar: 0, effectiveKvar: 0, reactorFraction: 0 }, ...newStages];
   const hazards: CombinedStage[] = [];
-  let screened = 0;
   let lowest: number | null = null;
   let highest: number | null = null;
-  let truncated = false;
-  const counts = kinds.map(() => 0);
-  const visit = (): void => {
-    const on = [...fixed, ...kinds.flatMap((g, i) => g.slice(0, counts[i]))];
-    for (const [n, stage] of newOptions.entries()) {
-      if (on.length === 0 && n === 0) continue;
-      if (screened >= MAX_COMBINATIONS) {
-        truncated = true;
-        return;
-      }
-      screened++;
-      const branches: Branch[] = [...on, ...(n > 0 ? [stage] : [])].map((u) => ({ capacitorKvar: u.capacitorKvar, reactorFraction: u.reactorFraction }));
-      const orders = parallelResonanceOrders(branches, shortCircuitKVA);
-      for (const h of orders) {
-        lowest = lowest === null ? h : Math.min(lowest, h);
-        highest = highest === null ? h : Math.max(highest, h);
-      }
-      const near = [...new Set(orders.map((h) => nearHarmonic(h, harmonicOrders)).filter((x): x is number => x !== null))];
-      if (near.length > 0 && on.length > 0) {
-        hazards.push({
-          installed: on.map((u) => u.label),
-          newStage: n,
-          totalKvar: on.reduce((s, u) => s + u.effectiveKvar, 0) + (n > 0 ? stage.effectiveKvar : 0),
-          resonanceOrders: orders,
-          nearHarmonics: near,
-        });
-      }
+  const { visited, truncated } = forEachCombination(installed, newOptions.length, MAX_COMBINATIONS, (on, n) => {
+    const stage = newOptions[n]!;
+    const branches: Branch[] = [...on, ...(n > 0 ? [stage] : [])].map((u) => ({ capacitorKvar: u.capacitorKvar, reactorFraction: u.reactorFraction }));
+    const orders = parallelResonanceOrders(branches, shortCircuitKVA);
+    for (const h of orders) {
+      lowest = lowest === null ? h : Math.min(lowest, h);
+      highest = highest === null ? h : Math.max(highest, h);
     }
-  };
-  // odometer over the counts of each kind of identical unit
-  for (;;) {
-    visit();
-    if (truncated) break;
-    let i = 0;
-    while (i < kinds.length && counts[i] === kinds[i]!.length) counts[i++] = 0;
-    if (i === kinds.length) break;
-    counts[i] = (counts[i] ?? 0) + 1;
-  }
+    const near = [...new Set(orders.map((h) => nearHarmonic(h, harmonicOrders)).filter((x): x is number => x !== null))];
+    if (near.length > 0 && on.length > 0) {
+      hazards.push({
+        installed: on.map((u) => u.label),
+        newStage: n,
+        totalKvar: on.reduce((s, u) => s + u.effectiveKvar, 0) + (n > 0 ? stage.effectiveKvar : 0),
+        resonanceOrders: orders,
+        nearHarmonics: near,
+      });
+    }
+  });
   hazards.sort((a, b) => a.totalKvar - b.totalKvar);
-  return { stagesScreened: screened, hazards: hazards.slice(0, 50), lowestOrder: lowest, highestOrder: highest, truncated };
+  return { stagesScreened: visited, hazards: hazards.slice(0, 50), lowestOrder: lowest, highestOrder: highest, truncated };
 }

@@ -3,7 +3,10 @@ import type { BankAnalysis } from "../bank/stages.js";
 import type { LoadResult } from "../readings/site-totals.js";
 import {
   runHarmonicStudy,
+  studyContextOf,
   type CapacitorBankInput,
+  type HarmonicStudyInput,
+  type StudyContext,
   type HarmonicStudyOptions,
   type HarmonicStudyResult,
   type HarmonicSourceInput,
@@ -61,6 +64,8 @@ export const FIGURES_SCAN_STEP_ORDER = 0.1;
 export interface SiteHarmonicsOutcome {
   /** The full study (with series when asked); sizing results keep compactStudy(study). */
   study?: HarmonicStudyResult;
+  /** The bus and its injection as studied: the combined stages of installed and new banks are worked on it. */
+  context?: StudyContext;
   issues: InputIssue[];
   warnings: Warning[];
 }
@@ -95,11 +100,11 @@ export function studySiteHarmonics(
   const studyBanks: CapacitorBankInput[] = [];
   if (banks.recommended) studyBanks.push(asStudyBank("recommended", banks.recommended));
   if (banks.proposed) studyBanks.push(asStudyBank("proposed", banks.proposed));
-  // Installed banks are studied stage by stage on their own; with new capacitors see the combined screen.
+  // Installed banks are studied stage by stage on their own; with new capacitors see the combined screen and study.
   for (const b of banks.installed ?? []) {
     studyBanks.push({ name: `installed ${b.label}`, ratedVoltageV: b.ratedVoltageV, ...(b.ratedFrequencyHz ? { ratedFrequencyHz: b.ratedFrequencyHz } : {}), reactorPct: b.reactorPct ?? 0, steps: b.steps.map((s) => ({ kvar: s.kvar })) });
   }
-  const outcome = runHarmonicStudy({
+  const studyInput: HarmonicStudyInput = {
     network: {
       voltageV: input.system.voltageV,
       frequencyHz: input.system.frequencyHz,
@@ -113,7 +118,8 @@ export function studySiteHarmonics(
     backgroundDistortion: background.map((c) => ({ order: c.order, pct: c.pct })),
     banks: studyBanks,
     options: options.includeScanSeries ? options : { ...options, scan: { stepOrder: FIGURES_SCAN_STEP_ORDER, ...options.scan } },
-  });
+  };
+  const outcome = runHarmonicStudy(studyInput);
   if (!outcome.ok) {
     // The study's own paths ("sources[2].spectrum[0].order") mapped back onto the request's loads.
     const issues = outcome.issues.map((i) => {
@@ -139,7 +145,7 @@ export function studySiteHarmonics(
       );
     }
   }
-  return { study, issues: [], warnings };
+  return { study, context: studyContextOf(studyInput), issues: [], warnings };
 }
 
 type Finding = HarmonicStudyResult["findings"][number];

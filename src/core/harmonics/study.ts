@@ -84,14 +84,15 @@ export function runHarmonicStudy(input: HarmonicStudyInput): HarmonicStudyOutcom
   return issues.length > 0 ? { ok: false, issues } : { ok: true, result: computeStudy(input) };
 }
 
-function computeStudy(input: HarmonicStudyInput): HarmonicStudyResult {
+/** The bus, its injected currents and the study's options: what every stage study shares (input already validated). */
+export function studyContextOf(input: HarmonicStudyInput): StudyContext {
   const o = input.options ?? {};
   const { network } = input;
   const model = buildBusModel(network);
   const background = input.backgroundDistortion ?? [];
   const currents = injectedCurrents(input.sources, network.voltageV, o.combination ?? "arithmetic", model.phases);
   const presentOrders = [...new Set([...currents.orders, ...background.filter((l) => l.pct > 0).map((l) => l.order)])].sort((a, b) => a - b);
-  const ctx: StudyContext = {
+  return {
     network,
     model,
     currents,
@@ -101,6 +102,12 @@ function computeStudy(input: HarmonicStudyInput): HarmonicStudyResult {
     includeScanSeries: o.includeScanSeries ?? false,
     reactorQualityFactor: o.reactorQualityFactor ?? DEFAULT_REACTOR_QUALITY_FACTOR,
   };
+}
+
+function computeStudy(input: HarmonicStudyInput): HarmonicStudyResult {
+  const o = input.options ?? {};
+  const ctx = studyContextOf(input);
+  const { model, currents, background, presentOrders } = ctx;
   const bg3 = background.filter((l) => l.order === 3).reduce((s, l) => s + l.pct, 0);
   const thirdHarmonicSignificant = isThirdHarmonicSignificant(currents.byOrderA[3] ?? 0, currents.fundamentalA, bg3);
 
@@ -117,7 +124,7 @@ function computeStudy(input: HarmonicStudyInput): HarmonicStudyResult {
   return {
     source: model.source,
     loadResistanceOhm: model.loadResistanceOhm,
-    presentOrders,
+    presentOrders: [...presentOrders],
     sources: currents.sources,
     thirdHarmonicSignificant,
     withoutCapacitors,
@@ -199,7 +206,7 @@ function assumptions(source: SourceImpedance, ctx: StudyContext, o: HarmonicStud
       ? "No linear load given: no resistive damping branch."
       : `Linear load modelled as a parallel resistance V²/P = ${ctx.model.loadResistanceOhm.toPrecision(4)} Ω.`,
     `Capacitor stage: Z(h) = R_r + j(h·p·X_C − X_C/h); reactor X/R ${ctx.reactorQualityFactor}, R held constant with h.`,
-    "Stages are cumulative: steps switch in in the order given; each bank is studied alone on the bus.",
+    "Stages are cumulative: steps switch in in the order given; each bank is studied alone on the bus (installed and new banks together: combinedStages[].harmonics).",
     "Drives without a measured spectrum: the ideal six-pulse shape I_h = I_1/h at 6k ± 1 (textbook), scaled to the measured current THD when one is given; an rms (V·I or kVA) reading's fundamental is I_rms/√(1 + THD_i²).",
     o.combination === "rss"
       ? "Same-order currents of several sources combined as the square root of the sum of squares (random phase)."

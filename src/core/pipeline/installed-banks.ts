@@ -5,13 +5,24 @@
 import { evaluateInstalledBanks, type InstalledBankResult } from "../bank/installed.js";
 import type { Caution } from "../cautions/safety-cautions.js";
 import { installedCredit, type InstalledCredit } from "../correction/installed-credit.js";
-import type { SizingInput } from "../inputs.js";
+import type { InstalledBankInput, SizingInput } from "../inputs.js";
 import type { LoadResult, SiteResult } from "../readings/site-totals.js";
-import { warning, type InputIssue, type Warning } from "../warnings.js";
+import { ieee18Severity, warning, worstSeverity, type InputIssue, type Severity, type Warning } from "../warnings.js";
 import type { BankAnalysis } from "../bank/stages.js";
 import { kvarAtVoltage } from "../bank/capacitor.js";
 import type { DetunedDesign } from "../harmonics/detuned.js";
 import { MAX_COMBINATIONS, screenCombinedStages, type CombinedScreen, type SwitchUnit } from "../harmonics/combined-stages.js";
+import {
+  combinationLabel,
+  MAX_FLAGGED,
+  studyCombinedStages,
+  type CombinedBankDuty,
+  type CombinedHarmonics,
+  type CombinedStageStudy,
+  type RatedSwitchUnit,
+} from "../harmonics/combined-study.js";
+import { IEEE18_LIMITS_PCT } from "../harmonics/duty.js";
+import type { StudyContext } from "../harmonics/stage.js";
 
 export interface InstalledAssessment {
   banks: InstalledBankResult[];
@@ -95,7 +106,9 @@ export function clampCaution(banks: readonly InstalledBankResult[], lines: reado
 export interface NewBankStages {
   name: string;
   reactorPct: number;
-  stages: { capacitorKvar: number; effectiveKvar: number }[];
+  ratedVoltageV: number;
+  ratedFrequencyHz: number;
+  stages: { capacitorKvar: number; effectiveKvar: number; nameplateKvar: number }[];
 }
 
 /**
@@ -111,15 +124,7 @@ export function screenWithInstalled(
   busVoltageV: number,
 ): { screens: InstalledScreen[]; warnings: Warning[] } {
   if (banks.length === 0 || shortCircuitKVA === null) return { screens: [], warnings: [] };
-  const units: SwitchUnit[] = banks.flatMap((b) =>
-    b.steps.map((s) => ({
-      label: b.steps.length > 1 ? `${b.label} step ${s.step}` : b.label,
-      capacitorKvar: s.ratedKvarAtSystem * (1 - b.reactorPct / 100),
-      reactorFraction: b.reactorPct / 100,
-      effectiveKvar: s.ratedKvarAtSystem,
-      fixed: b.control === "fixed" && b.location === "service",
-    })),
-  );
+  const units: SwitchUnit[] = installedUnitsOf(banks, [], { voltageV: busVoltageV, frequencyHz: 0 });
   const options = newBanks.length > 0 ? newBanks : [{ name: "none", reactorPct: 0, stages: [] }];
   const screens = options.map((nb) => ({
     withNewBank: nb.name,
@@ -157,30 +162,152 @@ export function screenWithInstalled(
   return { screens, warnings };
 }
 
-export type InstalledScreen = CombinedScreen & { withNewBank: string };
+export type InstalledScreen = CombinedScreen & { withNewBank: string; harmonics?: CombinedHarmonics };
+
+/**
+ * Every installed step as a switchable unit: a fixed bank at the service is always in; a motor's or a group's
+ * bank switches with its load. Nameplate ratings come from the bank's input (matched by label).
+ */
+export function installedUnitsOf(banks: readonly InstalledBankResult[], inputs: readonly InstalledBankInput[], system: { voltageV: number; frequencyHz: number }): RatedSwitchUnit[] {
+  return banks.flatMap((b) => {
+    const rating = inputs.find((i) => i.label === b.label);
+    return b.steps.map((s) => ({
+      label: b.steps.length > 1 ? `${b.label} step ${s.step}` : b.label,
+      bank: b.label,
+      capacitorKvar: s.ratedKvarAtSystem * (1 - b.reactorPct / 100),
+      reactorFraction: b.reactorPct / 100,
+      effectiveKvar: s.ratedKvarAtSystem,
+      fixed: b.control === "fixed" && b.location === "service",
+      nameplateKvar: s.nameplateKvar,
+      ratedVoltageV: rating?.ratedVoltageV ?? system.voltageV,
+      ratedFrequencyHz: rating?.ratedFrequencyHz ?? system.frequencyHz,
+    }));
+  });
+}
+
+const SUBJECTS_LISTED = 20;
+const pct1 = (x: number): string => x.toFixed(1);
+
+/**
+ * The harmonic study of the combined stages, one per new-bank option of the screens (studyCombinedStages), and
+ * its findings one warning per concern: THD_v over the IEEE 519 limit, an individual order over it, and each
+ * bank's capacitor duty (IEEE 18) in the combinations. Each warning names the worst combination and how many break it.
+ */
+export function studyWithInstalled(
+  ctx: StudyContext,
+  banks: readonly InstalledBankResult[],
+  inputs: readonly InstalledBankInput[],
+  newBanks: readonly NewBankStages[],
+  screens: readonly InstalledScreen[],
+): { screens: InstalledScreen[]; warnings: Warning[] } {
+  const units = installedUnitsOf(banks, inputs, ctx.network);
+  const warnings: Warning[] = [];
+  const out = screens.map((sc) => {
+    const nb = newBanks.find((b) => b.name === sc.withNewBank) ?? null;
+    const study = studyCombinedStages(ctx, units, nb);
+    const withWhat = nb ? `the installed steps and the ${nb.name} bank together` : "the installed steps together";
+    const subjects = (list: readonly CombinedStageStudy[]) => list.slice(0, SUBJECTS_LISTED).map(combinationLabel);
+    const thd = study.flagged.filter((st) => st.thdVPct > st.ieee519.thdLimitPct);
+    if (thd.length > 0) {
+      const w = thd[0]!;
+      warnings.push(
+        warning(
+          "combined_stage_thd_v_exceeds_limit",
+          `with ${withWhat}, ${thd.length} of ${study.stagesStudied} switchable combinations exceed the IEEE 519 THD_v limit of ${pct1(w.ieee519.thdLimitPct)} %; the worst: ${combinationLabel(w)} at ${pct1(w.thdVPct)} %`,
+          "installedBanks",
+          { severity: "error", subjects: subjects(thd) },
+        ),
+      );
+    }
+    const indiv = study.flagged.filter((st) => st.worstIndividual !== null && st.worstIndividual.pct > st.ieee519.individualLimitPct);
+    if (indiv.length > 0) {
+      const w = indiv.reduce((a, b) => (b.worstIndividual!.pct > a.worstIndividual!.pct ? b : a));
+      const orders = [...new Set(indiv.map((st) => st.worstIndividual!.order))].sort((a, b) => a - b);
+      warnings.push(
+        warning(
+          "combined_stage_harmonic_exceeds_limit",
+          `with ${withWhat}, ${indiv.length} of ${study.stagesStudied} switchable combinations exceed the IEEE 519 individual limit of ${pct1(w.ieee519.individualLimitPct)} % (order${orders.length > 1 ? "s" : ""} ${orders.join(", ")}); the worst: order ${w.worstIndividual!.order} at ${pct1(w.worstIndividual!.pct)} % with ${combinationLabel(w)}`,
+          "installedBanks",
+          { severity: "error", subjects: subjects(indiv) },
+        ),
+      );
+    }
+    warnings.push(...dutyWarnings(study.flagged, withWhat, nb?.name ?? null, study.stagesStudied));
+    const harmonics: CombinedHarmonics = { ...study, flagged: study.flagged.slice(0, MAX_FLAGGED) };
+    return { ...sc, harmonics };
+  });
+  return { screens: out, warnings };
+}
+
+const DUTY_PARTS: readonly [keyof Omit<CombinedBankDuty, "bank" | "nameplateKvar" | "pass">, keyof typeof IEEE18_LIMITS_PCT, string][] = [
+  ["rmsVoltagePct", "rmsVoltage", "rms voltage"],
+  ["peakVoltagePct", "peakVoltage", "peak voltage"],
+  ["rmsCurrentPct", "rmsCurrent", "rms current"],
+  ["reactivePowerPct", "reactivePower", "kvar"],
+];
+
+/** One warning per bank: each quantity above 100 % of rating in any combination, at its worst combination. */
+function dutyWarnings(flagged: readonly CombinedStageStudy[], withWhat: string, newBankName: string | null, studied: number): Warning[] {
+  const bankNames = [...new Set(flagged.flatMap((st) => st.duty.map((d) => d.bank)))];
+  const out: Warning[] = [];
+  for (const bank of bankNames) {
+    const parts: string[] = [];
+    const severities: Severity[] = [];
+    const over = new Set<CombinedStageStudy>();
+    for (const [key, limitKey, label] of DUTY_PARTS) {
+      const rows = flagged.flatMap((st) => st.duty.filter((d) => d.bank === bank && d[key] > 100).map((d) => ({ st, value: d[key] })));
+      if (rows.length === 0) continue;
+      const worst = rows.reduce((a, b) => (b.value > a.value ? b : a));
+      const limit = IEEE18_LIMITS_PCT[limitKey];
+      severities.push(ieee18Severity(worst.value, limit) ?? "info");
+      rows.forEach((r) => over.add(r.st));
+      parts.push(`${label} ${pct1(worst.value)} % of rating (IEEE 18 limit ${limit} %) with ${combinationLabel(worst.st)}`);
+    }
+    if (parts.length === 0) continue;
+    const severity = worstSeverity(severities);
+    const who = bank === "new" ? `the ${newBankName ?? "new"} bank` : `installed bank "${bank}"`;
+    out.push(
+      warning(
+        "combined_stage_capacitor_duty",
+        `${who}, with ${withWhat}: capacitor ${parts.join("; ")}; ${over.size} of ${studied} combinations above 100 %${severity === "error" ? ": above the IEEE 18 limit, not fit for this bus as switched" : " (IEEE 18 limits are for contingencies, not a design basis)"}`,
+        bank === "new" ? (newBankName === "recommended" ? "recommendedBank" : "harmonics.proposals") : "installedBanks",
+        { severity, subjects: [...over].slice(0, SUBJECTS_LISTED).map(combinationLabel) },
+      ),
+    );
+  }
+  return out;
+}
 
 /** The recommended bank's stages, and the study's detuned proposal for it when there is one. */
 export function newBanksOf(
-  recommended: Pick<BankAnalysis, "reactorPct" | "stages"> | null,
+  recommended: Pick<BankAnalysis, "reactorPct" | "stages" | "ratedVoltageV" | "ratedFrequencyHz"> | null,
   proposals: readonly { forBank: string; design: DetunedDesign }[],
   voltageV: number,
 ): NewBankStages[] {
   const out: NewBankStages[] = [];
   if (recommended) {
-    out.push({ name: "recommended", reactorPct: recommended.reactorPct, stages: recommended.stages.map((s) => ({ capacitorKvar: s.cumulativeCapacitorKvar, effectiveKvar: s.cumulativeKvar })) });
+    out.push({
+      name: "recommended",
+      reactorPct: recommended.reactorPct,
+      ratedVoltageV: recommended.ratedVoltageV,
+      ratedFrequencyHz: recommended.ratedFrequencyHz,
+      stages: recommended.stages.map((s) => ({ capacitorKvar: s.cumulativeCapacitorKvar, effectiveKvar: s.cumulativeKvar, nameplateKvar: s.cumulativeNameplateKvar })),
+    });
   }
   const proposal = proposals.find((p) => p.forBank === "recommended");
   if (proposal) {
     const d = proposal.design;
     let capacitorKvar = 0;
     let effectiveKvar = 0;
+    let nameplateKvar = 0;
     const stages = d.steps.map((s) => {
       // Q_C at the bus from the nameplate: Q_r·(V/V_r)² (IEEE Std 18 rating basis; same frequency)
       capacitorKvar += kvarAtVoltage(s.nameplateKvar, voltageV, d.ratedVoltageV);
       effectiveKvar += s.effectiveKvar;
-      return { capacitorKvar, effectiveKvar };
+      nameplateKvar += s.nameplateKvar;
+      return { capacitorKvar, effectiveKvar, nameplateKvar };
     });
-    out.push({ name: "proposed detuned", reactorPct: d.reactorPct, stages });
+    out.push({ name: "proposed detuned", reactorPct: d.reactorPct, ratedVoltageV: d.ratedVoltageV, ratedFrequencyHz: d.ratedFrequencyHz, stages });
   }
   return out;
 }

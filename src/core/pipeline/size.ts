@@ -17,7 +17,7 @@ import { compactStudy, studySiteHarmonics, withoutScreenVoltageRepeats, type Siz
 import type { HarmonicStudyOptions, HarmonicStudyResult } from "../harmonics/harmonics-api.js";
 import { evaluateSite, type LoadResult, type SiteResult } from "../readings/site-totals.js";
 import { ENGINE_VERSION } from "./engine-version.js";
-import { assessInstalledBanks, clampCaution, newBanksOf, screenWithInstalled, type InstalledScreen } from "./installed-banks.js";
+import { assessInstalledBanks, clampCaution, newBanksOf, screenWithInstalled, studyWithInstalled, type InstalledScreen } from "./installed-banks.js";
 import type { InstalledBankResult } from "../bank/installed.js";
 import type { InstalledCredit } from "../correction/installed-credit.js";
 import { warning, type InputIssue, type Warning } from "../warnings.js";
@@ -185,7 +185,12 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       )
     : undefined;
 
-  const combined = screenWithInstalled(installed.banks, newBanksOf(recommendedBank, h.study?.proposals ?? [], system.voltageV), sc?.shortCircuitKVA ?? null, orders, system.voltageV);
+  const newBanks = newBanksOf(recommendedBank, h.study?.proposals ?? [], system.voltageV);
+  const screened = screenWithInstalled(installed.banks, newBanks, sc?.shortCircuitKVA ?? null, orders, system.voltageV);
+  warnings.push(...screened.warnings);
+  // Where the bus has a harmonic study, the same combinations are studied for THD_v and capacitor duty.
+  const combined =
+    h.context && screened.screens.length > 0 ? studyWithInstalled(h.context, installed.banks, input.installedBanks ?? [], newBanks, screened.screens) : { screens: screened.screens, warnings: [] };
   warnings.push(...combined.warnings);
   const clamp = clampCaution(installed.banks, h.study ? h.study.withoutCapacitors.distortion.lines : null, h.study ? h.study.withoutCapacitors.distortion.thdVPct : null);
   return {

@@ -271,6 +271,33 @@ export const economicsResultSchema = z.object({
   assumptions: z.array(z.string()),
 });
 
+const combinedStageStudySchema = z.object({
+  installed: z.array(z.string()),
+  newStage: z.number().int().describe("the new bank's stage switched in with them; 0: none"),
+  totalKvar: z.number(),
+  thdVPct: z.number(),
+  worstIndividual: z.object({ order: z.number().int(), pct: z.number() }).nullable(),
+  ieee519: z.object({ pass: z.boolean(), thdLimitPct: z.number(), individualLimitPct: z.number() }),
+  duty: z.array(
+    z.object({
+      bank: z.string().describe('installed bank label, or "new"'),
+      nameplateKvar: z.number(),
+      rmsVoltagePct: z.number(),
+      peakVoltagePct: z.number(),
+      rmsCurrentPct: z.number(),
+      reactivePowerPct: z.number(),
+      pass: z.boolean().describe("every quantity within its IEEE Std 18 limit"),
+    }),
+  ),
+});
+
+const combinedHarmonicsSchema = z.object({
+  stagesStudied: z.number().int(),
+  truncated: z.boolean(),
+  worstThdV: combinedStageStudySchema.nullable(),
+  flagged: z.array(combinedStageStudySchema).describe("combinations breaking an IEEE 519 limit or with a capacitor above 100 % of a rating, worst THD_v first (at most 50)"),
+});
+
 export const sizingResultSchema = z.object({
   engineVersion: z.string(),
   system: z.object({ voltageV: z.number(), frequencyHz: z.number(), phases: z.number() }),
@@ -300,6 +327,7 @@ export const sizingResultSchema = z.object({
         lowestOrder: z.number().nullable(),
         highestOrder: z.number().nullable(),
         truncated: z.boolean(),
+        harmonics: combinedHarmonicsSchema.optional().describe("the harmonic study of the same combinations, when the site has harmonic sources"),
       }),
     )
     .optional()
