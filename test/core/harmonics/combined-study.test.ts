@@ -1,7 +1,7 @@
 import { Complex } from "complex.js";
 import { describe, expect, it } from "vitest";
 import { studyCombinedStages, type RatedSwitchUnit } from "../../../src/core/harmonics/combined-study.js";
-import { buildBusModel, type InjectedCurrents, type NetworkInput, type StudyContext } from "../../../src/core/harmonics/index.js";
+import { buildBusModel, type InjectedCurrents, type NetworkInput, type StudyContext } from "../../../src/core/harmonics/harmonics-api.js";
 import type { SizingInput } from "../../../src/core/inputs.js";
 import { size } from "../../../src/core/pipeline/size.js";
 import { expectClose, TOL } from "../../helpers/tolerance.js";
