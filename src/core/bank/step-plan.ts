@@ -19,6 +19,11 @@ export interface StepSearchOptions {
   fixedShareWithoutLightLoad?: number;
   /** Leading limit and response threshold of the controller the programs are ranked under (defaults: controller-rule.ts). */
   controller?: ControllerOptions;
+  /**
+   * Delivered kvar of an installed automatic bank's step: a program on that base wins a tie on met samples, so the
+   * new steps match the old (one spare size, even switching under one controller). Own rule, no source.
+   */
+  preferredBaseKvar?: number;
 }
 
 export interface StepsInput {
@@ -80,9 +85,14 @@ function stepSizes(units: readonly number[], switchedNeededKvar: number, minStep
   return [...set].sort((a, b) => a - b);
 }
 
-function better(a: StepCandidate, b: StepCandidate, tie: number): boolean {
+function better(a: StepCandidate, b: StepCandidate, tie: number, preferredBaseKvar?: number): boolean {
   const dm = a.simulation.metCoveredCount - b.simulation.metCoveredCount;
   if (Math.abs(dm) > tie) return dm > 0;
+  if (preferredBaseKvar !== undefined && a.stepCount > 0 && b.stepCount > 0) {
+    const aPref = Math.abs(a.baseKvar - preferredBaseKvar) <= 1e-6 * preferredBaseKvar;
+    const bPref = Math.abs(b.baseKvar - preferredBaseKvar) <= 1e-6 * preferredBaseKvar;
+    if (aPref !== bPref) return aPref;
+  }
   if (a.stepCount !== b.stepCount) return a.stepCount < b.stepCount;
   if (a.simulation.switchingOperations !== b.simulation.switchingOperations) return a.simulation.switchingOperations < b.simulation.switchingOperations;
   if (Math.abs(a.totalKvar - b.totalKvar) > 1e-9) return a.totalKvar < b.totalKvar;
@@ -154,7 +164,10 @@ export function planSteps(input: StepsInput): StepPlan {
         // bases ascend: the first reaching the need (round up) and the one before it (round down)
         let iUp = 0;
         while (iUp < bases.length && k * (bases[iUp] as number) < switchedNeeded - 1e-9) iUp++;
-        for (const [i, rounding] of [[iUp, "up"], [iUp - 1, "down"]] as const) {
+        const iPref = o.preferredBaseKvar === undefined ? -1 : bases.findIndex((b) => Math.abs(b - (o.preferredBaseKvar as number)) <= 1e-6 * b);
+        const tries: (readonly [number, "up" | "down"])[] = [[iUp, "up"], [iUp - 1, "down"]];
+        if (iPref >= 0 && iPref !== iUp && iPref !== iUp - 1) tries.push([iPref, iPref > iUp ? "up" : "down"]);
+        for (const [i, rounding] of tries) {
           const base = bases[i];
           if (base === undefined) continue;
           const key = (STEP_RATIOS.indexOf(ratio) * 100 + steps) * 1e7 + base;
@@ -167,7 +180,7 @@ export function planSteps(input: StepsInput): StepPlan {
   }
   const tie = (o.metTieShare ?? 0) * n;
   let best = candidates[0] as StepCandidate;
-  for (const c of candidates) if (better(c, best, tie)) best = c;
+  for (const c of candidates) if (better(c, best, tie, o.preferredBaseKvar)) best = c;
   const switched = best.stepCount === 0 ? null : best;
 
   const largest = Math.max(...units);

@@ -28,7 +28,7 @@ export interface InstalledAssessment {
   banks: InstalledBankResult[];
   credit: InstalledCredit | null;
   /** What the new bank's design must know: kvar to add back to the survey's site reading, and the installed rated kvar. */
-  design: { addBackKvar: number; installedKvar: number } | null;
+  design: { addBackKvar: number; installedKvar: number; automaticStepsKvar: number[] } | null;
   issues: InputIssue[];
   warnings: Warning[];
 }
@@ -71,7 +71,14 @@ export function assessInstalledBanks(input: SizingInput, site: SiteResult, loads
   return {
     banks: evaluated.banks,
     credit,
-    design: { addBackKvar: credit.kvarIncludedInReadings, installedKvar: credit.kvarInstalledRated },
+    design: {
+      addBackKvar: credit.kvarIncludedInReadings,
+      installedKvar: credit.kvarInstalledRated,
+      // each automatic step's share of its bank's rated kvar at the system voltage and frequency
+      automaticStepsKvar: evaluated.banks
+        .filter((b) => b.control === "automatic" && b.location === "service")
+        .flatMap((b) => b.steps.map((s) => (b.nameplateKvar > 0 ? (b.ratedKvarAtSystem * s.nameplateKvar) / b.nameplateKvar : 0))),
+    },
     issues: [],
     warnings,
   };

@@ -1,7 +1,8 @@
 import { analyseBank, type BankAnalysis, type SourceContext } from "../bank/stages.js";
 import type { CorrectionResult } from "../correction/to-target.js";
 import { designBank, type BankDesign, type DesignedStep } from "../bank/bank-design.js";
-import type { ReactiveDemand } from "../bank/demand.js";
+import { demandArrays, type ReactiveDemand } from "../bank/demand.js";
+import { combinedProgram, type CombinedProgram } from "../bank/combined-program.js";
 import { planPlacement } from "./placement.js";
 import type { PlacementPlan } from "./placement-types.js";
 import type { SizingInput } from "../inputs.js";
@@ -31,6 +32,8 @@ export interface RecommendedBank extends BankAnalysis {
   protection: BankDesign["protection"];
   discharge: BankDesign["discharge"];
   notes: string[];
+  /** With an installed automatic bank: both banks' steps under one controller, and how often they hold the target. */
+  combinedProgram?: CombinedProgram;
 }
 
 export interface SiteDesignOutcome {
@@ -46,6 +49,8 @@ export interface SiteDesignOutcome {
 export interface InstalledForDesign {
   addBackKvar: number;
   installedKvar: number;
+  /** Delivered kvar at the system voltage of each step of the installed automatic service banks. */
+  automaticStepsKvar?: number[];
 }
 
 function demandOf(input: SizingInput, site: SiteResult, installed?: InstalledForDesign): { demand?: ReactiveDemand; issues: InputIssue[]; warnings: Warning[] } {
@@ -110,6 +115,8 @@ export function designSiteCorrection(
 
   const d = demandOf(input, site, installed);
   warnings.push(...d.warnings);
+  const autoSteps = installed?.automaticStepsKvar ?? [];
+  const preferredBaseKvar = mostCommon(autoSteps);
   if (!d.demand) return { placement, recommendedBank: null, screenSteps: [], issues: d.issues, warnings };
   const outcome = designBank({
     system: input.system,
@@ -121,7 +128,9 @@ export function designSiteCorrection(
     ...(o.ctRatio !== undefined ? { ctRatio: o.ctRatio } : {}),
     ...(o.ratedVoltageV !== undefined ? { ratedVoltageV: o.ratedVoltageV } : {}),
     ...(o.reactorPct !== undefined ? { reactorPct: o.reactorPct } : {}),
-    ...(o.coverage !== undefined ? { steps: { coverage: o.coverage } } : {}),
+    ...(o.coverage !== undefined || preferredBaseKvar !== undefined
+      ? { steps: { ...(o.coverage !== undefined ? { coverage: o.coverage } : {}), ...(preferredBaseKvar !== undefined ? { preferredBaseKvar } : {}) } }
+      : {}),
     protection: { ...(o.protectionDevice ? { device: o.protectionDevice } : {}), ...(o.ocpdFactor ? { ocpdFactor: o.ocpdFactor } : {}) },
     discharge: {
       ...(o.capacitorConnection ? { capacitorConnection: o.capacitorConnection } : {}),
@@ -153,6 +162,15 @@ export function designSiteCorrection(
     discharge: design.discharge,
     notes: [...design.notes, ...design.stepPlan.notes],
   };
+  if (autoSteps.length > 0 && installed) {
+    // the installed automatic steps come back out of the design's "always on" credit: they switch with the new ones
+    const arrays = demandArrays(d.demand, localKvar).arrays;
+    const autoTotal = autoSteps.reduce((s, k) => s + k, 0);
+    const combined = arrays
+      ? combinedProgram(arrays, correction.targetPF, autoSteps, Math.max(0, installed.installedKvar - autoTotal), design.fixedKvar, design.steps.filter((s) => s.role !== "fixed").map((s) => s.effectiveKvar), design.stepPlan.metShare)
+      : null;
+    if (combined) recommendedBank.combinedProgram = combined;
+  }
   return { placement, recommendedBank, screenSteps: design.screenBank.steps, issues: [], warnings };
 }
 
@@ -161,4 +179,14 @@ function prefixed(path: (string | number)[]): (string | number)[] {
   const head = path[0];
   if (head === "ctRatio" || head === "ratedVoltageV" || head === "reactorPct") return ["bankDesign", ...path];
   return path;
+}
+
+/** The step size most installed automatic steps have (the first when tied); undefined without any. */
+function mostCommon(kvar: readonly number[]): number | undefined {
+  const counts = new Map<number, number>();
+  for (const k of kvar) counts.set(Math.round(k * 1e6) / 1e6, (counts.get(Math.round(k * 1e6) / 1e6) ?? 0) + 1);
+  let best: number | undefined;
+  let n = 0;
+  for (const [k, c] of counts) if (c > n) (best = k), (n = c);
+  return best;
 }

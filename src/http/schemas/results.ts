@@ -160,6 +160,16 @@ const protectionSchema = z
   .loose();
 
 export const recommendedBankSchema = bankAnalysisSchema.extend({
+  combinedProgram: z
+    .object({
+      steps: z.array(z.object({ source: z.enum(["installed", "new"]), kvar: z.number() })),
+      fixedKvar: z.number(),
+      metShare: z.number(),
+      newAloneMetShare: z.number(),
+      note: z.string(),
+    })
+    .optional()
+    .describe("with an installed automatic bank: both banks' steps under one controller, installed first"),
   arrangement: z.enum(["fixed", "automatic", "fixed_and_automatic"]),
   reason: z.string(),
   belowTarget: z.boolean(),
