@@ -129,7 +129,7 @@ function bankPanel(bank, bi, count) {
     el("div", { class: "field" }, el("label", { for: voltage.id }, "Voltage at the bank (V)"), voltage, el("p", { class: "msg", id: `${voltage.id}-msg`, role: "alert" })),
   );
   if (sys.phases !== 1) {
-    const mode = el("select", { id: id("mode"), "data-mode": bank.label }, new Option("Per phase: A, B, C", "phase"), new Option("One figure per step", "one"));
+    const mode = el("select", { id: id("mode"), "data-mode": bank.label }, new Option("Per phase", "phase"), new Option("One figure", "one"));
     mode.value = r.perPhase ? "phase" : "one";
     top.append(el("div", { class: "field" }, el("label", { for: mode.id }, "Step currents"), mode));
   }
@@ -148,7 +148,7 @@ function bankPanel(bank, bi, count) {
     return el(
       "tr",
       { "data-step": n },
-      el("th", { scope: "row" }, `${n}`, el("span", { class: "sub" }, `${step.kvar} kvar · expect ${f1(expected)} A`)),
+      el("th", { scope: "row" }, `${n}`, el("span", { class: "sub" }, `${step.kvar} kvar`), el("span", { class: "expect" }, `expect ${f1(expected)} A`)),
       el("td", {}, el("label", { class: "tick", for: on.id }, on, " on")),
       ...amps,
       el("td", { class: "found", "data-found": n }, foundText(bank, r, n)),
@@ -194,7 +194,7 @@ function refreshBank(label) {
   for (const c of panel.querySelectorAll("[data-key]")) if (c.type !== "checkbox" && (filled(c.value) || c.getAttribute("aria-invalid"))) setMsg(c, messageOf(c));
   bank.steps.forEach((step, i) => {
     const row = panel.querySelector(`tr[data-step="${i + 1}"]`);
-    row.querySelector(".sub").textContent = `${step.kvar} kvar · expect ${f1(expectedStepA(step.kvar, bank, v, state.system()))} A`;
+    row.querySelector(".expect").textContent = `expect ${f1(expectedStepA(step.kvar, bank, v, state.system()))} A`;
     row.querySelector(".found").textContent = foundText(bank, r, i + 1);
   });
   assignPaths();

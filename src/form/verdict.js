@@ -66,7 +66,7 @@ function repairText(r) {
     return `${measured ? "No measured step is failed or degraded" : "No step currents were measured"}; installed ${f1(c.kvarInstalledRated)} kvar credited, ${then}.`;
   }
   const list = repairs.map((x) => `${x.bank} step ${x.step} (${x.status}, ${f1(x.restoresKvar)} kvar)`).join(", ");
-  return `Repair first: ${list} — ${f1(c.kvarRestoredByRepair)} kvar restored before anything new is bought; ${then}.`;
+  return `${list} — ${f1(c.kvarRestoredByRepair)} kvar restored before anything new is bought; ${then}.`;
 }
 
 function afterText(r) {
