@@ -184,13 +184,14 @@ export const kvarToTarget = (kW, kvarNow, targetPF) => Math.max(0, kvarNow - kW 
 
 /**
  * A bank's steps as an electrician reads the nameplates: "5 × 50" (or 5x50, 5*50), "50, 50, 25" or "50+50+25", and
- * mixes ("2x50 + 25"). Answers [{ kvar }], null when empty, or a message when it does not parse.
+ * mixes ("2x50 + 25"). A comma separates steps only with a space after it, so "12,5" stays a decimal comma.
+ * Answers [{ kvar }], null when empty, or a message when it does not parse.
  */
 export function stepsOf(raw) {
   const s = String(raw ?? "").trim();
   if (s === "") return null;
   const out = [];
-  for (const part of s.split(/[,;+]/).map((p) => p.trim()).filter(Boolean)) {
+  for (const part of s.split(/[;+]|,\s+/).map((p) => p.trim()).filter(Boolean)) {
     const m = /^(\d+)\s*[x×*]\s*(.+)$/i.exec(part);
     const count = m ? Number(m[1]) : 1;
     const kvar = num(m ? m[2].replace(/\s*kvar$/i, "") : part.replace(/\s*kvar$/i, ""));
