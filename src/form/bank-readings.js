@@ -109,8 +109,8 @@ function foundText(bank, r, n) {
 function summaryText(bank, r) {
   const on = bank.steps.filter((_, i) => stepOf(r, i + 1).on).length;
   const measured = bank.steps.filter((_, i) => phasesOf(r).some((p) => filled(stepOf(r, i + 1)[p]))).length;
-  const state = isRead(r, bank) ? `${on} of ${bank.steps.length} in service, ${measured} measured` : "not read yet";
-  return `${bank.label} · ${bank.control}, ${bank.steps.length} step${bank.steps.length > 1 ? "s" : ""} — ${state}`;
+  const found = isRead(r, bank) ? `${on} of ${bank.steps.length} in service, ${measured} measured` : "not read yet";
+  return `${bank.label} · ${bank.control}, ${bank.steps.length} step${bank.steps.length > 1 ? "s" : ""} — ${found}`;
 }
 
 const cell = (control, msgId) => el("td", {}, el("div", { class: "field" }, control, el("p", { class: "msg", id: msgId, role: "alert" })));
