@@ -1,9 +1,10 @@
 // The building part: the list from the service (kept on the tablet for offline use) and the new-building form.
 
 import { call, problemText } from "./api.js";
-import { $, drawFields, placeErrors, say, setMsg, controlFor } from "./dom.js";
+import { $, drawFields, el, placeErrors, say, setMsg, controlFor } from "./dom.js";
 import { newKey, readJson, writeJson } from "./drafts.js";
 import { BUILDING_SECTIONS, COMMON_SYSTEMS } from "./fields.js";
+import { bankDefs, bankIssues, bankValues, renderInstalledBanks, storeBankEdit } from "./installed.js";
 import { bodyOf, errorsOf, lastSegment } from "./model.js";
 
 const BUILDINGS_STORE = "pfc-form.buildings";
@@ -12,6 +13,7 @@ const NEW_BUILDING_STORE = "pfc-form.new-building";
 export const buildings = { list: readJson(BUILDINGS_STORE, []) };
 /** The new-building form's values, kept across reloads; its key is made once per building being created. */
 const nb = readJson(NEW_BUILDING_STORE, null) ?? { values: {}, idem: newKey() };
+nb.banks ??= [];
 const saveNb = () => writeJson(NEW_BUILDING_STORE, nb);
 let creating = false;
 
@@ -25,6 +27,8 @@ export function describeBuilding(b) {
   const parts = [`${s.voltageV} V, ${s.frequencyHz} Hz, ${s.phases === 1 ? "single" : "three"}-phase`];
   parts.push(b.transformer ? `transformer ${b.transformer.kVA} kVA at ${b.transformer.impedancePct} %` : "no transformer data (no resonance screen)");
   if (b.economics) parts.push(`tariff: ${TARIFF_NAMES[b.economics.tariff.form] ?? b.economics.tariff.form}`);
+  const banks = b.installedBanks ?? [];
+  if (banks.length) parts.push(`installed banks: ${banks.map((x) => x.label).join(", ")}`);
   return parts.join(" · ");
 }
 
@@ -45,7 +49,8 @@ export async function loadBuildings() {
   return "Key accepted.";
 }
 
-const defs = () => BUILDING_SECTIONS.flatMap((s) => s.fields);
+const defs = () => [...BUILDING_SECTIONS.flatMap((s) => s.fields), ...bankDefs(nb.banks)];
+const values = () => ({ ...nb.values, ...bankValues(nb.banks) });
 const idOf = (def) => `nb-${lastSegment(def.path).replace(/^_/, "")}`;
 
 export function renderNewBuilding(openFolds) {
@@ -58,18 +63,29 @@ export function renderNewBuilding(openFolds) {
     else drawFields(part, section.fields, nb.values, idOf);
     box.append(part);
   });
+  const banks = el("div", { id: "nb-part-banks" });
+  const redraw = (focusId) => {
+    nb.idem = newKey();
+    saveNb();
+    renderNewBuilding(openFolds);
+    if (focusId) $(focusId)?.focus();
+  };
+  renderInstalledBanks(banks, nb.banks, openFolds, redraw);
+  box.append(banks);
+  saveNb();
 }
 
 export function onNewBuildingEdit(ev, openFolds) {
   const input = /** @type {HTMLInputElement} */ (ev.target);
   const path = input.dataset?.path;
   if (!path) return;
-  nb.values[path] = input.type === "checkbox" ? input.checked : input.value;
+  const value = input.type === "checkbox" ? input.checked : input.value;
+  if (!storeBankEdit(nb.banks, path, value)) nb.values[path] = value;
   nb.idem = newKey(); // another building now: a retry of the old one can no longer be meant
   saveNb();
   const def = defs().find((d) => d.path === path);
   const msg = input.closest(".field")?.querySelector(".msg");
-  if (def && (ev.type === "change" || msg?.textContent)) setMsg(input, errorsOf([def], nb.values)[0]?.message ?? "");
+  if (def && (ev.type === "change" || msg?.textContent)) setMsg(input, errorsOf([def], values())[0]?.message ?? bankIssues(nb.banks).find((e) => e.path === path)?.message ?? "");
   if (ev.type === "change" && input.tagName === "SELECT") {
     renderNewBuilding(openFolds);
     $(input.id)?.focus();
@@ -78,7 +94,7 @@ export function onNewBuildingEdit(ev, openFolds) {
 
 /** The body: a common system expands to its three figures; "other" sends what was typed. */
 function buildingBody() {
-  const body = bodyOf(defs(), nb.values);
+  const body = bodyOf(defs(), values());
   const common = COMMON_SYSTEMS.find((s) => s.id === nb.values._system);
   if (common) body.system = { voltageV: common.voltageV, frequencyHz: common.frequencyHz, phases: common.phases };
   return body;
@@ -92,7 +108,7 @@ export async function createBuilding() {
   try {
     say("nb-msg", "");
     for (const input of $("nb-fields").querySelectorAll("[data-path]")) setMsg(input, "");
-    const errors = errorsOf(defs(), nb.values);
+    const errors = [...errorsOf(defs(), values()), ...bankIssues(nb.banks)];
     for (const e of errors) {
       const input = controlFor(e.path, $("nb-fields"));
       setMsg(input, e.message);
@@ -115,6 +131,7 @@ export async function createBuilding() {
     buildings.list = [...buildings.list.filter((b) => b.id !== r.data.id), r.data];
     writeJson(BUILDINGS_STORE, buildings.list);
     nb.values = {};
+    nb.banks = [];
     nb.idem = newKey();
     saveNb();
     say("nb-msg", `Created ${r.data.name}.`, "ok");

@@ -181,3 +181,59 @@ export function triangle(m, phases) {
 
 /** kvar to bring kW/kvar to the target PF: Q − P·tan(acos(PF_target)), never below 0. */
 export const kvarToTarget = (kW, kvarNow, targetPF) => Math.max(0, kvarNow - kW * Math.tan(Math.acos(targetPF)));
+
+/**
+ * A bank's steps as an electrician reads the nameplates: "5 × 50" (or 5x50, 5*50), "50, 50, 25" or "50+50+25", and
+ * mixes ("2x50 + 25"). A comma separates steps only with a space after it, so "12,5" stays a decimal comma.
+ * Answers [{ kvar }], null when empty, or a message when it does not parse.
+ */
+export function stepsOf(raw) {
+  const s = String(raw ?? "").trim();
+  if (s === "") return null;
+  const out = [];
+  for (const part of s.split(/[;+]|,\s+/).map((p) => p.trim()).filter(Boolean)) {
+    const m = /^(\d+)\s*[x×*]\s*(.+)$/i.exec(part);
+    const count = m ? Number(m[1]) : 1;
+    const kvar = num(m ? m[2].replace(/\s*kvar$/i, "") : part.replace(/\s*kvar$/i, ""));
+    if (!isNum(kvar)) return `write the steps as count × kvar (5 × 50) or one kvar each (50, 50, 25); "${part}" is not`;
+    for (let i = 0; i < count && out.length <= 64; i++) out.push({ kvar });
+  }
+  return out;
+}
+/** The service's limits on a bank's steps (installedBankSchema in src/http/schemas/sizing.ts). */
+export const steps = (raw) => {
+  const s = stepsOf(raw);
+  if (typeof s === "string") return s;
+  if (!s || s.length === 0) return "a bank needs at least one step";
+  if (s.length > 32) return "a bank has at most 32 steps";
+  for (const x of s) {
+    if (x.kvar <= 0) return "kvar must be greater than 0";
+    if (x.kvar > 100_000) return "kvar must be at most 100000";
+  }
+  return "";
+};
+
+/** Above this many times a healthy step's current a reading is rejected as a misreading (MAX_CURRENT_RATIO in src/core/bank/installed.ts). */
+export const MAX_STEP_CURRENT_RATIO = 3;
+
+/**
+ * A healthy installed step's current at voltageV: Q = Q_r·(V/V_r)²·(f/f_r), divided by (1 − p) behind a reactor of
+ * p, then I = Q/(√3·V) on three phases, Q/V on one: the service's expectedStep (IEEE Std 18 rating basis).
+ */
+export function expectedStepA(nameplateKvar, bank, voltageV, system) {
+  const ratedHz = bank.ratedFrequencyHz ?? system.frequencyHz;
+  const q = nameplateKvar * (voltageV / bank.ratedVoltageV) ** 2 * (system.frequencyHz / ratedHz) / (1 - (bank.reactorPct ?? 0) / 100);
+  return (q * 1000) / ((system.phases === 1 ? 1 : Math.sqrt(3)) * voltageV);
+}
+
+/** A step current's message, "" when fine: the service's own words for a figure above 3 × the expected. */
+export function stepAmps(raw, expectedA, nameplateKvar, voltageV) {
+  const a = num(raw);
+  if (a === null) return "";
+  if (!isNum(a)) return "amps must be a number";
+  if (a < 0) return "amps must not be negative";
+  if (a > MAX_FIGURE) return `amps must be at most ${MAX_FIGURE}`;
+  if (a > MAX_STEP_CURRENT_RATIO * expectedA)
+    return `${a} A is more than ${MAX_STEP_CURRENT_RATIO} × the ${expectedA.toFixed(1)} A a healthy ${nameplateKvar} kvar step draws at ${voltageV} V: check the clamp's range and the step number`;
+  return "";
+}

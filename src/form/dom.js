@@ -39,10 +39,11 @@ export function fieldEl(def, values, id) {
   const label = el("label", { for: id }, def.label);
   const msg = el("p", { class: "msg", id: `${id}-msg`, "data-m": f, role: "alert" });
   const hint = el("p", { class: "field-hint", "data-h": f });
+  const note = def.note ? el("p", { class: "note" }, def.note) : null;
   // A select whose longest choice would not fit a grid column takes the whole row: no option text is cut.
   const long = def.kind === "select" && Math.max(...def.options.map(([, t]) => t.length)) > 12;
   const cls = `field${def.wide || long ? " wide" : ""}${def.kind === "check" ? " check" : ""}`;
-  return def.kind === "check" ? el("div", { class: cls }, el("label", { class: "tick", for: id }, input, ` ${def.label}`), msg) : el("div", { class: cls }, label, input, msg, hint);
+  return def.kind === "check" ? el("div", { class: cls }, el("label", { class: "tick", for: id }, input, ` ${def.label}`), msg) : el("div", { class: cls }, label, input, note, msg, hint);
 }
 
 /**

@@ -3,7 +3,7 @@
 // body is built from the paths alone. `fold` puts a field in a folded "more" part; `when` shows it only for some
 // answers; `required` (true or a function of the values) makes an empty field an error.
 
-import { ctRatio, ctRatioOf, impedancePct, kvar, METHODS, pf, rules, spectrum, spectrumOf, thd, volts } from "./checks.js";
+import { ctRatio, ctRatioOf, impedancePct, kvar, METHODS, pf, rules, spectrum, spectrumOf, steps, stepsOf, thd, volts } from "./checks.js";
 
 const money = (key, label) => ({ path: key, label, check: rules.money(key.split(".").pop()), inputmode: "decimal" });
 
@@ -77,8 +77,39 @@ export const BUILDING_SECTIONS = [
       { ...money("economics.cost.fixed", "Fixed cost"), when: (v) => !!v["economics.tariff.form"] },
     ],
   },
-  // Installed banks ("installedBanks") go here once the buildings API takes them; the page does not send them yet.
 ];
+
+/**
+ * One installed bank's fields under `at` ("installedBanks.1"): where it is, how it is switched, its nameplate.
+ * The steps are typed as the nameplates read ("5 × 50"); a fixed bank is one step, as the service requires.
+ */
+export function installedBankFields(at) {
+  const is = (f, value) => (v) => v[`${at}.${f}`] === value;
+  return [
+    { path: `${at}.label`, label: "Label (as on the panel)", check: rules.text("label", 100), required: true },
+    { path: `${at}.location`, label: "Connected at", kind: "select", wide: true,
+      options: [["service", "The service (main switchboard)"], ["group", "A group: MCC or feeder"], ["motor", "A motor's terminals"]] },
+    { path: `${at}.group`, label: "Group (MCC or feeder)", check: rules.text("group", 100), required: true, when: is("location", "group"),
+      requiredMessage: "a group bank needs the group (MCC or feeder) it corrects" },
+    { path: `${at}.loadLabel`, label: "Motor (its load label)", check: rules.text("loadLabel", 200), required: true, when: is("location", "motor"),
+      requiredMessage: "a motor-terminal bank needs the loadLabel of its motor" },
+    { path: `${at}.control`, label: "Control", kind: "select", options: [["automatic", "Automatic (switched steps)"], ["fixed", "Fixed (always on)"]], wide: true },
+    { path: `${at}.steps`, label: "Steps, nameplate kvar", placeholder: "5 × 50", required: true, requiredMessage: "a bank needs at least one step", parse: stepsOf,
+      check: (raw) => steps(raw), wide: true },
+    { path: `${at}.ratedVoltageV`, label: "Rated voltage (V)", check: volts, inputmode: "decimal", required: true },
+    { path: `${at}.reactorPct`, label: "Reactor (%), 0 if none", inputmode: "decimal", check: rules.range("reactorPct", 0, 20, "reactorPct must be 0 to 20 %") },
+    { path: `${at}.ratedFrequencyHz`, label: "Rated frequency", kind: "select", parse: "number", options: [["", "as the system"], ["50", "50 Hz"], ["60", "60 Hz"]] },
+    { path: `${at}.connection`, label: "Connection", kind: "select", options: [["", "not known"], ["delta", "delta"], ["wye", "wye (star)"]] },
+    { path: `${at}.installedOn`, label: "Installed on (optional)", kind: "date",
+      check: rules.pattern(/^\d{4}-\d{2}-\d{2}$/, "installedOn must be an ISO 8601 date such as 2021-06-30") },
+  ];
+}
+
+/** A fixed bank is one step (the service's rule, installedBankIssues in src/core/bank/installed.ts). */
+export function fixedBankIssue(values, at) {
+  const s = stepsOf(values[`${at}.steps`]);
+  return values[`${at}.control`] === "fixed" && Array.isArray(s) && s.length > 1 ? "a fixed bank is one step: give its total kvar as one step" : "";
+}
 
 /** The method choices, worded as the meter shows the readings. */
 export const METHOD_OPTIONS = [
@@ -144,7 +175,9 @@ export const SURVEY_FIELDS = [
   { path: "surveyedAt", label: "Date of readings", kind: "date", required: true, requiredMessage: "surveyedAt must be a date",
     check: rules.pattern(/^\d{4}-\d{2}-\d{2}$/, "surveyedAt must be a date") },
   { path: "targetPF", label: "Target PF", inputmode: "decimal", required: true, check: rules.range("targetPF", 0.8, 1, "targetPF must be between 0.8 and 1") },
-  // Survey scope (whole site / part of it) goes here once the surveys API takes "scope".
+  { path: "scope", label: "The readings cover", kind: "select", wide: true,
+    options: [["", "Decide from the readings: whole site if the main is read"], ["whole_site", "The whole site (every load behind the main)"], ["partial", "Part of the site (some loads or one board)"]],
+    note: "Whole site: the bank is sized for the building's total. Part: only the loads listed; interval data then does not size the central bank." },
 ];
 
 /** Folded survey parts: the main readings and the bank's controller CT. */
@@ -161,7 +194,5 @@ export function surveyExtraFields(values) {
     { title: "Controller CT", fields: [
       { path: "bankDesign.ctRatio", label: "CT ratio (e.g. 1000/5)", check: ctRatio, placeholder: "1000/5", parse: ctRatioOf },
     ] },
-    // Readings of banks already installed ("bankReadings": steps in service, voltage, step currents per phase)
-    // go here once the surveys API takes them.
   ];
 }

@@ -1,6 +1,7 @@
 // The survey page's entry point: plain ES modules, no build step. Wires the parts together; each module says
 // what it owns (files.json lists them all).
 
+import { onBankClick, onBankEdit, renderBankReadings } from "./bank-readings.js";
 import { apiKey, onReachability, probe, problemText, setApiKey } from "./api.js";
 import { buildingById, createBuilding, describeBuilding, loadBuildings, onNewBuildingEdit, renderBuildings, renderNewBuilding } from "./building.js";
 import { $, placeErrors, say, setMsg } from "./dom.js";
@@ -14,7 +15,8 @@ const RETRY_MS = 10_000;
 const PROBE_MS = 15_000;
 
 state.draft = loadDraft();
-state.system = () => buildingById(state.draft.buildingId)?.system ?? null;
+state.building = () => buildingById(state.draft.buildingId);
+state.system = () => state.building()?.system ?? null;
 let submitting = false;
 
 /** Submit is off while a survey is on its way: a second tap cannot send it twice. */
@@ -106,9 +108,12 @@ async function submit() {
 function selectBuilding(id) {
   const other = id !== state.draft.buildingId;
   state.draft.buildingId = id;
-  if (other) changed(state.draft); // another building: a stored draft becomes a new survey
-  else saveDraft(state.draft);
+  if (other) {
+    state.draft.bankReadings = {}; // another building's banks: readings of the last one's mean nothing here
+    changed(state.draft); // another building: a stored draft becomes a new survey
+  } else saveDraft(state.draft);
   renderBuildings(id);
+  renderBankReadings();
   updateFigures();
 }
 
@@ -117,6 +122,7 @@ async function refreshBuildings() {
   const line = await loadBuildings();
   $("key-state").textContent = line;
   renderBuildings(state.draft.buildingId);
+  renderBankReadings();
   updateFigures();
 }
 
@@ -140,7 +146,9 @@ function wire() {
   for (const type of ["input", "change"]) {
     $("nb-fields").addEventListener(type, (ev) => onNewBuildingEdit(ev, state.openFolds));
     $("survey-section").addEventListener(type, onSurveyEdit);
+    $("bank-readings").addEventListener(type, onBankEdit);
   }
+  $("bank-readings").addEventListener("click", onBankClick);
   $("nb-create").addEventListener("click", async () => {
     const id = await createBuilding();
     if (!id) return;

@@ -1,14 +1,15 @@
-// The recommendation after a survey is stored: the verdict in a line, then the bank, its steps, whether it is
-// detuned, its cost and payback, from the stored result (src/http/schemas/results.ts); reports and the trend.
+// The recommendation after a survey is stored: the verdict in a line, then page 1's verdict (verdict.js) — what to
+// install, what to repair first, the PF and kVA after, cost, saving, payback, the risks — and the bank's steps, from
+// the stored result (src/http/schemas/results.ts); reports and the trend.
 
 import { call } from "./api.js";
 import { $, el, say } from "./dom.js";
 import { readJson, writeJson } from "./drafts.js";
+import { stepCount, verdictOf } from "./verdict.js";
 
 const LAST_STORE = "pfc-form.last";
 const f2 = (x) => x.toFixed(2);
 const f3 = (x) => x.toFixed(3);
-const ARRANGEMENT = { fixed: "Fixed bank", automatic: "Automatic (switched) bank", fixed_and_automatic: "Fixed part plus automatic steps" };
 
 export let lastSurvey = readJson(LAST_STORE, null);
 
@@ -37,15 +38,24 @@ export function showResult(survey) {
   $("result-section").hidden = false;
   $("r-pf").textContent = `${f3(r.site.displacementPF)} ${r.site.sense} (target ${r.correction.targetPF})`;
   $("r-kvar").textContent = `${f2(r.correction.kvarRequired)} kvar`;
-  $("r-bank").textContent = bank ? `${ARRANGEMENT[bank.arrangement] ?? bank.arrangement}: ${f2(bank.nameplateKvar)} kvar nameplate at ${bank.ratedVoltageV} V` : "None needed";
+  const v = verdictOf(r);
+  const lines = (id, items) => $(id).replaceChildren(...(items.length > 1 ? [el("ul", { class: "result-list" }, ...items.map((t) => el("li", {}, t)))] : items));
+  lines("r-install", v.install);
+  $("r-repair-dt").hidden = $("r-repair").hidden = !v.repair;
+  $("r-repair").textContent = v.repair ?? "";
+  $("r-after").textContent = v.after;
   $("r-detuned").textContent = detunedText(bank);
-  $("r-cost").textContent = eco?.installedCost != null ? money(eco, eco.installedCost) : "– (give the building a tariff and costs)";
-  $("r-payback").textContent =
-    eco?.simplePaybackYears != null ? `${eco.simplePaybackYears.toFixed(1)} years (saves ${money(eco, eco.savingPerYear)} a year)` : eco ? `– (saves ${money(eco, eco.savingPerYear)} a year)` : "–";
+  $("r-cost").textContent = eco?.installedCost != null ? money(eco, eco.installedCost) : eco ? "– (give the building costs per kvar)" : "– (give the building a tariff and costs)";
+  $("r-saving").textContent = eco ? `${money(eco, eco.savingPerYear)} a year` : "–";
+  $("r-payback").textContent = eco?.simplePaybackYears != null ? `${eco.simplePaybackYears.toFixed(1)} years (simple payback)` : "–";
+  lines("r-risks", v.risks.length ? v.risks : ["none that matter"]);
   $("r-warnings").textContent = r.warnings.length ? `${r.warnings.length}: see the report` : "none";
+  const repairs = r.correction.repairFirst ?? [];
   $("r-verdict").textContent = bank
-    ? `${f2(bank.nameplateKvar)} kvar, ${bank.physicalSteps.length} step${bank.physicalSteps.length === 1 ? "" : "s"}, ${bank.reactorPct > 0 ? "detuned" : "not detuned"}${eco?.simplePaybackYears != null ? `, pays back in ${eco.simplePaybackYears.toFixed(1)} years` : ""}.`
-    : "No correction needed at this target.";
+    ? `${repairs.length ? `Repair ${repairs.length} installed step${repairs.length === 1 ? "" : "s"} first, then add ` : ""}${f2(bank.nameplateKvar)} kvar, ${stepCount(bank)}, ${bank.reactorPct > 0 ? "detuned" : "not detuned"}${eco?.simplePaybackYears != null ? `, pays back in ${eco.simplePaybackYears.toFixed(1)} years` : ""}.`
+    : repairs.length
+      ? `Repair ${repairs.length} installed step${repairs.length === 1 ? "" : "s"}: no new bank.`
+      : "No new bank.";
   $("r-steps").replaceChildren(
     ...(bank?.physicalSteps ?? []).map((s, i) => el("li", {}, `Step ${i + 1}: ${s.role}, ${s.nameplateKvar} kvar nameplate (${f2(s.effectiveKvar)} kvar effective)`)),
   );

@@ -1,6 +1,7 @@
 // The survey part of the page: its fields, the loads, the live figures and totals, the checks before sending and
 // the body sent. Everything reads and writes `state.draft` (drafts.js).
 
+import { bankReadingsBody, checkBankReadings, renderBankReadings } from "./bank-readings.js";
 import { kvarToTarget, num, rules, triangle, voltsHint } from "./checks.js";
 import { $, controlFor, drawFields, el, setMsg } from "./dom.js";
 import { changed, newLoad, saveDraft } from "./drafts.js";
@@ -8,7 +9,7 @@ import { loadFields, SURVEY_FIELDS, surveyExtraFields } from "./fields.js";
 import { bodyOf, errorsOf, fieldError, lastSegment, prefixed } from "./model.js";
 
 /** What the page holds besides the draft; set by main.js. */
-export const state = { draft: null, system: () => null, openFolds: new Set() };
+export const state = { draft: null, building: () => null, system: () => null, openFolds: new Set(), openBank: "" };
 
 const wholeQuantity = (raw) => (num(raw) === null ? "" : rules.whole("quantity", 1, 10_000)(raw));
 const f2 = (x) => x.toFixed(2);
@@ -70,6 +71,7 @@ export function renderLoads() {
 export function renderSurvey() {
   renderSurveyFields();
   renderLoads();
+  renderBankReadings();
 }
 
 // ---------- live figures ----------
@@ -164,7 +166,7 @@ export function updateFigures() {
 export function onSurveyEdit(ev) {
   const input = /** @type {HTMLInputElement} */ (ev.target);
   const path = input.dataset?.path;
-  if (!path) return;
+  if (!path || input.closest("#bank-readings")) return; // bank-readings.js keeps those
   const value = input.type === "checkbox" ? input.checked : input.value;
   const m = /^loads\.(\d+)\.(.+)$/.exec(path);
   if (m) state.draft.loads[Number(m[1])][m[2]] = value;
@@ -208,12 +210,15 @@ export function checkSurvey() {
   updateFigures(); // the cross-field faults
   const cross = document.querySelectorAll("#survey-section [data-cross]").length;
   for (const e of errors) controlFor(e.path)?.closest("details")?.setAttribute("open", "");
-  return errors.length === 0 && cross === 0 && state.draft.loads.length > 0;
+  const bankFaults = checkBankReadings();
+  return errors.length === 0 && cross === 0 && bankFaults === 0 && state.draft.loads.length > 0;
 }
 
 /** The request body, from the fields as they stand. */
 export function surveyBody() {
   const body = bodyOf(allDefs(), allValues());
   body.loads ??= [];
+  const readings = bankReadingsBody();
+  if (readings.length) body.bankReadings = readings;
   return body;
 }

@@ -5,6 +5,7 @@
  */
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
+import { expectedStep } from "../../src/core/bank/installed.js";
 import { triangleOf } from "../../src/core/readings/triangle.js";
 import type { Measurement } from "../../src/core/inputs.js";
 import { expectClose, TOL } from "../helpers/tolerance.js";
@@ -18,6 +19,9 @@ const checks = (await import(`${formDir}checks.js`)) as {
   spectrumOf: (raw: string) => { order: number; pct: number }[] | string | null;
   spectrum: (raw: string) => string;
   num: (raw: string) => number | null;
+  stepsOf: (raw: string) => { kvar: number }[] | string | null;
+  steps: (raw: string) => string;
+  expectedStepA: (kvar: number, bank: { ratedVoltageV: number; ratedFrequencyHz?: number; reactorPct?: number }, voltageV: number, system: { frequencyHz: number; phases: number }) => number;
 };
 const drafts = (await import(`${formDir}drafts.js`)) as { newKey: () => string };
 
@@ -54,7 +58,44 @@ describe("the page's power triangle against the service's engine", () => {
   });
 });
 
+describe("the page's expected step current against the service's engine", () => {
+  it("gives the engine's healthy current for any nameplate, reactor and voltage read", () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 1, max: 500, noNaN: true }),
+        fc.constantFrom(230, 400, 415, 480, 525, 690),
+        fc.constantFrom(undefined, 50 as const, 60 as const),
+        fc.constantFrom(undefined, 0, 5.67, 7, 14),
+        fc.double({ min: 0.8, max: 1.15, noNaN: true }),
+        fc.constantFrom(50 as const, 60 as const),
+        fc.constantFrom(1 as const, 3 as const),
+        (kvar, ratedVoltageV, ratedFrequencyHz, reactorPct, ratio, frequencyHz, phases) => {
+          const bank = { ratedVoltageV, ratedFrequencyHz, reactorPct };
+          const v = ratedVoltageV * ratio;
+          const engine = expectedStep(kvar, bank, v, frequencyHz, phases).currentA;
+          expectClose(checks.expectedStepA(kvar, bank, v, { frequencyHz, phases }), engine, TOL.oracle, "current");
+        },
+      ),
+      { numRuns: 300 },
+    );
+  });
+});
+
 describe("what the page reads from typed text", () => {
+  it("reads a bank's steps as the nameplates are read", () => {
+    const fifty = { kvar: 50 };
+    expect(checks.stepsOf("5 × 50")).toEqual([fifty, fifty, fifty, fifty, fifty]);
+    expect(checks.stepsOf("5x50")).toEqual(checks.stepsOf("5 × 50"));
+    expect(checks.stepsOf("50, 50, 25")).toEqual([fifty, fifty, { kvar: 25 }]);
+    expect(checks.stepsOf("2x50 + 12,5")).toEqual([fifty, fifty, { kvar: 12.5 }]); // a decimal comma, as tablets type it
+    expect(checks.stepsOf("50,50,25")).toMatch(/count × kvar/); // no space after the commas: asked again, not guessed
+    expect(checks.stepsOf("2 × 50 kvar + 25 kvar")).toEqual([fifty, fifty, { kvar: 25 }]);
+    expect(checks.stepsOf("")).toBeNull();
+    expect(checks.stepsOf("five")).toMatch(/count × kvar/);
+    expect(checks.steps("33 × 10")).toBe("a bank has at most 32 steps");
+    expect(checks.steps("0")).toBe("kvar must be greater than 0");
+  });
+
   it("reads a CT's label as its ratio", () => {
     expect(checks.ctRatioOf("1000/5")).toBe(200); // 1000 A primary, 5 A secondary
     expect(checks.ctRatioOf("200")).toBe(200);
