@@ -31,7 +31,10 @@ describe("report of a survey with installed banks", () => {
     const section = doc.querySelector("#installed");
     expect(section?.textContent).toContain("Expected (A)");
     expect(section?.textContent).toContain("degraded");
-    expect(res.body).toMatch(/repair first: Wall bank step 2 \(degraded/);
+    // page 1: the "Repair first" line names the step once, without repeating its own heading
+    const verdict = doc.querySelector("#verdict")?.textContent ?? "";
+    expect(verdict).toMatch(/Repair first\s*Wall bank step 2 \(degraded/);
+    expect(verdict).not.toMatch(/repair first:/i);
     const series = doc.querySelectorAll('#installed [data-role="step-series"]');
     expect(series.map((s) => s.getAttribute("data-points"))).toEqual(["3", "3"]);
     // the first survey's report has one point per step: no line yet, only points

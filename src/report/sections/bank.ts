@@ -99,7 +99,7 @@ export function noBankText(result: SizingResult): string {
     return `No bank is recommended: the site leads; take ${steps} out of service (${fmt.power(relief.kvarRemoved)} kvar), giving PF ${fmt.pf(relief.pfAfter)} ${relief.senseAfter}${relief.reachesTarget ? "" : " — still beyond the target: more capacitors must come out"}.`;
   }
   if (c.leadingExcessKvar > 0) return `No bank is recommended: the site leads, and about ${fmt.power(c.leadingExcessKvar)} kvar of capacitors should be taken out of service instead.`;
-  if (c.kvarAdditional !== undefined && c.kvarAdditional <= 0 && c.kvarRequired > 0) return "No new bank is needed: the installed banks, once repaired and fully used, cover the need (see the repairs above).";
+  if (c.kvarAdditional !== undefined && c.kvarAdditional <= 0 && c.kvarRequired > 0) return "No new bank is needed: the installed banks, once repaired and fully used, cover the need.";
   if (c.kvarRequired <= 0) return "No bank is recommended: the site needs no capacitors to reach the target at the surveyed load.";
   const placed = result.placement?.totalKvar ?? 0;
   if (placed > 0) return `No central bank is recommended: the ${fmt.power(placed)} kvar the site needs is placed at the motor terminals and group banks above.`;

@@ -18,7 +18,7 @@ export function installedVerdict(result: SizingResult): string | null {
     return `${measured ? "no measured step is failed or degraded" : "no step currents were measured"}; installed ${fmt.power(c.kvarInstalledRated)} kvar credited, ${then}`;
   }
   const list = repairs.map((r) => `${r.bank} step ${r.step} (${r.status}, ${fmt.power(r.restoresKvar)} kvar)`).join(", ");
-  return `repair first: ${list} — ${fmt.power(c.kvarRestoredByRepair)} kvar restored before anything new is bought; ${then}`;
+  return `${list} — ${fmt.power(c.kvarRestoredByRepair)} kvar restored before anything new is bought; ${then}`;
 }
 
 function chartOf(input: ReportInput): Block | null {
