@@ -108,6 +108,30 @@ export function installedSection(input: ReportInput): Section {
         ? `Combined resonance screen${sc.withNewBank === "none" ? "" : ` with the ${sc.withNewBank} bank`}: ${sc.stagesScreened} switchable combinations, none within 10 % of a present harmonic.`
         : `Combined resonance screen${sc.withNewBank === "none" ? "" : ` with the ${sc.withNewBank} bank`}: ${sc.hazards.length} of ${sc.stagesScreened} combinations resonate near a present harmonic, e.g. ${sc.hazards.slice(0, 3).map((h) => `${h.installed.join(" + ")}${h.newStage > 0 ? ` + new stage ${h.newStage}` : ""} at ${h.resonanceOrders.map((o) => fmt.order(o)).join(", ")}`).join("; ")}.`;
     blocks.push({ kind: "paragraph", tone: sc.hazards.length > 0 ? "alert" : "normal", text });
+    const h = sc.harmonics;
+    if (h && h.worstThdV) {
+      const w = h.worstThdV;
+      const name = (x: { installed: string[]; newStage: number }) => `${x.installed.join(" + ")}${x.newStage > 0 ? ` + new stage ${x.newStage}` : ""}`;
+      blocks.push({
+        kind: "paragraph",
+        tone: h.flagged.length > 0 ? "alert" : "normal",
+        text:
+          `Combined harmonic study${sc.withNewBank === "none" ? "" : ` with the ${sc.withNewBank} bank`}: ${h.stagesStudied} combinations studied${h.truncated ? " (truncated)" : ""}; ` +
+          `the worst THD_v is ${fmt.pct2(w.thdVPct)} % (${name(w)}, limit ${fmt.num(w.ieee519.thdLimitPct, 1)} %)` +
+          (h.flagged.length > 0 ? `; ${h.flagged.length} combination(s) break an IEEE 519 limit or load a capacitor above its rating, e.g. ${h.flagged.slice(0, 3).map(name).join("; ")}.` : "; every combination within IEEE 519 and the capacitors' ratings."),
+      });
+    }
+  }
+  const program = result.recommendedBank?.combinedProgram;
+  if (program) {
+    blocks.push({
+      kind: "table",
+      title: "Installed and new steps under one controller",
+      header: ["Switching order", "Bank", "Delivered (kvar)"],
+      align: ["right", "left", "right"],
+      rows: program.steps.map((s, i) => [String(i + 1), s.source === "installed" ? "installed" : "new", fmt.power(s.kvar)]),
+      note: `Fixed ${fmt.power(program.fixedKvar)} kvar always in. Together the banks hold the target in ${fmt.num(program.metShare * 100, 1)} % of the samples (the new bank alone, with the installed credited as always in: ${fmt.num(program.newAloneMetShare * 100, 1)} %).`,
+    });
   }
   const chart = chartOf(input);
   if (chart) blocks.push(chart);
