@@ -25,6 +25,12 @@ pfc_ensure_node() {
   if command -v node >/dev/null 2>&1; then pfc_have=$(pfc_major node); fi
   if [ "$pfc_have" -ge "$pfc_want" ]; then
     echo "ensure-node: using $(command -v node) $(node --version)"
+    # native addons (better-sqlite3) must build against this Node's headers, whatever a user .npmrc names
+    pfc_prefix=$(dirname "$(dirname "$(command -v node)")")
+    if [ -f "$pfc_prefix/include/node/node.h" ]; then
+      npm_config_nodedir="$pfc_prefix"
+      export npm_config_nodedir
+    fi
     return 0
   fi
 
