@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import type { SizingInput } from "../../../src/core/inputs.js";
+import { plantWithInstalledAutomaticBank } from "../../helpers/sites.js";
 import { combinedProgram } from "../../../src/core/bank/combined-program.js";
 import { size } from "../../../src/core/pipeline/size.js";
 
@@ -24,23 +24,7 @@ describe("installed and new steps under one controller", () => {
   });
 
   it("a new bank beside an installed 5 × 50 kvar automatic bank reports the combined program, installed steps first", () => {
-    const kW: number[] = [];
-    const kvar: number[] = [];
-    for (let h = 0; h < 24 * 28; h++) {
-      const day = h % 24 >= 7 && h % 24 < 19;
-      kW.push(day ? 900 : 300);
-      kvar.push(day ? 700 : 220);
-    }
-    const input: SizingInput = {
-      system: { voltageV: 480, frequencyHz: 60, phases: 3 },
-      targetPF: 0.95,
-      scope: "whole_site",
-      loads: [{ label: "Plant", kind: "other", measurement: { method: "kw_kvar", kW: 900, kvar: 700 } }],
-      serviceEntrance: { measurement: { method: "kw_kvar", kW: 900, kvar: 700 } },
-      intervalDemand: { kW, kvar, intervalMinutes: 60 },
-      installedBanks: [{ label: "Old bank", location: "service", control: "automatic", ratedVoltageV: 480, steps: [50, 50, 50, 50, 50].map((k) => ({ kvar: k })) }],
-      bankReadings: [{ bank: "Old bank", inServiceSteps: [] }],
-    } as SizingInput;
+    const input = plantWithInstalledAutomaticBank();
     const out = size(input);
     if (!out.ok) throw new Error(JSON.stringify(out.issues));
     const rec = out.result.recommendedBank;
