@@ -1,4 +1,5 @@
 /** Resonance screen and harmonic study per stage, with the detuned proposal beside the bank it replaces. */
+import { compactList } from "../../core/warnings.js";
 import type { BankAnalysis } from "../../core/bank/stages.js";
 import type { SizingResult } from "../../core/pipeline/size.js";
 import { impedanceScanChart } from "../charts/index.js";
@@ -158,6 +159,6 @@ export function groupedFindings(findings: readonly { code: string; subject: stri
     } else groups.set(key, { message: f.message, stages: f.stageNumber !== undefined ? [f.stageNumber] : [] });
   }
   return [...groups.values()]
-    .map((g) => (g.stages.length > 1 ? `${g.message} (and likewise at stages ${g.stages.slice(1).join(", ")})` : g.message))
+    .map((g) => (g.stages.length > 1 ? `${g.message} (and likewise at stages ${compactList(g.stages.slice(1))})` : g.message))
     .join("; ");
 }
