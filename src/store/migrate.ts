@@ -65,7 +65,7 @@ function appliedMigrations(db: Db): AppliedRow[] {
 }
 
 /** Refuse a database this code cannot run on: a newer version, or a migration changed after it was applied. */
-function checkApplied(applied: AppliedRow[], known: Migration[]): void {
+export function checkApplied(applied: AppliedRow[], known: Migration[]): void {
   const latest = known.length;
   for (const row of applied) {
     const mine = known[row.version - 1];
