@@ -2,7 +2,7 @@
  * `npm run bench`: every section in turn, then one summary table.
  * Knobs: BENCH_SECONDS (10), BENCH_CONNECTIONS (10), BENCH_WARMUP_SECONDS (3) for the HTTP sections;
  * BENCH_LOAD_SECONDS (60) for the mixed load at 100 connections;
- * BENCH_ONLY=name,name to run some sections; BENCH_STRICT=1 exits 1 when a goal is missed.
+ * BENCH_ONLY=name,name to run some sections; BENCH_DATABASE_URL (or TEST_DATABASE_URL) for the postgres section; BENCH_STRICT=1 exits 1 when a goal is missed.
  * Add a section: a module exporting an async function (knobs) => SectionResult, listed in SECTIONS.
  */
 import { benchHarmonicScan } from "./harmonic-scan.js";
@@ -12,6 +12,7 @@ import { benchSizing } from "./sizing.js";
 import { benchSurveys } from "./surveys.js";
 import { benchInterval } from "./interval.js";
 import { benchLoad } from "./load.js";
+import { benchPostgres } from "./postgres.js";
 
 function loadSeconds(env: NodeJS.ProcessEnv): number {
   const raw = env.BENCH_LOAD_SECONDS;
@@ -71,6 +72,7 @@ const SECTIONS: BenchSection[] = [
     },
   },
   { name: "load", run: () => benchLoad({ seconds: loadSeconds(process.env) }) },
+  { name: "postgres", run: (knobs) => benchPostgres({ seconds: knobs.seconds, connections: knobs.connections }) },
 ];
 
 function table(rows: SummaryRow[]): string {
