@@ -64,6 +64,7 @@ describePostgres("two instances on one PostgreSQL", (baseUrl) => {
   });
 
   it("stores one survey when both receive the same Idempotency-Key at once", async () => {
+    const seen: string[] = [];
     for (let round = 0; round < 6; round++) {
       const before = await surveyCount();
       const idem = { "idempotency-key": `twin-${round}-${Date.now()}` };
@@ -72,6 +73,7 @@ describePostgres("two instances on one PostgreSQL", (baseUrl) => {
       const statuses = [ra.status, rb.status].sort();
       // Either the second saw the first finished (a replay: both 201, one Location), or still in flight (409 + Retry-After).
       expect([[201, 201], [201, 409]]).toContainEqual(statuses);
+      seen.push(statuses.join("+"));
       const ok = [ra, rb].filter((r) => r.status === 201);
       expect(new Set(ok.map((r) => r.headers.get("location"))).size).toBe(1);
       for (const r of [ra, rb].filter((x) => x.status === 409)) {
@@ -79,7 +81,14 @@ describePostgres("two instances on one PostgreSQL", (baseUrl) => {
         expect(r.headers.get("content-type")).toMatch(/^application\/problem\+json/);
       }
       expect(await surveyCount()).toBe(before + 1);
+      // Once the first has finished, the key replays its response through either instance.
+      const again = await post(round % 2 ? a : b, `/v1/buildings/${buildingId}/surveys`, body, idem);
+      expect(again.status).toBe(201);
+      expect(again.headers.get("idempotent-replayed")).toBe("true");
+      expect(again.headers.get("location")).toBe(ok[0]?.headers.get("location"));
+      expect(await surveyCount()).toBe(before + 1);
     }
+    console.log(`same key to both instances at once, 6 rounds: ${seen.join(", ")} (201+201: replay; 201+409: in flight)`);
   });
 
   it("keeps every acknowledged survey, whole, when one instance is killed -9 under write load", async () => {
@@ -117,6 +126,7 @@ describePostgres("two instances on one PostgreSQL", (baseUrl) => {
            OR NOT EXISTS (SELECT 1 FROM audit_log l WHERE l.org_id = s.org_id AND l.resource_id = s.id)`,
     );
     expect(broken.rows).toEqual([]);
+    console.log(`kill -9 under load: ${acknowledged.length} surveys acknowledged (201), all stored whole; ${acknowledged.length} checked in the database`);
     // The survivor serves every acknowledged survey.
     for (const id of acknowledged.slice(-10)) expect((await get(a, `/v1/surveys/${id}`)).status).toBe(200);
   });
