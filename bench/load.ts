@@ -1,3 +1,4 @@
+import { sqliteOf } from "../src/store/sqlite/sqlite-store.js";
 import { mkdtempSync, rmSync } from "node:fs";
 import { createRequire } from "node:module";
 import { tmpdir } from "node:os";
@@ -52,9 +53,9 @@ export async function benchLoad(opts: { seconds: number; connections?: number })
       { method: "GET" as const, path: `/v1/buildings/${b}/trend`, headers: AUTH },
       { method: "POST" as const, path: `/v1/buildings/${b}/surveys`, headers: json, body: JSON.stringify(survey) },
     ]);
-    const before = (app.store.db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
+    const before = (sqliteOf(app.store).db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
     const r = await autocannon({ url: base, connections, duration: opts.seconds, requests, workers: 1 });
-    const after = (app.store.db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
+    const after = (sqliteOf(app.store).db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
     const stats = r.statusCodeStats ?? {};
     const fiveXX = Object.entries(stats).filter(([code]) => Number(code) >= 500).reduce((n, [, v]) => n + v.count, 0);
     const total = Math.round(r.requests.average * r.duration);

@@ -33,7 +33,9 @@ const SECTIONS: BenchSection[] = [
           { section: "surveys", metric: "POST surveys (20 loads) req/s", value: r.httpRps.toFixed(0) },
           { section: "surveys", metric: "raw transaction per survey /s", value: r.rawTxPerSec.toFixed(0) },
           { section: "surveys", metric: "bare route req/s", value: (r.bareRps ?? NaN).toFixed(0) },
-          { section: "surveys", metric: "http / combined ceiling", value: r.ratio.toFixed(2), goal: "≥ 0.6", pass: r.ratio >= 0.6 },
+          { section: "surveys", metric: "stored surveys/s (HTTP, group commit)", value: r.storedPerSec.toFixed(0) },
+          { section: "surveys", metric: "http / combined ceiling", value: r.ratio.toFixed(2) },
+          { section: "surveys", metric: "stored surveys / raw ceiling", value: r.storedOverRaw.toFixed(2), goal: "≥ 1.0", pass: r.storedOverRaw >= 1.0 },
         ],
         notes: r.lines,
       };

@@ -1,7 +1,10 @@
 import { loadConfig, loadEnvFileIfPresent } from "../src/config.js";
-import { backupDatabase } from "../src/store/backup.js";
+import { backupDatabase } from "../src/store/sqlite/backup.js";
 
-/** npm run backup -- <file>: an online copy of DATABASE_PATH, safe while the server runs. */
+/**
+ * npm run backup -- <file>: an online copy of DATABASE_PATH, safe while the server runs. SQLite only: for
+ * PostgreSQL (DATABASE_URL set) use pg_dump, as the README says.
+ */
 const target = process.argv[2];
 if (!target || target.startsWith("-")) {
   process.stderr.write("usage: npm run backup -- <backup-file>\n");
@@ -10,6 +13,7 @@ if (!target || target.startsWith("-")) {
 try {
   loadEnvFileIfPresent();
   const config = loadConfig(process.env);
+  if (config.DATABASE_URL) throw new Error("DATABASE_URL is set: the store is PostgreSQL; back it up with pg_dump (see the README)");
   const outcome = await backupDatabase(config.DATABASE_PATH, target);
   process.stdout.write(`${outcome.file}\n`);
 } catch (err) {

@@ -2,11 +2,12 @@ import { parseArgs } from "node:util";
 import { issueKey, organisationNamed } from "../src/auth/bootstrap.js";
 import { ROLES, type Role } from "../src/auth/keys.js";
 import { loadConfig, loadEnvFileIfPresent } from "../src/config.js";
-import { DEFAULT_ORG_ID, openStore } from "../src/store/store.js";
+import { openStore, storeLocation } from "../src/store/open.js";
+import { DEFAULT_ORG_ID } from "../src/store/ports.js";
 
 /**
  * npm run keys -- create --role <admin|surveyor|auditor> [--org <name>] [--label <text>]
- * Works offline on DATABASE_PATH (migrated first). --org names an organisation, created when new; without it
+ * Works offline on the configured store (DATABASE_URL or DATABASE_PATH; migrated first). --org names an organisation, created when new; without it
  * the key belongs to the first organisation. The key is printed once, alone on the last line; only its hash is stored.
  */
 const USAGE = `usage: npm run keys -- create --role <${ROLES.join("|")}> [--org <organisation name>] [--label <text>]\n`;
@@ -43,17 +44,25 @@ try {
   fail((err as Error).message);
 }
 try {
-  const store = openStore({ path: config.DATABASE_PATH });
+  const store = await openStore({
+    databaseUrl: config.DATABASE_URL,
+    databasePath: config.DATABASE_PATH,
+    poolSize: 1,
+    statementTimeoutMs: config.DATABASE_STATEMENT_TIMEOUT_MS,
+    sslMode: config.DATABASE_SSL_MODE,
+  });
   try {
-    const org = orgName ? organisationNamed(store, orgName) : { id: DEFAULT_ORG_ID, name: store.keys.organisation(DEFAULT_ORG_ID)?.name ?? DEFAULT_ORG_ID, created: false };
-    const issued = issueKey(store, { orgId: org.id, role, label, createdBy: "cli" });
+    const org = orgName
+      ? await organisationNamed(store, orgName)
+      : { id: DEFAULT_ORG_ID, name: (await store.keys.organisation(DEFAULT_ORG_ID))?.name ?? DEFAULT_ORG_ID, created: false };
+    const issued = await issueKey(store, { orgId: org.id, role, label, createdBy: "cli" });
     process.stdout.write(
       `${org.created ? "created organisation" : "organisation"} "${org.name}" (${org.id})\n` +
         `created ${role} key ${issued.record.id}; it is shown this once, store it now:\n${issued.key}\n`,
     );
   } finally {
-    store.close();
+    await store.close();
   }
 } catch (err) {
-  fail(`keys: ${(err as Error).message}`, 1);
+  fail(`keys (${storeLocation({ databaseUrl: config.DATABASE_URL, databasePath: config.DATABASE_PATH })}): ${(err as Error).message}`, 1);
 }

@@ -1,8 +1,8 @@
-import { InputRejected } from "./application/errors.js";
+import { Conflict, FieldRejected, InputRejected, NotFound } from "./application/errors.js";
 import { engineIssuesTo400 } from "./http/validate.js";
 import { randomUUID } from "node:crypto";
 import Fastify, { type FastifyInstance, type FastifyServerOptions } from "fastify";
-import type { Config } from "./config.js";
+import { trustProxyOf, type Config } from "./config.js";
 import { seedDemo } from "./demo/seed.js";
 import { bootstrapAdminKey } from "./auth/bootstrap.js";
 import { installActor } from "./http/actor.js";
@@ -19,10 +19,12 @@ import { reportRoutes } from "./http/routes/reports.js";
 import { surveyReadRoutes } from "./http/routes/survey-reads.js";
 import { surveysRoutes } from "./http/routes/surveys.js";
 import { bankHealthRoutes } from "./http/routes/bank-health.js";
-import { problem, ProblemError, sendProblem } from "./http/problem.js";
+import { notFound, problem, ProblemError, sendProblem, validationProblem } from "./http/problem.js";
 import { problemsRoutes } from "./http/routes/problems.js";
 import { MAX_PARAM_CHARS, noRouteHandler, routerErrorHandler } from "./http/routing.js";
-import { openStore, type Store } from "./store/store.js";
+import { openStore } from "./store/open.js";
+import type { Store } from "./store/ports.js";
+import { readyAnswer } from "./http/readiness.js";
 
 declare module "fastify" {
   interface FastifyInstance {
@@ -35,7 +37,7 @@ export interface AppOptions {
   config: Config;
   /** pino options or false; tests pass false or a silent level. */
   logger?: FastifyServerOptions["logger"];
-  /** An already-open store (the app takes ownership and closes it); otherwise config.DATABASE_PATH is opened. */
+  /** An already-open store (the app takes ownership and closes it); otherwise the configured one is opened (src/store/open.ts). */
   store?: Store;
   /** Migrations directory, for tests; the project's migrations/ by default. */
   migrationsDir?: string;
@@ -58,18 +60,22 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   const { config } = options;
   const store =
     options.store ??
-    openStore({
-      path: config.DATABASE_PATH,
+    (await openStore({
+      databaseUrl: config.DATABASE_URL,
+      databasePath: config.DATABASE_PATH,
+      poolSize: config.DATABASE_POOL_SIZE,
+      statementTimeoutMs: config.DATABASE_STATEMENT_TIMEOUT_MS,
+      sslMode: config.DATABASE_SSL_MODE,
       ...(options.migrationsDir ? { migrationsDir: options.migrationsDir } : {}),
       ...(options.now ? { now: options.now } : {}),
-    });
+    }));
   try {
-    if (config.DEMO_DATA === "on") seedDemo(store);
-    const boot = bootstrapAdminKey(store, config.PFC_BOOTSTRAP_KEY);
+    if (config.DEMO_DATA === "on") await seedDemo(store);
+    const boot = await bootstrapAdminKey(store, config.PFC_BOOTSTRAP_KEY);
     if (boot.generated) (options.onGeneratedKey ?? printKey)(boot.generated);
     return await assemble(options, store);
   } catch (err) {
-    store.close();
+    await store.close();
     throw err;
   }
 }
@@ -79,6 +85,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
   const app = Fastify({
     ...(options.https ? { https: options.https } : {}),
     logger: options.logger ?? { level: config.LOG_LEVEL, redact: ["req.headers.authorization"] },
+    trustProxy: trustProxyOf(config.TRUST_PROXY),
     bodyLimit: config.BODY_LIMIT_BYTES,
     requestTimeout: config.REQUEST_TIMEOUT_MS,
     connectionTimeout: config.REQUEST_TIMEOUT_MS,
@@ -100,6 +107,13 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
   app.setErrorHandler((error: Error & { code?: string; statusCode?: number }, request, reply) => {
     if (error instanceof ProblemError) return sendProblem(reply.headers(error.headers), error.problem);
     if (error instanceof InputRejected) return sendProblem(reply, engineIssuesTo400(error.issues).problem);
+    if (error instanceof NotFound) return sendProblem(reply, notFound(error.what));
+    if (error instanceof FieldRejected) return sendProblem(reply, validationProblem([{ path: error.path, message: error.message }]));
+    if (error instanceof Conflict) {
+      const errors = error.path ? [{ path: error.path, message: error.message }] : undefined;
+      if (error.reason === "last_admin_key") return sendProblem(reply, problem(409, "last-admin-key", "Conflict", error.message, errors));
+      return sendProblem(reply, problem(409, "write-conflict", "Changed while being written", error.message, errors));
+    }
     const status = error.statusCode ?? 500;
     if (error.code === "FST_ERR_CTP_BODY_TOO_LARGE" || status === 413) {
       const limit = request.routeOptions?.bodyLimit ?? config.BODY_LIMIT_BYTES;
@@ -126,6 +140,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
   await installSecurity(app, config);
 
   app.get("/health", async () => ({ status: "ok" }));
+  app.get("/ready", async (_request, reply) => readyAnswer(reply, await store.readiness()));
   await app.register(sizingRoutes);
   await app.register(intervalAnalysesRoutes, { store });
   await app.register(harmonicsRoutes);

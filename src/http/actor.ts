@@ -1,6 +1,7 @@
 import type { FastifyInstance, FastifyRequest } from "fastify";
 import { parseKey, secretMatches, type Role } from "../auth/keys.js";
-import type { Store } from "../store/store.js";
+import type { Who } from "../application/write-outcome.js";
+import type { Store } from "../store/ports.js";
 import { allowedRoles } from "./access.js";
 import { problem, ProblemError } from "./problem.js";
 
@@ -37,21 +38,24 @@ function decoded(path: string): string {
   }
 }
 
-function authenticate(store: Store, request: FastifyRequest): Actor | string {
+async function authenticate(store: Store, request: FastifyRequest): Promise<Actor | string> {
   const header = request.headers.authorization;
   if (header === undefined) return "the request has no Authorization header; send Authorization: Bearer <API key>";
   const m = /^Bearer +(\S+)\s*$/i.exec(header);
   if (!m) return "the Authorization header must be Bearer <API key>";
   const parsed = parseKey(m[1] as string);
   if (!parsed) return "the API key is not valid";
-  const row = store.keys.findByPrefix(parsed.prefix);
+  const row = await store.keys.findByPrefix(parsed.prefix);
   // Hash and compare in constant time even when the prefix is unknown (against a dummy hash).
   const ok = secretMatches(parsed.secret, row?.secretSha256);
   if (!ok || !row) return "the API key is not valid";
   if (row.revokedAt) return "the API key is not valid";
-  store.keys.touch(row, store.now());
+  await store.keys.touch(row, store.now());
   return { orgId: row.orgId, actorId: row.id, role: row.role };
 }
+
+/** The acting key, its organisation and the request: what a use case records. */
+export const whoOf = (request: FastifyRequest): Who => ({ orgId: request.actor.orgId, actorId: request.actor.actorId, requestId: request.id });
 
 const unauthorized = (detail: string) =>
   new ProblemError(problem(401, "unauthorized", "Authentication required", detail), { "www-authenticate": 'Bearer realm="pfc-sizing"' });
@@ -65,7 +69,7 @@ export function installActor(app: FastifyInstance, store: Store): void {
   app.decorateRequest("authFailure", null);
   app.addHook("onRequest", async (request) => {
     if (!needsKey(request)) return;
-    const who = authenticate(store, request);
+    const who = await authenticate(store, request);
     if (typeof who === "string") request.authFailure = who;
     else request.actor = who;
   });

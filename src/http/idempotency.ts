@@ -1,18 +1,20 @@
 import { createHash } from "node:crypto";
 import type { FastifyReply, FastifyRequest } from "fastify";
-import type { Store } from "../store/store.js";
+import { canonicalJson } from "../application/canonical-json.js";
+import { noSeal, type Seal, type WriteOutcome } from "../application/write-outcome.js";
+import type { Store } from "../store/ports.js";
 import { problem, ProblemError, validationProblem } from "./problem.js";
-
-/** What a write answers; stored whole under its Idempotency-Key. */
-export interface WriteOutcome {
-  status: number;
-  body: unknown;
-  location?: string;
-}
 
 /** How long a key answers replays: for KEEP_HOURS after its first use; older records are deleted lazily. */
 export const KEEP_HOURS = 48;
 const KEEP_MS = KEEP_HOURS * 3600_000;
+/**
+ * A claim never completed is taken over after this lease: its instance died mid-request (a live request ends
+ * within REQUEST_TIMEOUT_MS, 30 s by default). Until then a second request with the key gets 409 + Retry-After.
+ */
+export const CLAIM_LEASE_MS = 30_000;
+/** Retry-After of a 409 while the key's first request is in flight: a survey is sized and stored in well under this. */
+const IN_FLIGHT_RETRY_AFTER_S = 1;
 const PURGE_EVERY_MS = 10 * 60_000;
 const lastPurge = new WeakMap<Store, number>();
 
@@ -43,73 +45,77 @@ function unquoted(value: string): string | undefined {
   return m ? (m[1] as string).replace(/\\(["\\])/g, "$1") : undefined;
 }
 
-/** JSON with object keys sorted at every level, so equal bodies hash equally whatever their key order. */
-export function canonicalJson(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(",")}]`;
-  if (value !== null && typeof value === "object") {
-    const entries = Object.entries(value as Record<string, unknown>)
-      .filter(([, v]) => v !== undefined)
-      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
-    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(",")}}`;
-  }
-  return JSON.stringify(value) ?? "null";
-}
-
 export function requestHash(method: string, url: string, body: unknown): string {
   return createHash("sha256").update(`${method.toUpperCase()} ${url}\n${canonicalJson(body ?? null)}`).digest("hex");
 }
 
-function purgeNowAndThen(store: Store, nowMs: number): void {
+async function purgeNowAndThen(store: Store, nowMs: number): Promise<void> {
   if (nowMs - (lastPurge.get(store) ?? 0) < PURGE_EVERY_MS) return;
   lastPurge.set(store, nowMs);
-  store.idempotency.purgeBefore(new Date(nowMs - KEEP_MS).toISOString());
+  await store.idempotency.purgeBefore(new Date(nowMs - KEEP_MS).toISOString());
+}
+
+function reused(key: string, firstAt: string): ProblemError {
+  const message = `Idempotency-Key "${key}" was first used at ${firstAt} with a different request; use a new key for a new request`;
+  return new ProblemError(problem(422, "idempotency-key-reused", "Idempotency-Key reused", message, [{ path: "headers.idempotency-key", message }]));
 }
 
 /**
- * Run a write in one transaction with its Idempotency-Key, if the request sent one: a replay
- * (same key, same method, URL and canonical body) answers the stored response and writes
- * nothing; the same key with another request is a 422. The key record commits with the write. `hashedBody` stands
- * for the body when that is a stream (a digest of what was read).
+ * Run a write with its Idempotency-Key, if the request sent one, by the store's claim protocol (IETF
+ * Idempotency-Key draft): the key is claimed first (committed, so every instance sees it); the work's transaction
+ * completes the claim with the answer (`seal`), or the claim is released when the work fails. The same key and
+ * request again: the stored answer (Idempotent-Replayed: true), or 409 with Retry-After while the first is still in
+ * flight; the same key with another request (method, URL, canonical body): 422. `hashedBody` stands for the body
+ * when that is a stream (a digest of what was read).
  */
-export function idempotentWrite(
+export async function idempotentWrite(
   store: Store,
   request: FastifyRequest,
   reply: FastifyReply,
-  write: () => WriteOutcome,
+  work: (seal: Seal) => Promise<WriteOutcome>,
   hashedBody: unknown = request.body,
-): unknown {
+): Promise<unknown> {
   const key = idempotencyKeyOf(request);
-  const { orgId } = request.actor;
-  const outcome = store.write(() => {
+  let outcome: WriteOutcome & { replayed?: boolean };
+  if (key === undefined) {
+    outcome = await work(noSeal);
+  } else {
+    const { orgId } = request.actor;
     const nowMs = store.now().getTime();
-    purgeNowAndThen(store, nowMs);
-    const hash = key === undefined ? "" : requestHash(request.method, request.url, hashedBody);
-    if (key !== undefined) {
-      const prior = store.idempotency.find(orgId, key);
-      if (prior && Date.parse(prior.createdAt) > nowMs - KEEP_MS) {
-        if (prior.requestHash !== hash) {
-          const message = `Idempotency-Key "${key}" was first used at ${prior.createdAt} with a different request; use a new key for a new request`;
-          throw new ProblemError(
-            problem(422, "idempotency-key-reused", "Idempotency-Key reused", message, [{ path: "headers.idempotency-key", message }]),
-          );
-        }
-        return { status: prior.status, body: JSON.parse(prior.responseJson) as unknown, location: prior.location ?? undefined, replayed: true };
+    await purgeNowAndThen(store, nowMs);
+    const hash = requestHash(request.method, request.url, hashedBody);
+    const createdAt = new Date(nowMs).toISOString();
+    const claim = await store.idempotency.claim(
+      orgId,
+      key,
+      { requestHash: hash, createdAt },
+      new Date(nowMs - KEEP_MS).toISOString(),
+      new Date(nowMs - CLAIM_LEASE_MS).toISOString(),
+    );
+    if (claim.kind === "done") {
+      if (claim.record.requestHash !== hash) throw reused(key, claim.record.createdAt);
+      const r = claim.record;
+      outcome = { status: r.status, body: JSON.parse(r.responseJson) as unknown, ...(r.location ? { location: r.location } : {}), replayed: true };
+    } else if (claim.kind === "in_flight") {
+      if (claim.claim.requestHash !== hash) throw reused(key, claim.claim.createdAt);
+      const message = `a request with Idempotency-Key "${key}" is still being worked; retry after ${IN_FLIGHT_RETRY_AFTER_S} s for its answer`;
+      throw new ProblemError(problem(409, "idempotency-key-in-flight", "Request with this Idempotency-Key in progress", message, [{ path: "headers.idempotency-key", message }]), {
+        "retry-after": String(IN_FLIGHT_RETRY_AFTER_S),
+      });
+    } else {
+      const seal: Seal = (tx, o) =>
+        tx.idempotency.complete(orgId, key, { requestHash: hash, status: o.status, location: o.location ?? null, responseJson: JSON.stringify(o.body), createdAt });
+      try {
+        outcome = { ...(await work(seal)), replayed: false };
+      } catch (err) {
+        await store.idempotency.release(orgId, key, hash);
+        throw err;
       }
     }
-    const fresh = write();
-    if (key !== undefined) {
-      store.idempotency.save(orgId, key, {
-        requestHash: hash,
-        status: fresh.status,
-        location: fresh.location ?? null,
-        responseJson: JSON.stringify(fresh.body),
-        createdAt: new Date(nowMs).toISOString(),
-      });
-    }
-    return { ...fresh, replayed: false };
-  });
+  }
   reply.code(outcome.status);
   if (outcome.location) reply.header("location", outcome.location);
   if (key !== undefined) reply.header("idempotent-replayed", String(outcome.replayed));
   return outcome.body;
 }
+export { canonicalJson };

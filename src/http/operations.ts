@@ -1,7 +1,7 @@
 import type { z } from "zod";
 import { storeOperations } from "./operations-store.js";
 import { harmonicScanRequestSchema } from "./schemas/harmonics.js";
-import { harmonicScanResultSchema, healthSchema, sizingWithHarmonicsSchema } from "./schemas/results.js";
+import { harmonicScanResultSchema, healthSchema, readySchema, sizingWithHarmonicsSchema } from "./schemas/results.js";
 import { sizingRequestSchema } from "./schemas/sizing.js";
 import { intervalOperation } from "./interval/schema.js";
 
@@ -31,6 +31,16 @@ export const operations: Operation[] = [
     tags: ["service"],
     responses: { "200": { description: "the service is up", schema: healthSchema } },
     problems: [],
+  },
+  {
+    method: "get",
+    path: "/ready",
+    operationId: "ready",
+    summary: "Readiness check: the database answers and its schema is current",
+    description: "For a load balancer: 200 when this instance can serve; 503 problem+json (with Retry-After) when its database cannot be reached or its migrations are not this build's. Not rate-limited, no key.",
+    tags: ["service"],
+    responses: { "200": { description: "ready to serve", schema: readySchema } },
+    problems: [503],
   },
   {
     method: "get",

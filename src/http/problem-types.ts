@@ -108,6 +108,24 @@ export const PROBLEM_TYPES = {
     means: "The Idempotency-Key was already used, within the time keys are kept, for a request with another method, URL or body. The first request's answer stands.",
     todo: "Use a new key for a new request; repeat a key only to retry exactly the same request.",
   },
+  "idempotency-key-in-flight": {
+    title: "Request with this Idempotency-Key in progress",
+    status: "409",
+    means: "A request with the same Idempotency-Key is still being worked (by this or another instance of the service); its answer is not known yet.",
+    todo: "Retry the same request after the seconds given in Retry-After: you will get the first request's answer.",
+  },
+  "write-conflict": {
+    title: "Changed while being written",
+    status: "409",
+    means: "The building or survey changed (another revision, another building version) while this request was computed, twice in a row.",
+    todo: "Read the resource again and retry.",
+  },
+  "not-ready": {
+    title: "Not ready",
+    status: "503",
+    means: "The service cannot reach its database, or the database's schema is not the one this build expects (migrations pending or newer).",
+    todo: "Wait and retry; an operator should check the database and the service's log.",
+  },
   "csv-no-data": {
     title: "The upload has no data",
     status: "422",

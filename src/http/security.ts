@@ -1,7 +1,8 @@
 import cors from "@fastify/cors";
 import helmet from "@fastify/helmet";
 import rateLimit from "@fastify/rate-limit";
-import type { FastifyInstance } from "fastify";
+import type { FastifyInstance, FastifyRequest } from "fastify";
+import { Redis } from "ioredis";
 import { corsOrigins, type Config } from "../config.js";
 import { problem, ProblemError } from "./problem.js";
 
@@ -14,10 +15,15 @@ export const HELMET_OPTIONS = {
   contentSecurityPolicy: { useDefaults: false, directives: { defaultSrc: ["'none'"], frameAncestors: ["'none'"], baseUri: ["'none'"], formAction: ["'none'"] } },
 } as const;
 
+/** Probes a load balancer polls: never rate-limited. */
+const UNLIMITED: ReadonlySet<string> = new Set(["/health", "/ready"]);
+
 /**
  * Security headers (helmet, CSP default-src 'none' for the JSON API), CORS for the configured origins
  * and the rate limit per API key (per IP address for requests without a valid key). Registered after the
- * actor hook, so the limiter's key generator sees the key id.
+ * actor hook, so the limiter's key generator sees the key id. With REDIS_URL the counts live in Redis and hold
+ * across instances (the plugin's own Redis store; if Redis fails, requests pass rather than fail); without it each
+ * instance counts alone. /health and /ready are never limited: a load balancer polls them.
  */
 export async function installSecurity(app: FastifyInstance, config: Config): Promise<void> {
   await app.register(helmet, { global: true, ...HELMET_OPTIONS });
@@ -35,8 +41,17 @@ export async function installSecurity(app: FastifyInstance, config: Config): Pro
     maxAge: 600,
   });
 
+  const redis = config.REDIS_URL ? new Redis(config.REDIS_URL, { connectTimeout: 2000, maxRetriesPerRequest: 1, enableOfflineQueue: false }) : undefined;
+  if (redis) {
+    redis.on("error", (err: Error) => app.log.warn({ err }, "rate-limit store (Redis) error"));
+    app.addHook("onClose", async () => {
+      await redis.quit().catch(() => redis.disconnect());
+    });
+  }
   await app.register(rateLimit, {
     global: true,
+    ...(redis ? { redis, nameSpace: "pfc-sizing-rate:", skipOnError: true } : {}),
+    allowList: (request: FastifyRequest) => UNLIMITED.has(request.url.split("?")[0] ?? ""),
     hook: "onRequest",
     max: config.RATE_LIMIT_PER_MINUTE,
     timeWindow: 60_000,

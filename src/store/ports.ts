@@ -1,22 +1,32 @@
-import type { AuditEvent } from "./audit-repo.js";
-import type { BuildingListQuery } from "./buildings-repo.js";
-import type { IdempotencyRecord } from "./idempotency-repo.js";
-import type { NewIntervalAnalysis } from "./interval-analyses-repo.js";
-import type { ApiKeyRecord, Organisation } from "./keys-repo.js";
-import type { SurveyResultRow } from "./bank-health-repo.js";
-import type { SurveyPageQuery, SurveyRange } from "./surveys-repo.js";
 import type {
+  ApiKeyRecord,
   AuditEntry,
+  AuditEvent,
   BuildingData,
+  BuildingListQuery,
   BuildingRecord,
   BuildingVersion,
+  IdempotencyRecord,
   IntervalAnalysisListEntry,
   IntervalAnalysisRecord,
+  NewIntervalAnalysis,
   NewRevision,
+  Organisation,
   RevisionListEntry,
   RevisionRecord,
   SurveyHead,
+  SurveyPageQuery,
+  SurveyRange,
+  SurveyResultRow,
 } from "./types.js";
+
+export type { ApiKeyRecord, AuditEvent, BuildingListQuery, IdempotencyRecord, NewIntervalAnalysis, Organisation, SurveyPageQuery, SurveyRange, SurveyResultRow };
+
+/** The first organisation (created by the first migration); the bootstrap admin key belongs to it. */
+export const DEFAULT_ORG_ID = "org_default";
+
+/** A key's last-used time is written at most once a minute, to spare writes. */
+export const LAST_USED_EVERY_MS = 60_000;
 
 /**
  * The store as the rest of the service sees it: async repositories and `transaction(fn)`. Two implementations,

@@ -8,6 +8,7 @@ import type {
 import type { IntervalSummary } from "../core/interval/summary.js";
 import type { EconomicsSettings } from "../core/economics/of-sizing.js";
 import type { SizingResult } from "../core/pipeline/size.js";
+import type { Role } from "../auth/keys.js";
 
 /** Records as the store hands them out. Inputs and results are kept apart, as they are stored. */
 
@@ -145,4 +146,74 @@ export interface AuditEntry {
   resourceId: string;
   requestId: string | null;
   at: string;
+}
+
+/** What a write records in the audit log; the stored entry adds its row id. */
+export interface AuditEvent extends Omit<AuditEntry, "id"> {
+  orgId: string;
+}
+
+export interface BuildingListQuery {
+  /** Substring of the name, case-insensitive (ASCII). */
+  q?: string;
+  /** Keyset position: the (name, id) of the last item of the previous page. */
+  after?: { name: string; id: string };
+  limit: number;
+}
+
+/** The first response to an Idempotency-Key, per organisation. */
+export interface IdempotencyRecord {
+  requestHash: string;
+  status: number;
+  location: string | null;
+  responseJson: string;
+  createdAt: string;
+}
+
+export interface NewIntervalAnalysis {
+  id: string;
+  buildingId: string;
+  createdAt: string;
+  actor: string;
+  requestId: string | null;
+  summary: IntervalSummary;
+}
+
+export interface ApiKeyRecord {
+  id: string;
+  orgId: string;
+  prefix: string;
+  secretSha256: string;
+  role: Role;
+  label: string | null;
+  createdAt: string;
+  createdBy: string;
+  revokedAt: string | null;
+  lastUsedAt: string | null;
+}
+
+export interface Organisation {
+  id: string;
+  name: string;
+  createdAt: string;
+}
+
+/** A survey's latest revision's result and building snapshot: for series read from results (bank health). */
+export interface SurveyResultRow {
+  surveyId: string;
+  surveyedAt: string;
+  result: SizingResult;
+  building: BuildingSnapshot;
+}
+
+export interface SurveyRange {
+  /** Inclusive UTC bounds (ISO strings), either may be absent. */
+  fromUtc?: string;
+  toUtc?: string;
+}
+
+export interface SurveyPageQuery extends SurveyRange {
+  /** Keyset position, newest-first order: the last item of the previous page. */
+  before?: { t: string; id: string };
+  limit: number;
 }

@@ -61,7 +61,7 @@ describe("GET /v1/buildings/{id}/bank-health", () => {
 
   it("answers 404 for another organisation's building", async () => {
     const b = (await post("/v1/buildings", buildingBody({ name: "Private hall", installedBanks: [bank] }))).json();
-    const other = keyFor(app, "auditor", organisationNamed(app.store, "Other org").id);
+    const other = await keyFor(app, "auditor", (await organisationNamed(app.store, "Other org")).id);
     const res = await app.inject({ method: "GET", url: `/v1/buildings/${b.id}/bank-health`, headers: { authorization: `Bearer ${other}` } });
     expect(res.statusCode).toBe(404);
   });

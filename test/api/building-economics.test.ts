@@ -2,7 +2,7 @@ import type { FastifyInstance } from "fastify";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { size } from "../../src/core/pipeline/size.js";
 import { engineInputOf } from "../../src/application/survey-sizing.js";
-import type { Store } from "../../src/store/store.js";
+import type { Store } from "../../src/store/ports.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { expectClose } from "../helpers/tolerance.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
@@ -88,16 +88,16 @@ describe("a building's economics", () => {
   it("an unchanged economics PATCH writes no version (key order does not matter)", async () => {
     const b = (await postBuilding(buildingBody({ name: "Same tariff hall", economics: kvaTariff }))).json();
     const reordered = { cost: { fixed: 2000, perKvar: 40 }, tariff: { chargePerKVA: 8, form: "kva_demand" }, currency: "EUR" };
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const res = await patch(b.id, { economics: reordered });
     expect(res.statusCode).toBe(200);
     expect(res.json().version).toBe(1);
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
   });
 
   it("bad economics: 400 naming the fields, on POST and PATCH, and nothing written", async () => {
     const b = (await postBuilding(buildingBody({ name: "Bad tariff hall" }))).json();
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const bad = { currency: "euro", tariff: { form: "kva_demand", chargePerKVA: -1 }, operatingHoursPerMonth: 800 };
     for (const res of [await postBuilding(buildingBody({ name: "Never stored", economics: bad })), await patch(b.id, { economics: bad })]) {
       expect(res.statusCode).toBe(400);
@@ -108,7 +108,7 @@ describe("a building's economics", () => {
     const unknownForm = await patch(b.id, { economics: { currency: "EUR", tariff: { form: "flat" } } });
     expect(unknownForm.statusCode).toBe(400);
     expect(unknownForm.json().errors[0].path).toBe("economics.tariff.form");
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
     expect((await inject(app, `/v1/buildings/${b.id}`)).json()).toMatchObject({ version: 1, economics: null });
   });
 });

@@ -1,6 +1,6 @@
 import type { FastifyInstance } from "fastify";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Store } from "../../src/store/store.js";
+import type { Store } from "../../src/store/ports.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody } from "../store/fixtures.js";
 import { inject, keyIdOf } from "../helpers/auth.js";
@@ -42,14 +42,14 @@ describe("POST /v1/buildings", () => {
   });
 
   it("answers 400 naming each bad field, and writes nothing", async () => {
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const res = await post({ name: "", system: { voltageV: 10, frequencyHz: 55, phases: 2 }, transformer: { kVA: -1, impedancePct: 5 }, extra: 1 });
     expect(res.statusCode).toBe(400);
     expect(res.headers["content-type"]).toMatch(/^application\/problem\+json/);
     const paths = res.json().errors.map((e: { path: string }) => e.path);
     expect(paths).toEqual(expect.arrayContaining(["name", "system.voltageV", "system.frequencyHz", "system.phases", "transformer.kVA", "extra"]));
     expect(res.json().errors.find((e: { path: string }) => e.path === "system.frequencyHz").message).toBe("frequencyHz must be 50 or 60");
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
   });
 });
 
@@ -133,23 +133,23 @@ describe("GET/PATCH /v1/buildings/{id} and history", () => {
 
   it("writes no new version when a PATCH changes nothing", async () => {
     const created = (await post(buildingBody({ name: "Same hall" }))).json();
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const res = await patch(created.id, { name: "Same hall", system: { phases: 3, frequencyHz: 50, voltageV: 400 } });
     expect(res.statusCode).toBe(200);
     expect(res.json()).toEqual(created);
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
   });
 
   it("refuses an empty or bad PATCH with 400 and changes nothing", async () => {
     const created = (await post(buildingBody({ name: "Patch guard hall" }))).json();
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const empty = await patch(created.id, {});
     expect(empty.statusCode).toBe(400);
     expect(empty.json().detail).toMatch(/at least one field/);
     const bad = await patch(created.id, { system: { voltageV: 400, frequencyHz: 50 }, name: null, colour: "red" });
     expect(bad.statusCode).toBe(400);
     expect(bad.json().errors.map((e: { path: string }) => e.path)).toEqual(expect.arrayContaining(["system.phases", "name", "colour"]));
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
     expect((await inject(app, `/v1/buildings/${created.id}`)).json()).toEqual(created);
   });
 

@@ -3,12 +3,13 @@ import fc from "fast-check";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { organisationNamed } from "../../src/auth/bootstrap.js";
 import { operations, type Operation } from "../../src/http/operations.js";
-import type { Store } from "../../src/store/store.js";
+import type { Store } from "../../src/store/ports.js";
 import { csvOfSeries, syntheticYear } from "../core/interval/fixtures.js";
 import { inject, keyFor, keyIdOf } from "../helpers/auth.js";
 import { exampleSizingBody } from "../helpers/bodies.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
+import { sqliteStore } from "../helpers/store.js";
 
 /**
  * Property-based fuzzing of every route (src/http/operations.ts plus the report pages): random or mutated
@@ -39,11 +40,11 @@ beforeAll(async () => {
   ids.building = b.id;
   ids.interval = (await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/interval-analyses`, headers: { "content-type": "text/csv" }, payload: week })).json().id;
   ids.survey = (await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/surveys`, payload: surveyBody() })).json().id;
-  const spare = keyFor(app, "auditor");
+  const spare = await keyFor(app, "auditor");
   ids.key = keyIdOf(app, spare);
-  const other = keyFor(app, "admin", organisationNamed(store, "Fuzz other").id);
+  const other = await keyFor(app, "admin", (await organisationNamed(store, "Fuzz other")).id);
   // 0: the admin key (inject adds it); 1 and 7: no key or a junk header; then malformed, another organisation's, each role.
-  keys.push(undefined, undefined, "Bearer", "junk", other, keyFor(app, "surveyor"), keyFor(app, "auditor"), undefined);
+  keys.push(undefined, undefined, "Bearer", "junk", other, await keyFor(app, "surveyor"), await keyFor(app, "auditor"), undefined);
 });
 afterAll(() => app.close());
 
@@ -108,11 +109,11 @@ const headerArb = fc.record({
 });
 
 /** Row counts, plus the columns an UPDATE can change (building versions, latest revisions, revocations). */
-function fingerprint(): string {
-  const changed = store.db
+async function fingerprint(): Promise<string> {
+  const changed = sqliteStore(store).db
     .prepare("SELECT (SELECT total(version) FROM buildings) AS v, (SELECT total(latest_revision) FROM surveys) AS r, (SELECT count(revoked_at) FROM api_keys) AS k")
     .get();
-  return JSON.stringify([rowCounts(store), changed]);
+  return JSON.stringify([await rowCounts(store), changed]);
 }
 
 describe("fuzzing every route", () => {
@@ -127,7 +128,7 @@ describe("fuzzing every route", () => {
         if (body.type) headers["content-type"] = body.type;
         if (h.idem !== undefined) headers["idempotency-key"] = h.idem;
         if (h.extra) headers[h.extra[0]] = h.extra[1];
-        const before = fingerprint();
+        const before = await fingerprint();
         const method = r.method.toUpperCase() as "GET";
         const res = admin
           ? await inject(app, { method, url, headers, ...(body.payload === undefined || method === "GET" ? {} : { payload: body.payload }) })
@@ -136,7 +137,7 @@ describe("fuzzing every route", () => {
         expect(res.statusCode, `${res.statusCode} for ${shown}: ${res.body.slice(0, 300)}`).toBeLessThan(500);
         if (res.statusCode >= 400) {
           expect(res.headers["content-type"], shown).toMatch(/^application\/problem\+json/);
-          expect(fingerprint(), `a rejected ${shown} changed stored data`).toBe(before);
+          expect(await fingerprint(), `a rejected ${shown} changed stored data`).toBe(before);
         }
       }),
       { numRuns: perRoute, seed: SEED },

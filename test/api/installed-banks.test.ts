@@ -1,6 +1,6 @@
 import type { FastifyInstance } from "fastify";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Store } from "../../src/store/store.js";
+import type { Store } from "../../src/store/ports.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { inject } from "../helpers/auth.js";
 import { expectClose, TOL } from "../helpers/tolerance.js";
@@ -59,7 +59,7 @@ describe("installed banks through the API", () => {
 
   it("rejects bad readings with 400s naming the field, and stores nothing", async () => {
     const b = (await post("/v1/buildings", buildingBody({ name: "Reject hall", installedBanks: [wallBank] }))).json();
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const cases: [unknown, string][] = [
       [[{ bank: "Nope", inServiceSteps: [] }], "bankReadings.0.bank"],
       [[{ bank: "MSB-1 bank", inServiceSteps: [1, 7] }], "bankReadings.0.inServiceSteps.1"],
@@ -77,7 +77,7 @@ describe("installed banks through the API", () => {
     const dup = await post("/v1/buildings", buildingBody({ installedBanks: [wallBank, wallBank] }));
     expect(dup.statusCode).toBe(400);
     expect(dup.json().errors.map((e: { path: string }) => e.path)).toEqual(["installedBanks.1.label"]);
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
   });
 
   it("takes banks inline on /v1/sizing; phases on a single-phase system are a 400", async () => {

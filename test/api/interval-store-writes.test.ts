@@ -1,10 +1,11 @@
 import type { FastifyInstance } from "fastify";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Store } from "../../src/store/store.js";
+import type { Store } from "../../src/store/ports.js";
 import { csvOfSeries, syntheticYear } from "../core/interval/fixtures.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 import { api, inject } from "../helpers/auth.js";
+import { sqliteStore } from "../helpers/store.js";
 
 let app: FastifyInstance;
 let store: Store;
@@ -23,7 +24,7 @@ const twoDaysOther = csvOfSeries(syntheticYear(24, () => ({ kW: 250, kvar: 190 }
 const url = (b = buildingId, q = "") => `/v1/buildings/${b}/interval-analyses${q}`;
 const attach = (payload: string, headers: Record<string, string> = CSV, q = "", b = buildingId) =>
   inject(app, { method: "POST", url: url(b, q), headers, payload });
-const analysisRows = () => (store.db.prepare("SELECT count(*) AS n FROM interval_analyses").get() as { n: number }).n;
+const analysisRows = () => (sqliteStore(store).db.prepare("SELECT count(*) AS n FROM interval_analyses").get() as { n: number }).n;
 
 describe("rejected uploads change nothing", () => {
   const good = "time,kW,kvar\n2026-03-01 00:00,100,50\n2026-03-01 00:15,100,50\n2026-03-01 00:30,100,50\n";
@@ -36,20 +37,20 @@ describe("rejected uploads change nothing", () => {
     ["an unknown building", () => attach(good, CSV, "", "bld_nope"), 404, undefined],
     ["a bad Idempotency-Key", () => attach(good, { ...CSV, "idempotency-key": "bad key with spaces" }), 400, "headers.idempotency-key"],
   ])("%s", async (_what, send, status, path) => {
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const res = await send();
     expect(res.statusCode).toBe(status);
     expect(res.headers["content-type"]).toMatch(/^application\/problem\+json/);
     if (path) expect(res.json().errors.map((e: { path: string }) => e.path)).toContain(path);
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
   });
 
   it("a multipart form without a file", async () => {
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const res = await api(app).post(url()).field("targetPF", "0.9");
     expect(res.status).toBe(400);
     expect(res.body.errors[0].path).toBe("file");
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
   });
 });
 
@@ -71,12 +72,12 @@ describe("Idempotency-Key on uploads (digest of the bytes read)", () => {
   it("the same key with other bytes, another query or another form field is a 422", async () => {
     const headers = { ...CSV, "idempotency-key": "upload-2" };
     expect((await attach(twoDays, headers)).statusCode).toBe(201);
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const otherBytes = await attach(twoDaysOther, headers);
     expect(otherBytes.statusCode).toBe(422);
     expect(otherBytes.json().type).toMatch(/idempotency-key-reused$/);
     expect((await attach(twoDays, headers, "?targetPF=0.9")).statusCode).toBe(422);
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
 
     const form = (targetPF: string) =>
       api(app).post(url()).set("idempotency-key", "upload-3").field("targetPF", targetPF).attach("file", Buffer.from(twoDays), "d.csv");

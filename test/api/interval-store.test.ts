@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { intervalDemandOf } from "../../src/core/interval/stored-demand.js";
 import { size } from "../../src/core/pipeline/size.js";
 import { engineInputOf } from "../../src/application/survey-sizing.js";
-import type { Store } from "../../src/store/store.js";
+import type { Store } from "../../src/store/ports.js";
 import { csvOfSeries, syntheticYear } from "../core/interval/fixtures.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
@@ -84,11 +84,11 @@ describe("POST /v1/buildings/{id}/interval-analyses", () => {
     expect((await inject(app, "/v1/interval-analyses/iva_nope")).statusCode).toBe(404);
     expect((await inject(app, "/v1/buildings/bld_nope/interval-analyses")).statusCode).toBe(404);
     const at = new Date().toISOString();
-    const theirs = store.write(() => {
-      store.db.prepare("INSERT INTO organisations (id, name, created_at) VALUES ('org_x', 'Other org', ?)").run(at);
-      const b = store.buildings.create("org_x", "bld_x", { ...buildingBody(), address: null, notes: null, economics: null } as never, "x", at);
-      const summary = store.intervalAnalyses.get("org_default", store.intervalAnalyses.newestOf("org_default", buildingId)!.id)!.summary;
-      return store.intervalAnalyses.create("org_x", { id: "iva_x", buildingId: b.id, createdAt: at, actor: "x", requestId: null, summary });
+    const theirs = await store.transaction(async (tx) => {
+      await tx.keys.createOrganisation("org_x", "Other org", at);
+      const b = await tx.buildings.create("org_x", "bld_x", { ...buildingBody(), address: null, notes: null, economics: null } as never, "x", at);
+      const summary = (await tx.intervalAnalyses.get("org_default", (await tx.intervalAnalyses.newestOf("org_default", buildingId))!.id))!.summary;
+      return tx.intervalAnalyses.create("org_x", { id: "iva_x", buildingId: b.id, createdAt: at, actor: "x", requestId: null, summary });
     });
     const res = await inject(app, `/v1/interval-analyses/${theirs.id}`);
     expect(res.statusCode).toBe(404);
@@ -141,7 +141,7 @@ describe("surveys use the building's interval analyses", () => {
   it("400 at intervalAnalysisId for another building's or an unknown analysis, on surveys and revisions; nothing written", async () => {
     const theirs = (await attach(flatWeek, "", otherBuildingId)).json().id;
     const survey = (await postSurvey(surveyBody())).json();
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     for (const id of [theirs, "iva_unknown"]) {
       for (const res of [
         await postSurvey(surveyBody({ intervalAnalysisId: id })),
@@ -154,7 +154,7 @@ describe("surveys use the building's interval analyses", () => {
     }
     const empty = await postSurvey(surveyBody({ intervalAnalysisId: "" }));
     expect(empty.json().errors[0].path).toBe("intervalAnalysisId");
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
   });
 
   it("a building without analyses sizes from the readings", async () => {

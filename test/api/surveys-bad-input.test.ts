@@ -1,6 +1,6 @@
 import type { FastifyInstance } from "fastify";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Store } from "../../src/store/store.js";
+import type { Store } from "../../src/store/ports.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 import { inject } from "../helpers/auth.js";
@@ -19,7 +19,7 @@ afterAll(() => app.close());
 
 describe("rejected requests change nothing", () => {
   it("leaves every table's row count unchanged after a batch of bad requests, none a 500", async () => {
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const json = { "content-type": "application/json" };
     const implausible = surveyBody();
     implausible.loads[2] = { label: "x", kind: "lighting", measurement: { method: "v_i_kw", volts: 400, amps: 1, kW: 99 } } as never;
@@ -58,7 +58,7 @@ describe("rejected requests change nothing", () => {
       expect(p.status).toBe(res.statusCode);
     }
     expect(new Set(statuses)).toEqual(new Set([400, 404, 405, 413, 415, 422])); // 405: DELETE on a survey
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
   });
 });
 
@@ -67,7 +67,7 @@ describe("a reading far outside the system is a 400 and stores nothing (issue 11
     // hand: 120/400 = 0.3 < 0.4 → rejected; the building is 400 V three-phase (test/store/fixtures.ts)
     const far = surveyBody();
     (far.loads[0] as { measurement: Record<string, unknown> }).measurement = { method: "v_i_pf", volts: 120, amps: 80, pf: 0.78, sense: "lagging" };
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const read = await inject(app, { method: "GET", url: `/v1/surveys/${surveyId}` });
     expect(read.statusCode).toBe(200);
     const latestBefore = read.body;
@@ -80,7 +80,7 @@ describe("a reading far outside the system is a 400 and stores nothing (issue 11
       expect(res.headers["content-type"]).toMatch(/^application\/problem\+json/);
       expect(res.json().errors.map((e: { path: string }) => e.path)).toContain("loads.0.measurement.volts");
     }
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
     expect((await inject(app, { method: "GET", url: `/v1/surveys/${surveyId}` })).body).toBe(latestBefore);
   });
 

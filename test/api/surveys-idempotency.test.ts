@@ -1,9 +1,10 @@
 import type { FastifyInstance } from "fastify";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Store } from "../../src/store/store.js";
+import type { Store } from "../../src/store/ports.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 import { inject } from "../helpers/auth.js";
+import { sqliteStore } from "../helpers/store.js";
 
 let app: FastifyInstance;
 let store: Store;
@@ -19,7 +20,7 @@ afterAll(() => app.close());
 
 const postSurvey = (key: string, payload: unknown) =>
   inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: payload as object, headers: { "idempotency-key": key } });
-const surveyCount = () => (store.db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
+const surveyCount = () => (sqliteStore(store).db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
 
 describe("Idempotency-Key", () => {
   it("same key and same body: one survey, the first response again", async () => {
@@ -27,7 +28,7 @@ describe("Idempotency-Key", () => {
     const first = await postSurvey("k-same", surveyBody());
     expect(first.statusCode).toBe(201);
     expect(first.headers["idempotent-replayed"]).toBe("false");
-    const counts = rowCounts(store);
+    const counts = await rowCounts(store);
     // same content, keys in another order
     const { loads, ...rest } = surveyBody();
     const second = await postSurvey("k-same", { loads, ...Object.fromEntries(Object.entries(rest).reverse()) });
@@ -35,18 +36,18 @@ describe("Idempotency-Key", () => {
     expect(second.headers["idempotent-replayed"]).toBe("true");
     expect(second.headers.location).toBe(first.headers.location);
     expect(second.json()).toEqual(first.json());
-    expect(rowCounts(store)).toEqual(counts);
+    expect(await rowCounts(store)).toEqual(counts);
     expect(surveyCount()).toBe(n + 1);
   });
 
   it("same key with a different body: 422 problem, nothing written", async () => {
     await postSurvey("k-diff", surveyBody());
-    const counts = rowCounts(store);
+    const counts = await rowCounts(store);
     const res = await postSurvey("k-diff", surveyBody({ surveyor: "Someone else" }));
     expect(res.statusCode).toBe(422);
     expect(res.headers["content-type"]).toMatch(/^application\/problem\+json/);
     expect(res.json()).toMatchObject({ status: 422, errors: [{ path: "headers.idempotency-key" }] });
-    expect(rowCounts(store)).toEqual(counts);
+    expect(await rowCounts(store)).toEqual(counts);
   });
 
   it("the same key on another route is another request (422)", async () => {
@@ -95,19 +96,19 @@ describe("Idempotency-Key", () => {
     expect(fresh.json().id).not.toBe(first.json().id);
     expect(surveyCount()).toBe(n + 1);
     // lazily purged: records older than 48 h are gone
-    const old = store.db.prepare("SELECT count(*) AS n FROM idempotency_keys WHERE created_at < ?").get(new Date(clock - 48 * HOUR).toISOString()) as { n: number };
+    const old = sqliteStore(store).db.prepare("SELECT count(*) AS n FROM idempotency_keys WHERE created_at < ?").get(new Date(clock - 48 * HOUR).toISOString()) as { n: number };
     expect(old.n).toBe(0);
   });
 
   it('takes the draft\'s quoted form: "k1" is the key k1, escapes undone', async () => {
     const bare = await postSurvey("k-quoted", surveyBody());
     expect(bare.statusCode).toBe(201);
-    const counts = rowCounts(store);
+    const counts = await rowCounts(store);
     const quoted = await postSurvey('"k-quoted"', surveyBody());
     expect(quoted.statusCode).toBe(201);
     expect(quoted.headers["idempotent-replayed"]).toBe("true");
     expect(quoted.json().id).toBe(bare.json().id);
-    expect(rowCounts(store)).toEqual(counts);
+    expect(await rowCounts(store)).toEqual(counts);
     // the other way round, with RFC 8941 escapes: "a\"b\\c" is the key a"b\c
     const first = await postSurvey('"a\\"b\\\\c"', surveyBody({ surveyor: "escaped" }));
     const again = await postSurvey('a"b\\c', surveyBody({ surveyor: "escaped" }));

@@ -2,7 +2,7 @@ import type { FastifyInstance } from "fastify";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { size } from "../../src/core/pipeline/size.js";
 import { ENGINE_VERSION } from "../../src/core/pipeline/engine-version.js";
-import type { Store } from "../../src/store/store.js";
+import type { Store } from "../../src/store/ports.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 import { inject, keyIdOf } from "../helpers/auth.js";
@@ -73,13 +73,13 @@ describe("POST /v1/buildings/{id}/surveys", () => {
   });
 
   it("answers engine plausibility issues with 400 at the field's path, storing nothing", async () => {
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     const body = surveyBody();
     body.loads[1] = { label: "Bad meter", kind: "motor", quantity: 1, measurement: { method: "kw_kva", kW: 50, kVA: 25 } };
     const res = await postSurvey(body);
     expect(res.statusCode).toBe(400);
     expect(res.json().errors).toEqual([{ path: "loads.1.measurement.kW", message: expect.stringMatching(/kW exceeds kVA/) }]);
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
   });
 
   it("answers schema errors with 400 naming each path", async () => {
@@ -134,13 +134,13 @@ describe("revisions", () => {
 
   it("requires a reason", async () => {
     const created = (await postSurvey(surveyBody())).json();
-    const before = rowCounts(store);
+    const before = await rowCounts(store);
     for (const reason of [undefined, "", "   "]) {
       const res = await revise(created.id, { ...surveyBody(), ...(reason === undefined ? {} : { reason }) });
       expect(res.statusCode).toBe(400);
       expect(res.json().errors[0]).toMatchObject({ path: "reason", message: expect.stringMatching(/reason/) });
     }
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store)).toEqual(before);
   });
 
   it("404s unknown surveys and revisions, 400s a revision number that is not one", async () => {

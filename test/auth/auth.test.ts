@@ -5,6 +5,7 @@ import { generateKey } from "../../src/auth/keys.js";
 import { api, bearer, inject, keyFor } from "../helpers/auth.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
+import { sqliteStore } from "../helpers/store.js";
 
 let app: FastifyInstance;
 let adminKey: string;
@@ -32,12 +33,12 @@ describe("authentication", () => {
       [bearer(generateKey().key), /not valid/],
       [bearer(known + generateKey().key.slice(13)), /not valid/],
     ];
-    const before = rowCounts(app.store);
+    const before = await rowCounts(app.store);
     for (const [headers, detail] of cases) {
       expect401(await request(app.server).post("/v1/buildings").set(headers).send(buildingBody()), detail);
       expect401(await request(app.server).get("/v1/buildings").set(headers), detail);
     }
-    expect(rowCounts(app.store)).toEqual(before);
+    expect(await rowCounts(app.store)).toEqual(before);
   });
 
   it("cannot be bypassed with an encoded or odd spelling of a /v1 path", async () => {
@@ -59,7 +60,7 @@ describe("authentication", () => {
   it("accepts a valid key and records its id as the actor in the audit log", async () => {
     const b = await api(app).post("/v1/buildings").send(buildingBody({ name: "Keyed hall" }));
     expect(b.status).toBe(201);
-    const id = app.store.keys.findByPrefix(adminKey.slice(4, 12))!.id;
+    const id = (await app.store.keys.findByPrefix(adminKey.slice(4, 12)))!.id;
     const log = (await api(app).get("/v1/audit-log")).body.items;
     expect(log[0]).toMatchObject({ actor: id, action: "building.create", resourceId: b.body.id });
   });
@@ -67,29 +68,29 @@ describe("authentication", () => {
 
 describe("roles", () => {
   it("lets a surveyor create and change buildings and surveys and read, but not keys or the audit log", async () => {
-    const k = keyFor(app, "surveyor");
+    const k = await keyFor(app, "surveyor");
     const b = await api(app, k).post("/v1/buildings").send(buildingBody({ name: "Surveyor hall" }));
     expect(b.status).toBe(201);
     expect((await api(app, k).patch(`/v1/buildings/${b.body.id}`).send({ notes: "fitted" })).status).toBe(200);
     expect((await api(app, k).post(`/v1/buildings/${b.body.id}/surveys`).send(surveyBody())).status).toBe(201);
     expect((await api(app, k).get(`/v1/buildings/${b.body.id}/history`)).status).toBe(200);
-    const before = rowCounts(app.store);
+    const before = await rowCounts(app.store);
     for (const r of [await api(app, k).post("/v1/keys").send({ role: "admin" }), await api(app, k).get("/v1/keys"), await api(app, k).get("/v1/audit-log")]) {
       expect(r.status).toBe(403);
       expect(r.headers["content-type"]).toMatch(/^application\/problem\+json/);
       expect(r.body.detail).toMatch(/surveyor role may not/);
     }
-    expect(rowCounts(app.store)).toEqual(before);
+    expect(await rowCounts(app.store)).toEqual(before);
   });
 
   it("lets an auditor read buildings, history and the audit log, and write nothing", async () => {
-    const k = keyFor(app, "auditor");
+    const k = await keyFor(app, "auditor");
     const b = (await api(app).post("/v1/buildings").send(buildingBody({ name: "Audited hall" }))).body;
     expect((await api(app, k).get(`/v1/buildings/${b.id}`)).status).toBe(200);
     expect((await api(app, k).get(`/v1/buildings/${b.id}/history`)).status).toBe(200);
     expect((await api(app, k).get("/v1/audit-log")).status).toBe(200);
     expect((await api(app, k).post("/v1/sizing").send({ system: buildingBody().system, loads: surveyBody().loads })).status).toBe(200);
-    const before = rowCounts(app.store);
+    const before = await rowCounts(app.store);
     const writes = [
       await api(app, k).post("/v1/buildings").send(buildingBody({ name: "No" })),
       await api(app, k).patch(`/v1/buildings/${b.id}`).send({ notes: "no" }),
@@ -97,7 +98,7 @@ describe("roles", () => {
       await api(app, k).post("/v1/keys").send({ role: "auditor" }),
     ];
     expect(writes.map((r) => r.status)).toEqual([403, 403, 403, 403]);
-    expect(rowCounts(app.store)).toEqual(before);
+    expect(await rowCounts(app.store)).toEqual(before);
   });
 });
 
@@ -110,7 +111,7 @@ describe("keys", () => {
     const key: string = created.body.key;
     expect(key).toMatch(/^pfc_[0-9a-z]{8}_[A-Za-z0-9_-]{43}$/);
     expect(created.body.prefix).toBe(key.slice(4, 12));
-    const row = app.store.db.prepare("SELECT * FROM api_keys WHERE id = ?").get(created.body.id) as Record<string, string>;
+    const row = sqliteStore(app.store).db.prepare("SELECT * FROM api_keys WHERE id = ?").get(created.body.id) as Record<string, string>;
     expect(JSON.stringify(row)).not.toContain(key.slice(13));
 
     expect((await api(app, key).get("/v1/buildings")).status).toBe(200);
@@ -129,17 +130,17 @@ describe("keys", () => {
   });
 
   it("names the field of a bad body, answers 404 for an unknown key and 409 for the last admin key", async () => {
-    const before = rowCounts(app.store);
+    const before = await rowCounts(app.store);
     const bad = await api(app).post("/v1/keys").send({ role: "root" });
     expect(bad.status).toBe(400);
     expect(bad.body.errors[0].path).toBe("role");
     const extra = await api(app).post("/v1/keys").send({ role: "auditor", organisation: "Other" });
     expect(extra.body.errors[0].path).toBe("organisation");
     expect((await api(app).delete("/v1/keys/key_nothing")).status).toBe(404);
-    const adminId = app.store.keys.findByPrefix(adminKey.slice(4, 12))!.id;
+    const adminId = (await app.store.keys.findByPrefix(adminKey.slice(4, 12)))!.id;
     const last = await api(app).delete(`/v1/keys/${adminId}`);
     expect(last.status).toBe(409);
-    expect(rowCounts(app.store)).toEqual(before);
+    expect(await rowCounts(app.store)).toEqual(before);
   });
 });
 
@@ -148,15 +149,15 @@ describe("last used", () => {
     let clock = Date.parse("2025-03-01T08:00:00Z");
     const { app: timed, key } = await makeStoreApp({}, { now: () => new Date(clock) });
     try {
-      const lastUsed = () => timed.store.keys.findByPrefix(key.slice(4, 12))!.lastUsedAt;
+      const lastUsed = async () => (await timed.store.keys.findByPrefix(key.slice(4, 12)))!.lastUsedAt;
       await inject(timed, "/v1/buildings");
-      expect(lastUsed()).toBe("2025-03-01T08:00:00.000Z");
+      expect(await lastUsed()).toBe("2025-03-01T08:00:00.000Z");
       clock += 59_000;
       await inject(timed, "/v1/buildings");
-      expect(lastUsed()).toBe("2025-03-01T08:00:00.000Z");
+      expect(await lastUsed()).toBe("2025-03-01T08:00:00.000Z");
       clock += 2_000;
       await inject(timed, "/v1/buildings");
-      expect(lastUsed()).toBe("2025-03-01T08:01:01.000Z");
+      expect(await lastUsed()).toBe("2025-03-01T08:01:01.000Z");
     } finally {
       await timed.close();
     }

@@ -6,7 +6,7 @@ import { describe, expect, it } from "vitest";
 import { buildApp } from "../../src/app.js";
 import { generateKey } from "../../src/auth/keys.js";
 import { defaultConfig, loadConfig } from "../../src/config.js";
-import { openStore } from "../../src/store/store.js";
+import { openSqliteStore } from "../../src/store/sqlite/sqlite-store.js";
 import { api, bearer, inject } from "../helpers/auth.js";
 import { makeStoreApp, rowCounts, tempDatabasePath } from "../helpers/db.js";
 import { buildingBody } from "../store/fixtures.js";
@@ -121,20 +121,20 @@ describe("npm run keys", () => {
   it("refuses a bad role or command with a usage line and stores nothing", async () => {
     const path = tempDatabasePath();
     await keysCli(path, ["create", "--role", "admin"]);
-    const counts = () => {
-      const store = openStore({ path });
+    const counts = async () => {
+      const store = await openSqliteStore({ path });
       try {
-        return rowCounts(store);
+        return await rowCounts(store);
       } finally {
-        store.close();
+        await store.close();
       }
     };
-    const before = counts();
+    const before = await counts();
     for (const args of [["create", "--role", "root"], ["create"], ["delete", "--role", "admin"], ["create", "--role", "admin", "--org", " "]]) {
       const err = await keysCli(path, args).then(() => undefined, (e: { code: number; stderr: string }) => e);
       expect(err?.code, args.join(" ")).toBe(2);
       expect(err?.stderr).toMatch(/usage|--role|--org/);
     }
-    expect(counts()).toEqual(before);
+    expect(await counts()).toEqual(before);
   });
 });

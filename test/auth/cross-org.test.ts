@@ -7,6 +7,7 @@ import { exampleSizingBody } from "../helpers/bodies.js";
 import { inject, keyFor, keyIdOf } from "../helpers/auth.js";
 import { makeStoreApp } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
+import { sqliteStore } from "../helpers/store.js";
 
 /**
  * Every operation of src/http/operations.ts called with an admin key of another organisation, path
@@ -27,8 +28,8 @@ beforeAll(async () => {
   ids.survey = s.id;
   ids.interval = a.json().id;
   ids.key = keyIdOf(app);
-  const org = organisationNamed(app.store, "Second organisation");
-  other = keyFor(app, "admin", org.id);
+  const org = await organisationNamed(app.store, "Second organisation");
+  other = await keyFor(app, "admin", org.id);
 });
 afterAll(() => app.close());
 
@@ -56,9 +57,10 @@ function urlOf(op: Operation): string {
 
 /** The first organisation's rows, every table with an org_id column. */
 function firstOrgRows(): string {
-  const tables = app.store.db.prepare("SELECT name FROM sqlite_master WHERE type = 'table' AND sql LIKE '%org_id%'").all() as { name: string }[];
+  const { db } = sqliteStore(app.store);
+  const tables = db.prepare("SELECT name FROM sqlite_master WHERE type = 'table' AND sql LIKE '%org_id%'").all() as { name: string }[];
   return JSON.stringify(
-    tables.map(({ name }) => app.store.db.prepare(`SELECT * FROM "${name}" WHERE org_id = 'org_default' ORDER BY rowid`).all()),
+    tables.map(({ name }) => db.prepare(`SELECT * FROM "${name}" WHERE org_id = 'org_default' ORDER BY rowid`).all()),
   ).replace(/"last_used_at":"[^"]*"/g, "");
 }
 

@@ -17,11 +17,11 @@ const week = csvOfSeries(syntheticYear(24, () => ({ kW: 300, kvar: 200 }), 7));
 
 beforeAll(async () => {
   ({ app } = await makeStoreApp());
-  for (const role of ROLES) keys[role] = keyFor(app, role);
+  for (const role of ROLES) keys[role] = await keyFor(app, role);
   ids.building = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Roles hall" }) })).json().id;
   ids.survey = (await inject(app, { method: "POST", url: `/v1/buildings/${ids.building}/surveys`, payload: surveyBody() })).json().id;
   ids.interval = (await inject(app, { method: "POST", url: `/v1/buildings/${ids.building}/interval-analyses`, headers: { "content-type": "text/csv" }, payload: week })).json().id;
-  ids.key = app.store.keys.findByPrefix(keys.auditor.slice(4, 12))!.id;
+  ids.key = (await app.store.keys.findByPrefix(keys.auditor.slice(4, 12)))!.id;
 });
 afterAll(() => app.close());
 
@@ -47,7 +47,7 @@ describe("roles on every operation", () => {
     const allowed = allowedRoles(op.method, routeOf(op.path)).includes(role);
     const csv = op.bodyType === "text/csv";
     const payload = csv ? week : op.operationId === "createKey" ? { role: "auditor" } : op.operationId === "updateBuilding" ? { notes: `by ${role}` } : op.operationId === "reviseSurvey" ? { ...surveyBody(), reason: "x" } : op.operationId === "createSurvey" ? surveyBody() : op.operationId === "createBuilding" ? buildingBody({ name: `By ${role}` }) : exampleSizingBody();
-    const before = rowCounts(app.store);
+    const before = await rowCounts(app.store);
     const res = await inject(
       app,
       { method: op.method.toUpperCase() as "GET", url: urlOf(op.path), ...(op.body ? { payload: payload as string } : {}), ...(csv ? { headers: { "content-type": "text/csv" } } : {}) },
@@ -58,7 +58,7 @@ describe("roles on every operation", () => {
       expect(res.statusCode, res.body).toBeLessThan(500);
     } else {
       expect(res.statusCode, res.body).toBe(403);
-      expect(rowCounts(app.store)).toEqual(before);
+      expect(await rowCounts(app.store)).toEqual(before);
     }
   });
 });

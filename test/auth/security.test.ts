@@ -24,15 +24,15 @@ describe("rate limit", () => {
   it("answers 429 problem+json past RATE_LIMIT_PER_MINUTE per key, writing nothing; another key and anonymous callers count apart", async () => {
     const { app } = await makeStoreApp({ RATE_LIMIT_PER_MINUTE: 3 });
     try {
-      const second = keyFor(app, "surveyor");
+      const second = await keyFor(app, "surveyor");
       for (let i = 0; i < 3; i++) expect((await api(app).get("/v1/buildings")).status).toBe(200);
-      const before = rowCounts(app.store);
+      const before = await rowCounts(app.store);
       const limited = await api(app).post("/v1/buildings").send(buildingBody());
       expect(limited.status).toBe(429);
       expect(limited.headers["content-type"]).toMatch(/^application\/problem\+json/);
       expect(limited.headers["retry-after"]).toBeDefined();
       expect(limited.body).toMatchObject({ status: 429, title: "Too many requests" });
-      expect(rowCounts(app.store)).toEqual(before);
+      expect(await rowCounts(app.store)).toEqual(before);
       expect((await api(app, second).get("/v1/buildings")).status).toBe(200);
       for (let i = 0; i < 3; i++) expect((await request(app.server).get("/v1/buildings")).status).toBe(401);
       expect((await request(app.server).get("/v1/buildings")).status).toBe(429);

@@ -1,7 +1,7 @@
 import { existsSync, readFileSync } from "node:fs";
 import Database from "better-sqlite3";
 import { afterEach, describe, expect, it } from "vitest";
-import { openStore } from "../../src/store/store.js";
+import { openSqliteStore } from "../../src/store/sqlite/sqlite-store.js";
 import { tempDatabasePath } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 import { authFetch, freePort, postJson, spawnServer, startServer, stopServer, type ServerProcess } from "./server-process.js";
@@ -72,7 +72,7 @@ describe("server restarts", () => {
 
   it("refuses to start on a database from a newer version: non-zero exit, clear message, file unchanged", async () => {
     const path = tempDatabasePath();
-    openStore({ path }).close();
+    await (await openSqliteStore({ path })).close();
     const raw = new Database(path);
     raw.prepare("INSERT INTO schema_migrations VALUES (999, '999_future.sql', 'x', '2031-01-01T00:00:00Z')").run();
     raw.close();

@@ -14,6 +14,6 @@ export async function makeTestApp(overrides: Partial<Config> = {}): Promise<Fast
   const config = defaultConfig({ DATABASE_PATH: ":memory:", DEMO_DATA: "off", RATE_LIMIT_PER_MINUTE: 10_000_000, ...overrides, PFC_BOOTSTRAP_KEY: key });
   const app = await buildApp({ config, logger: false });
   await app.ready();
-  registerAdminKey(app, key);
+  await registerAdminKey(app, key);
   return app;
 }

@@ -2,21 +2,23 @@ import type { FastifyInstance, InjectOptions, LightMyRequestResponse } from "fas
 import request from "supertest";
 import { issueKey } from "../../src/auth/bootstrap.js";
 import { generateKey, parseKey, type Role } from "../../src/auth/keys.js";
-import { DEFAULT_ORG_ID } from "../../src/store/store.js";
+import { DEFAULT_ORG_ID } from "../../src/store/ports.js";
 
 /** The admin key each test app was built with (its PFC_BOOTSTRAP_KEY). */
 const keys = new WeakMap<FastifyInstance, string>();
+/** The id of every key the helpers stored or found, by the key: keyIdOf answers without a query. */
+const idsOfKeys = new Map<string, string>();
 
 /** A fresh random key for PFC_BOOTSTRAP_KEY. */
 export const newBootstrapKey = (): string => generateKey().key;
 
 /** Remember `key` as the app's admin key; on a database that already had keys (a reopened file), store it too. */
-export function registerAdminKey(app: FastifyInstance, key: string): void {
+export async function registerAdminKey(app: FastifyInstance, key: string): Promise<void> {
   const parsed = parseKey(key);
   if (!parsed) throw new Error("not a key");
-  if (!app.store.keys.findByPrefix(parsed.prefix)) {
-    issueKey(app.store, { orgId: DEFAULT_ORG_ID, role: "admin", label: "test", createdBy: "test", audit: false }, key);
-  }
+  const found = await app.store.keys.findByPrefix(parsed.prefix);
+  const id = found ? found.id : (await issueKey(app.store, { orgId: DEFAULT_ORG_ID, role: "admin", label: "test", createdBy: "test", audit: false }, key)).record.id;
+  idsOfKeys.set(key, id);
   keys.set(app, key);
 }
 
@@ -42,13 +44,15 @@ export function inject(app: FastifyInstance, opts: InjectOptions | string, key: 
 }
 
 /** A new key of `role` in the organisation (the first one by default), stored directly. */
-export function keyFor(app: FastifyInstance, role: Role, orgId: string = DEFAULT_ORG_ID): string {
-  return issueKey(app.store, { orgId, role, label: `test ${role}`, createdBy: "test" }).key;
+export async function keyFor(app: FastifyInstance, role: Role, orgId: string = DEFAULT_ORG_ID): Promise<string> {
+  const issued = await issueKey(app.store, { orgId, role, label: `test ${role}`, createdBy: "test" });
+  idsOfKeys.set(issued.key, issued.record.id);
+  return issued.key;
 }
 
 /** The id of a key (what the audit log and histories record as the actor); the app's admin key by default. */
 export function keyIdOf(app: FastifyInstance, key: string = adminKeyOf(app)): string {
-  const row = app.store.keys.findByPrefix(parseKey(key)?.prefix ?? "");
-  if (!row) throw new Error("unknown key");
-  return row.id;
+  const id = idsOfKeys.get(key);
+  if (!id) throw new Error("a key the test helpers did not make");
+  return id;
 }

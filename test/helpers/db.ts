@@ -5,7 +5,8 @@ import type { FastifyInstance } from "fastify";
 import { afterAll } from "vitest";
 import { buildApp, type AppOptions } from "../../src/app.js";
 import { defaultConfig, type Config } from "../../src/config.js";
-import type { Store } from "../../src/store/store.js";
+import type { Store } from "../../src/store/ports.js";
+import { openTestStore } from "./store.js";
 import { newBootstrapKey, registerAdminKey } from "./auth.js";
 
 const made: string[] = [];
@@ -38,7 +39,7 @@ export interface StoreApp {
 }
 
 /**
- * The app on a new temp database, demo data off, no logger, a fresh bootstrap admin key and a rate limit
+ * The app on a new temp database (the store from openTestStore, test/helpers/store.ts), demo data off, no logger, a fresh bootstrap admin key and a rate limit
  * too high to matter (tests of the limit set their own); close `app` in afterAll.
  */
 export async function makeStoreApp(
@@ -48,18 +49,12 @@ export async function makeStoreApp(
   const path = overrides.DATABASE_PATH ?? tempDatabasePath();
   const key = overrides.PFC_BOOTSTRAP_KEY ?? newBootstrapKey();
   const config = defaultConfig({ DEMO_DATA: "off", RATE_LIMIT_PER_MINUTE: 10_000_000, ...overrides, DATABASE_PATH: path, PFC_BOOTSTRAP_KEY: key });
-  const app = await buildApp({ config, logger: false, ...options });
+  const { migrationsDir, now, ...rest } = options;
+  const store = rest.store ?? (await openTestStore({ path, ...(migrationsDir ? { migrationsDir } : {}), ...(now ? { now } : {}) }));
+  const app = await buildApp({ config, logger: false, ...rest, store, ...(now ? { now } : {}) });
   await app.ready();
-  registerAdminKey(app, key);
+  await registerAdminKey(app, key);
   return { app, store: app.store, path, key, auth: { authorization: `Bearer ${key}` } };
 }
 
-/** Row count of every table, to prove a rejected request changed nothing. */
-export function rowCounts(store: Store): Record<string, number> {
-  const tables = store.db
-    .prepare("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name")
-    .all() as { name: string }[];
-  return Object.fromEntries(
-    tables.map(({ name }) => [name, (store.db.prepare(`SELECT count(*) AS n FROM "${name}"`).get() as { n: number }).n]),
-  );
-}
+export { rowCounts } from "./store.js";

@@ -3,7 +3,7 @@ import { existsSync } from "node:fs";
 import { join } from "node:path";
 import Database from "better-sqlite3";
 import { describe, expect, it } from "vitest";
-import { backupDatabase } from "../../src/store/backup.js";
+import { backupDatabase } from "../../src/store/sqlite/backup.js";
 import { makeStoreApp, rowCounts, tempDir } from "../helpers/db.js";
 
 const root = new URL("../../", import.meta.url).pathname;
@@ -16,7 +16,7 @@ describe("backup", () => {
     expect(outcome).toMatchObject({ file: target, integrity: "ok" });
     const copy = new Database(target, { readonly: true });
     expect(copy.pragma("journal_mode", { simple: true })).toBe("delete");
-    const tables = rowCounts(store);
+    const tables = await rowCounts(store);
     for (const [table, n] of Object.entries(tables)) {
       expect((copy.prepare(`SELECT count(*) AS n FROM "${table}"`).get() as { n: number }).n, table).toBe(n);
     }

@@ -55,15 +55,15 @@ describe("demo data", () => {
   it("does not seed a database that already holds something, nor twice", async () => {
     const made = await makeStoreApp({ DEMO_DATA: "on" });
     app = made.app;
-    const counts = rowCounts(made.store);
-    expect(seedDemo(made.store)).toBeNull();
-    expect(rowCounts(made.store)).toEqual(counts);
+    const counts = await rowCounts(made.store);
+    expect(await seedDemo(made.store)).toBeNull();
+    expect(await rowCounts(made.store)).toEqual(counts);
   });
 
   it("stays off with DEMO_DATA=off", async () => {
     const made = await makeStoreApp();
     app = made.app;
     expect((await inject(app, "/v1/buildings")).json().items).toEqual([]);
-    expect(rowCounts(made.store)).toMatchObject({ buildings: 0, surveys: 0, audit_log: 0 });
+    expect(await rowCounts(made.store)).toMatchObject({ buildings: 0, surveys: 0, audit_log: 0 });
   });
 });

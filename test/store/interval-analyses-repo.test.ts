@@ -6,9 +6,11 @@ import { analyseIntervals } from "../../src/core/interval/analyse.js";
 import { summarise } from "../../src/core/interval/summary.js";
 import { computeRevision } from "../../src/application/survey-sizing.js";
 import { defaultConfig } from "../../src/config.js";
-import { openDatabase } from "../../src/store/database.js";
-import { DEFAULT_MIGRATIONS_DIR, migrate } from "../../src/store/migrate.js";
-import { DEFAULT_ORG_ID, openStore, type Store } from "../../src/store/store.js";
+import { openDatabase } from "../../src/store/sqlite/database.js";
+import { sqliteOf } from "../../src/store/sqlite/sqlite-store.js";
+import { DEFAULT_MIGRATIONS_DIR, migrate } from "../../src/store/sqlite/migrate.js";
+import { DEFAULT_ORG_ID } from "../../src/store/ports.js";
+import { openSqliteRepos as openStore, type SqliteRepos as Store } from "../helpers/store.js";
 import type { BuildingData, SurveyInputs } from "../../src/store/types.js";
 import { syntheticYear } from "../core/interval/fixtures.js";
 import { rowCounts, tempDatabasePath, tempDir } from "../helpers/db.js";
@@ -22,8 +24,8 @@ const data: BuildingData = { name: "Repo interval hall", address: null, notes: n
 const summary = summarise(analyseIntervals(syntheticYear(24, (k) => (k < 6 ? { kW: 100, kvar: 60 } : { kW: 300, kvar: 240 }), 3), 0.95));
 
 let store: Store;
-beforeEach(() => {
-  store = openStore({ path: tempDatabasePath() });
+beforeEach(async () => {
+  store = await openStore({ path: tempDatabasePath() });
   store.db.prepare("INSERT INTO organisations (id, name, created_at) VALUES ('org_other', 'Other', ?)").run(at);
   store.write(() => {
     store.buildings.create(ORG, "bld_a", data, "local", at);
@@ -37,7 +39,7 @@ const add = (id: string, buildingId = "bld_a", orgId = ORG) =>
   store.write(() => store.intervalAnalyses.create(orgId, { id, buildingId, createdAt: at, actor: "local", requestId: "req-1", summary }));
 
 describe("interval analyses repository", () => {
-  it("stores the summary whole, with its list figures in columns", () => {
+  it("stores the summary whole, with its list figures in columns", async () => {
     const a = add("iva_1");
     expect(a.summary).toEqual(summary);
     expect(a).toMatchObject({ id: "iva_1", buildingId: "bld_a", requestId: "req-1", intervalCount: 72, intervalMinutes: 60, targetPF: 0.95 });
@@ -46,7 +48,7 @@ describe("interval analyses repository", () => {
     expect(a.minKvar).toBe(60);
   });
 
-  it("keeps organisations and buildings apart; newest is the last stored", () => {
+  it("keeps organisations and buildings apart; newest is the last stored", async () => {
     add("iva_1");
     add("iva_2");
     add("iva_b", "bld_b");
@@ -58,14 +60,14 @@ describe("interval analyses repository", () => {
     expect(store.intervalAnalyses.listByBuilding(ORG, "bld_a", { limit: 10 }).map((e) => e.id)).toEqual(["iva_2", "iva_1"]);
   });
 
-  it("refuses an analysis of a building of another organisation, or of no building", () => {
-    const before = rowCounts(store);
+  it("refuses an analysis of a building of another organisation, or of no building", async () => {
+    const before = await rowCounts(store.store);
     expect(() => add("iva_x", "bld_o", ORG)).toThrow(/FOREIGN KEY/);
     expect(() => add("iva_y", "bld_nope")).toThrow(/FOREIGN KEY/);
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store.store)).toEqual(before);
   });
 
-  it("is immutable: no UPDATE, no DELETE", () => {
+  it("is immutable: no UPDATE, no DELETE", async () => {
     add("iva_1");
     expect(() => store.db.prepare("UPDATE interval_analyses SET target_pf = 0.9 WHERE id = 'iva_1'").run()).toThrow(/immutable/);
     expect(() => store.db.prepare("DELETE FROM interval_analyses WHERE id = 'iva_1'").run()).toThrow(/never deleted/);
@@ -100,10 +102,10 @@ describe("migration 002 on a database written by 001", () => {
 
     const key = newBootstrapKey();
     const app = await buildApp({ config: defaultConfig({ DATABASE_PATH: path, DEMO_DATA: "off", PFC_BOOTSTRAP_KEY: key }), logger: false });
-    registerAdminKey(app, key);
+    await registerAdminKey(app, key);
     try {
-      // 003 (API keys) and 004 (installed banks) came after 002 and are applied too.
-      expect(app.store.migration.applied).toEqual([2, 3, 4]);
+      // 003 (API keys), 004 (installed banks) and 005 (idempotency claims) came after 002 and are applied too.
+      expect(sqliteOf(app.store).migration.applied).toEqual([2, 3, 4, 5]);
       expect((await inject(app, "/v1/buildings/bld_old")).json()).toMatchObject({ name: "Old hall", economics: null });
       expect((await inject(app, "/v1/buildings/bld_old/history")).json().items[0].economics).toBeNull();
       const s = (await inject(app, "/v1/surveys/srv_old")).json();

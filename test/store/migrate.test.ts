@@ -5,8 +5,8 @@ import Database from "better-sqlite3";
 import { describe, expect, it } from "vitest";
 import { buildApp } from "../../src/app.js";
 import { defaultConfig } from "../../src/config.js";
-import { DEFAULT_MIGRATIONS_DIR, loadMigrations, MigrationError } from "../../src/store/migrate.js";
-import { openStore } from "../../src/store/store.js";
+import { DEFAULT_MIGRATIONS_DIR, loadMigrations, MigrationError } from "../../src/store/sqlite/migrate.js";
+import { openSqliteStore as openStore } from "../../src/store/sqlite/sqlite-store.js";
 import { tempDatabasePath, tempDir } from "../helpers/db.js";
 
 const projectMigrations = resolve(fileURLToPath(new URL("../../migrations/", import.meta.url)));
@@ -20,21 +20,21 @@ function migrationsWith(extra: Record<string, string>): string {
   return dir;
 }
 
-function migratedFile(): string {
+async function migratedFile(): Promise<string> {
   const path = tempDatabasePath();
-  openStore({ path }).close();
+  await (await openStore({ path })).close();
   return path;
 }
 
 describe("migrations", () => {
-  it("finds migrations/ relative to the module, as from dist/store/ after tsc", () => {
+  it("finds migrations/ relative to the module, as from dist/store/ after tsc", async () => {
     expect(resolve(DEFAULT_MIGRATIONS_DIR)).toBe(projectMigrations);
     expect(fileURLToPath(new URL("../../migrations/", "file:///srv/app/dist/store/migrate.js"))).toBe("/srv/app/migrations/");
   });
 
-  it("migrates an empty file to the latest version and records each migration", () => {
+  it("migrates an empty file to the latest version and records each migration", async () => {
     const path = tempDatabasePath("nested/dir/fresh.sqlite");
-    const store = openStore({ path, now: () => new Date("2025-01-02T03:04:05.000Z") });
+    const store = await openStore({ path, now: () => new Date("2025-01-02T03:04:05.000Z") });
     expect(store.migration).toEqual({ from: 0, to: latest, applied: Array.from({ length: latest }, (_, i) => i + 1) });
     const rows = store.db.prepare("SELECT version, name, checksum, applied_at FROM schema_migrations ORDER BY version").all();
     expect(rows).toEqual(
@@ -56,57 +56,57 @@ describe("migrations", () => {
     expect(store.db.pragma("synchronous", { simple: true })).toBe(2); // FULL
     expect(store.db.pragma("foreign_keys", { simple: true })).toBe(1);
     expect(Number(store.db.pragma("busy_timeout", { simple: true }))).toBeGreaterThan(0);
-    store.close();
+    await store.close();
   });
 
-  it("also runs on an in-memory database (each store its own)", () => {
-    const a = openStore({ path: ":memory:" });
-    const b = openStore({ path: ":memory:" });
+  it("also runs on an in-memory database (each store its own)", async () => {
+    const a = await openStore({ path: ":memory:" });
+    const b = await openStore({ path: ":memory:" });
     expect(a.migration.to).toBe(latest);
-    a.write(() => a.buildings.create("org_default", "bld_m", { name: "m", address: null, notes: null, system: { voltageV: 400, frequencyHz: 50, phases: 3 }, transformer: null, utility: null }, "local", "2025-01-01T00:00:00.000Z"));
-    expect(a.buildings.get("org_default", "bld_m")?.name).toBe("m");
-    expect(b.buildings.get("org_default", "bld_m")).toBeUndefined();
-    a.close();
-    b.close();
+    await a.transaction((tx) => tx.buildings.create("org_default", "bld_m", { name: "m", address: null, notes: null, system: { voltageV: 400, frequencyHz: 50, phases: 3 }, transformer: null, utility: null }, "local", "2025-01-01T00:00:00.000Z"));
+    expect((await a.buildings.get("org_default", "bld_m"))?.name).toBe("m");
+    expect(await b.buildings.get("org_default", "bld_m")).toBeUndefined();
+    await a.close();
+    await b.close();
   });
 
-  it("applies nothing on a second start", () => {
-    const path = migratedFile();
-    const again = openStore({ path });
+  it("applies nothing on a second start", async () => {
+    const path = await migratedFile();
+    const again = await openStore({ path });
     expect(again.migration.applied).toEqual([]);
     expect(again.migration.to).toBe(latest);
-    again.close();
+    await again.close();
   });
 
-  it("applies only the new migration to a database at the previous version", () => {
-    const path = migratedFile();
+  it("applies only the new migration to a database at the previous version", async () => {
+    const path = await migratedFile();
     const dir = migrationsWith({ [`${String(latest + 1).padStart(3, "0")}_extra.sql`]: "CREATE TABLE extra_things (id INTEGER PRIMARY KEY);" });
-    const store = openStore({ path, migrationsDir: dir });
+    const store = await openStore({ path, migrationsDir: dir });
     expect(store.migration).toEqual({ from: latest, to: latest + 1, applied: [latest + 1] });
     expect(store.db.prepare("SELECT count(*) AS n FROM extra_things").get()).toEqual({ n: 0 });
-    store.close();
+    await store.close();
   });
 
   it("refuses a database from a newer version with a clear message and leaves its bytes alone", async () => {
-    const path = migratedFile();
+    const path = await migratedFile();
     const raw = new Database(path);
     raw.prepare("INSERT INTO schema_migrations VALUES (?, ?, ?, ?)").run(latest + 1, "099_from_the_future.sql", "abc", "2030-01-01T00:00:00Z");
     raw.close();
     const before = readFileSync(path);
-    expect(() => openStore({ path })).toThrow(MigrationError);
-    expect(() => openStore({ path })).toThrow(/newer than this program.*up to \d+.*not changed/);
+    await expect(openStore({ path })).rejects.toThrow(MigrationError);
+    await expect(openStore({ path })).rejects.toThrow(/newer than this program.*up to \d+.*not changed/);
     await expect(buildApp({ config: defaultConfig({ DATABASE_PATH: path, DEMO_DATA: "off" }), logger: false })).rejects.toThrow(/newer/);
     expect(readFileSync(path).equals(before)).toBe(true);
   });
 
-  it("rolls back a failing migration: error naming the file, database bytes unchanged", () => {
-    const path = migratedFile();
+  it("rolls back a failing migration: error naming the file, database bytes unchanged", async () => {
+    const path = await migratedFile();
     const before = readFileSync(path);
     const dir = migrationsWith({
       [`${String(latest + 1).padStart(3, "0")}_good.sql`]: "CREATE TABLE fine_table (id INTEGER);",
       [`${String(latest + 2).padStart(3, "0")}_broken.sql`]: "CREATE TABLE half_done (id INTEGER);\nINSERT INTO no_such_table VALUES (1);",
     });
-    expect(() => openStore({ path, migrationsDir: dir })).toThrow(/_broken\.sql failed: no such table: no_such_table.*left as it was/);
+    await expect(openStore({ path, migrationsDir: dir })).rejects.toThrow(/_broken\.sql failed: no such table: no_such_table.*left as it was/);
     expect(readFileSync(path).equals(before)).toBe(true);
     const raw = new Database(path, { readonly: true });
     const names = raw.prepare("SELECT name FROM sqlite_master WHERE name IN ('fine_table', 'half_done')").all();
@@ -115,23 +115,23 @@ describe("migrations", () => {
     raw.close();
   });
 
-  it("leaves an empty file empty when the very first migration fails", () => {
+  it("leaves an empty file empty when the very first migration fails", async () => {
     const path = tempDatabasePath();
     const dir = tempDir();
     writeFileSync(join(dir, "001_init.sql"), "CREATE TABLE a (id INTEGER); SELECT * FROM missing;");
-    expect(() => openStore({ path, migrationsDir: dir })).toThrow(/001_init\.sql failed/);
+    await expect(openStore({ path, migrationsDir: dir })).rejects.toThrow(/001_init\.sql failed/);
     expect(statSync(path).size).toBe(0);
     expect(existsSync(`${path}-wal`)).toBe(false);
   });
 
-  it("refuses a migration edited after it was applied", () => {
-    const path = migratedFile();
+  it("refuses a migration edited after it was applied", async () => {
+    const path = await migratedFile();
     const dir = migrationsWith({});
     writeFileSync(join(dir, "001_init.sql"), `${readFileSync(join(dir, "001_init.sql"), "utf8")}\n-- edited`);
-    expect(() => openStore({ path, migrationsDir: dir })).toThrow(/001_init\.sql was changed after it was applied/);
+    await expect(openStore({ path, migrationsDir: dir })).rejects.toThrow(/001_init\.sql was changed after it was applied/);
   });
 
-  it("refuses badly named or gapped migration files", () => {
+  it("refuses badly named or gapped migration files", async () => {
     const gap = tempDir();
     writeFileSync(join(gap, "001_a.sql"), "SELECT 1;");
     writeFileSync(join(gap, "003_c.sql"), "SELECT 1;");
@@ -143,13 +143,13 @@ describe("migrations", () => {
     expect(() => loadMigrations(missing)).toThrow(/cannot read the migrations directory/);
   });
 
-  it("lets two stores on one file start together (the second waits for the first's migration)", () => {
+  it("lets two stores on one file start together (the second waits for the first's migration)", async () => {
     const path = tempDatabasePath();
     mkdirSync(join(path, ".."), { recursive: true });
-    const a = openStore({ path });
-    const b = openStore({ path });
+    const a = await openStore({ path });
+    const b = await openStore({ path });
     expect(b.migration.applied).toEqual([]);
-    a.close();
-    b.close();
+    await a.close();
+    await b.close();
   });
 });

@@ -2,7 +2,8 @@ import { afterEach, beforeEach, describe, expect, it } from "vitest";
 import { size } from "../../src/core/pipeline/size.js";
 import { computeRevision } from "../../src/application/survey-sizing.js";
 import { newId } from "../../src/store/ids.js";
-import { DEFAULT_ORG_ID, openStore, type Store } from "../../src/store/store.js";
+import { DEFAULT_ORG_ID } from "../../src/store/ports.js";
+import { openSqliteRepos as openStore, type SqliteRepos as Store } from "../helpers/store.js";
 import type { BuildingData, SurveyInputs } from "../../src/store/types.js";
 import { rowCounts, tempDatabasePath } from "../helpers/db.js";
 import { surveyBody } from "./fixtures.js";
@@ -22,20 +23,20 @@ const inputs = surveyBody() as unknown as SurveyInputs;
 const at = "2025-06-01T10:00:00.000Z";
 
 let store: Store;
-beforeEach(() => {
-  store = openStore({ path: tempDatabasePath() });
+beforeEach(async () => {
+  store = await openStore({ path: tempDatabasePath() });
   store.db.prepare("INSERT INTO organisations (id, name, created_at) VALUES (?, ?, ?)").run(OTHER, "Other org", at);
 });
 afterEach(() => store.close());
 
 describe("buildings repository", () => {
-  it("stores columns that read back as the same data, with version 1 in history", () => {
+  it("stores columns that read back as the same data, with version 1 in history", async () => {
     const b = store.write(() => store.buildings.create(ORG, "bld_a", data, "local", at));
     expect(b).toEqual({ id: "bld_a", version: 1, ...data, createdAt: at, updatedAt: at });
     expect(store.buildings.history(ORG, "bld_a")).toEqual([{ version: 1, data, recordedAt: at, actor: "local" }]);
   });
 
-  it("keeps organisations apart in every read", () => {
+  it("keeps organisations apart in every read", async () => {
     store.write(() => {
       store.buildings.create(ORG, "bld_mine", data, "local", at);
       store.buildings.create(OTHER, "bld_theirs", { ...data, name: "Repo test other" }, "local", at);
@@ -46,7 +47,7 @@ describe("buildings repository", () => {
     expect(store.buildings.update(ORG, "bld_theirs", 1, data, "local", at)).toBeUndefined();
   });
 
-  it("updates only from the expected version", () => {
+  it("updates only from the expected version", async () => {
     store.write(() => store.buildings.create(ORG, "bld_v", data, "local", at));
     const later = "2025-06-02T00:00:00.000Z";
     expect(store.buildings.update(ORG, "bld_v", 2, { ...data, name: "x" }, "local", later)).toBeUndefined();
@@ -55,7 +56,7 @@ describe("buildings repository", () => {
     expect(store.buildings.history(ORG, "bld_v").map((v) => v.version)).toEqual([1, 2]);
   });
 
-  it("searches names treating % and _ literally", () => {
+  it("searches names treating % and _ literally", async () => {
     store.write(() => {
       for (const [id, name] of [["b1", "100% hall"], ["b2", "1000 hall"], ["b3", "a_b"], ["b4", "axb"]] as const) {
         store.buildings.create(ORG, id, { ...data, name }, "local", at);
@@ -77,7 +78,7 @@ describe("surveys repository", () => {
     });
   }
 
-  it("stores inputs, the engine's result and the building snapshot apart, with the summary in columns", () => {
+  it("stores inputs, the engine's result and the building snapshot apart, with the summary in columns", async () => {
     const id = createSurvey();
     const r = store.surveys.revision(ORG, id, 1);
     expect(r?.inputs).toEqual(inputs);
@@ -89,7 +90,7 @@ describe("surveys repository", () => {
     expect(r?.inputs).not.toHaveProperty("result");
   });
 
-  it("appends revisions only as the next number", () => {
+  it("appends revisions only as the next number", async () => {
     const id = createSurvey();
     const b = store.buildings.get(ORG, "bld_s")!;
     const rev = (n: number) => computeRevision(b, { ...inputs, targetPF: 0.98 }, { surveyId: id, n, reason: "typo", actor: "local", at });
@@ -103,7 +104,7 @@ describe("surveys repository", () => {
     expect(store.surveys.revision(OTHER, id, 1)).toBeUndefined();
   });
 
-  it("refuses to change or delete what is recorded", () => {
+  it("refuses to change or delete what is recorded", async () => {
     const id = createSurvey();
     expect(() => store.db.prepare("UPDATE survey_revisions SET result_json = '{}'").run()).toThrow(/immutable/);
     expect(() => store.db.prepare("DELETE FROM survey_revisions").run()).toThrow(/never deleted/);
@@ -113,7 +114,7 @@ describe("surveys repository", () => {
     expect(() => store.db.prepare("DELETE FROM audit_log").run()).toThrow(/append-only/);
   });
 
-  it("refuses a survey whose building belongs to another organisation", () => {
+  it("refuses a survey whose building belongs to another organisation", async () => {
     store.write(() => store.buildings.create(OTHER, "bld_theirs", data, "local", at));
     const b = store.buildings.get(OTHER, "bld_theirs")!;
     const first = computeRevision(b, inputs, { surveyId: "srv_x", n: 1, reason: null, actor: "local", at });
@@ -122,8 +123,8 @@ describe("surveys repository", () => {
 });
 
 describe("store transactions and idempotency records", () => {
-  it("rolls back everything a failing write did", () => {
-    const before = rowCounts(store);
+  it("rolls back everything a failing write did", async () => {
+    const before = await rowCounts(store.store);
     expect(() =>
       store.write(() => {
         store.buildings.create(ORG, "bld_gone", data, "local", at);
@@ -131,20 +132,36 @@ describe("store transactions and idempotency records", () => {
         throw new Error("boom");
       }),
     ).toThrow("boom");
-    expect(rowCounts(store)).toEqual(before);
+    expect(await rowCounts(store.store)).toEqual(before);
   });
 
-  it("purges idempotency records older than the cut-off only", () => {
-    const rec = (createdAt: string) => ({ requestHash: "h", status: 201, location: null, responseJson: "{}", createdAt });
-    store.idempotency.save(ORG, "old", rec("2025-01-01T00:00:00.000Z"));
-    store.idempotency.save(ORG, "new", rec("2025-01-03T00:00:00.000Z"));
-    expect(store.idempotency.purgeBefore("2025-01-02T00:00:00.000Z")).toBe(1);
-    expect(store.idempotency.find(ORG, "old")).toBeUndefined();
-    expect(store.idempotency.find(ORG, "new")?.status).toBe(201);
-    expect(store.idempotency.find(OTHER, "new")).toBeUndefined();
+  it("claims an Idempotency-Key once, completes it in place, takes a stale claim over, purges by age", async () => {
+    const never = "2000-01-01T00:00:00.000Z";
+    const t0 = "2025-01-01T00:00:00.000Z";
+    const claim = (key: string, requestHash: string, createdAt: string, staleBefore = never, expiredBefore = never, org = ORG) =>
+      store.idempotency.claim(org, key, { requestHash, createdAt }, expiredBefore, staleBefore);
+    expect(claim("k", "h1", t0)).toEqual({ kind: "claimed" });
+    expect(claim("k", "h2", "2025-01-01T00:00:01.000Z")).toEqual({ kind: "in_flight", claim: { requestHash: "h1", createdAt: t0 } });
+    expect(claim("k", "h1", "2025-01-01T00:00:01.000Z", never, never, OTHER)).toEqual({ kind: "claimed" }); // another organisation's key
+    // h1's instance died: its claim, older than the lease, is taken over; h1 can then no longer complete it
+    expect(claim("k", "h3", "2025-01-01T00:01:00.000Z", "2025-01-01T00:00:30.000Z")).toEqual({ kind: "claimed" });
+    const answer = { status: 201, location: "/v1/x", responseJson: '{"id":"x"}', createdAt: "2025-01-01T00:01:02.000Z" };
+    expect(() => store.idempotency.complete(ORG, "k", { requestHash: "h1", ...answer })).toThrow(/lost/);
+    store.idempotency.complete(ORG, "k", { requestHash: "h3", ...answer });
+    store.idempotency.release(ORG, "k", "h3"); // a completed record is not released
+    expect(claim("k", "h4", "2025-01-01T00:05:00.000Z", "2025-01-01T00:04:00.000Z")).toEqual({ kind: "done", record: { requestHash: "h3", ...answer } });
+    // a record older than the keep time is replaced by a new claim
+    expect(claim("k", "h5", "2025-01-04T00:00:00.000Z", never, "2025-01-02T00:00:00.000Z")).toEqual({ kind: "claimed" });
+    // a released claim can be claimed again at once
+    expect(claim("r", "hr", t0)).toEqual({ kind: "claimed" });
+    store.idempotency.release(ORG, "r", "hr");
+    expect(claim("r", "hq", t0)).toEqual({ kind: "claimed" });
+    // records created before the cut-off go, across organisations: OTHER's k (00:00:01) and r (t0); k (Jan 4) stays
+    expect(store.idempotency.purgeBefore("2025-01-02T00:00:00.000Z")).toBe(2);
+    expect(claim("k", "h6", "2025-01-04T00:00:01.000Z").kind).toBe("in_flight");
   });
 
-  it("makes ids with their resource prefix and no repeats", () => {
+  it("makes ids with their resource prefix and no repeats", async () => {
     const ids = new Set(Array.from({ length: 2000 }, () => newId("srv")));
     expect(ids.size).toBe(2000);
     for (const id of ids) expect(id).toMatch(/^srv_[0-9a-hjkmnp-tv-z]{16}$/);

@@ -1,6 +1,6 @@
 import type { FastifyInstance } from "fastify";
 import { z } from "zod";
-import type { Store } from "../../store/store.js";
+import type { Store } from "../../store/ports.js";
 import { decodeCursor, encodeCursor, pageOf, parseLimit } from "../paging.js";
 import { parseOr400 } from "../validate.js";
 
@@ -13,7 +13,7 @@ export async function auditRoutes(app: FastifyInstance, opts: { store: Store }):
     const q = parseOr400(query, request.query);
     const limit = parseLimit(q.limit);
     const before = decodeCursor("a", auditCursor, q.cursor);
-    const rows = opts.store.audit.list(request.actor.orgId, { ...(before ? { beforeId: before.i } : {}), limit: limit + 1 });
+    const rows = await opts.store.audit.list(request.actor.orgId, { ...(before ? { beforeId: before.i } : {}), limit: limit + 1 });
     return pageOf(rows, limit, (last) => encodeCursor("a", { i: last.id }));
   });
 }

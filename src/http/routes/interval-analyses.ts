@@ -1,5 +1,5 @@
 import type { FastifyInstance } from "fastify";
-import type { Store } from "../../store/store.js";
+import type { Store } from "../../store/ports.js";
 import { INTERVAL_MAX_BYTES } from "../interval/ingest.js";
 import { analyseUpload, installUploadParsers } from "../interval/upload.js";
 import { storedIntervalRoutes } from "./stored-intervals.js";

@@ -2,9 +2,10 @@ import type { FastifyInstance } from "fastify";
 import { z } from "zod";
 import { issueKey } from "../../auth/bootstrap.js";
 import { ROLES } from "../../auth/keys.js";
-import type { ApiKeyRecord } from "../../store/keys-repo.js";
-import type { Store } from "../../store/store.js";
-import { notFound, problem, ProblemError } from "../problem.js";
+import { revokeKey } from "../../application/keys.js";
+import type { Store } from "../../store/ports.js";
+import type { ApiKeyRecord } from "../../store/types.js";
+import { whoOf } from "../actor.js";
 import { parseOr400 } from "../validate.js";
 
 export const keyCreateSchema = z.strictObject({
@@ -33,28 +34,16 @@ export async function keysRoutes(app: FastifyInstance, opts: { store: Store }): 
   app.post("/v1/keys", async (request, reply) => {
     const body = parseOr400(keyCreateSchema, request.body ?? {});
     const { orgId, actorId } = request.actor;
-    const issued = issueKey(store, { orgId, role: body.role, label: body.label ?? null, createdBy: actorId, requestId: request.id });
+    const issued = await issueKey(store, { orgId, role: body.role, label: body.label ?? null, createdBy: actorId, requestId: request.id });
     reply.header("cache-control", "no-store");
     return reply.code(201).header("location", `/v1/keys/${issued.record.id}`).send({ ...keyView(issued.record), key: issued.key });
   });
 
-  app.get("/v1/keys", async (request) => ({ items: store.keys.list(request.actor.orgId).map(keyView) }));
+  app.get("/v1/keys", async (request) => ({ items: (await store.keys.list(request.actor.orgId)).map(keyView) }));
 
   app.delete("/v1/keys/:id", async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
-    const { orgId, actorId } = request.actor;
-    store.write(() => {
-      const k = store.keys.get(orgId, id);
-      if (!k) throw new ProblemError(notFound(`key ${id}`));
-      if (k.revokedAt) return;
-      if (k.role === "admin" && store.keys.activeAdminCount(orgId) === 1) {
-        const detail = "this is the organisation's last active admin key; create another admin key first";
-        throw new ProblemError(problem(409, "last-admin-key", "Conflict", detail, [{ path: "id", message: detail }]));
-      }
-      const at = store.now().toISOString();
-      store.keys.revoke(orgId, id, at);
-      store.audit.record({ orgId, actor: actorId, action: "key.revoke", resourceType: "api_key", resourceId: id, requestId: request.id, at });
-    });
+    await revokeKey(store, whoOf(request), id);
     return reply.code(204).send();
   });
 }

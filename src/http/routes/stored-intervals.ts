@@ -1,15 +1,17 @@
 import type { FastifyInstance } from "fastify";
 import { z } from "zod";
-import { newId } from "../../store/ids.js";
-import type { Store } from "../../store/store.js";
+import { findBuilding } from "../../application/buildings.js";
+import { attachIntervalAnalysis } from "../../application/interval-analyses.js";
+import { finishWith } from "../../application/write-outcome.js";
+import type { Store } from "../../store/ports.js";
+import { whoOf } from "../actor.js";
 import { idempotencyKeyOf, idempotentWrite } from "../idempotency.js";
 import { INTERVAL_MAX_BYTES } from "../interval/ingest.js";
 import { analyseUpload } from "../interval/upload.js";
 import { decodeCursor, encodeCursor, pageOf, parseLimit } from "../paging.js";
-import { notFound, ProblemError } from "../problem.js";
+import { NotFound } from "../../application/errors.js";
 import { parseOr400 } from "../validate.js";
 import { intervalAnalysisListView, intervalAnalysisView } from "../views.js";
-import { findBuilding } from "./buildings.js";
 
 const idParams = z.object({ id: z.string() });
 const listQuery = z.strictObject({ limit: z.string().optional(), cursor: z.string().optional() });
@@ -19,27 +21,29 @@ const analysisCursor = z.object({ k: z.literal("ia"), s: z.number().int().positi
 export function storedIntervalRoutes(app: FastifyInstance, store: Store): void {
   app.post("/v1/buildings/:id/interval-analyses", { bodyLimit: INTERVAL_MAX_BYTES }, async (request, reply) => {
     const { id: buildingId } = parseOr400(idParams, request.params);
-    const { orgId, actorId } = request.actor;
     // Header and building first: neither needs the upload, which may be 64 MiB.
     const key = idempotencyKeyOf(request);
-    findBuilding(store, orgId, buildingId);
+    await findBuilding(store, request.actor.orgId, buildingId);
     const { answer, digest } = await analyseUpload(request, { digest: key !== undefined });
-    const write = () => {
-      findBuilding(store, orgId, buildingId);
-      const at = store.now().toISOString();
-      const id = newId("iva");
-      store.intervalAnalyses.create(orgId, { id, buildingId, createdAt: at, actor: actorId, requestId: request.id, summary: answer.summary });
-      store.audit.record({ orgId, actor: actorId, action: "interval_analysis.create", resourceType: "interval_analysis", resourceId: id, requestId: request.id, at });
-      return { status: 201, body: { id, buildingId, createdAt: at, ...answer }, location: `/v1/interval-analyses/${id}` };
-    };
     // The body was a stream: a replay is recognised by the upload's digest (media type, form fields, SHA-256 of the bytes).
-    return idempotentWrite(store, request, reply, write, digest ?? null);
+    return idempotentWrite(
+      store,
+      request,
+      reply,
+      (seal) =>
+        attachIntervalAnalysis(store, whoOf(request), buildingId, answer.summary, finishWith(seal, (a) => ({
+          status: 201,
+          body: { id: a.id, buildingId, createdAt: a.createdAt, ...answer },
+          location: `/v1/interval-analyses/${a.id}`,
+        }))),
+      digest ?? null,
+    );
   });
 
   app.get("/v1/interval-analyses/:id", async (request) => {
     const { id } = parseOr400(idParams, request.params);
-    const a = store.intervalAnalyses.get(request.actor.orgId, id);
-    if (!a) throw new ProblemError(notFound(`interval analysis ${id}`));
+    const a = await store.intervalAnalyses.get(request.actor.orgId, id);
+    if (!a) throw new NotFound(`interval analysis ${id}`);
     return intervalAnalysisView(a);
   });
 
@@ -49,8 +53,8 @@ export function storedIntervalRoutes(app: FastifyInstance, store: Store): void {
     const limit = parseLimit(query.limit);
     const before = decodeCursor("ia", analysisCursor, query.cursor);
     const { orgId } = request.actor;
-    findBuilding(store, orgId, id);
-    const rows = store.intervalAnalyses.listByBuilding(orgId, id, { ...(before ? { beforeSeq: before.s } : {}), limit: limit + 1 });
+    await findBuilding(store, orgId, id);
+    const rows = await store.intervalAnalyses.listByBuilding(orgId, id, { ...(before ? { beforeSeq: before.s } : {}), limit: limit + 1 });
     const page = pageOf(rows, limit, (last) => encodeCursor("ia", { s: last.seq }));
     return { buildingId: id, items: page.items.map(intervalAnalysisListView), nextCursor: page.nextCursor };
   });

@@ -1,14 +1,13 @@
 import type { FastifyInstance } from "fastify";
 import { z } from "zod";
-import type { Store } from "../../store/store.js";
-import type { RevisionRecord } from "../../store/types.js";
+import { findBuilding } from "../../application/buildings.js";
+import { revisionOf, surveyWithRevisions } from "../../application/survey-reads.js";
+import type { Store } from "../../store/ports.js";
 import { loadsCsv } from "../loads-csv.js";
 import { decodeCursor, encodeCursor, pageOf, parseLimit, rangeOf } from "../paging.js";
-import { notFound, ProblemError } from "../problem.js";
 import { surveyListQuerySchema, trendQuerySchema } from "../schemas/surveys.js";
 import { parseOr400 } from "../validate.js";
 import { revisionView, surveySummaryView, surveyView, trendPointView } from "../views.js";
-import { findBuilding } from "./buildings.js";
 
 const idParams = z.object({ id: z.string() });
 const revisionParams = z.object({
@@ -18,13 +17,6 @@ const revisionParams = z.object({
 const surveyCursor = z.object({ k: z.literal("s"), t: z.string(), i: z.string() });
 export const TREND_MAX_POINTS = 5000;
 
-function latestRevision(store: Store, orgId: string, id: string): RevisionRecord {
-  const head = store.surveys.head(orgId, id);
-  const latest = head && store.surveys.revision(orgId, id, head.revision);
-  if (!latest) throw new ProblemError(notFound(`survey ${id}`));
-  return latest;
-}
-
 /** Reads of stored surveys: always what was stored, never a recomputation. */
 export async function surveyReadRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
@@ -32,23 +24,19 @@ export async function surveyReadRoutes(app: FastifyInstance, opts: { store: Stor
   app.get("/v1/surveys/:id", async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const { orgId } = request.actor;
-    const latest = latestRevision(store, orgId, id);
-    return surveyView(latest, store.surveys.revisions(orgId, id));
+    const { latest, revisions } = await surveyWithRevisions(store, orgId, id);
+    return surveyView(latest, revisions);
   });
 
   app.get("/v1/surveys/:id/revisions/:n", async (request) => {
     const { id, n } = parseOr400(revisionParams, request.params);
     const { orgId } = request.actor;
-    const r = store.surveys.revision(orgId, id, Number(n));
-    if (!r) {
-      throw new ProblemError(notFound(store.surveys.head(orgId, id) ? `revision ${n} of survey ${id}` : `survey ${id}`));
-    }
-    return revisionView(r);
+    return revisionView(await revisionOf(store, orgId, id, Number(n)));
   });
 
   app.get("/v1/surveys/:id/loads.csv", async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
-    const latest = latestRevision(store, request.actor.orgId, id);
+    const latest = await revisionOf(store, request.actor.orgId, id);
     return reply
       .type("text/csv; charset=utf-8; header=present")
       .header("content-disposition", `attachment; filename="${id}-r${latest.n}-loads.csv"`)
@@ -62,8 +50,8 @@ export async function surveyReadRoutes(app: FastifyInstance, opts: { store: Stor
     const before = decodeCursor("s", surveyCursor, query.cursor);
     const range = rangeOf(query);
     const { orgId } = request.actor;
-    findBuilding(store, orgId, id);
-    const rows = store.surveys.listByBuilding(orgId, id, {
+    await findBuilding(store, orgId, id);
+    const rows = await store.surveys.listByBuilding(orgId, id, {
       ...range,
       ...(before ? { before: { t: before.t, id: before.i } } : {}),
       limit: limit + 1,
@@ -76,8 +64,8 @@ export async function surveyReadRoutes(app: FastifyInstance, opts: { store: Stor
     const { id } = parseOr400(idParams, request.params);
     const range = rangeOf(parseOr400(trendQuerySchema, request.query));
     const { orgId } = request.actor;
-    findBuilding(store, orgId, id);
-    const rows = store.surveys.trend(orgId, id, { ...range, limit: TREND_MAX_POINTS + 1 });
+    await findBuilding(store, orgId, id);
+    const rows = await store.surveys.trend(orgId, id, { ...range, limit: TREND_MAX_POINTS + 1 });
     return {
       buildingId: id,
       order: "oldest_first",

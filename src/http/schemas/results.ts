@@ -361,6 +361,7 @@ export const problemSchema = z.object({
 });
 
 export const healthSchema = z.object({ status: z.literal("ok") });
+export const readySchema = z.object({ status: z.literal("ready"), database: z.literal("reachable"), migrations: z.literal("current") });
 
 const limitCheck = z.object({ valuePct: z.number(), limitPct: z.number(), marginPct: z.number(), pass: z.boolean() });
 const dutyQuantity = limitCheck.extend({ aboveRating: z.boolean() });

@@ -1,7 +1,6 @@
-import type { BuildingListQuery } from "../buildings-repo.js";
-import { buildingFromRow } from "../buildings-repo.js";
 import type { BuildingsRepository } from "../ports.js";
-import type { BuildingData, BuildingRecord, BuildingVersion } from "../types.js";
+import { buildingFromRow } from "../sqlite/buildings-repo.js";
+import type { BuildingData, BuildingListQuery, BuildingRecord, BuildingVersion } from "../types.js";
 import { all, jsonb, one, type Sql } from "./sql.js";
 
 // JSON columns read back as text so the SQLite store's row mapper serves both stores.

@@ -1,4 +1,4 @@
-import type { IdempotencyRecord } from "../idempotency-repo.js";
+import type { IdempotencyRecord } from "../types.js";
 import type { ClaimOutcome, IdempotencyClaim, IdempotencyRepository } from "../ports.js";
 import { one, type Sql } from "./sql.js";
 

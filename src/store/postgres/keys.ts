@@ -1,5 +1,5 @@
-import { LAST_USED_EVERY_MS, type ApiKeyRecord, type Organisation } from "../keys-repo.js";
-import type { KeysRepository } from "../ports.js";
+import { LAST_USED_EVERY_MS, type KeysRepository } from "../ports.js";
+import type { ApiKeyRecord, Organisation } from "../types.js";
 import { all, one, type Sql } from "./sql.js";
 
 const COLUMNS = `id, org_id AS "orgId", prefix, secret_sha256 AS "secretSha256", role, label, created_at AS "createdAt",

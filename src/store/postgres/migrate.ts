@@ -1,6 +1,6 @@
 import { fileURLToPath } from "node:url";
 import pg from "pg";
-import { checkApplied, loadMigrations, MigrationError, type MigrationReport } from "../migrate.js";
+import { checkApplied, loadMigrations, MigrationError, type MigrationReport } from "../sqlite/migrate.js";
 
 /** migrations/postgres/ at the project root, from src/store/postgres/ (tsx, vitest) and dist/store/postgres/ alike. */
 export const POSTGRES_MIGRATIONS_DIR = fileURLToPath(new URL("../../../migrations/postgres/", import.meta.url));

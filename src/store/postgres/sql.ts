@@ -41,6 +41,6 @@ export function redactedUrl(url: string): string {
     if (u.password) u.password = "***";
     return u.toString();
   } catch {
-    return "postgres://(unparseable URL)";
+    return "the DATABASE_URL (not a URL)";
   }
 }

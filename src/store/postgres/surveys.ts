@@ -1,7 +1,5 @@
-import type { SurveyResultRow } from "../bank-health-repo.js";
 import type { SurveysRepository } from "../ports.js";
-import type { SurveyRange } from "../surveys-repo.js";
-import type { NewRevision, RevisionRecord, SurveyHead } from "../types.js";
+import type { NewRevision, RevisionRecord, SurveyHead, SurveyRange, SurveyResultRow } from "../types.js";
 import { all, jsonb, one, type Sql } from "./sql.js";
 
 /** The head's columns under the record's own names. */

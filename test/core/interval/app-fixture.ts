@@ -13,7 +13,7 @@ export async function makeIntervalApp(): Promise<{ app: FastifyInstance; close: 
   const config = defaultConfig({ DATABASE_PATH: join(dir, "test.sqlite"), DEMO_DATA: "off", PFC_BOOTSTRAP_KEY: key, RATE_LIMIT_PER_MINUTE: 10_000_000 });
   const app = await buildApp({ config, logger: false });
   await app.ready();
-  registerAdminKey(app, key);
+  await registerAdminKey(app, key);
   return {
     app,
     close: async () => {

@@ -5,7 +5,7 @@ import { fileURLToPath } from "node:url";
 import { promisify } from "node:util";
 import pg from "pg";
 import { afterEach, expect, it } from "vitest";
-import { MigrationError, type MigrationReport } from "../../../src/store/migrate.js";
+import { MigrationError, type MigrationReport } from "../../../src/store/sqlite/migrate.js";
 import { migratePostgres } from "../../../src/store/postgres/migrate.js";
 import { openPostgresStore } from "../../../src/store/postgres/store.js";
 import { tempDir } from "../../helpers/db.js";

@@ -6,10 +6,10 @@ import type { Db } from "./database.js";
 
 /**
  * Numbered plain-SQL migrations (001_init.sql, 002_…) applied in order and recorded in
- * schema_migrations. The directory sits at the project root: ../../migrations from both
- * src/store/ (tsx, vitest) and dist/store/ (compiled).
+ * schema_migrations. The directory sits at the project root: ../../../migrations from both
+ * src/store/sqlite/ (tsx, vitest) and dist/store/sqlite/ (compiled).
  */
-export const DEFAULT_MIGRATIONS_DIR = fileURLToPath(new URL("../../migrations/", import.meta.url));
+export const DEFAULT_MIGRATIONS_DIR = fileURLToPath(new URL("../../../migrations/", import.meta.url));
 
 export interface Migration {
   version: number;

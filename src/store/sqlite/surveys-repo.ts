@@ -1,4 +1,4 @@
-import type { SizingResult } from "../core/pipeline/size.js";
+import type { SizingResult } from "../../core/pipeline/size.js";
 import type { Db } from "./database.js";
 import type {
   BuildingSnapshot,
@@ -7,7 +7,9 @@ import type {
   RevisionRecord,
   SurveyHead,
   SurveyInputs,
-} from "./types.js";
+  SurveyPageQuery,
+  SurveyRange,
+} from "../types.js";
 
 interface HeadRow {
   id: string;
@@ -94,18 +96,6 @@ function revisionFromRow(r: RevisionRow): RevisionRecord {
       installedKvarDelivered: r.installed_kvar_delivered ?? null,
     },
   };
-}
-
-export interface SurveyRange {
-  /** Inclusive UTC bounds (ISO strings), either may be absent. */
-  fromUtc?: string;
-  toUtc?: string;
-}
-
-export interface SurveyPageQuery extends SurveyRange {
-  /** Keyset position, newest-first order: the last item of the previous page. */
-  before?: { t: string; id: string };
-  limit: number;
 }
 
 export type SurveysRepo = ReturnType<typeof surveysRepo>;

@@ -1,6 +1,6 @@
-import type { IntervalSummary } from "../core/interval/summary.js";
+import type { IntervalSummary } from "../../core/interval/summary.js";
 import type { Db } from "./database.js";
-import type { IntervalAnalysisListEntry, IntervalAnalysisRecord } from "./types.js";
+import type { IntervalAnalysisListEntry, IntervalAnalysisRecord, NewIntervalAnalysis } from "../types.js";
 
 interface ListRow {
   seq: number;
@@ -44,15 +44,6 @@ function entryOf(r: ListRow): IntervalAnalysisListEntry {
 function recordOf(r: FullRow): IntervalAnalysisRecord {
   const { seq: _seq, ...entry } = entryOf(r);
   return { ...entry, actor: r.actor, requestId: r.request_id, summary: JSON.parse(r.summary_json) as IntervalSummary };
-}
-
-export interface NewIntervalAnalysis {
-  id: string;
-  buildingId: string;
-  createdAt: string;
-  actor: string;
-  requestId: string | null;
-  summary: IntervalSummary;
 }
 
 export type IntervalAnalysesRepo = ReturnType<typeof intervalAnalysesRepo>;

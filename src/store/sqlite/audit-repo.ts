@@ -1,10 +1,5 @@
 import type { Db } from "./database.js";
-import type { AuditEntry } from "./types.js";
-
-/** What a write records; the stored entry adds its row id. */
-export interface AuditEvent extends Omit<AuditEntry, "id"> {
-  orgId: string;
-}
+import type { AuditEntry, AuditEvent } from "../types.js";
 
 export type AuditRepo = ReturnType<typeof auditRepo>;
 

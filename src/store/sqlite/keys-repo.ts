@@ -1,30 +1,9 @@
-import type { Role } from "../auth/keys.js";
+import { LAST_USED_EVERY_MS } from "../ports.js";
+import type { ApiKeyRecord, Organisation } from "../types.js";
 import type { Db } from "./database.js";
-
-export interface ApiKeyRecord {
-  id: string;
-  orgId: string;
-  prefix: string;
-  secretSha256: string;
-  role: Role;
-  label: string | null;
-  createdAt: string;
-  createdBy: string;
-  revokedAt: string | null;
-  lastUsedAt: string | null;
-}
-
-export interface Organisation {
-  id: string;
-  name: string;
-  createdAt: string;
-}
 
 const COLUMNS = `id, org_id AS orgId, prefix, secret_sha256 AS secretSha256, role, label, created_at AS createdAt,
   created_by AS createdBy, revoked_at AS revokedAt, last_used_at AS lastUsedAt`;
-
-/** Only at most once a minute per key is its last-used time written, to spare writes. */
-export const LAST_USED_EVERY_MS = 60_000;
 
 /** API keys and organisations. */
 export function keysRepo(db: Db) {

@@ -1,7 +1,7 @@
-import type { EconomicsSettings } from "../core/economics/of-sizing.js";
-import type { InstalledBankInput } from "../core/inputs.js";
+import type { EconomicsSettings } from "../../core/economics/of-sizing.js";
+import type { InstalledBankInput } from "../../core/inputs.js";
 import type { Db } from "./database.js";
-import type { BuildingData, BuildingRecord, BuildingVersion } from "./types.js";
+import type { BuildingData, BuildingListQuery, BuildingRecord, BuildingVersion } from "../types.js";
 
 interface BuildingRow {
   id: string;
@@ -64,18 +64,6 @@ function columnsOf(d: BuildingData) {
     economics_json: d.economics ? JSON.stringify(d.economics) : null,
     installed_banks_json: d.installedBanks && d.installedBanks.length > 0 ? JSON.stringify(d.installedBanks) : null,
   };
-}
-
-export function dataOf(b: BuildingRecord): BuildingData {
-  return { name: b.name, address: b.address, notes: b.notes, system: b.system, transformer: b.transformer, utility: b.utility, economics: b.economics, ...(b.installedBanks ? { installedBanks: b.installedBanks } : {}) };
-}
-
-export interface BuildingListQuery {
-  /** Substring of the name, case-insensitive (ASCII). */
-  q?: string;
-  /** Keyset position: the (name, id) of the last item of the previous page. */
-  after?: { name: string; id: string };
-  limit: number;
 }
 
 export type BuildingsRepo = ReturnType<typeof buildingsRepo>;

@@ -1,13 +1,6 @@
-import type { SizingResult } from "../core/pipeline/size.js";
+import type { SizingResult } from "../../core/pipeline/size.js";
 import type { Db } from "./database.js";
-import type { BuildingSnapshot } from "./types.js";
-
-export interface SurveyResultRow {
-  surveyId: string;
-  surveyedAt: string;
-  result: SizingResult;
-  building: BuildingSnapshot;
-}
+import type { BuildingSnapshot, SurveyResultRow } from "../types.js";
 
 /** The latest revision's result and snapshot of each survey of a building, oldest first: for series read from results. */
 export function surveyResultsRepo(db: Db) {

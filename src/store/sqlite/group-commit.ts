@@ -1,0 +1,121 @@
+import type { Db } from "./database.js";
+
+interface Job<R> {
+  fn: (tx: R) => Promise<unknown>;
+  resolve: (value: unknown) => void;
+  reject: (error: unknown) => void;
+  outcome?: { ok: true; value: unknown } | { ok: false; error: unknown };
+}
+
+/** Most transactions one COMMIT carries; the rest wait for the next. */
+export const MAX_GROUP = 256;
+
+/**
+ * Group commit on one better-sqlite3 connection. Transactions asked for while another group runs or commits wait in
+ * a queue; the next turn of the event loop runs all of them in one BEGIN IMMEDIATE … COMMIT, each inside its own
+ * SAVEPOINT, so one that throws rolls back only its own writes. Every caller's promise settles after the shared
+ * COMMIT (with synchronous = FULL, after the fsync), so nothing is acknowledged before it is durable; one fsync then
+ * serves the whole group, which is where the speed comes from (the WAL write-ahead log's usual group commit).
+ *
+ * While a group is open no other statement may run on the connection (it would join the open transaction):
+ * `idle()` is what plain reads await first.
+ */
+export class GroupCommitter<R> {
+  private readonly queue: Job<R>[] = [];
+  private scheduled = false;
+  private open: Promise<void> | null = null;
+
+  constructor(
+    private readonly db: Db,
+    private readonly tx: R,
+  ) {}
+
+  /** True while a group's transaction is open. */
+  get busy(): boolean {
+    return this.open !== null;
+  }
+
+  /** Resolves when no group is open (at once when none is). */
+  async idle(): Promise<void> {
+    while (this.open) await this.open;
+  }
+
+  /** Resolves when the queue is empty and no group is open. */
+  async drained(): Promise<void> {
+    while (this.open || this.queue.length > 0 || this.scheduled) {
+      await (this.open ?? new Promise((r) => setImmediate(r)));
+    }
+  }
+
+  run<T>(fn: (tx: R) => Promise<T>): Promise<T> {
+    return new Promise<T>((resolve, reject) => {
+      this.queue.push({ fn, resolve: resolve as (v: unknown) => void, reject });
+      this.schedule();
+    });
+  }
+
+  private schedule(): void {
+    if (this.scheduled || this.open) return;
+    this.scheduled = true;
+    // setImmediate, not a microtask: requests whose bodies arrived during the last fsync get to queue first.
+    setImmediate(() => {
+      this.scheduled = false;
+      void this.runGroup();
+    });
+  }
+
+  private async runGroup(): Promise<void> {
+    const jobs = this.queue.splice(0, MAX_GROUP);
+    if (jobs.length === 0) return;
+    let done!: () => void;
+    this.open = new Promise<void>((r) => (done = r));
+    try {
+      await this.commitGroup(jobs);
+    } finally {
+      this.open = null;
+      done();
+      if (this.queue.length > 0) this.schedule();
+    }
+  }
+
+  private async commitGroup(jobs: Job<R>[]): Promise<void> {
+    const failAll = (error: unknown) => {
+      if (this.db.inTransaction) this.db.exec("ROLLBACK");
+      for (const j of jobs) j.reject(error);
+    };
+    try {
+      this.db.exec("BEGIN IMMEDIATE");
+    } catch (error) {
+      failAll(error);
+      return;
+    }
+    for (const job of jobs) {
+      try {
+        this.db.exec("SAVEPOINT one_caller");
+        job.outcome = { ok: true, value: await job.fn(this.tx) };
+        this.db.exec("RELEASE one_caller");
+      } catch (error) {
+        job.outcome = { ok: false, error };
+        try {
+          this.db.exec("ROLLBACK TO one_caller");
+          this.db.exec("RELEASE one_caller");
+        } catch (lost) {
+          // SQLite itself ended the transaction (e.g. disk full): the whole group is lost.
+          failAll(this.db.inTransaction ? lost : error);
+          return;
+        }
+      }
+    }
+    try {
+      this.db.exec("COMMIT");
+    } catch (error) {
+      failAll(error);
+      return;
+    }
+    for (const j of jobs) {
+      const o = j.outcome;
+      if (o?.ok) j.resolve(o.value);
+      else j.reject(o?.error);
+    }
+  }
+}

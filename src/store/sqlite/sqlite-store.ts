@@ -1,0 +1,131 @@
+import type { Readiness, Repositories, Store } from "../ports.js";
+import { auditRepo } from "./audit-repo.js";
+import { surveyResultsRepo } from "./bank-health-repo.js";
+import { buildingsRepo } from "./buildings-repo.js";
+import { enableWal, openDatabase, type Db } from "./database.js";
+import { GroupCommitter } from "./group-commit.js";
+import { idempotencyRepo } from "./idempotency-repo.js";
+import { intervalAnalysesRepo } from "./interval-analyses-repo.js";
+import { keysRepo } from "./keys-repo.js";
+import { DEFAULT_MIGRATIONS_DIR, migrate, type MigrationReport } from "./migrate.js";
+import { surveysRepo } from "./surveys-repo.js";
+
+export interface SqliteStoreOptions {
+  /** SQLite file (its directory is created if missing) or ":memory:". */
+  path: string;
+  /** Where the NNN_name.sql files are; the project's migrations/ by default. */
+  migrationsDir?: string;
+  /** The clock for every timestamp the store writes; tests move it. */
+  now?: () => Date;
+}
+
+/** The SQLite store, with its raw handle for SQLite-only tests and the backup. */
+export interface SqliteStore extends Store {
+  readonly kind: "sqlite";
+  readonly db: Db;
+  readonly path: string;
+  readonly migration: MigrationReport;
+}
+
+/** Each method of a synchronous repository as an async one; `gate` runs first (waits for an open group). */
+type Asynced<T> = { [K in keyof T]: T[K] extends (...a: infer A) => infer V ? (...a: A) => Promise<V> : never };
+
+function asynced<T extends object>(sync: T, gate: () => Promise<void> | undefined): Asynced<T> {
+  const out: Record<string, unknown> = {};
+  for (const [name, f] of Object.entries(sync) as [string, (...a: unknown[]) => unknown][]) {
+    out[name] = async (...a: unknown[]) => {
+      const wait = gate();
+      if (wait) await wait;
+      return f(...a);
+    };
+  }
+  return out as Asynced<T>;
+}
+
+function syncRepositories(db: Db) {
+  const used = db.prepare("SELECT EXISTS (SELECT 1 FROM buildings) OR EXISTS (SELECT 1 FROM audit_log) AS used");
+  return {
+    buildings: buildingsRepo(db),
+    surveys: { ...surveysRepo(db), ...surveyResultsRepo(db) },
+    intervalAnalyses: intervalAnalysesRepo(db),
+    idempotency: idempotencyRepo(db),
+    audit: auditRepo(db),
+    keys: keysRepo(db),
+    isPristine: () => (used.get() as { used: number }).used === 0,
+  };
+}
+
+function repositories(sync: ReturnType<typeof syncRepositories>, gate: () => Promise<void> | undefined): Repositories {
+  return {
+    buildings: asynced(sync.buildings, gate),
+    surveys: asynced(sync.surveys, gate),
+    intervalAnalyses: asynced(sync.intervalAnalyses, gate),
+    idempotency: asynced(sync.idempotency, gate),
+    audit: asynced(sync.audit, gate),
+    keys: asynced(sync.keys, gate),
+    isPristine: asynced({ isPristine: sync.isPristine }, gate).isPristine,
+  };
+}
+
+/**
+ * Open the database, bring it to the latest schema, and build the store: async repositories over the synchronous
+ * driver on one connection. Transactions go through group commit (./group-commit.ts); a plain read waits while a
+ * group is open, so it never sees another request's uncommitted rows.
+ */
+export async function openSqliteStore(options: SqliteStoreOptions): Promise<SqliteStore> {
+  const db = openDatabase(options.path);
+  const now = options.now ?? (() => new Date());
+  const migrationsDir = options.migrationsDir ?? DEFAULT_MIGRATIONS_DIR;
+  let migration: MigrationReport;
+  try {
+    migration = migrate(db, migrationsDir, now);
+    enableWal(db);
+  } catch (err) {
+    db.close();
+    throw err;
+  }
+  const sync = syncRepositories(db);
+  const inTx = repositories(sync, () => undefined);
+  const committer = new GroupCommitter<Repositories>(db, inTx);
+  const gate = () => (committer.busy ? committer.idle() : undefined);
+  const plain = repositories(sync, gate);
+  const latestKnown = migration.to;
+  const appliedVersion = db.prepare("SELECT coalesce(max(version), 0) AS v FROM schema_migrations");
+  let closed = false;
+
+  return {
+    kind: "sqlite",
+    location: options.path,
+    db,
+    path: options.path,
+    migration,
+    now,
+    ...plain,
+    transaction: <T>(fn: (tx: Repositories) => Promise<T>) => committer.run(fn),
+    // One connection per process and BEGIN IMMEDIATE takes the file's write lock: other processes wait for it.
+    exclusively: <T>(fn: (tx: Repositories) => Promise<T>) => committer.run(fn),
+    async readiness(): Promise<Readiness> {
+      if (closed) return { databaseReachable: false, migrationsCurrent: false, detail: "the store is closed" };
+      try {
+        await committer.idle();
+        const v = (appliedVersion.get() as { v: number }).v;
+        const current = v === latestKnown;
+        return { databaseReachable: true, migrationsCurrent: current, ...(current ? {} : { detail: `schema at version ${v}, this build knows ${latestKnown}` }) };
+      } catch (err) {
+        return { databaseReachable: false, migrationsCurrent: false, detail: (err as Error).message };
+      }
+    },
+    async close(): Promise<void> {
+      if (closed) return;
+      closed = true;
+      await committer.drained();
+      db.close();
+    },
+  };
+}
+
+/** The SQLite store behind `store`, for what only SQLite has (its raw handle: backup, SQLite-only tests and benches). */
+export function sqliteOf(store: Store): SqliteStore {
+  if (store.kind !== "sqlite" || !("db" in store)) throw new Error(`this needs the SQLite store; the store is ${store.kind} at ${store.location}`);
+  return store as SqliteStore;
+}
