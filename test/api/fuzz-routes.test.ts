@@ -9,7 +9,7 @@ import { inject, keyFor, keyIdOf } from "../helpers/auth.js";
 import { exampleSizingBody } from "../helpers/bodies.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
-import { sqliteStore } from "../helpers/store.js";
+import { sqlRows } from "../helpers/store.js";
 
 /**
  * Property-based fuzzing of every route (src/http/operations.ts plus the report pages): random or mutated
@@ -110,9 +110,10 @@ const headerArb = fc.record({
 
 /** Row counts, plus the columns an UPDATE can change (building versions, latest revisions, revocations). */
 async function fingerprint(): Promise<string> {
-  const changed = sqliteStore(store).db
-    .prepare("SELECT (SELECT total(version) FROM buildings) AS v, (SELECT total(latest_revision) FROM surveys) AS r, (SELECT count(revoked_at) FROM api_keys) AS k")
-    .get();
+  const changed = await sqlRows(
+    store,
+    "SELECT (SELECT coalesce(sum(version), 0) FROM buildings) AS v, (SELECT coalesce(sum(latest_revision), 0) FROM surveys) AS r, (SELECT count(revoked_at) FROM api_keys) AS k",
+  );
   return JSON.stringify([await rowCounts(store), changed]);
 }
 

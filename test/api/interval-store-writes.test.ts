@@ -5,7 +5,7 @@ import { csvOfSeries, syntheticYear } from "../core/interval/fixtures.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 import { api, inject } from "../helpers/auth.js";
-import { sqliteStore } from "../helpers/store.js";
+import { sqlCount } from "../helpers/store.js";
 
 let app: FastifyInstance;
 let store: Store;
@@ -24,7 +24,7 @@ const twoDaysOther = csvOfSeries(syntheticYear(24, () => ({ kW: 250, kvar: 190 }
 const url = (b = buildingId, q = "") => `/v1/buildings/${b}/interval-analyses${q}`;
 const attach = (payload: string, headers: Record<string, string> = CSV, q = "", b = buildingId) =>
   inject(app, { method: "POST", url: url(b, q), headers, payload });
-const analysisRows = () => (sqliteStore(store).db.prepare("SELECT count(*) AS n FROM interval_analyses").get() as { n: number }).n;
+const analysisRows = () => sqlCount(store, "SELECT count(*) AS n FROM interval_analyses");
 
 describe("rejected uploads change nothing", () => {
   const good = "time,kW,kvar\n2026-03-01 00:00,100,50\n2026-03-01 00:15,100,50\n2026-03-01 00:30,100,50\n";
@@ -60,13 +60,13 @@ describe("Idempotency-Key on uploads (digest of the bytes read)", () => {
     const first = await attach(twoDays, headers);
     expect(first.statusCode).toBe(201);
     expect(first.headers["idempotent-replayed"]).toBe("false");
-    const rows = analysisRows();
+    const rows = await analysisRows();
     const again = await attach(twoDays, headers);
     expect(again.statusCode).toBe(201);
     expect(again.headers["idempotent-replayed"]).toBe("true");
     expect(again.headers.location).toBe(first.headers.location);
     expect(again.json()).toEqual(first.json());
-    expect(analysisRows()).toBe(rows);
+    expect(await analysisRows()).toBe(rows);
   });
 
   it("the same key with other bytes, another query or another form field is a 422", async () => {

@@ -4,7 +4,7 @@ import type { Store } from "../../src/store/ports.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 import { inject } from "../helpers/auth.js";
-import { sqliteStore } from "../helpers/store.js";
+import { sqlCount } from "../helpers/store.js";
 
 let app: FastifyInstance;
 let store: Store;
@@ -20,11 +20,11 @@ afterAll(() => app.close());
 
 const postSurvey = (key: string, payload: unknown) =>
   inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: payload as object, headers: { "idempotency-key": key } });
-const surveyCount = () => (sqliteStore(store).db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
+const surveyCount = () => sqlCount(store, "SELECT count(*) AS n FROM surveys");
 
 describe("Idempotency-Key", () => {
   it("same key and same body: one survey, the first response again", async () => {
-    const n = surveyCount();
+    const n = await surveyCount();
     const first = await postSurvey("k-same", surveyBody());
     expect(first.statusCode).toBe(201);
     expect(first.headers["idempotent-replayed"]).toBe("false");
@@ -37,7 +37,7 @@ describe("Idempotency-Key", () => {
     expect(second.headers.location).toBe(first.headers.location);
     expect(second.json()).toEqual(first.json());
     expect(await rowCounts(store)).toEqual(counts);
-    expect(surveyCount()).toBe(n + 1);
+    expect(await surveyCount()).toBe(n + 1);
   });
 
   it("same key with a different body: 422 problem, nothing written", async () => {
@@ -90,14 +90,14 @@ describe("Idempotency-Key", () => {
     expect(replay.headers["idempotent-replayed"]).toBe("true");
     expect(replay.json().id).toBe(first.json().id);
     clock += 2 * HOUR; // 49 h after the first use
-    const n = surveyCount();
+    const n = await surveyCount();
     const fresh = await postSurvey("k-old", surveyBody({ surveyor: "new request after expiry" }));
     expect(fresh.statusCode).toBe(201);
     expect(fresh.json().id).not.toBe(first.json().id);
-    expect(surveyCount()).toBe(n + 1);
+    expect(await surveyCount()).toBe(n + 1);
     // lazily purged: records older than 48 h are gone
-    const old = sqliteStore(store).db.prepare("SELECT count(*) AS n FROM idempotency_keys WHERE created_at < ?").get(new Date(clock - 48 * HOUR).toISOString()) as { n: number };
-    expect(old.n).toBe(0);
+    const old = await sqlCount(store, "SELECT count(*) AS n FROM idempotency_keys WHERE created_at < ?", [new Date(clock - 48 * HOUR).toISOString()]);
+    expect(old).toBe(0);
   });
 
   it('takes the draft\'s quoted form: "k1" is the key k1, escapes undone', async () => {

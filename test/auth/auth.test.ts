@@ -5,7 +5,7 @@ import { generateKey } from "../../src/auth/keys.js";
 import { api, bearer, inject, keyFor } from "../helpers/auth.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
-import { sqliteStore } from "../helpers/store.js";
+import { sqlRows } from "../helpers/store.js";
 
 let app: FastifyInstance;
 let adminKey: string;
@@ -111,7 +111,8 @@ describe("keys", () => {
     const key: string = created.body.key;
     expect(key).toMatch(/^pfc_[0-9a-z]{8}_[A-Za-z0-9_-]{43}$/);
     expect(created.body.prefix).toBe(key.slice(4, 12));
-    const row = sqliteStore(app.store).db.prepare("SELECT * FROM api_keys WHERE id = ?").get(created.body.id) as Record<string, string>;
+    const [row] = await sqlRows<Record<string, string>>(app.store, "SELECT * FROM api_keys WHERE id = ?", [created.body.id]);
+    if (!row) throw new Error("the new key has no row");
     expect(JSON.stringify(row)).not.toContain(key.slice(13));
 
     expect((await api(app, key).get("/v1/buildings")).status).toBe(200);

@@ -9,12 +9,13 @@ import { defaultConfig, loadConfig } from "../../src/config.js";
 import { openSqliteStore } from "../../src/store/sqlite/sqlite-store.js";
 import { api, bearer, inject } from "../helpers/auth.js";
 import { makeStoreApp, rowCounts, tempDatabasePath } from "../helpers/db.js";
+import { databaseEnvFor } from "../helpers/store.js";
 import { buildingBody } from "../store/fixtures.js";
 
 const run = promisify(execFile);
 const root = fileURLToPath(new URL("../../", import.meta.url));
-const keysCli = (path: string, args: string[]) =>
-  run(process.execPath, ["--import", "tsx", "scripts/keys.ts", ...args], { cwd: root, env: { ...process.env, DATABASE_PATH: path } });
+const keysCli = (path: string, args: string[], env: Record<string, string> = { DATABASE_PATH: path }) =>
+  run(process.execPath, ["--import", "tsx", "scripts/keys.ts", ...args], { cwd: root, env: { ...process.env, ...env } });
 
 describe("bootstrap key", () => {
   it("generates one admin key on a database without keys, hands it over once, and not again on the next start", async () => {
@@ -96,12 +97,14 @@ describe("bootstrap key", () => {
 describe("npm run keys", () => {
   it("creates a key in a new organisation offline, printing the key alone on its last line", async () => {
     const path = tempDatabasePath();
-    const { stdout } = await keysCli(path, ["create", "--role", "surveyor", "--org", "Second company"]);
+    // The database the test store will open for this path (SQLite file, or PostgreSQL with TEST_STORE=postgres).
+    const env = await databaseEnvFor(path);
+    const { stdout } = await keysCli(path, ["create", "--role", "surveyor", "--org", "Second company"], env);
     const lines = stdout.trimEnd().split("\n");
     const key = lines.at(-1) as string;
     expect(key).toMatch(/^pfc_[0-9a-z]{8}_[A-Za-z0-9_-]{43}$/);
     expect(stdout).toContain('created organisation "Second company"');
-    const again = await keysCli(path, ["create", "--role", "auditor", "--org", "Second company"]);
+    const again = await keysCli(path, ["create", "--role", "auditor", "--org", "Second company"], env);
     expect(again.stdout).not.toContain("created organisation");
 
     const { app, key: admin } = await makeStoreApp({ DATABASE_PATH: path });

@@ -1,3 +1,4 @@
+import pg from "pg";
 import type { Store } from "../../src/store/ports.js";
 import { auditRepo } from "../../src/store/sqlite/audit-repo.js";
 import { surveyResultsRepo } from "../../src/store/sqlite/bank-health-repo.js";
@@ -7,6 +8,8 @@ import { intervalAnalysesRepo } from "../../src/store/sqlite/interval-analyses-r
 import { keysRepo } from "../../src/store/sqlite/keys-repo.js";
 import { openSqliteStore, sqliteOf, type SqliteStore } from "../../src/store/sqlite/sqlite-store.js";
 import { surveysRepo } from "../../src/store/sqlite/surveys-repo.js";
+import { openPostgresStore } from "../../src/store/postgres/store.js";
+import { freshDatabase } from "./postgres.js";
 
 export interface TestStoreOptions {
   /** SQLite file for this test (a fresh temp path from tempDatabasePath()). */
@@ -15,12 +18,59 @@ export interface TestStoreOptions {
   now?: () => Date;
 }
 
+/** TEST_STORE=postgres (with TEST_DATABASE_URL): the suites that take their store here run on PostgreSQL. */
+export const TEST_STORE_KIND: "sqlite" | "postgres" = process.env.TEST_STORE === "postgres" ? "postgres" : "sqlite";
+
+/** Per PostgreSQL store of this file: its database's URL, for sqlRows. */
+const postgresUrls = new WeakMap<Store, string>();
+/** The database standing for each SQLite path, so that reopening "the same file" reopens the same database. */
+const databaseOfPath = new Map<string, string>();
+
 /**
- * The ONE place the test suites get their store. Today: SQLite at `path`. To run every API suite against
- * PostgreSQL, switch here (e.g. on TEST_DATABASE_URL: a fresh schema per call through openPostgresStore).
+ * The ONE place the test suites get their store: SQLite at `path`; with TEST_STORE=postgres a PostgreSQL database
+ * standing for that path (fresh the first time, the same one when the path is opened again, as after a restart).
  */
-export function openTestStore(o: TestStoreOptions): Promise<Store> {
+export async function openTestStore(o: TestStoreOptions): Promise<Store> {
+  if (TEST_STORE_KIND === "postgres") {
+    const { DATABASE_URL: url = "" } = await databaseEnvFor(o.path);
+    const store = await openPostgresStore({ url, poolSize: 4, statementTimeoutMs: 10_000, sslMode: "disable", ...(o.now ? { now: o.now } : {}) });
+    postgresUrls.set(store, url);
+    return store;
+  }
   return openSqliteStore({ path: o.path, ...(o.migrationsDir ? { migrationsDir: o.migrationsDir } : {}), ...(o.now ? { now: o.now } : {}) });
+}
+
+/** What a child process (npm run keys, a server) needs in its environment to open the store `openTestStore` gave for `path`. */
+export async function databaseEnvFor(path: string): Promise<Record<string, string>> {
+  if (TEST_STORE_KIND !== "postgres") return { DATABASE_PATH: path };
+  const base = process.env.TEST_DATABASE_URL;
+  if (!base) throw new Error('TEST_STORE=postgres needs TEST_DATABASE_URL: eval "$(scripts/test-services.sh start)"');
+  const url = databaseOfPath.get(path) ?? (await freshDatabase(base));
+  databaseOfPath.set(path, url);
+  return { DATABASE_URL: url };
+}
+
+/**
+ * Rows of one SQL statement run beside the store, for what the ports do not offer (counts, stored columns).
+ * Written with `?` placeholders as SQLite takes them; on PostgreSQL they become $1, $2…
+ */
+export async function sqlRows<R = Record<string, unknown>>(store: Store, sql: string, params: unknown[] = []): Promise<R[]> {
+  const url = postgresUrls.get(store);
+  if (!url) return sqliteOf(store).db.prepare(sql).all(...params) as R[];
+  let n = 0;
+  const client = new pg.Client({ connectionString: url });
+  await client.connect();
+  try {
+    return (await client.query(sql.replace(/\?/g, () => `$${++n}`), params)).rows as R[];
+  } finally {
+    await client.end();
+  }
+}
+
+/** count(*) of a query written for sqlRows. */
+export async function sqlCount(store: Store, sql: string, params: unknown[] = []): Promise<number> {
+  const rows = await sqlRows<Record<string, unknown>>(store, sql, params);
+  return Number(Object.values(rows[0] ?? {})[0] ?? NaN);
 }
 
 /** For tests that only make sense on SQLite (raw SQL, file checks): the SQLite store behind `store`. */
@@ -30,10 +80,14 @@ export function sqliteStore(store: Store): SqliteStore {
 
 /** Row count of every table, to prove a rejected request changed nothing. */
 export async function rowCounts(store: Store): Promise<Record<string, number>> {
-  await Promise.resolve();
-  const { db } = sqliteOf(store);
-  const tables = db.prepare("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name").all() as { name: string }[];
-  return Object.fromEntries(tables.map(({ name }) => [name, (db.prepare(`SELECT count(*) AS n FROM "${name}"`).get() as { n: number }).n]));
+  const tables = await sqlRows<{ name: string }>(
+    store,
+    postgresUrls.has(store)
+      ? "SELECT table_name AS name FROM information_schema.tables WHERE table_schema = 'public' ORDER BY table_name"
+      : "SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name",
+  );
+  const counts = await Promise.all(tables.map(async ({ name }) => [name, await sqlCount(store, `SELECT count(*) AS n FROM "${name}"`)] as const));
+  return Object.fromEntries(counts);
 }
 
 /** Rows in one table. */
