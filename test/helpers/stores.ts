@@ -1,4 +1,7 @@
+import { describe } from "vitest";
 import pg from "pg";
+import { openSqliteStore, sqliteOf } from "../../src/store/sqlite/sqlite-store.js";
+import { tempDatabasePath } from "./db.js";
 import { openPostgresStore } from "../../src/store/postgres/store.js";
 import type { Store } from "../../src/store/ports.js";
 import { describePostgres, freshDatabase } from "./postgres.js";
@@ -33,6 +36,19 @@ async function openPostgres(baseUrl: string, now?: () => Date): Promise<StoreUnd
  * Run `body` once per store: SQLite always, PostgreSQL when TEST_DATABASE_URL is set (skipped locally without it,
  * failing under CI=true). `open` gives a store on a fresh, empty database each time it is called.
  */
+async function openSqlite(now?: () => Date): Promise<StoreUnderTest> {
+  const store = await openSqliteStore({ path: tempDatabasePath(), ...(now ? { now } : {}) });
+  return {
+    store,
+    async raw(sql) {
+      await Promise.resolve();
+      sqliteOf(store).db.exec(sql);
+    },
+    close: () => store.close(),
+  };
+}
+
 export function describeEachStore(name: string, body: (open: (now?: () => Date) => Promise<StoreUnderTest>) => void): void {
+  describe(`${name} (sqlite)`, () => body(openSqlite));
   describePostgres(`${name} (postgres)`, (baseUrl) => body((now) => openPostgres(baseUrl, now)));
 }

@@ -232,6 +232,7 @@ describeEachStore("store contract", (open) => {
       expect(await store.idempotency.claim(ORG, "k_rel", c("h2", later), far, far)).toEqual({ kind: "claimed" });
       // Stale claim (its instance died): older than the stale-claim bound.
       expect(await store.idempotency.claim(ORG, "k_rel", c("h3", later), far, "2025-06-03T00:00:00.000Z")).toEqual({ kind: "claimed" });
+      await store.idempotency.claim(ORG, "k_done", c("h1"), far, far);
       await store.idempotency.complete(ORG, "k_done", record("h1"));
       // A finished record is not taken over as a stale claim, only once expired.
       expect((await store.idempotency.claim(ORG, "k_done", c("h4", later), far, "2030-01-01T00:00:00.000Z")).kind).toBe("done");
