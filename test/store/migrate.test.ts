@@ -15,7 +15,7 @@ const latest = readdirSync(projectMigrations).filter((f) => f.endsWith(".sql")).
 /** A migrations directory holding the project's files plus `extra`. */
 function migrationsWith(extra: Record<string, string>): string {
   const dir = tempDir();
-  for (const f of readdirSync(projectMigrations)) copyFileSync(join(projectMigrations, f), join(dir, f));
+  for (const f of readdirSync(projectMigrations).filter((x) => x.endsWith(".sql"))) copyFileSync(join(projectMigrations, f), join(dir, f));
   for (const [name, sql] of Object.entries(extra)) writeFileSync(join(dir, name), sql);
   return dir;
 }
