@@ -23,41 +23,56 @@ const REACH_EPS_KVAR = 1e-9;
  * an available size.
  */
 export function baseLadder(units: readonly number[], switchedNeededKvar: number, minSteps: number, multipliers: readonly number[]): BaseLadder {
-  const sorted = [...new Set(units)].sort((a, b) => a - b);
-  const largest = sorted[sorted.length - 1] ?? 1;
-  const maxJ = 4 * Math.max(1, Math.ceil(switchedNeededKvar / (minSteps * largest)));
-  const unitSet = new Set(sorted);
-  const isMultiple = (x: number): boolean => {
-    const j = Math.round(x / largest);
-    return j >= 2 && j <= maxJ && j * largest === x;
-  };
-  const available = (x: number) => unitSet.has(x) || isMultiple(x);
-  const usableUnits = sorted.filter((u) => multipliers.every((m) => available(m * u)));
-  const mMax = Math.max(1, ...multipliers);
-  // j·L is usable when every m·j is at most maxJ (m·j ≥ 2 always holds for j ≥ 2).
-  const maxUsableJ = Math.floor(maxJ / mMax);
-  const multiples = Math.max(0, maxUsableJ - 1);
-  const u = usableUnits.length;
-  const at = (i: number) => (i < u ? (usableUnits[i] as number) : (i - u + 2) * largest);
-  const short = (k: number, base: number, need: number) => k * base < need - REACH_EPS_KVAR;
-  return {
-    length: u + multiples,
-    at,
-    firstReaching(k, needKvar) {
-      for (let i = 0; i < u; i++) if (!short(k, usableUnits[i] as number, needKvar)) return i;
-      if (multiples === 0) return u;
-      let j = Math.max(2, Math.ceil(needKvar / (k * largest)));
-      // the estimate is within one of the answer; settle it with the same comparison as the listed search
-      while (j > 2 && !short(k, (j - 1) * largest, needKvar)) j--;
-      while (j <= maxUsableJ && short(k, j * largest, needKvar)) j++;
-      return j > maxUsableJ ? u + multiples : u + j - 2;
-    },
-    indexNear(kvar) {
-      const near = (b: number) => Math.abs(b - kvar) <= 1e-6 * b;
-      for (let i = 0; i < u; i++) if (near(usableUnits[i] as number)) return i;
-      const j = Math.round(kvar / largest);
-      for (const c of [j - 1, j]) if (c >= 2 && c <= maxUsableJ && near(c * largest)) return u + c - 2;
-      return -1;
-    },
-  };
+  return new Ladder(units, switchedNeededKvar, minSteps, multipliers);
+}
+
+class Ladder implements BaseLadder {
+  readonly length: number;
+  private readonly usableUnits: number[];
+  private readonly largest: number;
+  private readonly maxUsableJ: number;
+
+  constructor(units: readonly number[], switchedNeededKvar: number, minSteps: number, multipliers: readonly number[]) {
+    const sorted = [...new Set(units)].sort((a, b) => a - b);
+    const largest = sorted[sorted.length - 1] ?? 1;
+    const maxJ = 4 * Math.max(1, Math.ceil(switchedNeededKvar / (minSteps * largest)));
+    const unitSet = new Set(sorted);
+    const available = (x: number): boolean => {
+      if (unitSet.has(x)) return true;
+      const j = Math.round(x / largest);
+      return j >= 2 && j <= maxJ && j * largest === x;
+    };
+    this.usableUnits = sorted.filter((u) => multipliers.every((m) => available(m * u)));
+    this.largest = largest;
+    // j·L is usable when every m·j is at most maxJ (m·j ≥ 2 always holds for j ≥ 2).
+    this.maxUsableJ = Math.floor(maxJ / Math.max(1, ...multipliers));
+    this.length = this.usableUnits.length + Math.max(0, this.maxUsableJ - 1);
+  }
+
+  at(i: number): number {
+    const u = this.usableUnits.length;
+    return i < u ? (this.usableUnits[i] as number) : (i - u + 2) * this.largest;
+  }
+
+  firstReaching(k: number, needKvar: number): number {
+    const u = this.usableUnits.length;
+    const short = (base: number) => k * base < needKvar - REACH_EPS_KVAR;
+    for (let i = 0; i < u; i++) if (!short(this.usableUnits[i] as number)) return i;
+    if (this.maxUsableJ < 2) return u;
+    const L = this.largest;
+    let j = Math.max(2, Math.ceil(needKvar / (k * L)));
+    // the estimate is within one of the answer; settle it with the same comparison as the listed search
+    while (j > 2 && !short((j - 1) * L)) j--;
+    while (j <= this.maxUsableJ && short(j * L)) j++;
+    return j > this.maxUsableJ ? this.length : u + j - 2;
+  }
+
+  indexNear(kvar: number): number {
+    const u = this.usableUnits.length;
+    const near = (b: number) => Math.abs(b - kvar) <= 1e-6 * b;
+    for (let i = 0; i < u; i++) if (near(this.usableUnits[i] as number)) return i;
+    const j = Math.round(kvar / this.largest);
+    for (const c of [j - 1, j]) if (c >= 2 && c <= this.maxUsableJ && near(c * this.largest)) return u + c - 2;
+    return -1;
+  }
 }
