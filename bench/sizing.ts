@@ -1,4 +1,5 @@
 import { twentyLoadBody } from "./bodies.js";
+import { benchEngine, ENGINE_MS_GOAL } from "./engine.js";
 import { AUTH, postLoad, startApp, type Knobs } from "./http.js";
 import type { SectionResult } from "./section.js";
 import { sizingRequestSchema } from "../src/http/schemas/sizing.js";
@@ -15,6 +16,8 @@ export const SIZING_RATIO_GOAL = 0.6;
  * same duration and connections for both, each after its own warm-up.
  */
 export async function benchSizing(knobs: Knobs): Promise<SectionResult> {
+  // The engine alone first, before the HTTP load warms and fragments the heap.
+  const engine = benchEngine();
   // A second baseline answers a stored sizing result of the same size: it isolates the engine's cost from the
   // cost of serialising and writing a ~25 KB answer, which the {ok:true} baseline does not pay.
   let stored: unknown = null;
@@ -64,6 +67,15 @@ export async function benchSizing(knobs: Knobs): Promise<SectionResult> {
         },
         { section: "sizing", metric: `POST ${ECHO_PATH} (parse, answer a stored result) req/s`, value: fmt(echo.reqPerSec), detail: `p50 ${echo.p50Ms} ms, p99 ${echo.p99Ms} ms` },
         { section: "sizing", metric: "sizing / same-size-answer ratio", value: echoRatio.toFixed(3), detail: "the engine's own cost" },
+        {
+          section: "sizing",
+          metric: "engine size(), 20 loads with harmonic study, ms",
+          value: engine.studyMs.toFixed(3),
+          goal: `≤ ${ENGINE_MS_GOAL}`,
+          pass: engine.studyMs <= ENGINE_MS_GOAL,
+          detail: `${engine.studyRatio.toFixed(0)}× a plain arithmetic loop over the same loads (${(engine.loopMs * 1000).toFixed(2)} µs)`,
+        },
+        { section: "sizing", metric: "engine size(), the HTTP bench body (no drives), ms", value: engine.plainMs.toFixed(3) },
       ],
       notes: [
         `${knobs.seconds} s, ${knobs.connections} connections each, after ${knobs.warmupSeconds} s warm-up; body ${body.length} bytes, answer ${answer.length} bytes`,

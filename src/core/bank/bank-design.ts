@@ -152,10 +152,13 @@ export function designBank(input: DesignBankInput): DesignOutcome {
     for (const np of [...new Set(steps.map((s) => s.nameplateKvar))]) {
       const r = dischargeDesign(np, ratedVoltageV, system.frequencyHz, system.phases, input.discharge, "discharge");
       if (discharge.length === 0) warnings.push(...r.warnings);
-      discharge.push(r.discharge);
+      // No residual-voltage limit below the peak voltage (a capacitor of a few tens of volts): no resistor to size.
+      if (Number.isFinite(r.discharge.maxResistanceOhm)) discharge.push(r.discharge);
     }
-    const worst = Math.max(...discharge.map((d) => d.timeTo10PctS));
-    notes.push(`set the controller's reclosing delay to at least ${worst.toFixed(0)} s (discharge to 10 % of rated voltage with the largest permitted resistors)`);
+    if (discharge.length > 0) {
+      const worst = Math.max(...discharge.map((d) => d.timeTo10PctS));
+      notes.push(`set the controller's reclosing delay to at least ${worst.toFixed(0)} s (discharge to 10 % of rated voltage with the largest permitted resistors)`);
+    } else notes.push(`at ${ratedVoltageV} V the capacitors' peak voltage is within every residual-voltage limit: the discharge rules set no resistor`);
   }
 
   const reason = reasonText(plan, targetPF, fixedKvar);

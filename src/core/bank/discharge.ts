@@ -115,10 +115,11 @@ export function dischargeDesign(
   const cpp = capacitancePerPhase(kvar, ratedVoltageV, frequencyHz);
   const capacitanceF = (capConn === "single_phase" ? capacitanceSinglePhaseUF(kvar, ratedVoltageV, frequencyHz) : capConn === "delta" ? cpp.deltaUF : cpp.wyeUF) * 1e-6;
   const elementVoltageV = capConn === "wye" ? ratedVoltageV / SQRT3 : ratedVoltageV;
-  const requirements = dischargeRequirements(ratedVoltageV, options.standards).map((r) => ({
-    ...r,
-    maxResistanceOhm: maxDischargeResistanceOhm(r.timeS, k, capacitanceF, elementVoltageV, r.residualV),
-  }));
+  // A limit at or above the capacitor's peak voltage √2·U_N is met without a resistor: it sets no maximum, and is
+  // left out (its maximum would be infinite). With none left the caller has no resistor to size (Infinity below).
+  const requirements = dischargeRequirements(ratedVoltageV, options.standards)
+    .map((r) => ({ ...r, maxResistanceOhm: maxDischargeResistanceOhm(r.timeS, k, capacitanceF, elementVoltageV, r.residualV) }))
+    .filter((r) => Number.isFinite(r.maxResistanceOhm));
   let governing = requirements[0];
   for (const r of requirements) if (governing === undefined || r.maxResistanceOhm < governing.maxResistanceOhm) governing = r;
   const maxResistanceOhm = governing?.maxResistanceOhm ?? Number.POSITIVE_INFINITY;

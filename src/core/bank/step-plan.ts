@@ -1,6 +1,7 @@
 /** Fixed part and switched steps of a bank, chosen by simulating a controller over the reactive-demand samples. */
 import { controllerResponseA } from "./capacitor.js";
 import { STANDARD_UNIT_KVAR } from "./standard-sizes.js";
+import { baseLadder } from "./step-bases.js";
 import { warning, type Warning } from "../warnings.js";
 import { chooseFixedPart, neededKvar, type DemandArrays, type FixedPart } from "./demand.js";
 import { percentileOf } from "../interval/percentiles.js";
@@ -76,15 +77,6 @@ export const DEFAULT_COVERAGE = 0.99;
 export const DEFAULT_MIN_STEPS = 3;
 export const DEFAULT_MAX_STEPS = 12;
 
-/** Step sizes a step may take: the unit list, plus multiples of the largest unit (units in parallel) when needed. */
-function stepSizes(units: readonly number[], switchedNeededKvar: number, minSteps: number): number[] {
-  const largest = Math.max(...units);
-  const set = new Set<number>(units);
-  const m = Math.ceil(switchedNeededKvar / (minSteps * largest));
-  for (let j = 2; j <= 4 * Math.max(1, m); j++) set.add(j * largest);
-  return [...set].sort((a, b) => a - b);
-}
-
 function better(a: StepCandidate, b: StepCandidate, tie: number, preferredBaseKvar?: number): boolean {
   const dm = a.simulation.metCoveredCount - b.simulation.metCoveredCount;
   if (Math.abs(dm) > tie) return dm > 0;
@@ -102,7 +94,7 @@ function better(a: StepCandidate, b: StepCandidate, tie: number, preferredBaseKv
 
 /**
  * Search space: for each ratio and each step count n in [minSteps, maxSteps], the smallest base whose program total
- * reaches the switched need (round up) and the largest below it (round down); every step a size from stepSizes;
+ * reaches the switched need (round up) and the largest below it (round down); every step a size from baseLadder (step-bases.ts);
  * plus the fixed-only plan. Rank: most covered samples meeting the target, then fewest steps, then fewest
  * switching operations, then least installed kvar, then most samples met overall, then the finer smallest step.
  */
@@ -150,27 +142,24 @@ export function planSteps(input: StepsInput): StepPlan {
     { ratio: "1:1:1", stepCount: 0, baseKvar: 0, stepsKvar: [], totalKvar: 0, rounding: "none", simulation: simulateStepProgram("1:1:1", 0, 1, samples, ruleFor(0)) },
   ];
   if (switchedNeeded > 1e-9) {
-    const sizes = stepSizes(units, switchedNeeded, minSteps);
-    const has = new Set(sizes);
-    const seen = new Set<number>();
+    const seen = new Set<string>();
     for (const ratio of o.ratios ?? STEP_RATIOS) {
       const mults = stepMultipliers(ratio, maxSteps);
       const distinct = [...new Set(mults.slice(0, Math.max(3, minSteps)))];
-      const bases = sizes.filter((b) => distinct.every((m) => has.has(m * b)));
+      const bases = baseLadder(units, switchedNeeded, minSteps, distinct);
       let k = 0;
       for (let steps = 1; steps <= maxSteps; steps++) {
         k += mults[steps - 1] as number; // maxMultiple(ratio, steps) as a running sum
         if (steps < Math.max(ratio === "1:2:4" ? 3 : 1, minSteps)) continue;
         // bases ascend: the first reaching the need (round up) and the one before it (round down)
-        let iUp = 0;
-        while (iUp < bases.length && k * (bases[iUp] as number) < switchedNeeded - 1e-9) iUp++;
-        const iPref = o.preferredBaseKvar === undefined ? -1 : bases.findIndex((b) => Math.abs(b - (o.preferredBaseKvar as number)) <= 1e-6 * b);
+        const iUp = bases.firstReaching(k, switchedNeeded);
+        const iPref = o.preferredBaseKvar === undefined ? -1 : bases.indexNear(o.preferredBaseKvar);
         const tries: (readonly [number, "up" | "down"])[] = [[iUp, "up"], [iUp - 1, "down"]];
         if (iPref >= 0 && iPref !== iUp && iPref !== iUp - 1) tries.push([iPref, iPref > iUp ? "up" : "down"]);
         for (const [i, rounding] of tries) {
-          const base = bases[i];
-          if (base === undefined) continue;
-          const key = (STEP_RATIOS.indexOf(ratio) * 100 + steps) * 1e7 + base;
+          if (i < 0 || i >= bases.length) continue;
+          const base = bases.at(i);
+          const key = `${ratio}|${steps}|${base}`;
           if (seen.has(key)) continue;
           seen.add(key);
           candidates.push({ ratio, stepCount: steps, baseKvar: base, stepsKvar: mults.slice(0, steps).map((m) => m * base), totalKvar: k * base, rounding, simulation: simulateStepProgram(ratio, steps, base, samples, ruleFor(base)) });

@@ -68,6 +68,19 @@ export interface CombinedHarmonics {
 /** Most flagged combinations kept in a result; the count and the warnings cover them all. */
 export const MAX_FLAGGED = 50;
 
+/**
+ * Work one combined study may do, in bank × harmonic-order evaluations summed over its combinations (each costs a
+ * bus distortion and one IEEE 18 duty check per energised bank): some 0.05 s on a 2-core machine. With many banks
+ * and a full spectrum it studies fewer than MAX_COMBINATIONS and says so (truncated). Own bound, no source.
+ */
+export const MAX_COMBINED_STUDY_WORK = 60_000;
+
+/** How many combinations fit in MAX_COMBINED_STUDY_WORK: at least 1, at most MAX_COMBINATIONS. */
+export function combinationsWithinBudget(bankCount: number, orderCount: number): number {
+  const perCombination = Math.max(1, bankCount) * Math.max(1, orderCount);
+  return Math.max(1, Math.min(MAX_COMBINATIONS, Math.floor(MAX_COMBINED_STUDY_WORK / perCombination)));
+}
+
 const DUTY_KEYS = ["rmsVoltage", "peakVoltage", "rmsCurrent", "reactivePower"] as const;
 
 function dutyOf(bank: string, nameplateKvar: number, d: CapacitorDutyCheck): CombinedBankDuty {
@@ -97,7 +110,9 @@ export function studyCombinedStages(ctx: StudyContext, installed: readonly Rated
   const studied: CombinedStageStudy[] = [];
   let worst: CombinedStageStudy | null = null;
   let count = 0;
-  const { truncated } = forEachCombination(installed, stages.length + 1, MAX_COMBINATIONS, (on, n) => {
+  const bankCount = new Set(installed.map((u) => u.bank)).size + (newBank ? 1 : 0);
+  const max = combinationsWithinBudget(bankCount, ctx.presentOrders.length);
+  const { truncated } = forEachCombination(installed, stages.length + 1, max, (on, n) => {
     // New-bank stages alone are the bank's own study (study.ts): here, only what the installed steps change.
     if (on.length === 0) return;
     count++;

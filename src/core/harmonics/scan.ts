@@ -1,5 +1,6 @@
-/** Frequency scan of the driving-point impedance |Z(h)| with located resonance peaks and series dips. */
-import { drivingPointImpedanceOhm, fillImpedanceOhm, sourceImpedanceOhmAt, type BusModel } from "./network.js";
+/** Frequency scan of the driving-point impedance |Z(h)|, with its resonance peaks and series dips. */
+import { impedanceExtrema, type ImpedanceDip, type ResonancePeak } from "./extrema.js";
+import { fillImpedanceOhm, type BusModel } from "./network.js";
 import type { Issue } from "./study-types.js";
 
 export interface ScanOptions {
@@ -15,21 +16,7 @@ export interface ScanGrid {
   points: number;
 }
 
-/** A parallel resonance: a local maximum of |Z(h)|. */
-export interface ResonancePeak {
-  order: number;
-  impedanceOhm: number;
-  /** |Z(h)| / |Z_s(h)|: how much the bank amplifies the source impedance at that order. */
-  timesSourceImpedance: number;
-  /** |Z(h)| / Z_base. */
-  timesBaseImpedance: number;
-}
-
-/** A series-tuned dip: a local minimum of |Z(h)| (a detuned stage near h = 1/√p). */
-export interface ImpedanceDip {
-  order: number;
-  impedanceOhm: number;
-}
+export type { ResonancePeak, ImpedanceDip };
 
 export interface ImpedanceScan {
   grid: ScanGrid;
@@ -74,58 +61,21 @@ export function resolveScanGrid(options?: ScanOptions): ScanGrid {
   return { ...o, points: pointCount(o.fromOrder, o.toOrder, o.stepOrder) };
 }
 
-const GOLDEN = (Math.sqrt(5) - 1) / 2;
-
-/** Golden-section search on the exact |Z(h)| inside the grid bracket: refines a grid extremum to ~1e-12 in h. */
-function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1): number {
-  let a = lo;
-  let b = hi;
-  let c = b - GOLDEN * (b - a);
-  let d = a + GOLDEN * (b - a);
-  let fc = sign * drivingPointImpedanceOhm(model, c);
-  let fd = sign * drivingPointImpedanceOhm(model, d);
-  for (let i = 0; i < 60 && b - a > 1e-12 * b; i++) {
-    if (fc > fd) {
-      b = d; d = c; fd = fc;
-      c = b - GOLDEN * (b - a);
-      fc = sign * drivingPointImpedanceOhm(model, c);
-    } else {
-      a = c; c = d; fc = fd;
-      d = a + GOLDEN * (b - a);
-      fd = sign * drivingPointImpedanceOhm(model, d);
-    }
-  }
-  return (a + b) / 2;
-}
-
-/** Scans |Z(h)| on a uniform grid; h_i = from + i·step (not accumulated, so no drift). */
+/**
+ * |Z(h)| on a uniform grid (h_i = from + i·step, not accumulated, so no drift) for plots; the peaks and dips are
+ * located on the exact |Z(h)| without the grid (extrema.ts), so they do not depend on the step.
+ */
 export function scanImpedance(model: BusModel, options?: ScanOptions): ImpedanceScan {
   const grid = resolveScanGrid(options);
-  const n = grid.points;
-  const ordersH = new Float64Array(n);
-  const impedanceOhm = new Float64Array(n);
+  const ordersH = new Float64Array(grid.points);
+  const impedanceOhm = new Float64Array(grid.points);
   fillImpedanceOhm(model, grid.fromOrder, grid.stepOrder, ordersH, impedanceOhm);
-  const peaks: ResonancePeak[] = [];
-  const dips: ImpedanceDip[] = [];
-  for (let i = 1; i < n - 1; i++) {
-    const prev = impedanceOhm[i - 1]!;
-    const here = impedanceOhm[i]!;
-    const next = impedanceOhm[i + 1]!;
-    const lo = ordersH[i - 1]!;
-    const hi = ordersH[i + 1]!;
-    if (here > prev && here >= next) {
-      const order = refineExtremum(model, lo, hi, 1);
-      const z = drivingPointImpedanceOhm(model, order);
-      peaks.push({
-        order,
-        impedanceOhm: z,
-        timesSourceImpedance: z / sourceImpedanceOhmAt(model.source, order),
-        timesBaseImpedance: z / model.source.baseImpedanceOhm,
-      });
-    } else if (here < prev && here <= next) {
-      const order = refineExtremum(model, lo, hi, -1);
-      dips.push({ order, impedanceOhm: drivingPointImpedanceOhm(model, order) });
-    }
-  }
-  return { grid, ordersH, impedanceOhm, peaks, dips };
+  const last = ordersH[grid.points - 1] ?? grid.fromOrder;
+  return { grid, ordersH, impedanceOhm, ...impedanceExtrema(model, grid.fromOrder, last) };
+}
+
+/** The peaks and dips scanImpedance would report for these options, without computing the grid. */
+export function extremaInScanRange(model: BusModel, options?: ScanOptions): Pick<ImpedanceScan, "peaks" | "dips"> {
+  const grid = resolveScanGrid(options);
+  return impedanceExtrema(model, grid.fromOrder, grid.fromOrder + (grid.points - 1) * grid.stepOrder);
 }

@@ -2,6 +2,7 @@ import type { InstalledBankInput, SizingInput } from "../inputs.js";
 import type { BankAnalysis } from "../bank/stages.js";
 import type { LoadResult } from "../readings/site-totals.js";
 import {
+  resolveScanGrid,
   runHarmonicStudy,
   studyContextOf,
   type CapacitorBankInput,
@@ -119,7 +120,8 @@ export function studySiteHarmonics(
     banks: studyBanks,
     options: options.includeScanSeries ? options : { ...options, scan: { stepOrder: FIGURES_SCAN_STEP_ORDER, ...options.scan } },
   };
-  const outcome = runHarmonicStudy(studyInput);
+  const outcome = runWithinSeriesBudget(studyInput);
+  if ("budgetIssue" in outcome) return { issues: [outcome.budgetIssue], warnings: [] };
   if (!outcome.ok) {
     // The study's own paths ("sources[2].spectrum[0].order") mapped back onto the request's loads.
     const issues = outcome.issues.map((i) => {
@@ -146,6 +148,39 @@ export function studySiteHarmonics(
     }
   }
   return { study, context: studyContextOf(studyInput), issues: [], warnings };
+}
+
+/**
+ * Most |Z(h)| points one answer may carry over all its series (the bus, every stage, every proposal's stages):
+ * two numbers a point, about 40 bytes of JSON, so at most ~8 MB. Own bound, keeps an answer under 10 MB.
+ */
+export const MAX_SERIES_POINTS = 200_000;
+
+/** Series in a study: the bus without capacitors, each stage of each bank, each stage of each proposal. */
+function seriesCount(study: HarmonicStudyResult): number {
+  return 1 + study.banks.reduce((s, b) => s + b.stages.length, 0) + study.proposals.reduce((s, p) => s + p.study.stages.length, 0);
+}
+
+/**
+ * With series asked for, the figures first (no grid: cheap), then the series only if they fit MAX_SERIES_POINTS;
+ * otherwise an issue on scan.stepOrder naming the limit and the step that would fit.
+ */
+function runWithinSeriesBudget(input: HarmonicStudyInput): ReturnType<typeof runHarmonicStudy> | { budgetIssue: InputIssue } {
+  if (!input.options?.includeScanSeries) return runHarmonicStudy(input);
+  const figures = runHarmonicStudy({ ...input, options: { ...input.options, includeScanSeries: false } });
+  if (!figures.ok) return figures;
+  const grid = resolveScanGrid(input.options.scan);
+  const series = seriesCount(figures.result);
+  if (series * grid.points <= MAX_SERIES_POINTS) return runHarmonicStudy(input);
+  const span = grid.toOrder - grid.fromOrder;
+  const fits = Math.floor(MAX_SERIES_POINTS / series);
+  const step = fits > 1 ? Math.ceil((span / (fits - 1)) * 1000) / 1000 : null;
+  return {
+    budgetIssue: {
+      path: ["scan", "stepOrder"],
+      message: `the scan would return ${series} series of ${grid.points} points, more than ${MAX_SERIES_POINTS} points in all: ${step !== null && step <= 1 ? `use a stepOrder of at least ${step}` : "study fewer steps at a time"}`,
+    },
+  };
 }
 
 type Finding = HarmonicStudyResult["findings"][number];

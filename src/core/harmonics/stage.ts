@@ -7,7 +7,7 @@ import { checkIeee519, type Ieee519Check } from "./limits.js";
 import { withBranches, type BusModel, type NetworkInput } from "./network.js";
 import { ordersNearResonance, parallelResonanceOrder } from "./resonance.js";
 import { tuningOrder } from "../bank/capacitor.js";
-import { scanImpedance, type ImpedanceDip, type ImpedanceScan, type ResonancePeak, type ScanOptions } from "./scan.js";
+import { extremaInScanRange, scanImpedance, type ImpedanceDip, type ResonancePeak, type ScanOptions } from "./scan.js";
 import type { SpectrumLine } from "./study-types.js";
 
 export interface CapacitorStepInput {
@@ -90,34 +90,10 @@ export interface Finding {
   stageNumber?: number;
 }
 
-/** Below this grid step a detuned branch's close peak–dip pair is always resolved by the plain grid. */
-const FINE_STEP_ORDER = 0.01;
-
-/**
- * A detuned branch puts its parallel peak just below its series dip at 1/√p (they close in as Q_C/S_sc → 0).
- * On a coarse grid both are found again in a fine window [0.8, 1.02]·1/√p and replace what the grid saw there.
- */
-function extremaOf(model: BusModel, scan: ImpedanceScan): { peaks: ResonancePeak[]; dips: ImpedanceDip[] } {
-  if (scan.grid.stepOrder <= FINE_STEP_ORDER) return { peaks: scan.peaks, dips: scan.dips };
-  let peaks = scan.peaks;
-  let dips = scan.dips;
-  for (const br of model.branches) {
-    if (br.reactorReactanceOhm <= 0) continue;
-    const ht = Math.sqrt(br.capacitorReactanceOhm / br.reactorReactanceOhm);
-    const from = Math.max(scan.grid.fromOrder, 0.8 * ht);
-    const to = Math.min(scan.grid.toOrder, 1.02 * ht);
-    if (to - from < 4 * FINE_STEP_ORDER) continue;
-    const fine = scanImpedance(model, { fromOrder: from, toOrder: to, stepOrder: (to - from) / 200 });
-    const outside = (h: number) => h < from || h > to;
-    peaks = [...peaks.filter((p) => outside(p.order)), ...fine.peaks].sort((a, b) => a.order - b.order);
-    dips = [...dips.filter((d) => outside(d.order)), ...fine.dips].sort((a, b) => a.order - b.order);
-  }
-  return { peaks, dips };
-}
-
 export function studyBus(ctx: StudyContext, model: BusModel): BusStudy {
-  const scan = scanImpedance(model, ctx.scan);
-  const { peaks, dips } = extremaOf(model, scan);
+  // The dense series only when it is returned (the scan endpoint, the report's chart); the figures need no grid.
+  const scan = ctx.includeScanSeries ? scanImpedance(model, ctx.scan) : null;
+  const { peaks, dips } = scan ?? extremaInScanRange(model, ctx.scan);
   const distortion = busDistortion(model, ctx.currents, ctx.background);
   const study: BusStudy = {
     peaks,
@@ -126,7 +102,7 @@ export function studyBus(ctx: StudyContext, model: BusModel): BusStudy {
     ieee519: checkIeee519(distortion, model.voltageV),
     resonanceWithin10PctOf: ordersNearResonance(peaks.map((p) => p.order), ctx.presentOrders),
   };
-  if (ctx.includeScanSeries) study.series = { orders: Array.from(scan.ordersH), impedanceOhm: Array.from(scan.impedanceOhm) };
+  if (scan) study.series = { orders: Array.from(scan.ordersH), impedanceOhm: Array.from(scan.impedanceOhm) };
   return study;
 }
 

@@ -240,6 +240,15 @@ export function studyWithInstalled(
       );
     }
     warnings.push(...dutyWarnings(study.flagged, withWhat, nb?.name ?? null, study.stagesStudied));
+    if (study.truncated) {
+      warnings.push(
+        warning(
+          "combined_study_truncated",
+          `with ${withWhat}, only the first ${study.stagesStudied} switchable combinations were studied for THD_v and capacitor duty (the study's work bound): the combined study is incomplete`,
+          "installedBanks",
+        ),
+      );
+    }
     const harmonics: CombinedHarmonics = { ...study, flagged: study.flagged.slice(0, MAX_FLAGGED) };
     return { ...sc, harmonics };
   });

@@ -13,19 +13,33 @@ import { installedBankIssues } from "../../core/bank/installed.js";
 
 /** Upper bound of any single power or current figure: far above any real load, far below float overflow. */
 export const MAX_FIGURE = 1e6;
+/**
+ * Lower bound of a power or current figure: 0.001 (1 W, 1 var, 1 mA), below any meter's resolution. Smaller
+ * positive figures (down to 5e-324) underflow in the products and quotients of the engine (S_sc, X_C, Z_base).
+ */
+export const MIN_FIGURE = 0.001;
 const positive = (what: string) =>
   z
     .number({ error: `${what} must be a number` })
-    .positive(`${what} must be greater than 0`)
+    .min(MIN_FIGURE, `${what} must be at least ${MIN_FIGURE}`)
     .max(MAX_FIGURE, `${what} must be at most ${MAX_FIGURE}`);
 const volts = z
   .number({ error: "volts must be a number" })
   .min(VOLTS_MIN, `volts must be between ${VOLTS_MIN} and ${VOLTS_MAX} V`)
   .max(VOLTS_MAX, `volts must be between ${VOLTS_MIN} and ${VOLTS_MAX} V`);
+/** PF 0.01 to 1: below 0.01 no load runs (a motor at no load reads about 0.1), and tan φ runs to float overflow. */
+export const MIN_PF = 0.01;
 const pf = z
   .number({ error: "pf must be a number" })
-  .gt(0, "pf must be greater than 0 and at most 1")
-  .max(1, "pf must be greater than 0 and at most 1");
+  .min(MIN_PF, `pf must be greater than 0 and at most 1 (at least ${MIN_PF})`)
+  .max(1, `pf must be greater than 0 and at most 1 (at least ${MIN_PF})`);
+/** 0 (a plain bank) or 0.1 to 20 %: a smaller reactor detunes nothing, and near 0 its tuning order 1/√p overflows. */
+export const MIN_REACTOR_PCT = 0.1;
+const reactorPct = z
+  .number({ error: "reactorPct must be a number" })
+  .min(0, "reactorPct must be 0 to 20 %")
+  .max(20, "reactorPct must be 0 to 20 %")
+  .refine((p) => p === 0 || p >= MIN_REACTOR_PCT, `reactorPct must be 0 (a plain bank) or ${MIN_REACTOR_PCT} to 20 %`);
 const sense = z.enum(["lagging", "leading", "unity"]);
 
 const common = {
@@ -72,9 +86,9 @@ export const loadSchema = z.strictObject({
     .describe("how a motor is started: decides whether capacitors may go at its terminals"),
   separateCapacitorContactor: z.boolean().optional().describe("a terminal capacitor would have its own contactor"),
   group: z.string().trim().min(1).max(100).optional().describe("MCC or feeder the load is fed from"),
-  noLoadAmps: z.number().positive("noLoadAmps must be greater than 0").max(MAX_FIGURE).optional().describe("no-load (uncoupled) line current of one motor, A"),
+  noLoadAmps: z.number().min(MIN_FIGURE, `noLoadAmps must be at least ${MIN_FIGURE}`).max(MAX_FIGURE).optional().describe("no-load (uncoupled) line current of one motor, A"),
   continuousDuty: z.boolean().optional(),
-  motorConductorAmpacityA: z.number().positive("motorConductorAmpacityA must be greater than 0").max(MAX_FIGURE).optional().describe("ampacity of the motor-circuit conductors, A: a terminal capacitor's conductors need at least one third of it (NFPA 70 460.8(A))"),
+  motorConductorAmpacityA: z.number().min(MIN_FIGURE, `motorConductorAmpacityA must be at least ${MIN_FIGURE}`).max(MAX_FIGURE).optional().describe("ampacity of the motor-circuit conductors, A: a terminal capacitor's conductors need at least one third of it (NFPA 70 460.8(A))"),
 });
 
 export const systemSchema = z.strictObject({
@@ -86,16 +100,29 @@ export const systemSchema = z.strictObject({
 export const transformerSchema = z.strictObject({
   kVA: positive("kVA").max(1_000_000),
   impedancePct: z.number().gt(0.5, "impedancePct must be above 0.5 %").max(25, "impedancePct must be at most 25 %"),
-  xOverR: z.number().positive().max(100).optional(),
+  // below 0.1 the source is a resistor (no transformer is), and near 0 its reactance underflows
+  xOverR: z.number().min(0.1, "xOverR must be 0.1 to 100").max(100, "xOverR must be 0.1 to 100").optional(),
 });
 
 export const utilitySchema = z.strictObject({ faultMVA: positive("faultMVA").max(1_000_000) });
 
+/**
+ * Smallest step: 0.01 kvar (10 var), below any capacitor unit made; smaller figures are typing slips, and near the
+ * float minimum they make X_C = V²/Q infinite.
+ */
+export const MIN_STEP_KVAR = 0.01;
+const stepKvar = z
+  .number({ error: "kvar must be a number" })
+  .min(MIN_STEP_KVAR, `kvar must be at least ${MIN_STEP_KVAR} (10 var)`)
+  .max(100_000, "kvar must be at most 100000");
+/** Most steps in all the installed banks of one request: each is a switchable unit of the combined study. */
+export const MAX_INSTALLED_STEPS = 64;
+
 export const bankSchema = z.strictObject({
   ratedVoltageV: volts,
   ratedFrequencyHz: z.union([z.literal(50), z.literal(60)]).optional(),
-  steps: z.array(z.strictObject({ kvar: positive("kvar").max(100_000) })).min(1, "a bank needs at least one step").max(64),
-  reactorPct: z.number().min(0).max(20, "reactorPct must be 0 to 20 %").optional(),
+  steps: z.array(z.strictObject({ kvar: stepKvar })).min(1, "a bank needs at least one step").max(64, "a bank has at most 64 steps"),
+  reactorPct: reactorPct.optional(),
 });
 
 const isoDate = z.iso.date({ error: "installedOn must be an ISO 8601 date such as 2021-06-30" });
@@ -109,8 +136,8 @@ export const installedBankSchema = z.strictObject({
   ratedVoltageV: volts.describe("nameplate voltage, line-to-line on three phases"),
   ratedFrequencyHz: z.union([z.literal(50), z.literal(60)], { error: "ratedFrequencyHz must be 50 or 60" }).optional(),
   connection: z.enum(["delta", "wye"]).optional(),
-  reactorPct: z.number().min(0).max(20, "reactorPct must be 0 to 20 %").optional().describe("series (detuning) reactor; 0 or absent: plain"),
-  steps: z.array(z.strictObject({ kvar: positive("kvar").max(100_000) })).min(1, "a bank needs at least one step").max(32).describe("nameplate kvar per step at the rated voltage and frequency; a fixed bank is one step"),
+  reactorPct: reactorPct.optional().describe("series (detuning) reactor; 0 or absent: plain"),
+  steps: z.array(z.strictObject({ kvar: stepKvar })).min(1, "a bank needs at least one step").max(32, "an installed bank has at most 32 steps").describe("nameplate kvar per step at the rated voltage and frequency; a fixed bank is one step"),
   installedOn: isoDate.optional(),
 });
 
@@ -118,6 +145,8 @@ export const installedBanksSchema = z
   .array(installedBankSchema)
   .max(50, "at most 50 installed banks")
   .superRefine((banks, ctx) => {
+    const steps = banks.reduce((n, b) => n + b.steps.length, 0);
+    if (steps > MAX_INSTALLED_STEPS) ctx.addIssue({ code: "custom", path: [], message: `the installed banks have ${steps} steps in all: at most ${MAX_INSTALLED_STEPS}` });
     for (const i of installedBankIssues(banks, [])) ctx.addIssue({ code: "custom", path: i.path, message: i.message });
   });
 
@@ -163,9 +192,9 @@ export const loadsSchema = z.array(loadSchema).min(1, "at least one load is need
 export const serviceEntranceSchema = z.strictObject({ label: z.string().max(200).optional(), measurement: measurementSchema });
 
 export const bankDesignSchema = z.strictObject({
-  ctRatio: z.number().positive("ctRatio must be greater than 0 (primary/secondary, e.g. 200 for 1000/5)").max(100_000).optional(),
+  ctRatio: z.number().min(MIN_FIGURE, `ctRatio must be at least ${MIN_FIGURE} (primary/secondary, e.g. 200 for 1000/5)`).max(100_000).optional(),
   ratedVoltageV: volts.optional(),
-  reactorPct: z.number().min(0).max(20, "reactorPct must be 0 to 20 %").optional(),
+  reactorPct: reactorPct.optional(),
   coverage: z.number().min(0.5, "coverage must be 0.5 to 1").max(1, "coverage must be 0.5 to 1").optional(),
   protectionDevice: z.enum(["fuse", "breaker"]).optional(),
   ocpdFactor: z.number().min(1, "ocpdFactor must be 1 to 3").max(3, "ocpdFactor must be 1 to 3").optional(),
@@ -201,7 +230,7 @@ export const tariffSchema = z.discriminatedUnion(
 export const economicsSchema = z.strictObject({
   currency: z.string().regex(/^[A-Z]{3}$/, "currency must be an ISO 4217 code such as USD or EUR"),
   tariff: tariffSchema,
-  operatingHoursPerMonth: z.number().positive().max(744, "a month has at most 744 hours").optional(),
+  operatingHoursPerMonth: z.number().min(MIN_FIGURE, `operatingHoursPerMonth must be at least ${MIN_FIGURE}`).max(744, "a month has at most 744 hours").optional(),
   losses: z
     .strictObject({
       lossesPct: z.number().min(0).max(20, "lossesPct must be 0 to 20 %"),
