@@ -23,11 +23,15 @@ import { problem, ProblemError, sendProblem } from "./http/problem.js";
 import { problemsRoutes } from "./http/routes/problems.js";
 import { MAX_PARAM_CHARS, noRouteHandler, routerErrorHandler } from "./http/routing.js";
 import { openStore, type Store } from "./store/store.js";
+import { createHeavyWork, type HeavyWork } from "./heavy-work/pool.js";
+import { installPressure } from "./http/pressure.js";
 
 declare module "fastify" {
   interface FastifyInstance {
     /** The database behind the app; closed by app.close(). */
     store: Store;
+    /** Worker threads for heavy work (large scans, reports, interval analyses); stopped by app.close(). */
+    heavyWork: HeavyWork;
   }
 }
 
@@ -89,6 +93,12 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
       return typeof given === "string" && /^[\w.:-]{1,128}$/.test(given) ? given : randomUUID();
     },
   });
+
+  // Before every other hook: a lagging loop sheds requests before they cost anything.
+  await installPressure(app, config);
+  const heavyWork = createHeavyWork({ threads: config.HEAVY_WORK_THREADS, maxQueue: config.HEAVY_WORK_QUEUE, retryAfterS: config.OVERLOAD_RETRY_AFTER_S });
+  app.decorate("heavyWork", heavyWork);
+  app.addHook("onClose", async () => heavyWork.close());
 
   // JSON only by default: a text/plain body is a 415, not a string handed to a JSON route.
   app.removeContentTypeParser("text/plain");

@@ -1,5 +1,4 @@
 import type { FastifyInstance } from "fastify";
-import { size } from "../../core/pipeline/size.js";
 import { problem, ProblemError } from "../problem.js";
 import { harmonicScanRequestSchema } from "../schemas/harmonics.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
@@ -16,9 +15,10 @@ export async function harmonicsRoutes(app: FastifyInstance): Promise<void> {
       );
     }
     const { scan, combination, ...sizing } = body;
-    const outcome = size(sizing, {
-      forceHarmonicStudy: true,
-      harmonics: { includeScanSeries: true, ...(scan ? { scan } : {}), ...(combination ? { combination } : {}) },
+    // On a worker thread: a dense scan of a large bank may take a while, and the event loop serves others meanwhile.
+    const outcome = await app.heavyWork.run("size", {
+      input: sizing,
+      options: { forceHarmonicStudy: true, harmonics: { includeScanSeries: true, ...(scan ? { scan } : {}), ...(combination ? { combination } : {}) } },
     });
     if (!outcome.ok) throw engineIssuesTo400(outcome.issues);
     const r = outcome.result;

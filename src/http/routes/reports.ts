@@ -4,15 +4,12 @@
  */
 import type { FastifyInstance, FastifyReply } from "fastify";
 import { z } from "zod";
-import { size } from "../../core/pipeline/size.js";
 import { notFound, ProblemError } from "../problem.js";
 import { sizingRequestSchema } from "../schemas/sizing.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
 import type { Store } from "../../store/store.js";
 import type { RevisionRecord } from "../../store/types.js";
-import { renderReportHtml } from "../../report/html.js";
-import { buildReportModel } from "../../report/model.js";
-import { renderReportPdf } from "../../report/pdf.js";
+import type { ReportOutput, ReportTask } from "../../heavy-work/tasks.js";
 import { surveyReportInput } from "../../report/survey-input.js";
 import type { ReportInput } from "../../report/types.js";
 import { bankHealthSeries } from "../../application/bank-health.js";
@@ -70,6 +67,16 @@ function sendPdf(reply: FastifyReply, pdf: Buffer, filename: string): FastifyRep
 
 const sizeOf = (p: "a4" | "letter" | undefined) => (p === "letter" ? "LETTER" : "A4");
 
+function sendOutput(reply: FastifyReply, out: ReportOutput, filename: string): FastifyReply {
+  // A Buffer crosses the thread boundary as a plain Uint8Array: view the same bytes as a Buffer again.
+  return "html" in out ? sendHtml(reply, out.html) : sendPdf(reply, Buffer.from(out.pdf.buffer, out.pdf.byteOffset, out.pdf.byteLength), filename);
+}
+
+/** The model is built and drawn on a worker thread (a report with charts takes long enough to stall other requests). */
+async function sendReport(app: FastifyInstance, reply: FastifyReply, task: ReportTask, filename: string): Promise<FastifyReply> {
+  return sendOutput(reply, await app.heavyWork.run("report", task), filename);
+}
+
 export async function reportRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
   const health = surveyResultsRepo(store.db);
@@ -78,24 +85,21 @@ export async function reportRoutes(app: FastifyInstance, opts: { store: Store })
     const { id } = parseOr400(idParams, request.params);
     const q = parseOr400(surveyQuery, request.query);
     const r = revisionOf(store, request.actor.orgId, id, q.revision);
-    return sendHtml(reply, renderReportHtml(buildReportModel(reportInputOf(store, request.actor.orgId, r, health))));
+    return sendReport(app, reply, { input: reportInputOf(store, request.actor.orgId, r, health), format: "html", paper: sizeOf(q.paper) }, "");
   });
 
   app.get("/v1/surveys/:id/report.pdf", async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const q = parseOr400(surveyQuery, request.query);
     const r = revisionOf(store, request.actor.orgId, id, q.revision);
-    const pdf = await renderReportPdf(buildReportModel(reportInputOf(store, request.actor.orgId, r, health)), { size: sizeOf(q.paper) });
-    return sendPdf(reply, pdf, `${r.surveyId}-r${r.n}-report.pdf`);
+    return sendReport(app, reply, { input: reportInputOf(store, request.actor.orgId, r, health), format: "pdf", paper: sizeOf(q.paper) }, `${r.surveyId}-r${r.n}-report.pdf`);
   });
 
   app.post("/v1/sizing/report", async (request, reply) => {
     const q = parseOr400(sizingQuery, request.query);
     const inputs = parseOr400(sizingRequestSchema, request.body);
-    const outcome = size(inputs);
-    if (!outcome.ok) throw engineIssuesTo400(outcome.issues);
-    const model = buildReportModel({ inputs, result: outcome.result });
-    if (q.format === "pdf") return sendPdf(reply, await renderReportPdf(model, { size: sizeOf(q.paper) }), "sizing-report.pdf");
-    return sendHtml(reply, renderReportHtml(model));
+    const out = await app.heavyWork.run("sizingReport", { inputs, format: q.format ?? "html", paper: sizeOf(q.paper) });
+    if ("issues" in out) throw engineIssuesTo400(out.issues);
+    return sendOutput(reply, out, "sizing-report.pdf");
   });
 }

@@ -1,0 +1,67 @@
+/**
+ * The heavy-work pool: large harmonic scans, report rendering and interval analyses run on worker threads
+ * (piscina) so that the event loop keeps answering other requests. Threads start on the first task and stop when
+ * idle. The worker loads the TypeScript sources through tsx's loader when this module itself runs from source
+ * (vitest, tsx scripts), and the compiled dist/ files otherwise.
+ */
+import { Piscina } from "piscina";
+import { problem, ProblemError } from "../http/problem.js";
+import { runHeavyTask, type HeavyEnvelope, type HeavyPayload, type HeavyResult, type HeavyTaskName } from "./tasks.js";
+
+export interface HeavyWorkOptions {
+  /** Worker threads; 0 runs every task inline on the calling thread. */
+  threads: number;
+  /** Tasks waiting for a thread beyond which a new task is refused (503). */
+  maxQueue: number;
+  /** Retry-After of that refusal, seconds. */
+  retryAfterS: number;
+  /** A thread idle this long exits, ms. */
+  idleTimeoutMs?: number;
+}
+
+export interface HeavyWork {
+  run<K extends HeavyTaskName>(name: K, payload: HeavyPayload<K>, transfer?: ArrayBuffer[]): Promise<HeavyResult<K>>;
+  /** Stop the threads (app close). */
+  close(): Promise<void>;
+}
+
+/** Where the worker's code is, and how a thread must start to load it. */
+export function workerEntry(moduleUrl: string = import.meta.url): { filename: string; execArgv: string[] } {
+  const fromSource = moduleUrl.endsWith(".ts");
+  return {
+    filename: new URL(fromSource ? "./worker.ts" : "./worker.js", moduleUrl).href,
+    execArgv: fromSource ? ["--import", "tsx"] : [],
+  };
+}
+
+export function busyProblem(detail: string, retryAfterS: number): ProblemError {
+  return new ProblemError(problem(503, "overloaded", "The service is busy", detail), { "retry-after": String(retryAfterS) });
+}
+
+export function createHeavyWork(o: HeavyWorkOptions): HeavyWork {
+  let pool: Piscina | null = null;
+  const poolOf = (): Piscina => {
+    pool ??= new Piscina({
+      ...workerEntry(),
+      minThreads: 0,
+      maxThreads: o.threads,
+      maxQueue: o.maxQueue,
+      idleTimeout: o.idleTimeoutMs ?? 30_000,
+    });
+    return pool;
+  };
+  return {
+    async run(name, payload, transfer) {
+      const envelope = { name, payload } as HeavyEnvelope<typeof name>;
+      if (o.threads === 0) return (await runHeavyTask(envelope)) as HeavyResult<typeof name>;
+      const p = poolOf();
+      if (p.queueSize >= o.maxQueue) throw busyProblem(`${p.queueSize} heavy tasks are waiting for a worker thread; the limit is ${o.maxQueue}`, o.retryAfterS);
+      return (await p.run(envelope, transfer ? { transferList: transfer } : {})) as HeavyResult<typeof name>;
+    },
+    async close() {
+      const p = pool;
+      pool = null;
+      await p?.destroy();
+    },
+  };
+}

@@ -1,0 +1,58 @@
+/**
+ * The work that may take long enough to stall other requests, as plain functions of structured-cloneable data:
+ * the pool (./pool.ts) runs them on a worker thread (./worker.ts), or inline when no threads are configured.
+ * No fastify, no store: the route reads and validates, the task computes.
+ */
+import type { SizingInput } from "../core/inputs.js";
+import { size, type SizingOptions } from "../core/pipeline/size.js";
+import { renderReportHtml } from "../report/html.js";
+import { buildReportModel } from "../report/model.js";
+import { renderReportPdf } from "../report/pdf.js";
+import type { ReportInput } from "../report/types.js";
+import type { InputIssue } from "../core/warnings.js";
+import { intervalAnswer, type IntervalAnalysisTask } from "./interval-task.js";
+
+export interface ReportTask {
+  input: ReportInput;
+  format: "html" | "pdf";
+  paper: "A4" | "LETTER";
+}
+
+/** A PDF crosses the thread boundary as bytes (a Buffer arrives as a plain Uint8Array). */
+export type ReportOutput = { html: string } | { pdf: Uint8Array };
+
+async function renderReport(p: ReportTask): Promise<ReportOutput> {
+  const model = buildReportModel(p.input);
+  if (p.format === "html") return { html: renderReportHtml(model) };
+  return { pdf: await renderReportPdf(model, { size: p.paper }) };
+}
+
+export const HEAVY_TASKS = {
+  /** The sizing engine with options (the harmonic scan endpoint asks for the dense |Z(h)| series). */
+  size: (p: { input: SizingInput; options: SizingOptions }) => size(p.input, p.options),
+  /** Report model and its rendering (the model computes scan series when none are supplied). */
+  report: (p: ReportTask): Promise<ReportOutput> => renderReport(p),
+  /** A sizing and its report in one task: POST /v1/sizing/report (the engine's issues come back for a 400). */
+  sizingReport: async (p: { inputs: SizingInput; format: "html" | "pdf"; paper: "A4" | "LETTER" }): Promise<ReportOutput | { issues: InputIssue[] }> => {
+    const outcome = size(p.inputs);
+    if (!outcome.ok) return { issues: outcome.issues };
+    return renderReport({ input: { inputs: p.inputs, result: outcome.result }, format: p.format, paper: p.paper });
+  },
+  /** Analysis of a parsed interval series: statistics, the controller simulation and the answer. */
+  intervalAnalysis: (p: IntervalAnalysisTask) => intervalAnswer(p),
+};
+
+export type HeavyTaskName = keyof typeof HEAVY_TASKS;
+export type HeavyPayload<K extends HeavyTaskName> = Parameters<(typeof HEAVY_TASKS)[K]>[0];
+export type HeavyResult<K extends HeavyTaskName> = Awaited<ReturnType<(typeof HEAVY_TASKS)[K]>>;
+
+/** What the worker receives: the task's name and its payload. */
+export interface HeavyEnvelope<K extends HeavyTaskName = HeavyTaskName> {
+  name: K;
+  payload: HeavyPayload<K>;
+}
+
+export function runHeavyTask<K extends HeavyTaskName>(e: HeavyEnvelope<K>): Promise<HeavyResult<K>> {
+  const task = HEAVY_TASKS[e.name] as (p: HeavyPayload<K>) => HeavyResult<K> | Promise<HeavyResult<K>>;
+  return Promise.resolve(task(e.payload));
+}
