@@ -1,6 +1,5 @@
 import { detectDelimiter, mapColumns, splitHeader, type ColumnMapping, type ColumnOverrides, type Delimiter, type MappingIssue } from "./columns.js";
 import { isoWithOffset, type DateOrder } from "./datetime.js";
-import { GrowableF64 } from "./growable.js";
 import { checkSteps, medianStepMinutes, sortAndDedupe, type DuplicateExample, type StepReport } from "./quality.js";
 import { RowDecoder, type SenseOption } from "./rows.js";
 import type { IntervalSeries, RowError } from "./series-types.js";
@@ -86,7 +85,23 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   let firstHeaderIssues: MappingIssue[] | null = null;
   let firstHeaderLine = 0;
   let candidates = 0;
-  const ts = new GrowableF64(), kW = new GrowableF64(), kvar = new GrowableF64(), lines = new GrowableF64();
+  // The accepted rows, column by column in typed arrays that double as they fill (no object per row).
+  let capacity = 4096;
+  let tsCol = new Float64Array(capacity), kWCol = new Float64Array(capacity), kvarCol = new Float64Array(capacity), lineCol = new Float64Array(capacity);
+  let n = 0;
+  const grow = (rows: number): void => {
+    if (rows <= capacity) return;
+    const bigger = (a: Float64Array) => {
+      const b = new Float64Array(rows);
+      b.set(a.subarray(0, n));
+      return b;
+    };
+    tsCol = bigger(tsCol);
+    kWCol = bigger(kWCol);
+    kvarCol = bigger(kvarCol);
+    lineCol = bigger(lineCol);
+    capacity = rows;
+  };
   let prevUtc = Number.NaN;
   let withoutOffset = 0;
   let firstOffsetMs = Number.NaN;
@@ -121,7 +136,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   const reserve = (): void => {
     const perRow = charsSoFar / SIZING_ROWS;
     const rows = Math.min(maxRows, Math.ceil(((options.expectedChars as number) / perRow) * 1.02) + 16);
-    for (const g of [ts, kW, kvar, lines]) g.reserve(rows);
+    grow(rows);
   };
 
   const badRow = (d: RowDecoder, s: string): void => {
@@ -159,10 +174,12 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
       if (o.first.length < maxReported) o.first.push({ line: report.lines, timestamp: fmt(u), previousTimestamp: fmt(prevUtc) });
     }
     prevUtc = u;
-    ts.push(u);
-    kW.push(d.kW);
-    kvar.push(d.kvar);
-    lines.push(report.lines);
+    if (n === capacity) grow(capacity * 2);
+    tsCol[n] = u;
+    kWCol[n] = d.kW;
+    kvarCol[n] = d.kvar;
+    lineCol[n] = report.lines;
+    n++;
   };
 
   const push = (chunk: string): boolean => {
@@ -202,7 +219,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
       return fail("header", `no header line with the needed columns (line ${firstHeaderLine} shown)`, firstHeaderIssues ?? []);
     }
     const b = report.badRows;
-    report.acceptedRows = ts.length;
+    report.acceptedRows = n;
     b.fraction = report.dataRows > 0 ? b.count / report.dataRows : 0;
     if (report.dataRows === 0) return fail("no_data", "no data rows after the header", [{ path: "body", message: "the header is followed by no rows" }]);
     if (b.fraction > b.limitFraction) {
@@ -223,7 +240,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
           : `timeZone not given: timestamps carry offsets; months are counted in the first row's offset (${zone.name})`,
       );
     }
-    const raw = { timestampsMs: ts.data, kW: kW.data, kvar: kvar.data, lines: lines.data, n: ts.length };
+    const raw = { timestampsMs: tsCol, kW: kWCol, kvar: kvarCol, lines: lineCol, n };
     const { rows, duplicates } = sortAndDedupe(raw, report.outOfOrder.count === 0, fmt, maxReported);
     report.duplicates = duplicates;
     if (rows.n < 2) return fail("too_few_intervals", "fewer than two distinct timestamps", [{ path: "body", message: "at least two intervals are needed" }]);
