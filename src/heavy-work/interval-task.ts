@@ -13,15 +13,11 @@ export interface IntervalAnalysisTask {
   options: IntervalRequestOptions;
 }
 
-export function intervalAnswer({ bytes, series, report, options: o }: IntervalAnalysisTask): ReturnType<typeof intervalResponse> {
+export type IntervalAnswer = ReturnType<typeof intervalResponse>;
+
+export function intervalAnswer({ bytes, series, report, options: o }: IntervalAnalysisTask): IntervalAnswer {
   const analysis = analyseIntervals(series, o.targetPF);
   const opts = o.leadingLimitPF !== undefined ? { leadingLimitPF: o.leadingLimitPF } : {};
   const sim = o.bank ? simulateController(series, o.bank, o.targetPF, opts) : null;
   return intervalResponse(bytes, report, analysis, sim, o);
-}
-
-/** The series' buffers, to move (not copy) to the worker; distinct buffers only. */
-export function seriesTransfer(series: IntervalSeries): ArrayBuffer[] {
-  const buffers = [series.timestampsMs.buffer, series.kW.buffer, series.kvar.buffer].filter((b): b is ArrayBuffer => b instanceof ArrayBuffer);
-  return [...new Set(buffers)];
 }

@@ -6,7 +6,8 @@
  */
 import { Piscina } from "piscina";
 import { problem, ProblemError } from "../http/problem.js";
-import { runHeavyTask, type HeavyEnvelope, type HeavyPayload, type HeavyResult, type HeavyTaskName } from "./tasks.js";
+import type { HeavyEnvelope, HeavyPayload, HeavyResult, HeavyTaskName } from "./tasks.js";
+import type { IntervalSeries } from "../core/interval/series-types.js";
 
 export interface HeavyWorkOptions {
   /** Worker threads; 0 runs every task inline on the calling thread. */
@@ -53,7 +54,7 @@ export function createHeavyWork(o: HeavyWorkOptions): HeavyWork {
   return {
     async run(name, payload, transfer) {
       const envelope = { name, payload } as HeavyEnvelope<typeof name>;
-      if (o.threads === 0) return (await runHeavyTask(envelope)) as HeavyResult<typeof name>;
+      if (o.threads === 0) return (await (await import("./tasks.js")).runHeavyTask(envelope)) as HeavyResult<typeof name>;
       const p = poolOf();
       if (p.queueSize >= o.maxQueue) throw busyProblem(`${p.queueSize} heavy tasks are waiting for a worker thread; the limit is ${o.maxQueue}`, o.retryAfterS);
       return (await p.run(envelope, transfer ? { transferList: transfer } : {})) as HeavyResult<typeof name>;
@@ -64,4 +65,10 @@ export function createHeavyWork(o: HeavyWorkOptions): HeavyWork {
       await p?.destroy();
     },
   };
+}
+
+/** A series' buffers, to move (not copy) to the worker; distinct buffers only. */
+export function seriesTransfer(series: IntervalSeries): ArrayBuffer[] {
+  const buffers = [series.timestampsMs.buffer, series.kW.buffer, series.kvar.buffer].filter((b): b is ArrayBuffer => b instanceof ArrayBuffer);
+  return [...new Set(buffers)];
 }

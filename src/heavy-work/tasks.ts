@@ -4,13 +4,15 @@
  * No fastify, no store: the route reads and validates, the task computes.
  */
 import type { SizingInput } from "../core/inputs.js";
-import { size, type SizingOptions } from "../core/pipeline/size.js";
-import { renderReportHtml } from "../report/html.js";
-import { buildReportModel } from "../report/model.js";
-import { renderReportPdf } from "../report/pdf.js";
-import type { ReportInput } from "../report/types.js";
+import type { SizingOptions, SizingOutcome } from "../core/pipeline/size.js";
 import type { InputIssue } from "../core/warnings.js";
-import { intervalAnswer, type IntervalAnalysisTask } from "./interval-task.js";
+import type { ReportInput } from "../report/types.js";
+import type { IntervalAnalysisTask, IntervalAnswer } from "./interval-task.js";
+
+// Each task loads its modules on first use: a thread that only analyses interval data never loads the PDF
+// renderer and its fonts, and the event loop's thread (which needs none of them when threads run the work) neither.
+const engine = () => import("../core/pipeline/size.js");
+const interval = () => import("./interval-task.js");
 
 export interface ReportTask {
   input: ReportInput;
@@ -22,24 +24,25 @@ export interface ReportTask {
 export type ReportOutput = { html: string } | { pdf: Uint8Array };
 
 async function renderReport(p: ReportTask): Promise<ReportOutput> {
+  const { buildReportModel } = await import("../report/model.js");
   const model = buildReportModel(p.input);
-  if (p.format === "html") return { html: renderReportHtml(model) };
-  return { pdf: await renderReportPdf(model, { size: p.paper }) };
+  if (p.format === "html") return { html: (await import("../report/html.js")).renderReportHtml(model) };
+  return { pdf: await (await import("../report/pdf.js")).renderReportPdf(model, { size: p.paper }) };
 }
 
 export const HEAVY_TASKS = {
   /** The sizing engine with options (the harmonic scan endpoint asks for the dense |Z(h)| series). */
-  size: (p: { input: SizingInput; options: SizingOptions }) => size(p.input, p.options),
+  size: async (p: { input: SizingInput; options: SizingOptions }): Promise<SizingOutcome> => (await engine()).size(p.input, p.options),
   /** Report model and its rendering (the model computes scan series when none are supplied). */
   report: (p: ReportTask): Promise<ReportOutput> => renderReport(p),
   /** A sizing and its report in one task: POST /v1/sizing/report (the engine's issues come back for a 400). */
   sizingReport: async (p: { inputs: SizingInput; format: "html" | "pdf"; paper: "A4" | "LETTER" }): Promise<ReportOutput | { issues: InputIssue[] }> => {
-    const outcome = size(p.inputs);
+    const outcome = (await engine()).size(p.inputs);
     if (!outcome.ok) return { issues: outcome.issues };
     return renderReport({ input: { inputs: p.inputs, result: outcome.result }, format: p.format, paper: p.paper });
   },
   /** Analysis of a parsed interval series: statistics, the controller simulation and the answer. */
-  intervalAnalysis: (p: IntervalAnalysisTask) => intervalAnswer(p),
+  intervalAnalysis: async (p: IntervalAnalysisTask): Promise<IntervalAnswer> => (await interval()).intervalAnswer(p),
 };
 
 export type HeavyTaskName = keyof typeof HEAVY_TASKS;

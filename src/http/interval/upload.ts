@@ -3,7 +3,7 @@ import type { Readable } from "node:stream";
 import multipart from "@fastify/multipart";
 import type { FastifyInstance, FastifyRequest } from "fastify";
 import { createIntervalParser, type ParseOutcome } from "../../core/interval/parser.js";
-import { seriesTransfer } from "../../heavy-work/interval-task.js";
+import { seriesTransfer } from "../../heavy-work/pool.js";
 import { problem, ProblemError, validationProblem } from "../problem.js";
 import { fatalProblem, feedStream, INTERVAL_MAX_BYTES, INTERVAL_MAX_ROWS, tooLarge } from "./ingest.js";
 import { parseIntervalOptions, type IntervalRequestOptions } from "./options.js";
