@@ -3,6 +3,7 @@
  * the pool (./pool.ts) runs them on a worker thread (./worker.ts), or inline when no threads are configured.
  * No fastify, no store: the route reads and validates, the task computes.
  */
+import { Piscina } from "piscina";
 import type { SizingInput } from "../core/inputs.js";
 import type { SizingOptions, SizingOutcome } from "../core/pipeline/size.js";
 import type { InputIssue } from "../core/warnings.js";
@@ -30,9 +31,34 @@ async function renderReport(p: ReportTask): Promise<ReportOutput> {
   return { pdf: await (await import("../report/pdf.js")).renderReportPdf(model, { size: p.paper }) };
 }
 
+/** The scan's answer: the sizing's headline parts and the study with its series. */
+function scanAnswer(outcome: Extract<SizingOutcome, { ok: true }>) {
+  const r = outcome.result;
+  return {
+    engineVersion: r.engineVersion,
+    system: r.system,
+    site: r.site,
+    correction: r.correction,
+    resonance: r.resonance,
+    recommendedBank: r.recommendedBank,
+    ...(r.proposedBank ? { proposedBank: r.proposedBank } : {}),
+    study: outcome.study,
+    warnings: r.warnings,
+    cautions: r.cautions,
+  };
+}
+
 export const HEAVY_TASKS = {
-  /** The sizing engine with options (the harmonic scan endpoint asks for the dense |Z(h)| series). */
-  size: async (p: { input: SizingInput; options: SizingOptions }): Promise<SizingOutcome> => (await engine()).size(p.input, p.options),
+  /**
+   * POST /v1/harmonics/scan: the sizing with its dense |Z(h)| series, answered as UTF-8 JSON bytes. Serialising
+   * megabytes of series is itself long work, and bytes cross the thread boundary moved, not copied.
+   */
+  harmonicScan: async (p: { input: SizingInput; options: SizingOptions }): Promise<Uint8Array | { issues: InputIssue[] }> => {
+    const outcome = (await engine()).size(p.input, p.options);
+    if (!outcome.ok) return { issues: outcome.issues };
+    const json = new TextEncoder().encode(JSON.stringify(scanAnswer(outcome)));
+    return Piscina.isWorkerThread ? (Piscina.move(json) as Uint8Array) : json;
+  },
   /** Report model and its rendering (the model computes scan series when none are supplied). */
   report: (p: ReportTask): Promise<ReportOutput> => renderReport(p),
   /** A sizing and its report in one task: POST /v1/sizing/report (the engine's issues come back for a 400). */
