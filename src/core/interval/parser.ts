@@ -152,8 +152,14 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     }
   };
 
+  const tooLong = (lineNumber: number): void => {
+    fatal = { kind: "line_too_long", message: `line ${lineNumber} is longer than ${MAX_LINE_CHARS} characters`, issues: [{ path: `line.${lineNumber}`, message: "line too long" }] };
+  };
+
   const line = (s: string, start: number, end: number): void => {
     report.lines++;
+    // The bound holds wherever the line falls in the chunks (a line inside one chunk as well as one across two).
+    if (end - start > MAX_LINE_CHARS) return tooLong(report.lines);
     if (end > start && s.charCodeAt(end - 1) === 13) end--;
     const d = decoder;
     if (d === null) return header(s.slice(start, end));
@@ -189,7 +195,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
       const nl = chunk.indexOf("\n");
       if (nl < 0) {
         carry += chunk;
-        if (carry.length > MAX_LINE_CHARS) fatal = { kind: "line_too_long", message: `line ${report.lines + 1} is longer than ${MAX_LINE_CHARS} characters`, issues: [{ path: `line.${report.lines + 1}`, message: "line too long" }] };
+        if (carry.length > MAX_LINE_CHARS) tooLong(report.lines + 1);
         return !fatal;
       }
       const joined = carry + chunk.slice(0, nl);
