@@ -56,8 +56,15 @@ export function createHeavyWork(o: HeavyWorkOptions): HeavyWork {
       const envelope = { name, payload } as HeavyEnvelope<typeof name>;
       if (o.threads === 0) return (await (await import("./tasks.js")).runHeavyTask(envelope)) as HeavyResult<typeof name>;
       const p = poolOf();
-      if (p.queueSize >= o.maxQueue) throw busyProblem(`${p.queueSize} heavy tasks are waiting for a worker thread; the limit is ${o.maxQueue}`, o.retryAfterS);
-      return (await p.run(envelope, transfer ? { transferList: transfer } : {})) as HeavyResult<typeof name>;
+      const full = () => busyProblem(`${p.queueSize} heavy tasks are waiting for a worker thread; the limit is ${o.maxQueue}`, o.retryAfterS);
+      if (p.queueSize >= o.maxQueue) throw full();
+      try {
+        return (await p.run(envelope, transfer ? { transferList: transfer } : {})) as HeavyResult<typeof name>;
+      } catch (err) {
+        // piscina's own queue bound (it counts threads still starting as capacity) refuses the same way
+        if (err instanceof Error && err.message === "Task queue is at limit") throw full();
+        throw err;
+      }
     },
     async close() {
       const p = pool;
