@@ -25,11 +25,15 @@ import { MAX_PARAM_CHARS, noRouteHandler, routerErrorHandler } from "./http/rout
 import { openStore } from "./store/open.js";
 import type { Store } from "./store/ports.js";
 import { readyAnswer } from "./http/readiness.js";
+import { createHeavyWork, type HeavyWork } from "./heavy-work/pool.js";
+import { installPressure } from "./http/pressure.js";
 
 declare module "fastify" {
   interface FastifyInstance {
     /** The database behind the app; closed by app.close(). */
     store: Store;
+    /** Worker threads for heavy work (large scans, reports, interval analyses); stopped by app.close(). */
+    heavyWork: HeavyWork;
   }
 }
 
@@ -96,6 +100,12 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
       return typeof given === "string" && /^[\w.:-]{1,128}$/.test(given) ? given : randomUUID();
     },
   });
+
+  // Before every other hook: a lagging loop sheds requests before they cost anything.
+  await installPressure(app, config);
+  const heavyWork = createHeavyWork({ threads: config.HEAVY_WORK_THREADS, maxQueue: config.HEAVY_WORK_QUEUE, retryAfterS: config.OVERLOAD_RETRY_AFTER_S });
+  app.decorate("heavyWork", heavyWork);
+  app.addHook("onClose", async () => heavyWork.close());
 
   // JSON only by default: a text/plain body is a 415, not a string handed to a JSON route.
   app.removeContentTypeParser("text/plain");

@@ -68,6 +68,17 @@ const schema = z.object({
   /** PEM certificate (chain) and private key: both set, the service speaks HTTPS only (the tablet page's offline reload needs it). */
   TLS_CERT_PATH: z.string().min(1).optional(),
   TLS_KEY_PATH: z.string().min(1).optional(),
+  // Heavy work and load shedding (src/heavy-work/, src/http/pressure.ts).
+  /** Worker threads for large harmonic scans, reports and interval analyses; 0 runs them on the event loop (blocking). */
+  HEAVY_WORK_THREADS: z.coerce.number().int().min(0).max(32).default(2),
+  /** Heavy tasks waiting for a thread beyond which a new one is refused with 503 and Retry-After. */
+  HEAVY_WORK_QUEUE: z.coerce.number().int().min(1).max(10_000).default(32),
+  /** Mean event-loop delay, ms, above which requests (all but /health) get 503 with Retry-After; 0 turns the check off. */
+  EVENT_LOOP_MAX_DELAY_MS: z.coerce.number().int().min(0).max(60_000).default(1000),
+  /** How often the event-loop delay is sampled, ms. */
+  EVENT_LOOP_SAMPLE_MS: z.coerce.number().int().min(10).max(60_000).default(500),
+  /** Seconds a refused client is told to wait (the Retry-After of a 503). */
+  OVERLOAD_RETRY_AFTER_S: z.coerce.number().int().min(1).max(3600).default(5),
 }).superRefine((c, ctx) => {
   for (const [set, unset] of [["TLS_CERT_PATH", "TLS_KEY_PATH"], ["TLS_KEY_PATH", "TLS_CERT_PATH"]] as const) {
     if (c[set] !== undefined && c[unset] === undefined) ctx.addIssue({ code: "custom", path: [unset], message: `must be set together with ${set}` });

@@ -150,6 +150,13 @@ export const PROBLEM_TYPES = {
     means: "The key (or, without a key, the address) sent more requests in a minute than RATE_LIMIT_PER_MINUTE allows.",
     todo: "Wait for the seconds given in the Retry-After header, then go on more slowly.",
   },
+  overloaded: {
+    title: "The service is busy",
+    status: "503",
+    means:
+      "The service is answering slowly (its event loop lags beyond EVENT_LOOP_MAX_DELAY_MS) or its queue of heavy work (large harmonic scans, reports, interval analyses) is full, so it refuses new work rather than stall every request. GET /health is always answered.",
+    todo: "Wait for the seconds given in the Retry-After header and send the request again.",
+  },
   internal: {
     title: "Internal error",
     status: "500",

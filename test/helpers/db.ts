@@ -39,8 +39,9 @@ export interface StoreApp {
 }
 
 /**
- * The app on a new temp database (the store from openTestStore, test/helpers/store.ts), demo data off, no logger, a fresh bootstrap admin key and a rate limit
- * too high to matter (tests of the limit set their own); close `app` in afterAll.
+ * The app on a new temp database (the store from openTestStore, test/helpers/store.ts), demo data off, no logger, a fresh bootstrap admin key, a rate limit
+ * too high to matter (tests of the limit set their own), and no load shedding on event-loop lag (a loaded test
+ * machine lags at start-up; test/api/pressure.test.ts turns it on); close `app` in afterAll.
  */
 export async function makeStoreApp(
   overrides: Partial<Config> = {},
@@ -48,7 +49,7 @@ export async function makeStoreApp(
 ): Promise<StoreApp> {
   const path = overrides.DATABASE_PATH ?? tempDatabasePath();
   const key = overrides.PFC_BOOTSTRAP_KEY ?? newBootstrapKey();
-  const config = defaultConfig({ DEMO_DATA: "off", RATE_LIMIT_PER_MINUTE: 10_000_000, ...overrides, DATABASE_PATH: path, PFC_BOOTSTRAP_KEY: key });
+  const config = defaultConfig({ DEMO_DATA: "off", RATE_LIMIT_PER_MINUTE: 10_000_000, EVENT_LOOP_MAX_DELAY_MS: 0, ...overrides, DATABASE_PATH: path, PFC_BOOTSTRAP_KEY: key });
   const { migrationsDir, now, ...rest } = options;
   const store = rest.store ?? (await openTestStore({ path, ...(migrationsDir ? { migrationsDir } : {}), ...(now ? { now } : {}) }));
   const app = await buildApp({ config, logger: false, ...rest, store, ...(now ? { now } : {}) });

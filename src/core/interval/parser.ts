@@ -1,6 +1,5 @@
 import { detectDelimiter, mapColumns, splitHeader, type ColumnMapping, type ColumnOverrides, type Delimiter, type MappingIssue } from "./columns.js";
 import { isoWithOffset, type DateOrder } from "./datetime.js";
-import { GrowableF64 } from "./growable.js";
 import { checkSteps, medianStepMinutes, sortAndDedupe, type DuplicateExample, type StepReport } from "./quality.js";
 import { RowDecoder, type SenseOption } from "./rows.js";
 import type { IntervalSeries, RowError } from "./series-types.js";
@@ -86,7 +85,23 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   let firstHeaderIssues: MappingIssue[] | null = null;
   let firstHeaderLine = 0;
   let candidates = 0;
-  const ts = new GrowableF64(), kW = new GrowableF64(), kvar = new GrowableF64(), lines = new GrowableF64();
+  // The accepted rows, column by column in typed arrays that double as they fill (no object per row).
+  let capacity = 4096;
+  let tsCol = new Float64Array(capacity), kWCol = new Float64Array(capacity), kvarCol = new Float64Array(capacity), lineCol = new Float64Array(capacity);
+  let n = 0;
+  const grow = (rows: number): void => {
+    if (rows <= capacity) return;
+    const bigger = (a: Float64Array) => {
+      const b = new Float64Array(rows);
+      b.set(a.subarray(0, n));
+      return b;
+    };
+    tsCol = bigger(tsCol);
+    kWCol = bigger(kWCol);
+    kvarCol = bigger(kvarCol);
+    lineCol = bigger(lineCol);
+    capacity = rows;
+  };
   let prevUtc = Number.NaN;
   let withoutOffset = 0;
   let firstOffsetMs = Number.NaN;
@@ -121,7 +136,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   const reserve = (): void => {
     const perRow = charsSoFar / SIZING_ROWS;
     const rows = Math.min(maxRows, Math.ceil(((options.expectedChars as number) / perRow) * 1.02) + 16);
-    for (const g of [ts, kW, kvar, lines]) g.reserve(rows);
+    grow(rows);
   };
 
   const badRow = (d: RowDecoder, s: string): void => {
@@ -137,8 +152,14 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     }
   };
 
+  const tooLong = (lineNumber: number): void => {
+    fatal = { kind: "line_too_long", message: `line ${lineNumber} is longer than ${MAX_LINE_CHARS} characters`, issues: [{ path: `line.${lineNumber}`, message: "line too long" }] };
+  };
+
   const line = (s: string, start: number, end: number): void => {
     report.lines++;
+    // The bound holds wherever the line falls in the chunks (a line inside one chunk as well as one across two).
+    if (end - start > MAX_LINE_CHARS) return tooLong(report.lines);
     if (end > start && s.charCodeAt(end - 1) === 13) end--;
     const d = decoder;
     if (d === null) return header(s.slice(start, end));
@@ -159,10 +180,12 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
       if (o.first.length < maxReported) o.first.push({ line: report.lines, timestamp: fmt(u), previousTimestamp: fmt(prevUtc) });
     }
     prevUtc = u;
-    ts.push(u);
-    kW.push(d.kW);
-    kvar.push(d.kvar);
-    lines.push(report.lines);
+    if (n === capacity) grow(capacity * 2);
+    tsCol[n] = u;
+    kWCol[n] = d.kW;
+    kvarCol[n] = d.kvar;
+    lineCol[n] = report.lines;
+    n++;
   };
 
   const push = (chunk: string): boolean => {
@@ -172,7 +195,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
       const nl = chunk.indexOf("\n");
       if (nl < 0) {
         carry += chunk;
-        if (carry.length > MAX_LINE_CHARS) fatal = { kind: "line_too_long", message: `line ${report.lines + 1} is longer than ${MAX_LINE_CHARS} characters`, issues: [{ path: `line.${report.lines + 1}`, message: "line too long" }] };
+        if (carry.length > MAX_LINE_CHARS) tooLong(report.lines + 1);
         return !fatal;
       }
       const joined = carry + chunk.slice(0, nl);
@@ -202,7 +225,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
       return fail("header", `no header line with the needed columns (line ${firstHeaderLine} shown)`, firstHeaderIssues ?? []);
     }
     const b = report.badRows;
-    report.acceptedRows = ts.length;
+    report.acceptedRows = n;
     b.fraction = report.dataRows > 0 ? b.count / report.dataRows : 0;
     if (report.dataRows === 0) return fail("no_data", "no data rows after the header", [{ path: "body", message: "the header is followed by no rows" }]);
     if (b.fraction > b.limitFraction) {
@@ -223,7 +246,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
           : `timeZone not given: timestamps carry offsets; months are counted in the first row's offset (${zone.name})`,
       );
     }
-    const raw = { timestampsMs: ts.data, kW: kW.data, kvar: kvar.data, lines: lines.data, n: ts.length };
+    const raw = { timestampsMs: tsCol, kW: kWCol, kvar: kvarCol, lines: lineCol, n };
     const { rows, duplicates } = sortAndDedupe(raw, report.outOfOrder.count === 0, fmt, maxReported);
     report.duplicates = duplicates;
     if (rows.n < 2) return fail("too_few_intervals", "fewer than two distinct timestamps", [{ path: "body", message: "at least two intervals are needed" }]);

@@ -2,13 +2,12 @@ import { createHash, type Hash } from "node:crypto";
 import type { Readable } from "node:stream";
 import multipart from "@fastify/multipart";
 import type { FastifyInstance, FastifyRequest } from "fastify";
-import { analyseIntervals } from "../../core/interval/analyse.js";
 import { createIntervalParser, type ParseOutcome } from "../../core/interval/parser.js";
-import { simulateController } from "../../core/interval/simulate.js";
+import { seriesTransfer } from "../../heavy-work/pool.js";
 import { problem, ProblemError, validationProblem } from "../problem.js";
 import { fatalProblem, feedStream, INTERVAL_MAX_BYTES, INTERVAL_MAX_ROWS, tooLarge } from "./ingest.js";
 import { parseIntervalOptions, type IntervalRequestOptions } from "./options.js";
-import { intervalResponse } from "./response.js";
+import type { intervalResponse } from "./response.js";
 
 /** Reading an interval upload (text/csv or multipart/form-data) into an analysis, for every route that takes one. */
 
@@ -69,13 +68,14 @@ async function readCsv(stream: AsyncIterable<Buffer | string>, o: IntervalReques
   }
 }
 
-/** Analysis phase: pure computation on the parsed series. */
-function analyse({ outcome, bytes }: Read, o: IntervalRequestOptions): IntervalAnswer {
+/**
+ * Analysis phase: pure computation on the parsed series, on a worker thread (sorting a year of intervals for the
+ * percentiles and simulating the controller over it would hold the event loop); the series' arrays are moved there.
+ */
+function analyse(request: FastifyRequest, { outcome, bytes }: Read, o: IntervalRequestOptions): Promise<IntervalAnswer> {
   if (!outcome.ok) throw new ProblemError(fatalProblem(outcome));
-  const analysis = analyseIntervals(outcome.series, o.targetPF);
-  const opts = o.leadingLimitPF !== undefined ? { leadingLimitPF: o.leadingLimitPF } : {};
-  const sim = o.bank ? simulateController(outcome.series, o.bank, o.targetPF, opts) : null;
-  return intervalResponse(bytes, outcome.report, analysis, sim, o);
+  const { series, report } = outcome;
+  return request.server.heavyWork.run("intervalAnalysis", { bytes, series, report, options: o }, seriesTransfer(series));
 }
 
 /** Multipart: option fields first, then the file in field `file` (streamed straight into the parser). */
@@ -100,7 +100,7 @@ async function analyseMultipart(request: FastifyRequest, hash: Hash | undefined)
     throw readProblem(err);
   }
   if (read === null || options === null) throw new ProblemError(validationProblem([{ path: "file", message: 'no file: upload the CSV in the form field "file"' }]));
-  return { answer: analyse(read, options), form };
+  return { answer: await analyse(request, read, options), form };
 }
 
 /**
@@ -127,6 +127,6 @@ export async function analyseUpload(request: FastifyRequest, o: { digest?: boole
   if (!body || typeof (body as Partial<Readable>)[Symbol.asyncIterator] !== "function") {
     throw new ProblemError(problem(422, "csv-no-data", "The upload has no data", "the body is empty", [{ path: "body", message: "send the CSV as the body" }]));
   }
-  const answer = analyse(await readCsv(body, options, hash, declared > 0 ? declared : undefined), options);
+  const answer = await analyse(request, await readCsv(body, options, hash, declared > 0 ? declared : undefined), options);
   return { answer, ...digestOf({}) };
 }

@@ -1,12 +1,11 @@
 import type { FastifyInstance } from "fastify";
-import { size } from "../../core/pipeline/size.js";
 import { problem, ProblemError } from "../problem.js";
 import { harmonicScanRequestSchema } from "../schemas/harmonics.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
 
 /** POST /v1/harmonics/scan: the sizing body plus scan options → the study with its |Z(h)| series for plots. */
 export async function harmonicsRoutes(app: FastifyInstance): Promise<void> {
-  app.post("/v1/harmonics/scan", async (request) => {
+  app.post("/v1/harmonics/scan", async (request, reply) => {
     const body = parseOr400(harmonicScanRequestSchema, request.body);
     if (!body.transformer && !body.utility) {
       throw new ProblemError(
@@ -16,23 +15,12 @@ export async function harmonicsRoutes(app: FastifyInstance): Promise<void> {
       );
     }
     const { scan, combination, ...sizing } = body;
-    const outcome = size(sizing, {
-      forceHarmonicStudy: true,
-      harmonics: { includeScanSeries: true, ...(scan ? { scan } : {}), ...(combination ? { combination } : {}) },
+    // On a worker thread: a dense scan of a large bank, and its JSON, take long enough to hold other requests up.
+    const out = await app.heavyWork.run("harmonicScan", {
+      input: sizing,
+      options: { forceHarmonicStudy: true, harmonics: { includeScanSeries: true, ...(scan ? { scan } : {}), ...(combination ? { combination } : {}) } },
     });
-    if (!outcome.ok) throw engineIssuesTo400(outcome.issues);
-    const r = outcome.result;
-    return {
-      engineVersion: r.engineVersion,
-      system: r.system,
-      site: r.site,
-      correction: r.correction,
-      resonance: r.resonance,
-      recommendedBank: r.recommendedBank,
-      ...(r.proposedBank ? { proposedBank: r.proposedBank } : {}),
-      study: outcome.study,
-      warnings: r.warnings,
-      cautions: r.cautions,
-    };
+    if (!ArrayBuffer.isView(out)) throw engineIssuesTo400(out.issues);
+    return reply.type("application/json; charset=utf-8").send(Buffer.from(out.buffer, out.byteOffset, out.byteLength));
   });
 }

@@ -4,13 +4,10 @@
  */
 import type { FastifyInstance, FastifyReply } from "fastify";
 import { z } from "zod";
-import { size } from "../../core/pipeline/size.js";
 import { sizingRequestSchema } from "../schemas/sizing.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
 import type { Store } from "../../store/ports.js";
-import { renderReportHtml } from "../../report/html.js";
-import { buildReportModel } from "../../report/model.js";
-import { renderReportPdf } from "../../report/pdf.js";
+import type { ReportOutput, ReportTask } from "../../heavy-work/tasks.js";
 import { surveyReportData } from "../../application/survey-reads.js";
 
 const idParams = z.object({ id: z.string() });
@@ -34,6 +31,16 @@ function sendPdf(reply: FastifyReply, pdf: Buffer, filename: string): FastifyRep
 
 const sizeOf = (p: "a4" | "letter" | undefined) => (p === "letter" ? "LETTER" : "A4");
 
+function sendOutput(reply: FastifyReply, out: ReportOutput, filename: string): FastifyReply {
+  // A Buffer crosses the thread boundary as a plain Uint8Array: view the same bytes as a Buffer again.
+  return "html" in out ? sendHtml(reply, out.html) : sendPdf(reply, Buffer.from(out.pdf.buffer, out.pdf.byteOffset, out.pdf.byteLength), filename);
+}
+
+/** The model is built and drawn on a worker thread (a report with charts takes long enough to stall other requests). */
+async function sendReport(app: FastifyInstance, reply: FastifyReply, task: ReportTask, filename: string): Promise<FastifyReply> {
+  return sendOutput(reply, await app.heavyWork.run("report", task), filename);
+}
+
 export async function reportRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
 
@@ -41,24 +48,21 @@ export async function reportRoutes(app: FastifyInstance, opts: { store: Store })
     const { id } = parseOr400(idParams, request.params);
     const q = parseOr400(surveyQuery, request.query);
     const { input } = await surveyReportData(store, request.actor.orgId, id, q.revision === undefined ? undefined : Number(q.revision));
-    return sendHtml(reply, renderReportHtml(buildReportModel(input)));
+    return sendReport(app, reply, { input, format: "html", paper: sizeOf(q.paper) }, "");
   });
 
   app.get("/v1/surveys/:id/report.pdf", async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const q = parseOr400(surveyQuery, request.query);
     const { revision: r, input } = await surveyReportData(store, request.actor.orgId, id, q.revision === undefined ? undefined : Number(q.revision));
-    const pdf = await renderReportPdf(buildReportModel(input), { size: sizeOf(q.paper) });
-    return sendPdf(reply, pdf, `${r.surveyId}-r${r.n}-report.pdf`);
+    return sendReport(app, reply, { input, format: "pdf", paper: sizeOf(q.paper) }, `${r.surveyId}-r${r.n}-report.pdf`);
   });
 
   app.post("/v1/sizing/report", async (request, reply) => {
     const q = parseOr400(sizingQuery, request.query);
     const inputs = parseOr400(sizingRequestSchema, request.body);
-    const outcome = size(inputs);
-    if (!outcome.ok) throw engineIssuesTo400(outcome.issues);
-    const model = buildReportModel({ inputs, result: outcome.result });
-    if (q.format === "pdf") return sendPdf(reply, await renderReportPdf(model, { size: sizeOf(q.paper) }), "sizing-report.pdf");
-    return sendHtml(reply, renderReportHtml(model));
+    const out = await app.heavyWork.run("sizingReport", { inputs, format: q.format ?? "html", paper: sizeOf(q.paper) });
+    if ("issues" in out) throw engineIssuesTo400(out.issues);
+    return sendOutput(reply, out, "sizing-report.pdf");
   });
 }
