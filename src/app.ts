@@ -23,6 +23,8 @@ import { problem, ProblemError, sendProblem } from "./http/problem.js";
 import { problemsRoutes } from "./http/routes/problems.js";
 import { MAX_PARAM_CHARS, noRouteHandler, routerErrorHandler } from "./http/routing.js";
 import { openStore, type Store } from "./store/store.js";
+import { installOpenapi } from "./http/openapi.js";
+import * as service from "./http/contracts/service.js";
 
 declare module "fastify" {
   interface FastifyInstance {
@@ -122,10 +124,11 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
 
   app.decorate("store", store);
   app.addHook("onClose", async () => store.close());
+  await installOpenapi(app);
   installActor(app, store);
   await installSecurity(app, config);
 
-  app.get("/health", async () => ({ status: "ok" }));
+  app.get("/health", { schema: service.health }, async () => ({ status: "ok" }));
   await app.register(sizingRoutes);
   await app.register(intervalAnalysesRoutes, { store });
   await app.register(harmonicsRoutes);

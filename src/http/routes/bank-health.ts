@@ -5,6 +5,7 @@ import { surveyResultsRepo } from "../../store/bank-health-repo.js";
 import type { Store } from "../../store/store.js";
 import { parseOr400 } from "../validate.js";
 import { findBuilding } from "./buildings.js";
+import * as contracts from "../contracts/surveys.js";
 
 const idParams = z.object({ id: z.string() });
 /** Surveys read per answer; more are left off and the answer says so. */
@@ -14,7 +15,7 @@ export const BANK_HEALTH_MAX_SURVEYS = 1000;
 export async function bankHealthRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
   const repo = surveyResultsRepo(store.db);
-  app.get("/v1/buildings/:id/bank-health", async (request) => {
+  app.get("/v1/buildings/:id/bank-health", { schema: contracts.buildingBankHealth }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const { orgId } = request.actor;
     findBuilding(store, orgId, id);

@@ -10,6 +10,7 @@ import { notFound, ProblemError } from "../problem.js";
 import { buildingCreateSchema, buildingListQuerySchema, buildingPatchSchema, type BuildingPatch } from "../schemas/buildings.js";
 import { parseOr400 } from "../validate.js";
 import { buildingVersionView, buildingView } from "../views.js";
+import * as contracts from "../contracts/buildings.js";
 
 const idParams = z.object({ id: z.string() });
 const buildingCursor = z.object({ k: z.literal("b"), n: z.string(), i: z.string() });
@@ -51,7 +52,7 @@ export function findBuilding(store: Store, orgId: string, id: string): BuildingR
 export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
 
-  app.post("/v1/buildings", async (request, reply) => {
+  app.post("/v1/buildings", { schema: contracts.createBuilding }, async (request, reply) => {
     const body = parseOr400(buildingCreateSchema, request.body);
     const { orgId, actorId } = request.actor;
     return idempotentWrite(store, request, reply, () => {
@@ -72,7 +73,7 @@ export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store
     });
   });
 
-  app.get("/v1/buildings", async (request) => {
+  app.get("/v1/buildings", { schema: contracts.listBuildings }, async (request) => {
     const query = parseOr400(buildingListQuerySchema, request.query);
     const limit = parseLimit(query.limit);
     const after = decodeCursor("b", buildingCursor, query.cursor);
@@ -85,12 +86,12 @@ export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store
     return { items: page.items.map(buildingView), nextCursor: page.nextCursor };
   });
 
-  app.get("/v1/buildings/:id", async (request) => {
+  app.get("/v1/buildings/:id", { schema: contracts.getBuilding }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     return buildingView(findBuilding(store, request.actor.orgId, id));
   });
 
-  app.patch("/v1/buildings/:id", async (request, reply) => {
+  app.patch("/v1/buildings/:id", { schema: contracts.updateBuilding }, async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const patch = parseOr400(buildingPatchSchema, request.body);
     const { orgId, actorId } = request.actor;
@@ -108,7 +109,7 @@ export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store
     });
   });
 
-  app.get("/v1/buildings/:id/history", async (request) => {
+  app.get("/v1/buildings/:id/history", { schema: contracts.buildingHistory }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const { orgId } = request.actor;
     findBuilding(store, orgId, id);

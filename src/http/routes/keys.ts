@@ -1,23 +1,12 @@
 import type { FastifyInstance } from "fastify";
 import { z } from "zod";
 import { issueKey } from "../../auth/bootstrap.js";
-import { ROLES } from "../../auth/keys.js";
 import type { ApiKeyRecord } from "../../store/keys-repo.js";
 import type { Store } from "../../store/store.js";
 import { notFound, problem, ProblemError } from "../problem.js";
 import { parseOr400 } from "../validate.js";
-
-export const keyCreateSchema = z.strictObject({
-  role: z.enum(ROLES),
-  label: z.string().trim().min(1).max(100).optional(),
-});
-
-export const keySchema = z.object({
-  id: z.string(), prefix: z.string(), role: z.enum(ROLES), label: z.string().nullable(),
-  createdAt: z.string(), createdBy: z.string(), lastUsedAt: z.string().nullable(), revokedAt: z.string().nullable(),
-});
-export const keyCreatedSchema = keySchema.extend({ key: z.string().describe("the API key: shown this once, stored only as a hash") });
-export const keyListSchema = z.object({ items: z.array(keySchema) });
+import { keyCreateSchema, type keySchema } from "../schemas/keys.js";
+import * as contracts from "../contracts/admin.js";
 
 const idParams = z.object({ id: z.string() });
 
@@ -30,7 +19,7 @@ const keyView = (k: ApiKeyRecord): z.infer<typeof keySchema> => ({
 export async function keysRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
 
-  app.post("/v1/keys", async (request, reply) => {
+  app.post("/v1/keys", { schema: contracts.createKey }, async (request, reply) => {
     const body = parseOr400(keyCreateSchema, request.body ?? {});
     const { orgId, actorId } = request.actor;
     const issued = issueKey(store, { orgId, role: body.role, label: body.label ?? null, createdBy: actorId, requestId: request.id });
@@ -38,9 +27,9 @@ export async function keysRoutes(app: FastifyInstance, opts: { store: Store }): 
     return reply.code(201).header("location", `/v1/keys/${issued.record.id}`).send({ ...keyView(issued.record), key: issued.key });
   });
 
-  app.get("/v1/keys", async (request) => ({ items: store.keys.list(request.actor.orgId).map(keyView) }));
+  app.get("/v1/keys", { schema: contracts.listKeys }, async (request) => ({ items: store.keys.list(request.actor.orgId).map(keyView) }));
 
-  app.delete("/v1/keys/:id", async (request, reply) => {
+  app.delete("/v1/keys/:id", { schema: contracts.revokeKey }, async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const { orgId, actorId } = request.actor;
     store.write(() => {

@@ -2,6 +2,7 @@ import type { FastifyInstance, FastifyReply } from "fastify";
 import { escapeHtml } from "../../report/escape.js";
 import { notFound, PROBLEM_BASE, ProblemError } from "../problem.js";
 import { isProblemSlug, PROBLEM_TYPES, type ProblemSlug } from "../problem-types.js";
+import * as contracts from "../contracts/service.js";
 
 /**
  * GET /problems/<slug>: what a problem type means and what to do, as a short HTML page a person can open from the
@@ -52,8 +53,8 @@ const sendPage = (reply: FastifyReply, html: string) =>
   reply.type("text/html; charset=utf-8").header("cache-control", "public, max-age=3600").send(html);
 
 export async function problemsRoutes(app: FastifyInstance): Promise<void> {
-  app.get("/problems", async (_request, reply) => sendPage(reply, problemIndexPage()));
-  app.get<{ Params: { type: string } }>("/problems/:type", async (request, reply) => {
+  app.get("/problems", { schema: contracts.problemTypes }, async (_request, reply) => sendPage(reply, problemIndexPage()));
+  app.get<{ Params: { type: string } }>("/problems/:type", { schema: contracts.problemType }, async (request, reply) => {
     const { type } = request.params;
     if (!isProblemSlug(type)) throw new ProblemError(notFound(`problem type ${JSON.stringify(type)}`));
     return sendPage(reply, problemTypePage(type));

@@ -17,6 +17,8 @@ import { surveyReportInput } from "../../report/survey-input.js";
 import type { ReportInput } from "../../report/types.js";
 import { bankHealthSeries } from "../../application/bank-health.js";
 import { surveyResultsRepo } from "../../store/bank-health-repo.js";
+import * as contracts from "../contracts/surveys.js";
+import * as sizingContracts from "../contracts/sizing.js";
 
 const idParams = z.object({ id: z.string() });
 const paper = z.enum(["a4", "letter"], { error: "paper must be a4 or letter" }).optional();
@@ -74,14 +76,14 @@ export async function reportRoutes(app: FastifyInstance, opts: { store: Store })
   const { store } = opts;
   const health = surveyResultsRepo(store.db);
 
-  app.get("/v1/surveys/:id/report", async (request, reply) => {
+  app.get("/v1/surveys/:id/report", { schema: contracts.surveyReport }, async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const q = parseOr400(surveyQuery, request.query);
     const r = revisionOf(store, request.actor.orgId, id, q.revision);
     return sendHtml(reply, renderReportHtml(buildReportModel(reportInputOf(store, request.actor.orgId, r, health))));
   });
 
-  app.get("/v1/surveys/:id/report.pdf", async (request, reply) => {
+  app.get("/v1/surveys/:id/report.pdf", { schema: contracts.surveyReportPdf }, async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const q = parseOr400(surveyQuery, request.query);
     const r = revisionOf(store, request.actor.orgId, id, q.revision);
@@ -89,7 +91,7 @@ export async function reportRoutes(app: FastifyInstance, opts: { store: Store })
     return sendPdf(reply, pdf, `${r.surveyId}-r${r.n}-report.pdf`);
   });
 
-  app.post("/v1/sizing/report", async (request, reply) => {
+  app.post("/v1/sizing/report", { schema: sizingContracts.sizingReport }, async (request, reply) => {
     const q = parseOr400(sizingQuery, request.query);
     const inputs = parseOr400(sizingRequestSchema, request.body);
     const outcome = size(inputs);

@@ -10,6 +10,7 @@ import { notFound, ProblemError } from "../problem.js";
 import { parseOr400 } from "../validate.js";
 import { intervalAnalysisListView, intervalAnalysisView } from "../views.js";
 import { findBuilding } from "./buildings.js";
+import * as contracts from "../contracts/intervals.js";
 
 const idParams = z.object({ id: z.string() });
 const listQuery = z.strictObject({ limit: z.string().optional(), cursor: z.string().optional() });
@@ -17,7 +18,7 @@ const analysisCursor = z.object({ k: z.literal("ia"), s: z.number().int().positi
 
 /** Interval analyses stored with a building: upload (analysed as POST /v1/interval-analyses does), read, list. */
 export function storedIntervalRoutes(app: FastifyInstance, store: Store): void {
-  app.post("/v1/buildings/:id/interval-analyses", { bodyLimit: INTERVAL_MAX_BYTES }, async (request, reply) => {
+  app.post("/v1/buildings/:id/interval-analyses", { bodyLimit: INTERVAL_MAX_BYTES, schema: contracts.storeIntervalAnalysis }, async (request, reply) => {
     const { id: buildingId } = parseOr400(idParams, request.params);
     const { orgId, actorId } = request.actor;
     // Header and building first: neither needs the upload, which may be 64 MiB.
@@ -36,14 +37,14 @@ export function storedIntervalRoutes(app: FastifyInstance, store: Store): void {
     return idempotentWrite(store, request, reply, write, digest ?? null);
   });
 
-  app.get("/v1/interval-analyses/:id", async (request) => {
+  app.get("/v1/interval-analyses/:id", { schema: contracts.getIntervalAnalysis }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const a = store.intervalAnalyses.get(request.actor.orgId, id);
     if (!a) throw new ProblemError(notFound(`interval analysis ${id}`));
     return intervalAnalysisView(a);
   });
 
-  app.get("/v1/buildings/:id/interval-analyses", async (request) => {
+  app.get("/v1/buildings/:id/interval-analyses", { schema: contracts.listIntervalAnalyses }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const query = parseOr400(listQuery, request.query);
     const limit = parseLimit(query.limit);

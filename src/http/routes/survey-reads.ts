@@ -9,6 +9,7 @@ import { surveyListQuerySchema, trendQuerySchema } from "../schemas/surveys.js";
 import { parseOr400 } from "../validate.js";
 import { revisionView, surveySummaryView, surveyView, trendPointView } from "../views.js";
 import { findBuilding } from "./buildings.js";
+import * as contracts from "../contracts/surveys.js";
 
 const idParams = z.object({ id: z.string() });
 const revisionParams = z.object({
@@ -29,14 +30,14 @@ function latestRevision(store: Store, orgId: string, id: string): RevisionRecord
 export async function surveyReadRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
 
-  app.get("/v1/surveys/:id", async (request) => {
+  app.get("/v1/surveys/:id", { schema: contracts.getSurvey }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const { orgId } = request.actor;
     const latest = latestRevision(store, orgId, id);
     return surveyView(latest, store.surveys.revisions(orgId, id));
   });
 
-  app.get("/v1/surveys/:id/revisions/:n", async (request) => {
+  app.get("/v1/surveys/:id/revisions/:n", { schema: contracts.getSurveyRevision }, async (request) => {
     const { id, n } = parseOr400(revisionParams, request.params);
     const { orgId } = request.actor;
     const r = store.surveys.revision(orgId, id, Number(n));
@@ -46,7 +47,7 @@ export async function surveyReadRoutes(app: FastifyInstance, opts: { store: Stor
     return revisionView(r);
   });
 
-  app.get("/v1/surveys/:id/loads.csv", async (request, reply) => {
+  app.get("/v1/surveys/:id/loads.csv", { schema: contracts.surveyLoadsCsv }, async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const latest = latestRevision(store, request.actor.orgId, id);
     return reply
@@ -55,7 +56,7 @@ export async function surveyReadRoutes(app: FastifyInstance, opts: { store: Stor
       .send(loadsCsv(latest));
   });
 
-  app.get("/v1/buildings/:id/surveys", async (request) => {
+  app.get("/v1/buildings/:id/surveys", { schema: contracts.listSurveys }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const query = parseOr400(surveyListQuerySchema, request.query);
     const limit = parseLimit(query.limit);
@@ -72,7 +73,7 @@ export async function surveyReadRoutes(app: FastifyInstance, opts: { store: Stor
     return { items: page.items.map(surveySummaryView), nextCursor: page.nextCursor };
   });
 
-  app.get("/v1/buildings/:id/trend", async (request) => {
+  app.get("/v1/buildings/:id/trend", { schema: contracts.buildingTrend }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const range = rangeOf(parseOr400(trendQuerySchema, request.query));
     const { orgId } = request.actor;

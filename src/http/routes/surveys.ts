@@ -9,6 +9,7 @@ import { revisionInputsSchema, surveyInputsSchema } from "../schemas/surveys.js"
 import { computeRevision } from "../../application/survey-sizing.js";
 import { parseOr400 } from "../validate.js";
 import { findBuilding } from "./buildings.js";
+import * as contracts from "../contracts/surveys.js";
 
 const idParams = z.object({ id: z.string() });
 
@@ -29,7 +30,7 @@ export function analysisFor(store: Store, orgId: string, buildingId: string, req
 export async function surveysRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
 
-  app.post("/v1/buildings/:id/surveys", async (request, reply) => {
+  app.post("/v1/buildings/:id/surveys", { schema: contracts.createSurvey }, async (request, reply) => {
     const { id: buildingId } = parseOr400(idParams, request.params);
     const inputs = parseOr400(surveyInputsSchema, request.body);
     const { orgId, actorId } = request.actor;
@@ -49,7 +50,7 @@ export async function surveysRoutes(app: FastifyInstance, opts: { store: Store }
     });
   });
 
-  app.post("/v1/surveys/:id/revisions", async (request, reply) => {
+  app.post("/v1/surveys/:id/revisions", { schema: contracts.reviseSurvey }, async (request, reply) => {
     const { id: surveyId } = parseOr400(idParams, request.params);
     const { reason, ...inputs } = parseOr400(revisionInputsSchema, request.body);
     const { orgId, actorId } = request.actor;
