@@ -1350,6 +1350,7 @@ export interface components {
                 intervals: number;
                 peakKW: number;
                 peakKWAt: string;
+                peakKWKvar: number;
                 peakKVA: number;
                 peakKVAAt: string;
                 kWh: number;
@@ -2959,6 +2960,7 @@ export interface operations {
                             intervals: number;
                             peakKW: number;
                             peakKWAt: string;
+                            peakKWKvar: number;
                             peakKVA: number;
                             peakKVAAt: string;
                             kWh: number;

@@ -4,7 +4,8 @@ import { z } from "zod";
 const percentiles = z.record(z.string(), z.number()).describe("nearest-rank percentiles keyed P0, P1, P5, …, P100");
 const curve = z.object({ exceedancePct: z.array(z.number()), kvar: z.array(z.number()) });
 const month = z.object({
-  month: z.string(), intervals: z.number(), peakKW: z.number(), peakKWAt: z.string(), peakKVA: z.number(), peakKVAAt: z.string(),
+  month: z.string(), intervals: z.number(), peakKW: z.number(), peakKWAt: z.string(), peakKWKvar: z.number().describe("kvar of the interval with the peak kW"),
+  peakKVA: z.number(), peakKVAAt: z.string(),
   kWh: z.number(), kvarhLagging: z.number(), kvarhLeading: z.number(), billingPF: z.number(), billingPFLaggingOnly: z.number(),
 });
 const rowError = z.object({ line: z.number(), column: z.string(), reason: z.string(), value: z.string().optional() });
