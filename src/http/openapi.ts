@@ -31,8 +31,22 @@ export interface RegisteredRoute {
   contract: RouteContract | undefined;
 }
 
-const zodTransform = createJsonSchemaTransform({ schemaRegistry: componentRegistry, skipList: [] });
-const zodComponents = createJsonSchemaTransformObject({ schemaRegistry: componentRegistry });
+type ZodToJsonConfig = NonNullable<Parameters<typeof createJsonSchemaTransform>[0]["zodToJsonConfig"]>;
+
+/**
+ * Per schema node, after zod's conversion. The transform reads metadata from the component registry only, where
+ * `.describe()` texts are not (zod keeps them in its global registry): they are copied in here. And, as the
+ * transform's own override does, an empty branch of a union (an unrepresentable one) is dropped.
+ */
+const override: NonNullable<ZodToJsonConfig["override"]> = (ctx) => {
+  const json = ctx.jsonSchema as Json;
+  if (ctx.zodSchema._zod.def.type === "union" && Array.isArray(json.anyOf)) json.anyOf = json.anyOf.filter((branch: Json) => Object.keys(branch).length > 0);
+  const description = z.globalRegistry.get(ctx.zodSchema)?.description;
+  if (description !== undefined && json.description === undefined) json.description = description;
+};
+
+const zodTransform = createJsonSchemaTransform({ schemaRegistry: componentRegistry, skipList: [], zodToJsonConfig: { override } });
+const zodComponents = createJsonSchemaTransformObject({ schemaRegistry: componentRegistry, zodToJsonConfig: { override } });
 
 /** A schema for one media type of a multi-type body: small and unnamed, so plain zod conversion. */
 function plainSchema(schema: z.ZodType): Json {

@@ -109,6 +109,15 @@ describe("OpenAPI document", () => {
     expect(text.split('"v_i_pf"').length - 1).toBeLessThanOrEqual(2); // MeasurementInput and Measurement (the stored inputs)
   });
 
+  it("keeps the schemas' own words: parameter and property descriptions", () => {
+    const params = doc.paths["/v1/buildings/{id}"].patch.parameters as Json[];
+    expect(params.find((p) => p.name === "idempotency-key")?.description).toMatch(/same key with the same request/);
+    expect(params.find((p) => p.name === "id")?.description).toBeTruthy();
+    expect(doc.components.schemas.NewBuildingInput.properties.economics.description).toMatch(/savings and payback/);
+    const page = doc.paths["/v1/buildings/{id}/interval-analyses"].get.responses["200"].content["application/json"].schema;
+    expect(page.properties.nextCursor.description).toMatch(/next page/);
+  });
+
   it("GET /openapi.json serves the same document", async () => {
     const r = await api(app).get("/openapi.json");
     expect(r.status).toBe(200);

@@ -476,10 +476,12 @@ export interface components {
             lastUsedAt: string | null;
             revokedAt: string | null;
         };
+        /** @description background voltage distortion at the bus, percent of the fundamental per order */
         BackgroundDistortion: {
             order: number;
             pct: number;
         }[];
+        /** @description background voltage distortion at the bus, percent of the fundamental per order */
         BackgroundDistortionInput: {
             order: number;
             pct: number;
@@ -534,10 +536,13 @@ export interface components {
         };
         BankReading: {
             bank: string;
+            /** @description steps energised while the site readings were taken (1-based) */
             inServiceSteps: number[];
+            /** @description voltage measured at the bank; default the system voltage */
             voltageV?: number;
             stepCurrents?: {
                 step: number;
+                /** @description per phase [a, b, c], or one figure; 0 in a phase is a finding */
                 amps: [
                     number,
                     number,
@@ -547,10 +552,13 @@ export interface components {
         };
         BankReadingInput: {
             bank: string;
+            /** @description steps energised while the site readings were taken (1-based) */
             inServiceSteps: number[];
+            /** @description voltage measured at the bank; default the system voltage */
             voltageV?: number;
             stepCurrents?: {
                 step: number;
+                /** @description per phase [a, b, c], or one figure; 0 in a phase is a finding */
                 amps: [
                     number,
                     number,
@@ -570,6 +578,7 @@ export interface components {
         };
         Building: {
             id: string;
+            /** @description 1 on creation, +1 on every change */
             version: number;
             name: string;
             address: string | null;
@@ -587,7 +596,9 @@ export interface components {
             utility: {
                 faultMVA: number;
             } | null;
+            /** @description tariff and costs; null when none */
             economics: components["schemas"]["EconomicsSettings"] | null;
+            /** @description capacitor banks already installed; [] when none */
             installedBanks: components["schemas"]["InstalledBankSettings"][];
             createdAt: string;
             updatedAt: string;
@@ -599,7 +610,9 @@ export interface components {
             system?: components["schemas"]["SystemInput"];
             transformer?: components["schemas"]["TransformerInput"] | null;
             utility?: components["schemas"]["UtilityInput"] | null;
+            /** @description replaces the whole settings; null clears them */
             economics?: components["schemas"]["EconomicsInput"] | null;
+            /** @description replaces the whole list; [] when none are left */
             installedBanks?: components["schemas"]["InstalledBankInput"][];
         };
         BuildingSnapshot: {
@@ -617,8 +630,11 @@ export interface components {
             utility: {
                 faultMVA: number;
             } | null;
+            /** @description the building's tariff and costs the economics were computed with */
             economics: components["schemas"]["EconomicsSettings"] | null;
+            /** @description the interval analysis the bank design rests on; null when none */
             intervalAnalysisId: string | null;
+            /** @description the building's installed banks the result was computed with */
             installedBanks: components["schemas"]["InstalledBankSettings"][];
         };
         Caution: {
@@ -629,11 +645,15 @@ export interface components {
         };
         Correction: {
             targetPF: number;
-            /** @enum {string} */
+            /**
+             * @description add capacitors (lagging beyond the target), remove the leading excess, or none
+             * @enum {string}
+             */
             action: "add" | "remove" | "none";
             kvarRequired: number;
             kvarPerKW: number;
             leadingExcessKvar: number;
+            /** @description after the action: capacitors added, or the leading excess taken out of service */
             pfAfter: number;
             /** @enum {string} */
             pfAfterSense: "lagging" | "leading" | "unity";
@@ -644,11 +664,17 @@ export interface components {
             lineCurrentBeforeA: number;
             lineCurrentAfterA: number;
             lossReductionPct: number;
+            /** @description with installed banks: kvar the energised steps delivered during the readings (measured where given, else rated) */
             kvarInstalledInService?: number;
+            /** @description installed kvar the readings already include, added back to find the uncorrected site */
             kvarIncludedInReadings?: number;
+            /** @description what the uncorrected site needs to reach the target */
             kvarRequiredTotal?: number;
+            /** @description rated kvar of every installed step at the system voltage and frequency */
             kvarInstalledRated?: number;
+            /** @description what remains after the installed banks are restored to health and fully used */
             kvarAdditional?: number;
+            /** @description steps whose repair gives kvar before any new capacitor is bought, largest first */
             repairFirst?: {
                 bank: string;
                 step: number;
@@ -658,6 +684,7 @@ export interface components {
                 finding: string;
             }[];
             kvarRestoredByRepair?: number;
+            /** @description a site leading beyond the target: the energised installed steps to take out, and the PF after */
             leadingRelief?: {
                 takeOutOfService: {
                     bank: string;
@@ -687,7 +714,9 @@ export interface components {
                 perKvar?: number;
                 perStep?: number;
                 fixed?: number;
+                /** @description detuning reactors, per kvar of a detuned bank; with reactorPerStep absent too, reactors are not priced */
                 reactorPerKvar?: number;
+                /** @description detuning reactors, per step of a detuned bank */
                 reactorPerStep?: number;
             };
         };
@@ -700,6 +729,7 @@ export interface components {
             };
             /** @enum {string} */
             basis: "interval_data" | "survey_demand";
+            /** @description with interval data: how the after-correction months were worked, and whether they are an estimate */
             intervalMethod?: {
                 /** @enum {string} */
                 method: "monthly_load_points" | "site_load_points_scaled";
@@ -708,6 +738,7 @@ export interface components {
             };
             periods: {
                 label: string;
+                /** @description the period's demand and energy before and after correction; leading kvarh shown apart */
                 figures: {
                     kWh: number;
                     peakKW: number;
@@ -723,6 +754,7 @@ export interface components {
                     /** @enum {string} */
                     billedUnit: "kVA" | "kW" | "kvarh" | "none";
                     charge: number;
+                    /** @description the PF a PF-adjusted demand clause compared with its base */
                     pf?: number;
                 };
                 after: {
@@ -730,6 +762,7 @@ export interface components {
                     /** @enum {string} */
                     billedUnit: "kVA" | "kW" | "kvarh" | "none";
                     charge: number;
+                    /** @description the PF a PF-adjusted demand clause compared with its base */
                     pf?: number;
                 };
                 tariffSaving: number;
@@ -745,6 +778,7 @@ export interface components {
                 perStep: number;
                 fixed: number;
             } | null;
+            /** @description what is proposed, one line each; counted = false: an option shown for comparison, not in the installed cost */
             costItems: {
                 /** @enum {string} */
                 item: "central_bank" | "central_bank_plain" | "motor_terminal" | "group_bank";
@@ -754,6 +788,7 @@ export interface components {
                 reactorPct: number;
                 counted: boolean;
                 capacitorCost: number;
+                /** @description null: a detuned bank's reactors, not priced */
                 reactorCost: number | null;
                 cost: number;
             }[];
@@ -789,13 +824,19 @@ export interface components {
             proposedBank?: components["schemas"]["ProposedBankInput"];
             harmonicSources?: ("six_pulse" | "twelve_pulse" | "single_phase_electronic")[];
             backgroundVoltageDistortion?: components["schemas"]["BackgroundDistortionInput"];
+            /** @description a reading at the main at light load: caps the fixed part of the bank */
             lightLoad?: components["schemas"]["ServiceEntranceInput"];
             bankDesign?: components["schemas"]["BankDesignOptionsInput"];
             economics?: components["schemas"]["EconomicsInput"];
+            /** @description capacitor banks already installed */
             installedBanks?: components["schemas"]["InstalledBankInput"][];
+            /** @description which installed steps were energised during the readings, and their measured currents */
             bankReadings?: components["schemas"]["BankReadingInput"][];
             scan?: components["schemas"]["ScanOptionsInput"];
-            /** @enum {string} */
+            /**
+             * @description how same-order currents of several sources add; default arithmetic (in phase, worst case)
+             * @enum {string}
+             */
             combination?: "arithmetic" | "rss";
         };
         HarmonicScanResult: {
@@ -814,10 +855,12 @@ export interface components {
             warnings: components["schemas"]["Warning"][];
             cautions: components["schemas"]["Caution"][];
         };
+        /** @description measured current spectrum, percent of the load's fundamental current */
         HarmonicSpectrum: {
             order: number;
             pct: number;
         }[];
+        /** @description measured current spectrum, percent of the load's fundamental current */
         HarmonicSpectrumInput: {
             order: number;
             pct: number;
@@ -832,6 +875,7 @@ export interface components {
             };
             loadResistanceOhm: number | null;
             presentOrders: number[];
+            /** @description which spectrum and fundamental current each harmonic source was given */
             sources: {
                 label: string;
                 /** @enum {string} */
@@ -854,6 +898,7 @@ export interface components {
                     order: number;
                     impedanceOhm: number;
                 }[];
+                /** @description only from /v1/harmonics/scan */
                 series?: {
                     orders: number[];
                     impedanceOhm: number[];
@@ -915,6 +960,7 @@ export interface components {
                         order: number;
                         impedanceOhm: number;
                     }[];
+                    /** @description only from /v1/harmonics/scan */
                     series?: {
                         orders: number[];
                         impedanceOhm: number[];
@@ -1031,6 +1077,7 @@ export interface components {
                 } & {
                     [key: string]: unknown;
                 };
+                /** @description what to buy: the bank's physical steps (fixed first) at the proposal's reactor and capacitor voltage */
                 purchaseSteps?: {
                     nameplateKvar: number;
                     effectiveKvar: number;
@@ -1052,6 +1099,7 @@ export interface components {
                             order: number;
                             impedanceOhm: number;
                         }[];
+                        /** @description only from /v1/harmonics/scan */
                         series?: {
                             orders: number[];
                             impedanceOhm: number[];
@@ -1154,18 +1202,24 @@ export interface components {
             assumptions: string[];
         };
         InstalledBankInput: {
+            /** @description unique within the building; bank readings refer to it */
             label: string;
             /** @enum {string} */
             location: "service" | "group" | "motor";
+            /** @description the MCC or feeder of a group bank */
             group?: string;
+            /** @description the motor (load label) of a terminal unit */
             loadLabel?: string;
             /** @enum {string} */
             control: "fixed" | "automatic";
+            /** @description nameplate voltage, line-to-line on three phases */
             ratedVoltageV: number;
             ratedFrequencyHz?: 50 | 60;
             /** @enum {string} */
             connection?: "delta" | "wye";
+            /** @description series (detuning) reactor; 0 or absent: plain */
             reactorPct?: number;
+            /** @description nameplate kvar per step at the rated voltage and frequency; a fixed bank is one step */
             steps: {
                 kvar: number;
             }[];
@@ -1182,7 +1236,9 @@ export interface components {
             control: "fixed" | "automatic";
             reactorPct: number;
             nameplateKvar: number;
+            /** @description what a healthy bank delivers at the system voltage and frequency, reactor included */
             ratedKvarAtSystem: number;
+            /** @description rated kvar at the system voltage of the steps energised during the readings */
             inServiceKvar: number;
             measuredKvar?: number;
             deliveredKvar: number;
@@ -1214,12 +1270,17 @@ export interface components {
             nameplateKvar: number;
             ratedKvarAtSystem: number;
             inService: boolean;
+            /** @description a healthy step's current at the measured (or system) voltage and frequency */
             expectedCurrentA: number;
             expectedKvar: number;
+            /** @description mean of the measured phases */
             measuredCurrentA?: number;
             phaseCurrentsA?: number[];
+            /** @description measured / expected × 100 */
             currentPct?: number;
+            /** @description measured capacitance, percent of rated (= currentPct on a plain step) */
             capacitancePct?: number;
+            /** @description largest phase deviation from the mean, percent of the mean */
             unbalancePct?: number;
             measuredKvar?: number;
             /** @enum {string} */
@@ -1309,10 +1370,12 @@ export interface components {
             };
             targetPF: number;
             reactiveDemand: {
+                /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
                 percentilesKvar: {
                     [key: string]: number;
                 };
                 meanKvar: number;
+                /** @description the fixed-part limit */
                 minimum: {
                     minKvar: number;
                     p1Kvar: number;
@@ -1324,6 +1387,7 @@ export interface components {
                 };
             };
             neededKvar: {
+                /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
                 percentiles: {
                     [key: string]: number;
                 };
@@ -1332,6 +1396,7 @@ export interface components {
                 hold100PctKvar: number;
             };
             kW: {
+                /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
                 percentiles: {
                     [key: string]: number;
                 };
@@ -1339,6 +1404,7 @@ export interface components {
                 mean: number;
             };
             pf: {
+                /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
                 percentiles: {
                     [key: string]: number;
                 };
@@ -1350,6 +1416,7 @@ export interface components {
                 intervals: number;
                 peakKW: number;
                 peakKWAt: string;
+                /** @description kvar of the interval with the peak kW */
                 peakKWKvar: number;
                 peakKVA: number;
                 peakKVAAt: string;
@@ -1365,9 +1432,11 @@ export interface components {
                 kvarhLeading: number;
                 billingPF: number;
             };
+            /** @description the simulated controller when fixedKvar or bankSteps is given */
             simulation: {
                 [key: string]: unknown;
             } | null;
+            /** @description IntervalSummary: the figures without the series, for storing with a building */
             summary: {
                 [key: string]: unknown;
             };
@@ -1384,12 +1453,19 @@ export interface components {
             quantity?: number;
             measurement: components["schemas"]["Measurement"];
             harmonics?: components["schemas"]["HarmonicSpectrum"];
-            /** @enum {string} */
+            /**
+             * @description how a motor is started: decides whether capacitors may go at its terminals
+             * @enum {string}
+             */
             starting?: "across_the_line" | "star_delta" | "soft_starter" | "reduced_voltage" | "jogging" | "plugging" | "reversing" | "multi_speed";
+            /** @description a terminal capacitor would have its own contactor */
             separateCapacitorContactor?: boolean;
+            /** @description MCC or feeder the load is fed from */
             group?: string;
+            /** @description no-load (uncoupled) line current of one motor, A */
             noLoadAmps?: number;
             continuousDuty?: boolean;
+            /** @description ampacity of the motor-circuit conductors, A: a terminal capacitor's conductors need at least one third of it (NFPA 70 460.8(A)) */
             motorConductorAmpacityA?: number;
         };
         LoadInput: {
@@ -1400,12 +1476,19 @@ export interface components {
             quantity?: number;
             measurement: components["schemas"]["MeasurementInput"];
             harmonics?: components["schemas"]["HarmonicSpectrumInput"];
-            /** @enum {string} */
+            /**
+             * @description how a motor is started: decides whether capacitors may go at its terminals
+             * @enum {string}
+             */
             starting?: "across_the_line" | "star_delta" | "soft_starter" | "reduced_voltage" | "jogging" | "plugging" | "reversing" | "multi_speed";
+            /** @description a terminal capacitor would have its own contactor */
             separateCapacitorContactor?: boolean;
+            /** @description MCC or feeder the load is fed from */
             group?: string;
+            /** @description no-load (uncoupled) line current of one motor, A */
             noLoadAmps?: number;
             continuousDuty?: boolean;
+            /** @description ampacity of the motor-circuit conductors, A: a terminal capacitor's conductors need at least one third of it (NFPA 70 460.8(A)) */
             motorConductorAmpacityA?: number;
         };
         LoadResult: {
@@ -1415,6 +1498,7 @@ export interface components {
             quantity: number;
             phases: number;
             kW: number;
+            /** @description signed: > 0 lagging, < 0 leading */
             kvar: number;
             kVA: number;
             displacementPF: number;
@@ -1422,9 +1506,14 @@ export interface components {
             sense: "lagging" | "leading" | "unity";
             measuredKVA?: number;
             truePF?: number;
+            /** @description line current of the whole entry at currentVoltageV */
             lineCurrentA: number;
+            /** @description the voltage the current is worked at: the reading's volts, else the system voltage */
             currentVoltageV: number;
-            /** @enum {string} */
+            /**
+             * @description "system_voltage" when the reading has no volts
+             * @enum {string}
+             */
             currentBasis: "reading" | "system_voltage";
         };
         Measurement: {
@@ -1434,16 +1523,25 @@ export interface components {
             kVA: number;
             /** @enum {string} */
             sense?: "lagging" | "leading" | "unity";
-            /** @enum {string} */
+            /**
+             * @description "displacement" (default) or "true" when the meter PF includes harmonics
+             * @enum {string}
+             */
             pfType?: "displacement" | "true";
+            /** @description current THD in percent, with a true-PF reading */
             currentTHDPct?: number;
         } | {
             /** @constant */
             method: "kw_kvar";
             kW: number;
+            /** @description signed: > 0 lagging, < 0 leading */
             kvar: number;
-            /** @enum {string} */
+            /**
+             * @description "displacement" (default) or "true" when the meter PF includes harmonics
+             * @enum {string}
+             */
             pfType?: "displacement" | "true";
+            /** @description current THD in percent, with a true-PF reading */
             currentTHDPct?: number;
         } | {
             /** @constant */
@@ -1452,8 +1550,12 @@ export interface components {
             pf: number;
             /** @enum {string} */
             sense: "lagging" | "leading" | "unity";
-            /** @enum {string} */
+            /**
+             * @description "displacement" (default) or "true" when the meter PF includes harmonics
+             * @enum {string}
+             */
             pfType?: "displacement" | "true";
+            /** @description current THD in percent, with a true-PF reading */
             currentTHDPct?: number;
         } | {
             /** @constant */
@@ -1463,8 +1565,12 @@ export interface components {
             kW: number;
             /** @enum {string} */
             sense?: "lagging" | "leading" | "unity";
-            /** @enum {string} */
+            /**
+             * @description "displacement" (default) or "true" when the meter PF includes harmonics
+             * @enum {string}
+             */
             pfType?: "displacement" | "true";
+            /** @description current THD in percent, with a true-PF reading */
             currentTHDPct?: number;
         } | {
             /** @constant */
@@ -1474,8 +1580,12 @@ export interface components {
             pf: number;
             /** @enum {string} */
             sense: "lagging" | "leading" | "unity";
-            /** @enum {string} */
+            /**
+             * @description "displacement" (default) or "true" when the meter PF includes harmonics
+             * @enum {string}
+             */
             pfType?: "displacement" | "true";
+            /** @description current THD in percent, with a true-PF reading */
             currentTHDPct?: number;
         };
         MeasurementInput: {
@@ -1485,16 +1595,25 @@ export interface components {
             kVA: number;
             /** @enum {string} */
             sense?: "lagging" | "leading" | "unity";
-            /** @enum {string} */
+            /**
+             * @description "displacement" (default) or "true" when the meter PF includes harmonics
+             * @enum {string}
+             */
             pfType?: "displacement" | "true";
+            /** @description current THD in percent, with a true-PF reading */
             currentTHDPct?: number;
         } | {
             /** @constant */
             method: "kw_kvar";
             kW: number;
+            /** @description signed: > 0 lagging, < 0 leading */
             kvar: number;
-            /** @enum {string} */
+            /**
+             * @description "displacement" (default) or "true" when the meter PF includes harmonics
+             * @enum {string}
+             */
             pfType?: "displacement" | "true";
+            /** @description current THD in percent, with a true-PF reading */
             currentTHDPct?: number;
         } | {
             /** @constant */
@@ -1503,8 +1622,12 @@ export interface components {
             pf: number;
             /** @enum {string} */
             sense: "lagging" | "leading" | "unity";
-            /** @enum {string} */
+            /**
+             * @description "displacement" (default) or "true" when the meter PF includes harmonics
+             * @enum {string}
+             */
             pfType?: "displacement" | "true";
+            /** @description current THD in percent, with a true-PF reading */
             currentTHDPct?: number;
         } | {
             /** @constant */
@@ -1514,8 +1637,12 @@ export interface components {
             kW: number;
             /** @enum {string} */
             sense?: "lagging" | "leading" | "unity";
-            /** @enum {string} */
+            /**
+             * @description "displacement" (default) or "true" when the meter PF includes harmonics
+             * @enum {string}
+             */
             pfType?: "displacement" | "true";
+            /** @description current THD in percent, with a true-PF reading */
             currentTHDPct?: number;
         } | {
             /** @constant */
@@ -1525,8 +1652,12 @@ export interface components {
             pf: number;
             /** @enum {string} */
             sense: "lagging" | "leading" | "unity";
-            /** @enum {string} */
+            /**
+             * @description "displacement" (default) or "true" when the meter PF includes harmonics
+             * @enum {string}
+             */
             pfType?: "displacement" | "true";
+            /** @description current THD in percent, with a true-PF reading */
             currentTHDPct?: number;
         };
         NewBuildingInput: {
@@ -1536,10 +1667,13 @@ export interface components {
             system: components["schemas"]["SystemInput"];
             transformer?: components["schemas"]["TransformerInput"];
             utility?: components["schemas"]["UtilityInput"];
+            /** @description tariff and costs: surveys of the building get savings and payback */
             economics?: components["schemas"]["EconomicsInput"];
+            /** @description capacitor banks already installed; surveys read them with bankReadings */
             installedBanks?: components["schemas"]["InstalledBankInput"][];
         };
         NewRevisionInput: {
+            /** @description when the readings were taken */
             surveyedAt: string;
             surveyor: string;
             notes?: string;
@@ -1552,11 +1686,14 @@ export interface components {
             backgroundVoltageDistortion?: components["schemas"]["BackgroundDistortionInput"];
             lightLoad?: components["schemas"]["ServiceEntranceInput"];
             bankDesign?: components["schemas"]["BankDesignOptionsInput"];
+            /** @description the building's installed banks as found: steps energised during the readings, measured currents */
             bankReadings?: components["schemas"]["BankReadingInput"][];
+            /** @description a stored interval analysis of this building to design the bank from; absent: the building's newest, if any; null: none */
             intervalAnalysisId?: string | null;
             reason: string;
         };
         NewSurvey: {
+            /** @description when the readings were taken */
             surveyedAt: string;
             surveyor: string;
             notes?: string;
@@ -1569,10 +1706,13 @@ export interface components {
             backgroundVoltageDistortion?: components["schemas"]["BackgroundDistortion"];
             lightLoad?: components["schemas"]["ServiceEntrance"];
             bankDesign?: components["schemas"]["BankDesignOptions"];
+            /** @description the building's installed banks as found: steps energised during the readings, measured currents */
             bankReadings?: components["schemas"]["BankReading"][];
+            /** @description a stored interval analysis of this building to design the bank from; absent: the building's newest, if any; null: none */
             intervalAnalysisId?: string | null;
         };
         NewSurveyInput: {
+            /** @description when the readings were taken */
             surveyedAt: string;
             surveyor: string;
             notes?: string;
@@ -1585,7 +1725,9 @@ export interface components {
             backgroundVoltageDistortion?: components["schemas"]["BackgroundDistortionInput"];
             lightLoad?: components["schemas"]["ServiceEntranceInput"];
             bankDesign?: components["schemas"]["BankDesignOptionsInput"];
+            /** @description the building's installed banks as found: steps energised during the readings, measured currents */
             bankReadings?: components["schemas"]["BankReadingInput"][];
+            /** @description a stored interval analysis of this building to design the bank from; absent: the building's newest, if any; null: none */
             intervalAnalysisId?: string | null;
         };
         Placement: {
@@ -1596,7 +1738,9 @@ export interface components {
                 reason: string;
                 needKvar: number;
                 terminal?: {
+                    /** @description kvar one unit delivers at voltageV */
                     perMotorKvar: number;
+                    /** @description a standard size at ratedVoltageV */
                     perMotorNameplateKvar: number;
                     ratedVoltageV: number;
                     voltageV: number;
@@ -1606,6 +1750,7 @@ export interface components {
                     lineCurrentAfterA: number;
                     overloadNote: string;
                     capacitorRatedCurrentA: number;
+                    /** @description NFPA 70 460.8(A) */
                     conductorMinAmpacityA: number;
                     conductorNote: string;
                 };
@@ -1672,6 +1817,7 @@ export interface components {
             };
             reactancePerPhaseOhm: number;
             stages: components["schemas"]["BankStage"][];
+            /** @description with an installed automatic bank: both banks' steps under one controller, installed first */
             combinedProgram?: {
                 steps: {
                     /** @enum {string} */
@@ -1689,6 +1835,7 @@ export interface components {
             belowTarget: boolean;
             fixedKvar: number;
             switchedKvar: number;
+            /** @description fixed part at nameplate (standard sizes at ratedVoltageV); fixedKvar is what it delivers */
             fixedNameplateKvar: number;
             switchedNameplateKvar: number;
             physicalSteps: {
@@ -1720,6 +1867,7 @@ export interface components {
                     device: string;
                     ocpdFactor: number;
                     ocpdMinA: number;
+                    /** @description null above the largest standard rating */
                     ocpdRatingA: number | null;
                 } & {
                     [key: string]: unknown;
@@ -1733,6 +1881,7 @@ export interface components {
                     device: string;
                     ocpdFactor: number;
                     ocpdMinA: number;
+                    /** @description null above the largest standard rating */
                     ocpdRatingA: number | null;
                 } & {
                     [key: string]: unknown;
@@ -1756,6 +1905,7 @@ export interface components {
             nonlinearKVA: number;
             nonlinearSharePct: number | null;
             harmonicStudyAdvised: boolean;
+            /** @description why the study is advised; a detuned proposal always is a reason */
             harmonicStudyReasons: string[];
             recommendedBankVoltageRisePct: number | null;
             proposedBankVoltageRisePct: number | null;
@@ -1764,12 +1914,16 @@ export interface components {
             surveyId: string;
             buildingId: string;
             revision: number;
+            /** @description when this revision was stored */
             createdAt: string;
             actor: string;
+            /** @description why this revision was made; null on revision 1 */
             reason: string | null;
             engineVersion: string;
             inputs: components["schemas"]["NewSurvey"];
+            /** @description as computed when the revision was stored, never recomputed */
             result: components["schemas"]["SizingResult"];
+            /** @description the building's data the result was computed with */
             building: components["schemas"]["BuildingSnapshot"];
         };
         ScanOptionsInput: {
@@ -1777,9 +1931,15 @@ export interface components {
             toOrder?: number;
             stepOrder?: number;
         };
-        /** @enum {string} */
+        /**
+         * @description what the readings cover; default whole_site when a serviceEntrance reading is given, else partial. Interval demand drives the central bank only for a whole-site survey
+         * @enum {string}
+         */
         Scope: "whole_site" | "partial";
-        /** @enum {string} */
+        /**
+         * @description what the readings cover; default whole_site when a serviceEntrance reading is given, else partial. Interval demand drives the central bank only for a whole-site survey
+         * @enum {string}
+         */
         ScopeInput: "whole_site" | "partial";
         ServiceEntrance: {
             label?: string;
@@ -1791,6 +1951,7 @@ export interface components {
         };
         SiteResult: {
             kW: number;
+            /** @description signed: > 0 lagging, < 0 leading */
             kvar: number;
             kVA: number;
             displacementPF: number;
@@ -1801,6 +1962,7 @@ export interface components {
             lineCurrentA: number;
             sumOfLoads: {
                 kW: number;
+                /** @description signed: > 0 lagging, < 0 leading */
                 kvar: number;
                 kVA: number;
                 displacementPF: number;
@@ -1822,6 +1984,7 @@ export interface components {
             };
             loadResistanceOhm: number | null;
             presentOrders: number[];
+            /** @description which spectrum and fundamental current each harmonic source was given */
             sources: {
                 label: string;
                 /** @enum {string} */
@@ -1844,6 +2007,7 @@ export interface components {
                     order: number;
                     impedanceOhm: number;
                 }[];
+                /** @description only from /v1/harmonics/scan */
                 series?: {
                     orders: number[];
                     impedanceOhm: number[];
@@ -1905,6 +2069,7 @@ export interface components {
                         order: number;
                         impedanceOhm: number;
                     }[];
+                    /** @description only from /v1/harmonics/scan */
                     series?: {
                         orders: number[];
                         impedanceOhm: number[];
@@ -2010,6 +2175,7 @@ export interface components {
                 } & {
                     [key: string]: unknown;
                 };
+                /** @description what to buy: the bank's physical steps (fixed first) at the proposal's reactor and capacitor voltage */
                 purchaseSteps?: {
                     nameplateKvar: number;
                     effectiveKvar: number;
@@ -2031,6 +2197,7 @@ export interface components {
                             order: number;
                             impedanceOhm: number;
                         }[];
+                        /** @description only from /v1/harmonics/scan */
                         series?: {
                             orders: number[];
                             impedanceOhm: number[];
@@ -2132,10 +2299,13 @@ export interface components {
             proposedBank?: components["schemas"]["ProposedBankInput"];
             harmonicSources?: ("six_pulse" | "twelve_pulse" | "single_phase_electronic")[];
             backgroundVoltageDistortion?: components["schemas"]["BackgroundDistortionInput"];
+            /** @description a reading at the main at light load: caps the fixed part of the bank */
             lightLoad?: components["schemas"]["ServiceEntranceInput"];
             bankDesign?: components["schemas"]["BankDesignOptionsInput"];
             economics?: components["schemas"]["EconomicsInput"];
+            /** @description capacitor banks already installed */
             installedBanks?: components["schemas"]["InstalledBankInput"][];
+            /** @description which installed steps were energised during the readings, and their measured currents */
             bankReadings?: components["schemas"]["BankReadingInput"][];
         };
         SizingResult: {
@@ -2148,6 +2318,7 @@ export interface components {
             scope: {
                 /** @enum {string} */
                 scope: "whole_site" | "partial";
+                /** @description true when the request gave no scope */
                 defaulted: boolean;
                 note: string;
             };
@@ -2155,11 +2326,14 @@ export interface components {
             site: components["schemas"]["SiteResult"];
             correction: components["schemas"]["Correction"];
             installedBanks?: components["schemas"]["InstalledBankResult"][];
+            /** @description resonance of every combination of installed and new steps the controllers can switch */
             combinedStages?: {
+                /** @description "recommended", "proposed detuned", or "none" */
                 withNewBank: string;
                 stagesScreened: number;
                 hazards: {
                     installed: string[];
+                    /** @description the new bank's stage switched in with them; 0: none */
                     newStage: number;
                     totalKvar: number;
                     resonanceOrders: number[];
@@ -2168,11 +2342,13 @@ export interface components {
                 lowestOrder: number | null;
                 highestOrder: number | null;
                 truncated: boolean;
+                /** @description the harmonic study of the same combinations, when the site has harmonic sources */
                 harmonics?: {
                     stagesStudied: number;
                     truncated: boolean;
                     worstThdV: {
                         installed: string[];
+                        /** @description the new bank's stage switched in with them; 0: none */
                         newStage: number;
                         totalKvar: number;
                         thdVPct: number;
@@ -2186,17 +2362,21 @@ export interface components {
                             individualLimitPct: number;
                         };
                         duty: {
+                            /** @description installed bank label, or "new" */
                             bank: string;
                             nameplateKvar: number;
                             rmsVoltagePct: number;
                             peakVoltagePct: number;
                             rmsCurrentPct: number;
                             reactivePowerPct: number;
+                            /** @description every quantity within its IEEE Std 18 limit */
                             pass: boolean;
                         }[];
                     } | null;
+                    /** @description combinations breaking an IEEE 519 limit or with a capacitor above 100 % of a rating, worst THD_v first (at most 50) */
                     flagged: {
                         installed: string[];
+                        /** @description the new bank's stage switched in with them; 0: none */
                         newStage: number;
                         totalKvar: number;
                         thdVPct: number;
@@ -2210,12 +2390,14 @@ export interface components {
                             individualLimitPct: number;
                         };
                         duty: {
+                            /** @description installed bank label, or "new" */
                             bank: string;
                             nameplateKvar: number;
                             rmsVoltagePct: number;
                             peakVoltagePct: number;
                             rmsCurrentPct: number;
                             reactivePowerPct: number;
+                            /** @description every quantity within its IEEE Std 18 limit */
                             pass: boolean;
                         }[];
                     }[];
@@ -2239,6 +2421,7 @@ export interface components {
             scope: {
                 /** @enum {string} */
                 scope: "whole_site" | "partial";
+                /** @description true when the request gave no scope */
                 defaulted: boolean;
                 note: string;
             };
@@ -2246,11 +2429,14 @@ export interface components {
             site: components["schemas"]["SiteResult"];
             correction: components["schemas"]["Correction"];
             installedBanks?: components["schemas"]["InstalledBankResult"][];
+            /** @description resonance of every combination of installed and new steps the controllers can switch */
             combinedStages?: {
+                /** @description "recommended", "proposed detuned", or "none" */
                 withNewBank: string;
                 stagesScreened: number;
                 hazards: {
                     installed: string[];
+                    /** @description the new bank's stage switched in with them; 0: none */
                     newStage: number;
                     totalKvar: number;
                     resonanceOrders: number[];
@@ -2259,11 +2445,13 @@ export interface components {
                 lowestOrder: number | null;
                 highestOrder: number | null;
                 truncated: boolean;
+                /** @description the harmonic study of the same combinations, when the site has harmonic sources */
                 harmonics?: {
                     stagesStudied: number;
                     truncated: boolean;
                     worstThdV: {
                         installed: string[];
+                        /** @description the new bank's stage switched in with them; 0: none */
                         newStage: number;
                         totalKvar: number;
                         thdVPct: number;
@@ -2277,17 +2465,21 @@ export interface components {
                             individualLimitPct: number;
                         };
                         duty: {
+                            /** @description installed bank label, or "new" */
                             bank: string;
                             nameplateKvar: number;
                             rmsVoltagePct: number;
                             peakVoltagePct: number;
                             rmsCurrentPct: number;
                             reactivePowerPct: number;
+                            /** @description every quantity within its IEEE Std 18 limit */
                             pass: boolean;
                         }[];
                     } | null;
+                    /** @description combinations breaking an IEEE 519 limit or with a capacitor above 100 % of a rating, worst THD_v first (at most 50) */
                     flagged: {
                         installed: string[];
+                        /** @description the new bank's stage switched in with them; 0: none */
                         newStage: number;
                         totalKvar: number;
                         thdVPct: number;
@@ -2301,12 +2493,14 @@ export interface components {
                             individualLimitPct: number;
                         };
                         duty: {
+                            /** @description installed bank label, or "new" */
                             bank: string;
                             nameplateKvar: number;
                             rmsVoltagePct: number;
                             peakVoltagePct: number;
                             rmsCurrentPct: number;
                             reactivePowerPct: number;
+                            /** @description every quantity within its IEEE Std 18 limit */
                             pass: boolean;
                         }[];
                     }[];
@@ -2325,12 +2519,16 @@ export interface components {
             id: string;
             buildingId: string;
             revision: number;
+            /** @description when this revision was stored */
             createdAt: string;
             actor: string;
+            /** @description why this revision was made; null on revision 1 */
             reason: string | null;
             engineVersion: string;
             inputs: components["schemas"]["NewSurvey"];
+            /** @description as computed when the revision was stored, never recomputed */
             result: components["schemas"]["SizingResult"];
+            /** @description the building's data the result was computed with */
             building: components["schemas"]["BuildingSnapshot"];
             revisions: {
                 n: number;
@@ -2356,6 +2554,7 @@ export interface components {
             warningCount: number;
         };
         SystemInput: {
+            /** @description nominal bus voltage, line-to-line on three-phase */
             voltageV: number;
             frequencyHz: 50 | 60;
             phases: 1 | 3;
@@ -2363,18 +2562,25 @@ export interface components {
         TariffInput: {
             /** @constant */
             form: "kva_demand";
+            /** @description per kVA of billing demand, a month */
             chargePerKVA: number;
         } | {
             /** @constant */
             form: "kw_demand_pf_adjusted";
+            /** @description per billed kW, a month */
             chargePerKW: number;
+            /** @description billed kW = kW·basePF/PF below it */
             basePF: number;
-            /** @enum {string} */
+            /**
+             * @description the PF compared with basePF: average = the period's kWh / √(kWh² + lagging kvarh²); at_peak = the PF of the interval with the peak kW (default average)
+             * @enum {string}
+             */
             pfBasis?: "average" | "at_peak";
         } | {
             /** @constant */
             form: "kvarh_excess";
             chargePerKvarh: number;
+            /** @description kvarh allowed per kWh */
             allowanceRatio: number;
         } | {
             /** @constant */
@@ -2391,9 +2597,13 @@ export interface components {
         Warning: {
             code: string;
             message: string;
-            /** @enum {string} */
+            /**
+             * @description info: worth knowing; warning: look before ordering; error: a standard's limit broken by the design
+             * @enum {string}
+             */
             severity: "info" | "warning" | "error";
             path?: string;
+            /** @description the stages or loads this one concern covers */
             subjects?: string[];
         };
     };
@@ -2518,24 +2728,43 @@ export interface operations {
     analyseIntervals: {
         parameters: {
             query?: {
+                /** @description target displacement PF, 0.80–1.00 (default 0.95) */
                 targetPF?: number;
+                /** @description header name (or 1-based index) of the timestamp column */
                 timestampColumn?: string;
+                /** @description date column when date and time are split (with timeColumn) */
                 dateColumn?: string;
+                /** @description time-of-day column when date and time are split */
                 timeColumn?: string;
+                /** @description kW column (default: a header containing the word kW) */
                 kWColumn?: string;
+                /** @description kvar column (signed: > 0 lagging) */
                 kvarColumn?: string;
+                /** @description PF column (fraction; signed negative = leading unless a sense is given) */
                 pfColumn?: string;
+                /** @description kVA column */
                 kVAColumn?: string;
+                /** @description column with lagging/leading (lag/lead, L/C, ind/cap) */
                 senseColumn?: string;
+                /** @description lagging | leading: sense of PF or kVA rows without a sense column */
                 sense?: string;
+                /** @description mdy | dmy for dates like 03/01/2026 (default mdy; a first part above 12 is an error) */
                 dateOrder?: string;
+                /** @description IANA zone (America/Chicago) or offset (+02:00) of timestamps without one, and of calendar months; default UTC */
                 timeZone?: string;
+                /** @description comma | semicolon | tab (default: detected from the header) */
                 delimiter?: string;
+                /** @description interval length override, minutes (default: the median step) */
                 intervalMinutes?: number;
+                /** @description bank to simulate: fixed kvar always connected */
                 fixedKvar?: number;
+                /** @description bank to simulate: switched steps, comma-separated kvar (e.g. 50,50,100; at most 16) */
                 bankSteps?: string;
+                /** @description leading PF the simulated controller may cause, 0.80–1.00 (default 0.98) */
                 leadingLimitPF?: number;
+                /** @description controller CT ratio (e.g. 1000/5 → 200), for the C/k setting */
                 ctRatio?: number;
+                /** @description line-to-line voltage, V, for the C/k setting */
                 voltageV?: number;
             };
             header?: never;
@@ -2667,11 +2896,14 @@ export interface operations {
     listIntervalAnalyses: {
         parameters: {
             query?: {
+                /** @description page size, 1 to 100 (default 20) */
                 limit?: number;
+                /** @description nextCursor of the previous page */
                 cursor?: string;
             };
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -2694,9 +2926,12 @@ export interface operations {
                             intervalMinutes: number;
                             firstTimestamp: string;
                             lastTimestamp: string;
+                            /** @description kvar that holds the target PF in 99 % of intervals */
                             hold99PctKvar: number;
+                            /** @description minimum reactive demand: the fixed-part limit */
                             minKvar: number;
                         }[];
+                        /** @description pass as ?cursor= for the next page; null on the last page */
                         nextCursor: string | null;
                     };
                 };
@@ -2751,30 +2986,51 @@ export interface operations {
     storeIntervalAnalysis: {
         parameters: {
             query?: {
+                /** @description target displacement PF, 0.80–1.00 (default 0.95) */
                 targetPF?: number;
+                /** @description header name (or 1-based index) of the timestamp column */
                 timestampColumn?: string;
+                /** @description date column when date and time are split (with timeColumn) */
                 dateColumn?: string;
+                /** @description time-of-day column when date and time are split */
                 timeColumn?: string;
+                /** @description kW column (default: a header containing the word kW) */
                 kWColumn?: string;
+                /** @description kvar column (signed: > 0 lagging) */
                 kvarColumn?: string;
+                /** @description PF column (fraction; signed negative = leading unless a sense is given) */
                 pfColumn?: string;
+                /** @description kVA column */
                 kVAColumn?: string;
+                /** @description column with lagging/leading (lag/lead, L/C, ind/cap) */
                 senseColumn?: string;
+                /** @description lagging | leading: sense of PF or kVA rows without a sense column */
                 sense?: string;
+                /** @description mdy | dmy for dates like 03/01/2026 (default mdy; a first part above 12 is an error) */
                 dateOrder?: string;
+                /** @description IANA zone (America/Chicago) or offset (+02:00) of timestamps without one, and of calendar months; default UTC */
                 timeZone?: string;
+                /** @description comma | semicolon | tab (default: detected from the header) */
                 delimiter?: string;
+                /** @description interval length override, minutes (default: the median step) */
                 intervalMinutes?: number;
+                /** @description bank to simulate: fixed kvar always connected */
                 fixedKvar?: number;
+                /** @description bank to simulate: switched steps, comma-separated kvar (e.g. 50,50,100; at most 16) */
                 bankSteps?: string;
+                /** @description leading PF the simulated controller may cause, 0.80–1.00 (default 0.98) */
                 leadingLimitPF?: number;
+                /** @description controller CT ratio (e.g. 1000/5 → 200), for the C/k setting */
                 ctRatio?: number;
+                /** @description line-to-line voltage, V, for the C/k setting */
                 voltageV?: number;
             };
             header?: {
+                /** @description optional, bare (k1) or quoted ("k1"); the same key with the same request returns the first response and writes nothing; with another request → 422. Kept 48 h. */
                 "idempotency-key"?: string;
             };
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -2919,10 +3175,12 @@ export interface operations {
                         };
                         targetPF: number;
                         reactiveDemand: {
+                            /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
                             percentilesKvar: {
                                 [key: string]: number;
                             };
                             meanKvar: number;
+                            /** @description the fixed-part limit */
                             minimum: {
                                 minKvar: number;
                                 p1Kvar: number;
@@ -2934,6 +3192,7 @@ export interface operations {
                             };
                         };
                         neededKvar: {
+                            /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
                             percentiles: {
                                 [key: string]: number;
                             };
@@ -2942,6 +3201,7 @@ export interface operations {
                             hold100PctKvar: number;
                         };
                         kW: {
+                            /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
                             percentiles: {
                                 [key: string]: number;
                             };
@@ -2949,6 +3209,7 @@ export interface operations {
                             mean: number;
                         };
                         pf: {
+                            /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
                             percentiles: {
                                 [key: string]: number;
                             };
@@ -2960,6 +3221,7 @@ export interface operations {
                             intervals: number;
                             peakKW: number;
                             peakKWAt: string;
+                            /** @description kvar of the interval with the peak kW */
                             peakKWKvar: number;
                             peakKVA: number;
                             peakKVAAt: string;
@@ -2975,9 +3237,11 @@ export interface operations {
                             kvarhLeading: number;
                             billingPF: number;
                         };
+                        /** @description the simulated controller when fixedKvar or bankSteps is given */
                         simulation: {
                             [key: string]: unknown;
                         } | null;
+                        /** @description IntervalSummary: the figures without the series, for storing with a building */
                         summary: {
                             [key: string]: unknown;
                         };
@@ -3067,6 +3331,7 @@ export interface operations {
             query?: never;
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -3089,6 +3354,7 @@ export interface operations {
                         intervalMinutes: number;
                         firstTimestamp: string;
                         lastTimestamp: string;
+                        /** @description IntervalSummary: the figures without the series, for storing with a building */
                         summary: {
                             [key: string]: unknown;
                         };
@@ -3214,8 +3480,11 @@ export interface operations {
     listBuildings: {
         parameters: {
             query?: {
+                /** @description part of the name, case-insensitive */
                 q?: string;
+                /** @description page size, 1 to 100 (default 20) */
                 limit?: number;
+                /** @description nextCursor of the previous page */
                 cursor?: string;
             };
             header?: never;
@@ -3232,6 +3501,7 @@ export interface operations {
                 content: {
                     "application/json": {
                         items: components["schemas"]["Building"][];
+                        /** @description pass as ?cursor= for the next page; null on the last page */
                         nextCursor: string | null;
                     };
                 };
@@ -3278,6 +3548,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
+                /** @description optional, bare (k1) or quoted ("k1"); the same key with the same request returns the first response and writes nothing; with another request → 422. Kept 48 h. */
                 "idempotency-key"?: string;
             };
             path?: never;
@@ -3368,6 +3639,7 @@ export interface operations {
             query?: never;
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -3425,9 +3697,11 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
+                /** @description optional, bare (k1) or quoted ("k1"); the same key with the same request returns the first response and writes nothing; with another request → 422. Kept 48 h. */
                 "idempotency-key"?: string;
             };
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -3526,6 +3800,7 @@ export interface operations {
             query?: never;
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -3562,7 +3837,9 @@ export interface operations {
                             utility: {
                                 faultMVA: number;
                             } | null;
+                            /** @description tariff and costs; null when none */
                             economics: components["schemas"]["EconomicsSettings"] | null;
+                            /** @description capacitor banks already installed; [] when none */
                             installedBanks: components["schemas"]["InstalledBankSettings"][];
                         }[];
                     };
@@ -3609,13 +3886,18 @@ export interface operations {
     listSurveys: {
         parameters: {
             query?: {
+                /** @description ISO date or date-time, inclusive (a date: from its start, UTC) */
                 from?: string;
+                /** @description ISO date or date-time, inclusive (a date: to its end, UTC) */
                 to?: string;
+                /** @description page size, 1 to 100 (default 20) */
                 limit?: number;
+                /** @description nextCursor of the previous page */
                 cursor?: string;
             };
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -3685,9 +3967,11 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
+                /** @description optional, bare (k1) or quoted ("k1"); the same key with the same request returns the first response and writes nothing; with another request → 422. Kept 48 h. */
                 "idempotency-key"?: string;
             };
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -3785,9 +4069,11 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
+                /** @description optional, bare (k1) or quoted ("k1"); the same key with the same request returns the first response and writes nothing; with another request → 422. Kept 48 h. */
                 "idempotency-key"?: string;
             };
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -3886,6 +4172,7 @@ export interface operations {
             query?: never;
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -3944,7 +4231,9 @@ export interface operations {
             query?: never;
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
+                /** @description a revision number: a whole number from 1 */
                 n: string;
             };
             cookie?: never;
@@ -4012,6 +4301,7 @@ export interface operations {
             query?: never;
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -4068,11 +4358,14 @@ export interface operations {
     buildingTrend: {
         parameters: {
             query?: {
+                /** @description ISO date or date-time, inclusive (a date: from its start, UTC) */
                 from?: string;
+                /** @description ISO date or date-time, inclusive (a date: to its end, UTC) */
                 to?: string;
             };
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -4089,6 +4382,7 @@ export interface operations {
                         buildingId: string;
                         /** @enum {string} */
                         order: "oldest_first";
+                        /** @description true when more points exist than one response carries; narrow from/to */
                         truncated: boolean;
                         items: {
                             surveyId: string;
@@ -4098,7 +4392,9 @@ export interface operations {
                             kvar: number;
                             displacementPF: number;
                             kvarRequired: number;
+                            /** @description rated kvar (at the system voltage) of the installed steps energised during the readings; null: no installed banks */
                             installedKvarInService: number | null;
+                            /** @description kvar those steps delivered, from the measured currents where given; null: no installed banks */
                             kvarDelivered: number | null;
                         }[];
                     };
@@ -4156,6 +4452,7 @@ export interface operations {
             query?: never;
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -4172,10 +4469,14 @@ export interface operations {
                         buildingId: string;
                         /** @enum {string} */
                         order: "oldest_first";
+                        /** @description true when the building has more surveys with installed banks than one answer reads */
                         truncated: boolean;
                         series: {
                             bank: string;
-                            /** @enum {string} */
+                            /**
+                             * @description a bank redefined (replaced) or relabelled (renamed) in the building history starts a new series
+                             * @enum {string}
+                             */
                             startedBecause: "first_seen" | "replaced" | "renamed";
                             note: string | null;
                             definition: components["schemas"]["InstalledBankSettings"];
@@ -4185,6 +4486,7 @@ export interface operations {
                                 points: {
                                     surveyId: string;
                                     surveyedAt: string;
+                                    /** @description null when the step's current was not measured */
                                     capacitancePct: number | null;
                                     /** @enum {string} */
                                     status: "healthy" | "degraded" | "failed" | "unbalanced" | "not_measured";
@@ -4236,11 +4538,14 @@ export interface operations {
     surveyReport: {
         parameters: {
             query?: {
+                /** @description a revision number: a whole number from 1 */
                 revision?: string;
+                /** @description paper size of the PDF (default a4) */
                 paper?: "a4" | "letter";
             };
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -4306,11 +4611,14 @@ export interface operations {
     surveyReportPdf: {
         parameters: {
             query?: {
+                /** @description a revision number: a whole number from 1 */
                 revision?: string;
+                /** @description paper size of the PDF (default a4) */
                 paper?: "a4" | "letter";
             };
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -4376,7 +4684,9 @@ export interface operations {
     sizingReport: {
         parameters: {
             query?: {
+                /** @description html (default) or pdf */
                 format?: "html" | "pdf";
+                /** @description paper size of the PDF (default a4) */
                 paper?: "a4" | "letter";
             };
             header?: never;
@@ -4458,7 +4768,9 @@ export interface operations {
     auditLog: {
         parameters: {
             query?: {
+                /** @description page size, 1 to 100 (default 20) */
                 limit?: number;
+                /** @description nextCursor of the previous page */
                 cursor?: string;
             };
             header?: never;
@@ -4607,6 +4919,7 @@ export interface operations {
                         createdBy: string;
                         lastUsedAt: string | null;
                         revokedAt: string | null;
+                        /** @description the API key: shown this once, stored only as a hash */
                         key: string;
                     };
                 };
@@ -4672,6 +4985,7 @@ export interface operations {
             query?: never;
             header?: never;
             path: {
+                /** @description the resource's id */
                 id: string;
             };
             cookie?: never;
@@ -4797,6 +5111,7 @@ export interface operations {
             query?: never;
             header?: never;
             path: {
+                /** @description the problem type's slug, e.g. validation */
                 type: string;
             };
             cookie?: never;
