@@ -637,6 +637,13 @@ export interface components {
             /** @description the building's installed banks the result was computed with */
             installedBanks: components["schemas"]["InstalledBankSettings"][];
         };
+        CapacitorDutyCheck: {
+            valuePct: number;
+            limitPct: number;
+            marginPct: number;
+            pass: boolean;
+            aboveRating: boolean;
+        };
         Caution: {
             code: string;
             title: string;
@@ -813,6 +820,13 @@ export interface components {
                 fixed?: number;
             };
         };
+        HarmonicFinding: {
+            code: string;
+            message: string;
+            subject: string;
+            bankName?: string;
+            stageNumber?: number;
+        };
         HarmonicScanRequestInput: {
             system: components["schemas"]["SystemInput"];
             targetPF?: number;
@@ -888,12 +902,7 @@ export interface components {
             }[];
             thirdHarmonicSignificant: boolean;
             withoutCapacitors: {
-                peaks: {
-                    order: number;
-                    impedanceOhm: number;
-                    timesSourceImpedance: number;
-                    timesBaseImpedance: number;
-                }[];
+                peaks: components["schemas"]["ResonancePeak"][];
                 dips: {
                     order: number;
                     impedanceOhm: number;
@@ -904,161 +913,18 @@ export interface components {
                     impedanceOhm: number[];
                 };
                 distortion: {
-                    lines: {
-                        order: number;
-                        currentA: number;
-                        impedanceOhm: number;
-                        injectedPhaseV: number;
-                        injectedPct: number;
-                        backgroundPct: number;
-                        voltagePct: number;
-                        voltagePhaseV: number;
-                    }[];
+                    lines: components["schemas"]["HarmonicVoltageLine"][];
                     thdVPct: number;
                     worstIndividual: {
                         order: number;
                         pct: number;
                     } | null;
                 };
-                ieee519: {
-                    limits: {
-                        individualPct: number;
-                        thdPct: number;
-                    } & {
-                        [key: string]: unknown;
-                    };
-                    thd: {
-                        valuePct: number;
-                        limitPct: number;
-                        marginPct: number;
-                        pass: boolean;
-                    };
-                    individual: {
-                        valuePct: number;
-                        limitPct: number;
-                        marginPct: number;
-                        pass: boolean;
-                        order: number | null;
-                    };
-                    pass: boolean;
-                };
+                ieee519: components["schemas"]["Ieee519Check"];
                 resonanceWithin10PctOf: number[];
             };
-            banks: {
-                name: string;
-                ratedVoltageV: number;
-                ratedFrequencyHz: number;
-                reactorPct: number;
-                stages: {
-                    peaks: {
-                        order: number;
-                        impedanceOhm: number;
-                        timesSourceImpedance: number;
-                        timesBaseImpedance: number;
-                    }[];
-                    dips: {
-                        order: number;
-                        impedanceOhm: number;
-                    }[];
-                    /** @description only from /v1/harmonics/scan */
-                    series?: {
-                        orders: number[];
-                        impedanceOhm: number[];
-                    };
-                    distortion: {
-                        lines: {
-                            order: number;
-                            currentA: number;
-                            impedanceOhm: number;
-                            injectedPhaseV: number;
-                            injectedPct: number;
-                            backgroundPct: number;
-                            voltagePct: number;
-                            voltagePhaseV: number;
-                        }[];
-                        thdVPct: number;
-                        worstIndividual: {
-                            order: number;
-                            pct: number;
-                        } | null;
-                    };
-                    ieee519: {
-                        limits: {
-                            individualPct: number;
-                            thdPct: number;
-                        } & {
-                            [key: string]: unknown;
-                        };
-                        thd: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                        };
-                        individual: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                            order: number | null;
-                        };
-                        pass: boolean;
-                    };
-                    resonanceWithin10PctOf: number[];
-                    stageNumber: number;
-                    nameplateKvar: number;
-                    capacitorKvarAtSystem: number;
-                    effectiveKvar: number;
-                    tuningOrder: number | null;
-                    estimatedResonanceOrder: number;
-                    duty: {
-                        ratedPhaseV: number;
-                        ratedCurrentA: number;
-                        orders: {
-                            order: number;
-                            voltagePhaseV: number;
-                            currentA: number;
-                        }[];
-                        rmsVoltage: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                            aboveRating: boolean;
-                        };
-                        peakVoltage: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                            aboveRating: boolean;
-                        };
-                        rmsCurrent: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                            aboveRating: boolean;
-                        };
-                        reactivePower: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                            aboveRating: boolean;
-                        };
-                        pass: boolean;
-                        aboveRating: boolean;
-                    };
-                }[];
-            }[];
-            findings: {
-                code: string;
-                message: string;
-                subject: string;
-                bankName?: string;
-                stageNumber?: number;
-            }[];
+            banks: components["schemas"]["StudiedBank"][];
+            findings: components["schemas"]["HarmonicFinding"][];
             proposals: {
                 forBank: string;
                 triggeredBy: string[];
@@ -1083,123 +949,42 @@ export interface components {
                     effectiveKvar: number;
                     requiredEffectiveKvar: number;
                 }[];
-                study: {
-                    name: string;
-                    ratedVoltageV: number;
-                    ratedFrequencyHz: number;
-                    reactorPct: number;
-                    stages: {
-                        peaks: {
-                            order: number;
-                            impedanceOhm: number;
-                            timesSourceImpedance: number;
-                            timesBaseImpedance: number;
-                        }[];
-                        dips: {
-                            order: number;
-                            impedanceOhm: number;
-                        }[];
-                        /** @description only from /v1/harmonics/scan */
-                        series?: {
-                            orders: number[];
-                            impedanceOhm: number[];
-                        };
-                        distortion: {
-                            lines: {
-                                order: number;
-                                currentA: number;
-                                impedanceOhm: number;
-                                injectedPhaseV: number;
-                                injectedPct: number;
-                                backgroundPct: number;
-                                voltagePct: number;
-                                voltagePhaseV: number;
-                            }[];
-                            thdVPct: number;
-                            worstIndividual: {
-                                order: number;
-                                pct: number;
-                            } | null;
-                        };
-                        ieee519: {
-                            limits: {
-                                individualPct: number;
-                                thdPct: number;
-                            } & {
-                                [key: string]: unknown;
-                            };
-                            thd: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                            };
-                            individual: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                                order: number | null;
-                            };
-                            pass: boolean;
-                        };
-                        resonanceWithin10PctOf: number[];
-                        stageNumber: number;
-                        nameplateKvar: number;
-                        capacitorKvarAtSystem: number;
-                        effectiveKvar: number;
-                        tuningOrder: number | null;
-                        estimatedResonanceOrder: number;
-                        duty: {
-                            ratedPhaseV: number;
-                            ratedCurrentA: number;
-                            orders: {
-                                order: number;
-                                voltagePhaseV: number;
-                                currentA: number;
-                            }[];
-                            rmsVoltage: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                                aboveRating: boolean;
-                            };
-                            peakVoltage: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                                aboveRating: boolean;
-                            };
-                            rmsCurrent: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                                aboveRating: boolean;
-                            };
-                            reactivePower: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                                aboveRating: boolean;
-                            };
-                            pass: boolean;
-                            aboveRating: boolean;
-                        };
-                    }[];
-                };
-                findings: {
-                    code: string;
-                    message: string;
-                    subject: string;
-                    bankName?: string;
-                    stageNumber?: number;
-                }[];
+                study: components["schemas"]["StudiedBank"];
+                findings: components["schemas"]["HarmonicFinding"][];
             }[];
             assumptions: string[];
+        };
+        HarmonicVoltageLine: {
+            order: number;
+            currentA: number;
+            impedanceOhm: number;
+            injectedPhaseV: number;
+            injectedPct: number;
+            backgroundPct: number;
+            voltagePct: number;
+            voltagePhaseV: number;
+        };
+        Ieee519Check: {
+            limits: {
+                individualPct: number;
+                thdPct: number;
+            } & {
+                [key: string]: unknown;
+            };
+            thd: {
+                valuePct: number;
+                limitPct: number;
+                marginPct: number;
+                pass: boolean;
+            };
+            individual: {
+                valuePct: number;
+                limitPct: number;
+                marginPct: number;
+                pass: boolean;
+                order: number | null;
+            };
+            pass: boolean;
         };
         InstalledBankInput: {
             /** @description unique within the building; bank readings refer to it */
@@ -1289,112 +1074,12 @@ export interface components {
         };
         IntervalAnalysis: {
             engineVersion: string;
-            input: {
-                bytes: number;
-                lines: number;
-                dataRows: number;
-                acceptedRows: number;
-                blankLines: number;
-                preambleLines: number;
-                delimiter: string;
-                header: string[];
-                columns: {
-                    [key: string]: string;
-                };
-                /** @enum {string} */
-                method: "kW_kvar" | "kW_pf" | "kW_kVA";
-                timeZone: string;
-                notes: string[];
-            };
-            quality: {
-                badRows: {
-                    count: number;
-                    fraction: number;
-                    limitFraction: number;
-                    byReason: {
-                        [key: string]: number;
-                    };
-                    first: {
-                        line: number;
-                        column: string;
-                        reason: string;
-                        value?: string;
-                    }[];
-                };
-                duplicates: {
-                    count: number;
-                    first: {
-                        line: number;
-                        firstLine: number;
-                        timestamp: string;
-                        sameValues: boolean;
-                    }[];
-                };
-                outOfOrder: {
-                    count: number;
-                    first: {
-                        line: number;
-                        timestamp: string;
-                        previousTimestamp: string;
-                    }[];
-                };
-                gaps: {
-                    count: number;
-                    missingIntervals: number;
-                    first: {
-                        line: number;
-                        from: string;
-                        to: string;
-                        missingIntervals: number;
-                    }[];
-                };
-                irregularSteps: {
-                    count: number;
-                    first: {
-                        line: number;
-                        from: string;
-                        to: string;
-                        minutes: number;
-                    }[];
-                };
-            };
-            interval: {
-                minutes: number;
-                detectedMinutes: number;
-                /** @enum {string} */
-                source: "detected" | "given";
-                count: number;
-                firstTimestamp: string;
-                lastTimestamp: string;
-                coveredDays: number;
-            };
+            input: components["schemas"]["IntervalInputReport"];
+            quality: components["schemas"]["IntervalDataQuality"];
+            interval: components["schemas"]["IntervalLength"];
             targetPF: number;
-            reactiveDemand: {
-                /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
-                percentilesKvar: {
-                    [key: string]: number;
-                };
-                meanKvar: number;
-                /** @description the fixed-part limit */
-                minimum: {
-                    minKvar: number;
-                    p1Kvar: number;
-                    p5Kvar: number;
-                };
-                durationCurve: {
-                    exceedancePct: number[];
-                    kvar: number[];
-                };
-            };
-            neededKvar: {
-                /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
-                percentiles: {
-                    [key: string]: number;
-                };
-                hold95PctKvar: number;
-                hold99PctKvar: number;
-                hold100PctKvar: number;
-            };
+            reactiveDemand: components["schemas"]["ReactiveDemand"];
+            neededKvar: components["schemas"]["NeededKvar"];
             kW: {
                 /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
                 percentiles: {
@@ -1411,21 +1096,7 @@ export interface components {
                 intervalsBelowTarget: number;
                 intervalsLeading: number;
             };
-            monthly: {
-                month: string;
-                intervals: number;
-                peakKW: number;
-                peakKWAt: string;
-                /** @description kvar of the interval with the peak kW */
-                peakKWKvar: number;
-                peakKVA: number;
-                peakKVAAt: string;
-                kWh: number;
-                kvarhLagging: number;
-                kvarhLeading: number;
-                billingPF: number;
-                billingPFLaggingOnly: number;
-            }[];
+            monthly: components["schemas"]["MonthlyDemand"][];
             total: {
                 kWh: number;
                 kvarhLagging: number;
@@ -1444,6 +1115,85 @@ export interface components {
                 code: string;
                 message: string;
             }[];
+        };
+        IntervalDataQuality: {
+            badRows: {
+                count: number;
+                fraction: number;
+                limitFraction: number;
+                byReason: {
+                    [key: string]: number;
+                };
+                first: {
+                    line: number;
+                    column: string;
+                    reason: string;
+                    value?: string;
+                }[];
+            };
+            duplicates: {
+                count: number;
+                first: {
+                    line: number;
+                    firstLine: number;
+                    timestamp: string;
+                    sameValues: boolean;
+                }[];
+            };
+            outOfOrder: {
+                count: number;
+                first: {
+                    line: number;
+                    timestamp: string;
+                    previousTimestamp: string;
+                }[];
+            };
+            gaps: {
+                count: number;
+                missingIntervals: number;
+                first: {
+                    line: number;
+                    from: string;
+                    to: string;
+                    missingIntervals: number;
+                }[];
+            };
+            irregularSteps: {
+                count: number;
+                first: {
+                    line: number;
+                    from: string;
+                    to: string;
+                    minutes: number;
+                }[];
+            };
+        };
+        IntervalInputReport: {
+            bytes: number;
+            lines: number;
+            dataRows: number;
+            acceptedRows: number;
+            blankLines: number;
+            preambleLines: number;
+            delimiter: string;
+            header: string[];
+            columns: {
+                [key: string]: string;
+            };
+            /** @enum {string} */
+            method: "kW_kvar" | "kW_pf" | "kW_kVA";
+            timeZone: string;
+            notes: string[];
+        };
+        IntervalLength: {
+            minutes: number;
+            detectedMinutes: number;
+            /** @enum {string} */
+            source: "detected" | "given";
+            count: number;
+            firstTimestamp: string;
+            lastTimestamp: string;
+            coveredDays: number;
         };
         Load: {
             label: string;
@@ -1660,6 +1410,30 @@ export interface components {
             /** @description current THD in percent, with a true-PF reading */
             currentTHDPct?: number;
         };
+        MonthlyDemand: {
+            month: string;
+            intervals: number;
+            peakKW: number;
+            peakKWAt: string;
+            /** @description kvar of the interval with the peak kW */
+            peakKWKvar: number;
+            peakKVA: number;
+            peakKVAAt: string;
+            kWh: number;
+            kvarhLagging: number;
+            kvarhLeading: number;
+            billingPF: number;
+            billingPFLaggingOnly: number;
+        };
+        NeededKvar: {
+            /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
+            percentiles: {
+                [key: string]: number;
+            };
+            hold95PctKvar: number;
+            hold99PctKvar: number;
+            hold100PctKvar: number;
+        };
         NewBuildingInput: {
             name: string;
             address?: string;
@@ -1796,6 +1570,23 @@ export interface components {
             }[];
             reactorPct?: number;
         };
+        ReactiveDemand: {
+            /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
+            percentilesKvar: {
+                [key: string]: number;
+            };
+            meanKvar: number;
+            /** @description the fixed-part limit */
+            minimum: {
+                minKvar: number;
+                p1Kvar: number;
+                p5Kvar: number;
+            };
+            durationCurve: {
+                exceedancePct: number[];
+                kvar: number[];
+            };
+        };
         RecommendedBank: {
             ratedVoltageV: number;
             ratedFrequencyHz: number;
@@ -1910,6 +1701,12 @@ export interface components {
             recommendedBankVoltageRisePct: number | null;
             proposedBankVoltageRisePct: number | null;
         };
+        ResonancePeak: {
+            order: number;
+            impedanceOhm: number;
+            timesSourceImpedance: number;
+            timesBaseImpedance: number;
+        };
         Revision: {
             surveyId: string;
             buildingId: string;
@@ -1997,12 +1794,7 @@ export interface components {
             }[];
             thirdHarmonicSignificant: boolean;
             withoutCapacitors: {
-                peaks: {
-                    order: number;
-                    impedanceOhm: number;
-                    timesSourceImpedance: number;
-                    timesBaseImpedance: number;
-                }[];
+                peaks: components["schemas"]["ResonancePeak"][];
                 dips: {
                     order: number;
                     impedanceOhm: number;
@@ -2013,150 +1805,18 @@ export interface components {
                     impedanceOhm: number[];
                 };
                 distortion: {
-                    lines: {
-                        order: number;
-                        currentA: number;
-                        impedanceOhm: number;
-                        injectedPhaseV: number;
-                        injectedPct: number;
-                        backgroundPct: number;
-                        voltagePct: number;
-                        voltagePhaseV: number;
-                    }[];
+                    lines: components["schemas"]["HarmonicVoltageLine"][];
                     thdVPct: number;
                     worstIndividual: {
                         order: number;
                         pct: number;
                     } | null;
                 };
-                ieee519: {
-                    limits: {
-                        individualPct: number;
-                        thdPct: number;
-                    } & {
-                        [key: string]: unknown;
-                    };
-                    thd: {
-                        valuePct: number;
-                        limitPct: number;
-                        marginPct: number;
-                        pass: boolean;
-                    };
-                    individual: {
-                        valuePct: number;
-                        limitPct: number;
-                        marginPct: number;
-                        pass: boolean;
-                        order: number | null;
-                    };
-                    pass: boolean;
-                };
+                ieee519: components["schemas"]["Ieee519Check"];
                 resonanceWithin10PctOf: number[];
             };
-            banks: {
-                name: string;
-                ratedVoltageV: number;
-                ratedFrequencyHz: number;
-                reactorPct: number;
-                stages: {
-                    peaks: {
-                        order: number;
-                        impedanceOhm: number;
-                        timesSourceImpedance: number;
-                        timesBaseImpedance: number;
-                    }[];
-                    dips: {
-                        order: number;
-                        impedanceOhm: number;
-                    }[];
-                    /** @description only from /v1/harmonics/scan */
-                    series?: {
-                        orders: number[];
-                        impedanceOhm: number[];
-                    };
-                    distortion: {
-                        lines: {
-                            order: number;
-                            voltagePct: number;
-                        }[];
-                        thdVPct: number;
-                        worstIndividual: {
-                            order: number;
-                            pct: number;
-                        } | null;
-                    };
-                    ieee519: {
-                        limits: {
-                            individualPct: number;
-                            thdPct: number;
-                        } & {
-                            [key: string]: unknown;
-                        };
-                        thd: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                        };
-                        individual: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                            order: number | null;
-                        };
-                        pass: boolean;
-                    };
-                    resonanceWithin10PctOf: number[];
-                    stageNumber: number;
-                    nameplateKvar: number;
-                    capacitorKvarAtSystem: number;
-                    effectiveKvar: number;
-                    tuningOrder: number | null;
-                    estimatedResonanceOrder: number;
-                    duty: {
-                        ratedPhaseV: number;
-                        ratedCurrentA: number;
-                        rmsVoltage: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                            aboveRating: boolean;
-                        };
-                        peakVoltage: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                            aboveRating: boolean;
-                        };
-                        rmsCurrent: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                            aboveRating: boolean;
-                        };
-                        reactivePower: {
-                            valuePct: number;
-                            limitPct: number;
-                            marginPct: number;
-                            pass: boolean;
-                            aboveRating: boolean;
-                        };
-                        pass: boolean;
-                        aboveRating: boolean;
-                    };
-                }[];
-            }[];
-            findings: {
-                code: string;
-                message: string;
-                subject: string;
-                bankName?: string;
-                stageNumber?: number;
-            }[];
+            banks: components["schemas"]["StudiedBankCompact"][];
+            findings: components["schemas"]["HarmonicFinding"][];
             proposals: {
                 forBank: string;
                 triggeredBy: string[];
@@ -2181,110 +1841,8 @@ export interface components {
                     effectiveKvar: number;
                     requiredEffectiveKvar: number;
                 }[];
-                study: {
-                    name: string;
-                    ratedVoltageV: number;
-                    ratedFrequencyHz: number;
-                    reactorPct: number;
-                    stages: {
-                        peaks: {
-                            order: number;
-                            impedanceOhm: number;
-                            timesSourceImpedance: number;
-                            timesBaseImpedance: number;
-                        }[];
-                        dips: {
-                            order: number;
-                            impedanceOhm: number;
-                        }[];
-                        /** @description only from /v1/harmonics/scan */
-                        series?: {
-                            orders: number[];
-                            impedanceOhm: number[];
-                        };
-                        distortion: {
-                            lines: {
-                                order: number;
-                                voltagePct: number;
-                            }[];
-                            thdVPct: number;
-                            worstIndividual: {
-                                order: number;
-                                pct: number;
-                            } | null;
-                        };
-                        ieee519: {
-                            limits: {
-                                individualPct: number;
-                                thdPct: number;
-                            } & {
-                                [key: string]: unknown;
-                            };
-                            thd: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                            };
-                            individual: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                                order: number | null;
-                            };
-                            pass: boolean;
-                        };
-                        resonanceWithin10PctOf: number[];
-                        stageNumber: number;
-                        nameplateKvar: number;
-                        capacitorKvarAtSystem: number;
-                        effectiveKvar: number;
-                        tuningOrder: number | null;
-                        estimatedResonanceOrder: number;
-                        duty: {
-                            ratedPhaseV: number;
-                            ratedCurrentA: number;
-                            rmsVoltage: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                                aboveRating: boolean;
-                            };
-                            peakVoltage: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                                aboveRating: boolean;
-                            };
-                            rmsCurrent: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                                aboveRating: boolean;
-                            };
-                            reactivePower: {
-                                valuePct: number;
-                                limitPct: number;
-                                marginPct: number;
-                                pass: boolean;
-                                aboveRating: boolean;
-                            };
-                            pass: boolean;
-                            aboveRating: boolean;
-                        };
-                    }[];
-                };
-                findings: {
-                    code: string;
-                    message: string;
-                    subject: string;
-                    bankName?: string;
-                    stageNumber?: number;
-                }[];
+                study: components["schemas"]["StudiedBankCompact"];
+                findings: components["schemas"]["HarmonicFinding"][];
             }[];
             assumptions: string[];
         };
@@ -2514,6 +2072,102 @@ export interface components {
             warnings: components["schemas"]["Warning"][];
             cautions: components["schemas"]["Caution"][];
             harmonics?: components["schemas"]["SizingHarmonics"];
+        };
+        StudiedBank: {
+            name: string;
+            ratedVoltageV: number;
+            ratedFrequencyHz: number;
+            reactorPct: number;
+            stages: {
+                peaks: components["schemas"]["ResonancePeak"][];
+                dips: {
+                    order: number;
+                    impedanceOhm: number;
+                }[];
+                /** @description only from /v1/harmonics/scan */
+                series?: {
+                    orders: number[];
+                    impedanceOhm: number[];
+                };
+                distortion: {
+                    lines: components["schemas"]["HarmonicVoltageLine"][];
+                    thdVPct: number;
+                    worstIndividual: {
+                        order: number;
+                        pct: number;
+                    } | null;
+                };
+                ieee519: components["schemas"]["Ieee519Check"];
+                resonanceWithin10PctOf: number[];
+                stageNumber: number;
+                nameplateKvar: number;
+                capacitorKvarAtSystem: number;
+                effectiveKvar: number;
+                tuningOrder: number | null;
+                estimatedResonanceOrder: number;
+                duty: {
+                    ratedPhaseV: number;
+                    ratedCurrentA: number;
+                    orders: {
+                        order: number;
+                        voltagePhaseV: number;
+                        currentA: number;
+                    }[];
+                    rmsVoltage: components["schemas"]["CapacitorDutyCheck"];
+                    peakVoltage: components["schemas"]["CapacitorDutyCheck"];
+                    rmsCurrent: components["schemas"]["CapacitorDutyCheck"];
+                    reactivePower: components["schemas"]["CapacitorDutyCheck"];
+                    pass: boolean;
+                    aboveRating: boolean;
+                };
+            }[];
+        };
+        StudiedBankCompact: {
+            name: string;
+            ratedVoltageV: number;
+            ratedFrequencyHz: number;
+            reactorPct: number;
+            stages: {
+                peaks: components["schemas"]["ResonancePeak"][];
+                dips: {
+                    order: number;
+                    impedanceOhm: number;
+                }[];
+                /** @description only from /v1/harmonics/scan */
+                series?: {
+                    orders: number[];
+                    impedanceOhm: number[];
+                };
+                distortion: {
+                    lines: {
+                        order: number;
+                        voltagePct: number;
+                    }[];
+                    thdVPct: number;
+                    worstIndividual: {
+                        order: number;
+                        pct: number;
+                    } | null;
+                };
+                ieee519: components["schemas"]["Ieee519Check"];
+                resonanceWithin10PctOf: number[];
+                stageNumber: number;
+                nameplateKvar: number;
+                capacitorKvarAtSystem: number;
+                effectiveKvar: number;
+                tuningOrder: number | null;
+                estimatedResonanceOrder: number;
+                duty: {
+                    ratedPhaseV: number;
+                    ratedCurrentA: number;
+                    rmsVoltage: components["schemas"]["CapacitorDutyCheck"];
+                    peakVoltage: components["schemas"]["CapacitorDutyCheck"];
+                    rmsCurrent: components["schemas"]["CapacitorDutyCheck"];
+                    reactivePower: components["schemas"]["CapacitorDutyCheck"];
+                    pass: boolean;
+                    aboveRating: boolean;
+                };
+            }[];
         };
         Survey: {
             id: string;
@@ -3094,112 +2748,12 @@ export interface operations {
                         buildingId: string;
                         createdAt: string;
                         engineVersion: string;
-                        input: {
-                            bytes: number;
-                            lines: number;
-                            dataRows: number;
-                            acceptedRows: number;
-                            blankLines: number;
-                            preambleLines: number;
-                            delimiter: string;
-                            header: string[];
-                            columns: {
-                                [key: string]: string;
-                            };
-                            /** @enum {string} */
-                            method: "kW_kvar" | "kW_pf" | "kW_kVA";
-                            timeZone: string;
-                            notes: string[];
-                        };
-                        quality: {
-                            badRows: {
-                                count: number;
-                                fraction: number;
-                                limitFraction: number;
-                                byReason: {
-                                    [key: string]: number;
-                                };
-                                first: {
-                                    line: number;
-                                    column: string;
-                                    reason: string;
-                                    value?: string;
-                                }[];
-                            };
-                            duplicates: {
-                                count: number;
-                                first: {
-                                    line: number;
-                                    firstLine: number;
-                                    timestamp: string;
-                                    sameValues: boolean;
-                                }[];
-                            };
-                            outOfOrder: {
-                                count: number;
-                                first: {
-                                    line: number;
-                                    timestamp: string;
-                                    previousTimestamp: string;
-                                }[];
-                            };
-                            gaps: {
-                                count: number;
-                                missingIntervals: number;
-                                first: {
-                                    line: number;
-                                    from: string;
-                                    to: string;
-                                    missingIntervals: number;
-                                }[];
-                            };
-                            irregularSteps: {
-                                count: number;
-                                first: {
-                                    line: number;
-                                    from: string;
-                                    to: string;
-                                    minutes: number;
-                                }[];
-                            };
-                        };
-                        interval: {
-                            minutes: number;
-                            detectedMinutes: number;
-                            /** @enum {string} */
-                            source: "detected" | "given";
-                            count: number;
-                            firstTimestamp: string;
-                            lastTimestamp: string;
-                            coveredDays: number;
-                        };
+                        input: components["schemas"]["IntervalInputReport"];
+                        quality: components["schemas"]["IntervalDataQuality"];
+                        interval: components["schemas"]["IntervalLength"];
                         targetPF: number;
-                        reactiveDemand: {
-                            /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
-                            percentilesKvar: {
-                                [key: string]: number;
-                            };
-                            meanKvar: number;
-                            /** @description the fixed-part limit */
-                            minimum: {
-                                minKvar: number;
-                                p1Kvar: number;
-                                p5Kvar: number;
-                            };
-                            durationCurve: {
-                                exceedancePct: number[];
-                                kvar: number[];
-                            };
-                        };
-                        neededKvar: {
-                            /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
-                            percentiles: {
-                                [key: string]: number;
-                            };
-                            hold95PctKvar: number;
-                            hold99PctKvar: number;
-                            hold100PctKvar: number;
-                        };
+                        reactiveDemand: components["schemas"]["ReactiveDemand"];
+                        neededKvar: components["schemas"]["NeededKvar"];
                         kW: {
                             /** @description nearest-rank percentiles keyed P0, P1, P5, …, P100 */
                             percentiles: {
@@ -3216,21 +2770,7 @@ export interface operations {
                             intervalsBelowTarget: number;
                             intervalsLeading: number;
                         };
-                        monthly: {
-                            month: string;
-                            intervals: number;
-                            peakKW: number;
-                            peakKWAt: string;
-                            /** @description kvar of the interval with the peak kW */
-                            peakKWKvar: number;
-                            peakKVA: number;
-                            peakKVAAt: string;
-                            kWh: number;
-                            kvarhLagging: number;
-                            kvarhLeading: number;
-                            billingPF: number;
-                            billingPFLaggingOnly: number;
-                        }[];
+                        monthly: components["schemas"]["MonthlyDemand"][];
                         total: {
                             kWh: number;
                             kvarhLagging: number;

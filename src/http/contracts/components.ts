@@ -55,6 +55,14 @@ const named: [z.ZodType, string][] = [
   [results.sizingHarmonicsSchema, "SizingHarmonics"],
   [results.harmonicScanResultSchema, "HarmonicScanResult"],
   [results.problemSchema, "Problem"],
+  // parts of the two forms of the harmonic study (module-private in results.ts, reached through the shapes)
+  [results.harmonicStudySchema.shape.banks.element, "StudiedBank"],
+  [results.sizingHarmonicsSchema.shape.banks.element, "StudiedBankCompact"],
+  [results.harmonicStudySchema.shape.findings.element, "HarmonicFinding"],
+  [results.harmonicStudySchema.shape.withoutCapacitors.shape.ieee519, "Ieee519Check"],
+  [results.harmonicStudySchema.shape.withoutCapacitors.shape.peaks.element, "ResonancePeak"],
+  [results.harmonicStudySchema.shape.withoutCapacitors.shape.distortion.shape.lines.element, "HarmonicVoltageLine"],
+  [results.harmonicStudySchema.shape.banks.element.shape.stages.element.shape.duty.shape.rmsVoltage, "CapacitorDutyCheck"],
   // stored resources
   [buildings.buildingCreateSchema, "NewBuilding"],
   [buildings.buildingPatchSchema, "BuildingChange"],
@@ -69,6 +77,13 @@ const named: [z.ZodType, string][] = [
   [surveys.surveySchema, "Survey"],
   [surveys.surveySummarySchema, "SurveySummary"],
   [intervalResultSchema, "IntervalAnalysis"],
+  // its parts, which the stored analysis's answer repeats
+  [intervalResultSchema.shape.input, "IntervalInputReport"],
+  [intervalResultSchema.shape.quality, "IntervalDataQuality"],
+  [intervalResultSchema.shape.interval, "IntervalLength"],
+  [intervalResultSchema.shape.reactiveDemand, "ReactiveDemand"],
+  [intervalResultSchema.shape.neededKvar, "NeededKvar"],
+  [intervalResultSchema.shape.monthly.element, "MonthlyDemand"],
   [keySchema, "ApiKey"],
 ];
 for (const [schema, id] of named) componentRegistry.add(schema, { id });
