@@ -12,16 +12,20 @@ export const health: RouteContract = {
   response: { "200": json("the service is up", healthSchema), ...problems(open) },
 };
 
-/** For the readiness route (GET /ready) when it is registered: `{ schema: service.ready }`. */
+/**
+ * For the readiness route (GET /ready) of the store branch, which answers { status: "ready", … } or a 503 problem:
+ * register it with `{ schema: service.ready }` (and, once results.ts has its readySchema, use that here).
+ */
 export const ready: RouteContract = {
   operationId: "ready",
-  summary: "Readiness check: the store answers",
+  summary: "Readiness check: the database answers and its schema is current",
+  description:
+    "For a load balancer: 200 when this instance can serve; 503 problem+json (with Retry-After) when its database cannot be reached or its migrations are not this build's. No key.",
   tags: ["service"],
   security: open,
   response: {
-    "200": json("ready to serve", z.object({ status: z.string() }).loose()),
-    "503": json("not ready yet (or no longer)", z.object({ status: z.string() }).loose()),
-    ...problems(open),
+    "200": json("ready to serve", z.object({ status: z.literal("ready"), database: z.literal("reachable"), migrations: z.literal("current") })),
+    ...problems(open, 503),
   },
 };
 

@@ -51,6 +51,7 @@ const PROBLEM_WHEN: Record<number, string> = {
   415: "the body's media type is not accepted here",
   422: "understood but refused (see the problem's type)",
   429: "too many requests in a minute; see Retry-After",
+  503: "not ready to serve; see Retry-After",
 };
 
 /**

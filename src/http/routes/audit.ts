@@ -1,9 +1,9 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/admin.js";
 import { z } from "zod";
 import type { Store } from "../../store/store.js";
 import { decodeCursor, encodeCursor, pageOf, parseLimit } from "../paging.js";
 import { parseOr400 } from "../validate.js";
-import * as contracts from "../contracts/admin.js";
 
 const query = z.strictObject({ limit: z.string().optional(), cursor: z.string().optional() });
 const auditCursor = z.object({ k: z.literal("a"), i: z.number().int() });

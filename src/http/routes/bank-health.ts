@@ -1,11 +1,11 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/surveys.js";
 import { z } from "zod";
 import { bankHealthSeries } from "../../application/bank-health.js";
 import { surveyResultsRepo } from "../../store/bank-health-repo.js";
 import type { Store } from "../../store/store.js";
 import { parseOr400 } from "../validate.js";
 import { findBuilding } from "./buildings.js";
-import * as contracts from "../contracts/surveys.js";
 
 const idParams = z.object({ id: z.string() });
 /** Surveys read per answer; more are left off and the answer says so. */

@@ -1,4 +1,5 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/buildings.js";
 import { z } from "zod";
 import { dataOf } from "../../store/buildings-repo.js";
 import { newId } from "../../store/ids.js";
@@ -10,7 +11,6 @@ import { notFound, ProblemError } from "../problem.js";
 import { buildingCreateSchema, buildingListQuerySchema, buildingPatchSchema, type BuildingPatch } from "../schemas/buildings.js";
 import { parseOr400 } from "../validate.js";
 import { buildingVersionView, buildingView } from "../views.js";
-import * as contracts from "../contracts/buildings.js";
 
 const idParams = z.object({ id: z.string() });
 const buildingCursor = z.object({ k: z.literal("b"), n: z.string(), i: z.string() });

@@ -1,6 +1,6 @@
 import type { FastifyInstance } from "fastify";
-import swaggerUi from "@fastify/swagger-ui";
 import * as contracts from "../contracts/service.js";
+import swaggerUi from "@fastify/swagger-ui";
 
 /**
  * /openapi.json and interactive docs at /docs, all served locally. The document is the one @fastify/swagger

@@ -1,9 +1,9 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/sizing.js";
 import { size } from "../../core/pipeline/size.js";
 import { problem, ProblemError } from "../problem.js";
 import { harmonicScanRequestSchema } from "../schemas/harmonics.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
-import * as contracts from "../contracts/sizing.js";
 
 /** POST /v1/harmonics/scan: the sizing body plus scan options → the study with its |Z(h)| series for plots. */
 export async function harmonicsRoutes(app: FastifyInstance): Promise<void> {

@@ -1,9 +1,9 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/intervals.js";
 import type { Store } from "../../store/store.js";
 import { INTERVAL_MAX_BYTES } from "../interval/ingest.js";
 import { analyseUpload, installUploadParsers } from "../interval/upload.js";
 import { storedIntervalRoutes } from "./stored-intervals.js";
-import * as contracts from "../contracts/intervals.js";
 
 /**
  * Interval data: POST /v1/interval-analyses (a year of interval demand data in, reactive-demand figures and a bank

@@ -1,4 +1,5 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/admin.js";
 import { z } from "zod";
 import { issueKey } from "../../auth/bootstrap.js";
 import type { ApiKeyRecord } from "../../store/keys-repo.js";
@@ -6,7 +7,6 @@ import type { Store } from "../../store/store.js";
 import { notFound, problem, ProblemError } from "../problem.js";
 import { parseOr400 } from "../validate.js";
 import { keyCreateSchema, type keySchema } from "../schemas/keys.js";
-import * as contracts from "../contracts/admin.js";
 
 const idParams = z.object({ id: z.string() });
 

@@ -1,8 +1,8 @@
 import type { FastifyInstance, FastifyReply } from "fastify";
+import * as contracts from "../contracts/service.js";
 import { escapeHtml } from "../../report/escape.js";
 import { notFound, PROBLEM_BASE, ProblemError } from "../problem.js";
 import { isProblemSlug, PROBLEM_TYPES, type ProblemSlug } from "../problem-types.js";
-import * as contracts from "../contracts/service.js";
 
 /**
  * GET /problems/<slug>: what a problem type means and what to do, as a short HTML page a person can open from the

@@ -3,6 +3,8 @@
  * Thin: read or size, then src/report builds the model and renders it.
  */
 import type { FastifyInstance, FastifyReply } from "fastify";
+import * as contracts from "../contracts/surveys.js";
+import * as sizingContracts from "../contracts/sizing.js";
 import { z } from "zod";
 import { size } from "../../core/pipeline/size.js";
 import { notFound, ProblemError } from "../problem.js";
@@ -17,8 +19,6 @@ import { surveyReportInput } from "../../report/survey-input.js";
 import type { ReportInput } from "../../report/types.js";
 import { bankHealthSeries } from "../../application/bank-health.js";
 import { surveyResultsRepo } from "../../store/bank-health-repo.js";
-import * as contracts from "../contracts/surveys.js";
-import * as sizingContracts from "../contracts/sizing.js";
 
 const idParams = z.object({ id: z.string() });
 const paper = z.enum(["a4", "letter"], { error: "paper must be a4 or letter" }).optional();

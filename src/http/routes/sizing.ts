@@ -1,8 +1,8 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/sizing.js";
 import { size } from "../../core/pipeline/size.js";
 import { sizingRequestSchema } from "../schemas/sizing.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
-import * as contracts from "../contracts/sizing.js";
 
 export async function sizingRoutes(app: FastifyInstance): Promise<void> {
   app.post("/v1/sizing", { schema: contracts.size }, async (request) => {

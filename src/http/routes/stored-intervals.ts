@@ -1,4 +1,5 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/intervals.js";
 import { z } from "zod";
 import { newId } from "../../store/ids.js";
 import type { Store } from "../../store/store.js";
@@ -10,7 +11,6 @@ import { notFound, ProblemError } from "../problem.js";
 import { parseOr400 } from "../validate.js";
 import { intervalAnalysisListView, intervalAnalysisView } from "../views.js";
 import { findBuilding } from "./buildings.js";
-import * as contracts from "../contracts/intervals.js";
 
 const idParams = z.object({ id: z.string() });
 const listQuery = z.strictObject({ limit: z.string().optional(), cursor: z.string().optional() });

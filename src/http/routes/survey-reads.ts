@@ -1,4 +1,5 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/surveys.js";
 import { z } from "zod";
 import type { Store } from "../../store/store.js";
 import type { RevisionRecord } from "../../store/types.js";
@@ -9,7 +10,6 @@ import { surveyListQuerySchema, trendQuerySchema } from "../schemas/surveys.js";
 import { parseOr400 } from "../validate.js";
 import { revisionView, surveySummaryView, surveyView, trendPointView } from "../views.js";
 import { findBuilding } from "./buildings.js";
-import * as contracts from "../contracts/surveys.js";
 
 const idParams = z.object({ id: z.string() });
 const revisionParams = z.object({

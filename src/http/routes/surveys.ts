@@ -1,4 +1,5 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/surveys.js";
 import { z } from "zod";
 import { newId } from "../../store/ids.js";
 import type { Store } from "../../store/store.js";
@@ -9,7 +10,6 @@ import { revisionInputsSchema, surveyInputsSchema } from "../schemas/surveys.js"
 import { computeRevision } from "../../application/survey-sizing.js";
 import { parseOr400 } from "../validate.js";
 import { findBuilding } from "./buildings.js";
-import * as contracts from "../contracts/surveys.js";
 
 const idParams = z.object({ id: z.string() });
 
