@@ -4,7 +4,7 @@ import js from "@eslint/js";
 import tseslint from "typescript-eslint";
 
 export default tseslint.config(
-  { ignores: ["dist/**", "node_modules/**", ".ci/**", "openapi/**", "test-output/**", "src/form/**"] },
+  { ignores: ["dist/**", "node_modules/**", ".ci/**", "openapi/**", "test-output/**", "src/form/**", "test/generated/**"] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

@@ -27,6 +27,8 @@ import type { Store } from "./store/ports.js";
 import { readyAnswer } from "./http/readiness.js";
 import { createHeavyWork, type HeavyWork } from "./heavy-work/pool.js";
 import { installPressure } from "./http/pressure.js";
+import { installOpenapi } from "./http/openapi.js";
+import * as service from "./http/contracts/service.js";
 
 declare module "fastify" {
   interface FastifyInstance {
@@ -146,11 +148,12 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
 
   app.decorate("store", store);
   app.addHook("onClose", async () => store.close());
+  await installOpenapi(app);
   installActor(app, store);
   await installSecurity(app, config);
 
-  app.get("/health", async () => ({ status: "ok" }));
-  app.get("/ready", async (_request, reply) => readyAnswer(reply, await store.readiness()));
+  app.get("/health", { schema: service.health }, async () => ({ status: "ok" }));
+  app.get("/ready", { schema: service.ready }, async (_request, reply) => readyAnswer(reply, await store.readiness()));
   await app.register(sizingRoutes);
   await app.register(intervalAnalysesRoutes, { store });
   await app.register(harmonicsRoutes);

@@ -2,37 +2,30 @@ import type { FastifyInstance } from "fastify";
 import fc from "fast-check";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { organisationNamed } from "../../src/auth/bootstrap.js";
-import { operations, type Operation } from "../../src/http/operations.js";
 import type { Store } from "../../src/store/ports.js";
-import { csvOfSeries, syntheticYear } from "../core/interval/fixtures.js";
 import { inject, keyFor, keyIdOf } from "../helpers/auth.js";
-import { exampleSizingBody } from "../helpers/bodies.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
+import { appRoutes, label, queryNames, takesBody, takesUpload, urlWithIds, validBody, weekCsv, type AppRoute, type RouteIds } from "../helpers/routes.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 import { sqlRows } from "../helpers/store.js";
 
 /**
- * Property-based fuzzing of every route (src/http/operations.ts plus the report pages): random or mutated
- * bodies, queries, path parameters and headers (keys of every role, another organisation's, junk). No answer
- * is ≥ 500 and a rejected request changes no row. FUZZ_RUNS cases in total (300 by default; 10 000 for a long run).
+ * Property-based fuzzing of every route of the app (read from the app, so a new route is fuzzed too; the survey page's
+ * static files and the docs viewer as well): random or mutated bodies, queries, path parameters and headers (keys of
+ * every role, another organisation's, junk). No answer is ≥ 500 and a rejected request changes no row. FUZZ_RUNS
+ * cases in total (300 by default; 10 000 for a long run).
  */
 const TOTAL = Number(process.env.FUZZ_RUNS ?? 300);
 const SEED = Number(process.env.FC_SEED ?? 0x5eed);
 
-type Route = Pick<Operation, "method" | "path" | "operationId" | "query" | "bodyType"> & { body?: unknown };
-const routes: Route[] = [
-  ...operations,
-  { method: "get", path: "/v1/surveys/{id}/report", operationId: "surveyReport", query: { revision: { type: "integer", description: "" } } },
-  { method: "get", path: "/v1/surveys/{id}/report.pdf", operationId: "surveyReportPdf", query: { paper: { type: "string", description: "" } } },
-  { method: "post", path: "/v1/sizing/report", operationId: "sizingReport", body: true, query: { format: { type: "string", description: "" } } },
-];
+const routes = await appRoutes();
 const perRoute = Math.max(1, Math.ceil(TOTAL / routes.length));
 
 let app: FastifyInstance;
 let store: Store;
-const ids: Record<string, string> = {};
+const ids = {} as RouteIds;
 const keys: (string | undefined)[] = [];
-const week = csvOfSeries(syntheticYear(24, () => ({ kW: 300, kvar: 200 }), 7));
+const week = weekCsv;
 
 beforeAll(async () => {
   ({ app, store } = await makeStoreApp());
@@ -47,14 +40,6 @@ beforeAll(async () => {
   keys.push(undefined, undefined, "Bearer", "junk", other, await keyFor(app, "surveyor"), await keyFor(app, "auditor"), undefined);
 });
 afterAll(() => app.close());
-
-const validBodies: Record<string, () => unknown> = {
-  createBuilding: () => buildingBody({ name: `Fuzz ${Math.random()}` }),
-  updateBuilding: () => ({ notes: "fuzz" }),
-  createSurvey: surveyBody,
-  reviseSurvey: () => ({ ...surveyBody(), reason: "fuzz" }),
-  createKey: () => ({ role: "auditor" }),
-};
 
 const printable = fc.string({ unit: fc.mapToConstant({ num: 95, build: (v) => String.fromCharCode(v + 0x20) }), maxLength: 40 });
 
@@ -79,26 +64,27 @@ function mutated(valid: unknown): fc.Arbitrary<unknown> {
   });
 }
 
-function bodyArb(r: Route): fc.Arbitrary<{ payload?: string; type?: string }> {
+function bodyArb(r: AppRoute): fc.Arbitrary<{ payload?: string; type?: string }> {
   const types = fc.constantFrom(undefined, "application/json", "text/csv", "text/plain", "multipart/form-data; boundary=zz", "application/x-www-form-urlencoded");
-  if (r.bodyType === "text/csv") {
+  if (takesUpload(r)) {
     const csv = fc.oneof(fc.constant(week), printable, fc.tuple(fc.nat(week.length), printable).map(([i, s]) => week.slice(0, i) + s + week.slice(i)));
     return fc.record({ payload: csv, type: fc.oneof(fc.constant("text/csv"), types) });
   }
-  if (!("body" in r) || !r.body) return fc.record({ payload: fc.option(fc.jsonValue().map((v) => JSON.stringify(v) ?? ""), { nil: undefined }), type: types });
-  const valid = (validBodies[r.operationId] ?? exampleSizingBody)();
+  if (!takesBody(r)) return fc.record({ payload: fc.option(fc.jsonValue().map((v) => JSON.stringify(v) ?? ""), { nil: undefined }), type: types });
+  const valid = validBody(r, "fuzz")?.payload;
   const json = fc.oneof(fc.constant(valid), mutated(valid), fc.jsonValue()).map((v) => JSON.stringify(v) ?? "");
   return fc.record({ payload: fc.oneof(json, printable), type: fc.oneof(fc.constant("application/json"), types) });
 }
 
-function urlArb(r: Route): fc.Arbitrary<string> {
-  const real = r.path.startsWith("/v1/buildings/") ? ids.building : r.path.startsWith("/v1/surveys/") ? ids.survey : r.path.startsWith("/v1/keys/") ? ids.key : ids.interval;
-  const param = fc.oneof(fc.constant(real as string), printable.map(encodeURIComponent));
-  const names = [...Object.keys(r.query ?? {}), "limit", "cursor", "x"];
+function urlArb(r: AppRoute): fc.Arbitrary<string> {
+  // Each parameter (and a wildcard's tail) real or random; the real URL on its own too.
+  const parts = r.url.split(/(:\w+|\*)/);
+  const real = urlWithIds(r.url, ids).replace("*", "");
+  const random = fc.tuple(...parts.map((p, i) => (i % 2 === 1 ? fc.oneof(fc.constant(p === ":n" ? "1" : ""), printable.map(encodeURIComponent)) : fc.constant(p))));
+  const path = fc.oneof(fc.constant(real), random.map((ps) => ps.join("")));
+  const names = [...queryNames(r), "limit", "cursor", "x"];
   const query = fc.dictionary(fc.constantFrom(...names), printable, { maxKeys: 3 }).map((q) => new URLSearchParams(q).toString());
-  return fc.tuple(param, fc.oneof(fc.constant("1"), printable.map(encodeURIComponent)), query).map(
-    ([p, n, q]) => r.path.replace("{id}", p).replace("{n}", n) + (q ? `?${q}` : ""),
-  );
+  return fc.tuple(path, query).map(([p, q]) => p + (q ? `?${q}` : ""));
 }
 
 const headerArb = fc.record({
@@ -118,7 +104,7 @@ async function fingerprint(): Promise<string> {
 }
 
 describe("fuzzing every route", () => {
-  it.each(routes.map((r) => [`${r.method.toUpperCase()} ${r.path}`, r] as const))("%s: never ≥ 500, a rejection changes nothing", async (_, r) => {
+  it.each(routes.map((r) => [label(r), r] as const))("%s: never ≥ 500, a rejection changes nothing", async (_, r) => {
     await fc.assert(
       fc.asyncProperty(urlArb(r), bodyArb(r), headerArb, async (url, body, h) => {
         const headers: Record<string, string> = {};
@@ -130,7 +116,7 @@ describe("fuzzing every route", () => {
         if (h.idem !== undefined) headers["idempotency-key"] = h.idem;
         if (h.extra) headers[h.extra[0]] = h.extra[1];
         const before = await fingerprint();
-        const method = r.method.toUpperCase() as "GET";
+        const method = r.method as "GET";
         const res = admin
           ? await inject(app, { method, url, headers, ...(body.payload === undefined || method === "GET" ? {} : { payload: body.payload }) })
           : await app.inject({ method, url, headers, ...(body.payload === undefined || method === "GET" ? {} : { payload: body.payload }) });

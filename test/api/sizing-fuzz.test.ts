@@ -1,7 +1,7 @@
 import type { FastifyInstance } from "fastify";
 import fc from "fast-check";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { operations } from "../../src/http/operations.js";
+import * as sizingContracts from "../../src/http/contracts/sizing.js";
 import { sizingResultSchema } from "../../src/http/schemas/results.js";
 import { makeTestApp } from "../helpers/app.js";
 import { exampleSizingBody } from "../helpers/bodies.js";
@@ -19,7 +19,7 @@ afterAll(async () => {
   await app.close();
 });
 
-const declared = operations.find((o) => o.method === "post" && o.path === "/v1/sizing")?.responses["200"]?.schema;
+const declared = sizingContracts.size.response["200"]?.content?.["application/json"]?.schema;
 
 async function post(payload: string, contentType = "application/json") {
   return inject(app, { method: "POST", url: "/v1/sizing", payload, headers: { "content-type": contentType } });

@@ -1,13 +1,11 @@
 import { z } from "zod";
-import type { Operation } from "../operations.js";
-import { INTERVAL_MAX_BYTES, INTERVAL_MAX_ROWS } from "./ingest.js";
-import { INTERVAL_OPTION_DOCS } from "./options.js";
 
 /** Response schema of POST /v1/interval-analyses: documentation only (the answer is built in code). */
 const percentiles = z.record(z.string(), z.number()).describe("nearest-rank percentiles keyed P0, P1, P5, …, P100");
 const curve = z.object({ exceedancePct: z.array(z.number()), kvar: z.array(z.number()) });
 const month = z.object({
-  month: z.string(), intervals: z.number(), peakKW: z.number(), peakKWAt: z.string(), peakKVA: z.number(), peakKVAAt: z.string(),
+  month: z.string(), intervals: z.number(), peakKW: z.number(), peakKWAt: z.string(), peakKWKvar: z.number().describe("kvar of the interval with the peak kW"),
+  peakKVA: z.number(), peakKVAAt: z.string(),
   kWh: z.number(), kvarhLagging: z.number(), kvarhLeading: z.number(), billingPF: z.number(), billingPFLaggingOnly: z.number(),
 });
 const rowError = z.object({ line: z.number(), column: z.string(), reason: z.string(), value: z.string().optional() });
@@ -45,25 +43,6 @@ export const intervalResultSchema = z.object({
   summary: z.record(z.string(), z.unknown()).describe("IntervalSummary: the figures without the series, for storing with a building"),
   warnings: z.array(z.object({ code: z.string(), message: z.string() })),
 });
-
-export const intervalOperation: Operation = {
-  method: "post",
-  path: "/v1/interval-analyses",
-  operationId: "analyseIntervals",
-  summary: "Analyse interval demand data (CSV) for power-factor correction",
-  description:
-    `A CSV as text/csv (or multipart/form-data, option fields first, the CSV in field "file"), up to ${INTERVAL_MAX_BYTES / 1048576} MiB and ${INTERVAL_MAX_ROWS} rows: ` +
-    "a timestamp column and kW + kvar, kW + PF or kW + kVA, found by header name. Returns the reactive-demand duration curve and percentiles, " +
-    "the kvar needed to hold the target PF in 95/99/100 % of intervals, the minimum reactive demand, monthly peak kW/kVA and billing PF, " +
-    "data-quality findings (bad rows with line numbers, gaps, duplicates, out-of-order rows) and, given a bank, a simulated PF controller. " +
-    "More than 5 % bad rows refuses the upload (422).",
-  tags: ["interval data"],
-  body: z.string().describe("CSV text with a header line"),
-  bodyType: "text/csv",
-  query: INTERVAL_OPTION_DOCS,
-  responses: { "200": { description: "the analysis", schema: intervalResultSchema } },
-  problems: [400, 413, 415, 422],
-};
 
 /** Responses of the analyses stored with a building (documentation; the answers are built in src/http/views.ts). */
 const summaryDoc = intervalResultSchema.shape.summary;

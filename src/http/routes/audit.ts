@@ -1,4 +1,5 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/admin.js";
 import { z } from "zod";
 import type { Store } from "../../store/ports.js";
 import { decodeCursor, encodeCursor, pageOf, parseLimit } from "../paging.js";
@@ -9,7 +10,7 @@ const auditCursor = z.object({ k: z.literal("a"), i: z.number().int() });
 
 /** The organisation's audit log, newest first. Access control will restrict who may read it. */
 export async function auditRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
-  app.get("/v1/audit-log", async (request) => {
+  app.get("/v1/audit-log", { schema: contracts.auditLog }, async (request) => {
     const q = parseOr400(query, request.query);
     const limit = parseLimit(q.limit);
     const before = decodeCursor("a", auditCursor, q.cursor);

@@ -1,4 +1,5 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/buildings.js";
 import { z } from "zod";
 import { createBuilding, findBuilding, updateBuilding } from "../../application/buildings.js";
 import { finishWith } from "../../application/write-outcome.js";
@@ -16,7 +17,7 @@ const buildingCursor = z.object({ k: z.literal("b"), n: z.string(), i: z.string(
 export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
 
-  app.post("/v1/buildings", async (request, reply) => {
+  app.post("/v1/buildings", { schema: contracts.createBuilding }, async (request, reply) => {
     const body = parseOr400(buildingCreateSchema, request.body);
     const data = {
       name: body.name,
@@ -33,7 +34,7 @@ export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store
     );
   });
 
-  app.get("/v1/buildings", async (request) => {
+  app.get("/v1/buildings", { schema: contracts.listBuildings }, async (request) => {
     const query = parseOr400(buildingListQuerySchema, request.query);
     const limit = parseLimit(query.limit);
     const after = decodeCursor("b", buildingCursor, query.cursor);
@@ -46,12 +47,12 @@ export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store
     return { items: page.items.map(buildingView), nextCursor: page.nextCursor };
   });
 
-  app.get("/v1/buildings/:id", async (request) => {
+  app.get("/v1/buildings/:id", { schema: contracts.getBuilding }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     return buildingView(await findBuilding(store, request.actor.orgId, id));
   });
 
-  app.patch("/v1/buildings/:id", async (request, reply) => {
+  app.patch("/v1/buildings/:id", { schema: contracts.updateBuilding }, async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const patch = parseOr400(buildingPatchSchema, request.body);
     return idempotentWrite(store, request, reply, (seal) =>
@@ -59,7 +60,7 @@ export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store
     );
   });
 
-  app.get("/v1/buildings/:id/history", async (request) => {
+  app.get("/v1/buildings/:id/history", { schema: contracts.buildingHistory }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const { orgId } = request.actor;
     await findBuilding(store, orgId, id);

@@ -1,12 +1,12 @@
 import type { FastifyInstance } from "fastify";
-import swagger from "@fastify/swagger";
+import * as contracts from "../contracts/service.js";
 import swaggerUi from "@fastify/swagger-ui";
-import { openapiDocument } from "../openapi.js";
 
-/** /openapi.json and interactive docs at /docs, all served locally. */
+/**
+ * /openapi.json and interactive docs at /docs, all served locally. The document is the one @fastify/swagger
+ * generated from the app's routes (src/http/openapi.ts installs it before any route).
+ */
 export async function docsRoutes(app: FastifyInstance): Promise<void> {
-  const document = openapiDocument();
-  await app.register(swagger, { mode: "static", specification: { document: document as never } });
   await app.register(swaggerUi, { routePrefix: "/docs" });
-  app.get("/openapi.json", async () => document);
+  app.get("/openapi.json", { schema: contracts.openapiDocument }, async () => app.swagger());
 }

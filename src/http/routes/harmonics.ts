@@ -1,11 +1,12 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/sizing.js";
 import { problem, ProblemError } from "../problem.js";
 import { harmonicScanRequestSchema } from "../schemas/harmonics.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
 
 /** POST /v1/harmonics/scan: the sizing body plus scan options → the study with its |Z(h)| series for plots. */
 export async function harmonicsRoutes(app: FastifyInstance): Promise<void> {
-  app.post("/v1/harmonics/scan", async (request, reply) => {
+  app.post("/v1/harmonics/scan", { schema: contracts.harmonicScan }, async (request, reply) => {
     const body = parseOr400(harmonicScanRequestSchema, request.body);
     if (!body.transformer && !body.utility) {
       throw new ProblemError(

@@ -1,4 +1,5 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/intervals.js";
 import type { Store } from "../../store/ports.js";
 import { INTERVAL_MAX_BYTES } from "../interval/ingest.js";
 import { analyseUpload, installUploadParsers } from "../interval/upload.js";
@@ -12,7 +13,7 @@ import { storedIntervalRoutes } from "./stored-intervals.js";
 export async function intervalAnalysesRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   await installUploadParsers(app);
 
-  app.post("/v1/interval-analyses", { bodyLimit: INTERVAL_MAX_BYTES }, async (request) => (await analyseUpload(request)).answer);
+  app.post("/v1/interval-analyses", { bodyLimit: INTERVAL_MAX_BYTES, schema: contracts.analyseIntervals }, async (request) => (await analyseUpload(request)).answer);
 
   storedIntervalRoutes(app, opts.store);
 }

@@ -1,24 +1,13 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/admin.js";
 import { z } from "zod";
 import { issueKey } from "../../auth/bootstrap.js";
-import { ROLES } from "../../auth/keys.js";
 import { revokeKey } from "../../application/keys.js";
 import type { Store } from "../../store/ports.js";
 import type { ApiKeyRecord } from "../../store/types.js";
 import { whoOf } from "../actor.js";
 import { parseOr400 } from "../validate.js";
-
-export const keyCreateSchema = z.strictObject({
-  role: z.enum(ROLES),
-  label: z.string().trim().min(1).max(100).optional(),
-});
-
-export const keySchema = z.object({
-  id: z.string(), prefix: z.string(), role: z.enum(ROLES), label: z.string().nullable(),
-  createdAt: z.string(), createdBy: z.string(), lastUsedAt: z.string().nullable(), revokedAt: z.string().nullable(),
-});
-export const keyCreatedSchema = keySchema.extend({ key: z.string().describe("the API key: shown this once, stored only as a hash") });
-export const keyListSchema = z.object({ items: z.array(keySchema) });
+import { keyCreateSchema, type keySchema } from "../schemas/keys.js";
 
 const idParams = z.object({ id: z.string() });
 
@@ -31,7 +20,7 @@ const keyView = (k: ApiKeyRecord): z.infer<typeof keySchema> => ({
 export async function keysRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
 
-  app.post("/v1/keys", async (request, reply) => {
+  app.post("/v1/keys", { schema: contracts.createKey }, async (request, reply) => {
     const body = parseOr400(keyCreateSchema, request.body ?? {});
     const { orgId, actorId } = request.actor;
     const issued = await issueKey(store, { orgId, role: body.role, label: body.label ?? null, createdBy: actorId, requestId: request.id });
@@ -39,9 +28,9 @@ export async function keysRoutes(app: FastifyInstance, opts: { store: Store }): 
     return reply.code(201).header("location", `/v1/keys/${issued.record.id}`).send({ ...keyView(issued.record), key: issued.key });
   });
 
-  app.get("/v1/keys", async (request) => ({ items: (await store.keys.list(request.actor.orgId)).map(keyView) }));
+  app.get("/v1/keys", { schema: contracts.listKeys }, async (request) => ({ items: (await store.keys.list(request.actor.orgId)).map(keyView) }));
 
-  app.delete("/v1/keys/:id", async (request, reply) => {
+  app.delete("/v1/keys/:id", { schema: contracts.revokeKey }, async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     await revokeKey(store, whoOf(request), id);
     return reply.code(204).send();

@@ -1,4 +1,5 @@
 import type { FastifyInstance, FastifyReply } from "fastify";
+import * as contracts from "../contracts/service.js";
 import { escapeHtml } from "../../report/escape.js";
 import { notFound, PROBLEM_BASE, ProblemError } from "../problem.js";
 import { isProblemSlug, PROBLEM_TYPES, type ProblemSlug } from "../problem-types.js";
@@ -52,8 +53,8 @@ const sendPage = (reply: FastifyReply, html: string) =>
   reply.type("text/html; charset=utf-8").header("cache-control", "public, max-age=3600").send(html);
 
 export async function problemsRoutes(app: FastifyInstance): Promise<void> {
-  app.get("/problems", async (_request, reply) => sendPage(reply, problemIndexPage()));
-  app.get<{ Params: { type: string } }>("/problems/:type", async (request, reply) => {
+  app.get("/problems", { schema: contracts.problemTypes }, async (_request, reply) => sendPage(reply, problemIndexPage()));
+  app.get<{ Params: { type: string } }>("/problems/:type", { schema: contracts.problemType }, async (request, reply) => {
     const { type } = request.params;
     if (!isProblemSlug(type)) throw new ProblemError(notFound(`problem type ${JSON.stringify(type)}`));
     return sendPage(reply, problemTypePage(type));

@@ -3,6 +3,8 @@
  * Thin: read or size, then src/report builds the model and renders it.
  */
 import type { FastifyInstance, FastifyReply } from "fastify";
+import * as contracts from "../contracts/surveys.js";
+import * as sizingContracts from "../contracts/sizing.js";
 import { z } from "zod";
 import { sizingRequestSchema } from "../schemas/sizing.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
@@ -44,21 +46,21 @@ async function sendReport(app: FastifyInstance, reply: FastifyReply, task: Repor
 export async function reportRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
 
-  app.get("/v1/surveys/:id/report", async (request, reply) => {
+  app.get("/v1/surveys/:id/report", { schema: contracts.surveyReport }, async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const q = parseOr400(surveyQuery, request.query);
     const { input } = await surveyReportData(store, request.actor.orgId, id, q.revision === undefined ? undefined : Number(q.revision));
     return sendReport(app, reply, { input, format: "html", paper: sizeOf(q.paper) }, "");
   });
 
-  app.get("/v1/surveys/:id/report.pdf", async (request, reply) => {
+  app.get("/v1/surveys/:id/report.pdf", { schema: contracts.surveyReportPdf }, async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const q = parseOr400(surveyQuery, request.query);
     const { revision: r, input } = await surveyReportData(store, request.actor.orgId, id, q.revision === undefined ? undefined : Number(q.revision));
     return sendReport(app, reply, { input, format: "pdf", paper: sizeOf(q.paper) }, `${r.surveyId}-r${r.n}-report.pdf`);
   });
 
-  app.post("/v1/sizing/report", async (request, reply) => {
+  app.post("/v1/sizing/report", { schema: sizingContracts.sizingReport }, async (request, reply) => {
     const q = parseOr400(sizingQuery, request.query);
     const inputs = parseOr400(sizingRequestSchema, request.body);
     const out = await app.heavyWork.run("sizingReport", { inputs, format: q.format ?? "html", paper: sizeOf(q.paper) });

@@ -1,4 +1,5 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/intervals.js";
 import { z } from "zod";
 import { findBuilding } from "../../application/buildings.js";
 import { attachIntervalAnalysis } from "../../application/interval-analyses.js";
@@ -19,7 +20,7 @@ const analysisCursor = z.object({ k: z.literal("ia"), s: z.number().int().positi
 
 /** Interval analyses stored with a building: upload (analysed as POST /v1/interval-analyses does), read, list. */
 export function storedIntervalRoutes(app: FastifyInstance, store: Store): void {
-  app.post("/v1/buildings/:id/interval-analyses", { bodyLimit: INTERVAL_MAX_BYTES }, async (request, reply) => {
+  app.post("/v1/buildings/:id/interval-analyses", { bodyLimit: INTERVAL_MAX_BYTES, schema: contracts.storeIntervalAnalysis }, async (request, reply) => {
     const { id: buildingId } = parseOr400(idParams, request.params);
     // Header and building first: neither needs the upload, which may be 64 MiB.
     const key = idempotencyKeyOf(request);
@@ -40,14 +41,14 @@ export function storedIntervalRoutes(app: FastifyInstance, store: Store): void {
     );
   });
 
-  app.get("/v1/interval-analyses/:id", async (request) => {
+  app.get("/v1/interval-analyses/:id", { schema: contracts.getIntervalAnalysis }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const a = await store.intervalAnalyses.get(request.actor.orgId, id);
     if (!a) throw new NotFound(`interval analysis ${id}`);
     return intervalAnalysisView(a);
   });
 
-  app.get("/v1/buildings/:id/interval-analyses", async (request) => {
+  app.get("/v1/buildings/:id/interval-analyses", { schema: contracts.listIntervalAnalyses }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const query = parseOr400(listQuery, request.query);
     const limit = parseLimit(query.limit);

@@ -1,4 +1,5 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/surveys.js";
 import { z } from "zod";
 import { findBuilding } from "../../application/buildings.js";
 import { revisionOf, surveyWithRevisions } from "../../application/survey-reads.js";
@@ -21,20 +22,20 @@ export const TREND_MAX_POINTS = 5000;
 export async function surveyReadRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
 
-  app.get("/v1/surveys/:id", async (request) => {
+  app.get("/v1/surveys/:id", { schema: contracts.getSurvey }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const { orgId } = request.actor;
     const { latest, revisions } = await surveyWithRevisions(store, orgId, id);
     return surveyView(latest, revisions);
   });
 
-  app.get("/v1/surveys/:id/revisions/:n", async (request) => {
+  app.get("/v1/surveys/:id/revisions/:n", { schema: contracts.getSurveyRevision }, async (request) => {
     const { id, n } = parseOr400(revisionParams, request.params);
     const { orgId } = request.actor;
     return revisionView(await revisionOf(store, orgId, id, Number(n)));
   });
 
-  app.get("/v1/surveys/:id/loads.csv", async (request, reply) => {
+  app.get("/v1/surveys/:id/loads.csv", { schema: contracts.surveyLoadsCsv }, async (request, reply) => {
     const { id } = parseOr400(idParams, request.params);
     const latest = await revisionOf(store, request.actor.orgId, id);
     return reply
@@ -43,7 +44,7 @@ export async function surveyReadRoutes(app: FastifyInstance, opts: { store: Stor
       .send(loadsCsv(latest));
   });
 
-  app.get("/v1/buildings/:id/surveys", async (request) => {
+  app.get("/v1/buildings/:id/surveys", { schema: contracts.listSurveys }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const query = parseOr400(surveyListQuerySchema, request.query);
     const limit = parseLimit(query.limit);
@@ -60,7 +61,7 @@ export async function surveyReadRoutes(app: FastifyInstance, opts: { store: Stor
     return { items: page.items.map(surveySummaryView), nextCursor: page.nextCursor };
   });
 
-  app.get("/v1/buildings/:id/trend", async (request) => {
+  app.get("/v1/buildings/:id/trend", { schema: contracts.buildingTrend }, async (request) => {
     const { id } = parseOr400(idParams, request.params);
     const range = rangeOf(parseOr400(trendQuerySchema, request.query));
     const { orgId } = request.actor;

@@ -1,4 +1,5 @@
 import type { FastifyInstance } from "fastify";
+import * as contracts from "../contracts/surveys.js";
 import { z } from "zod";
 import { recordSurvey, reviseSurvey } from "../../application/surveys.js";
 import { finishWith } from "../../application/write-outcome.js";
@@ -14,7 +15,7 @@ const idParams = z.object({ id: z.string() });
 export async function surveysRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
 
-  app.post("/v1/buildings/:id/surveys", async (request, reply) => {
+  app.post("/v1/buildings/:id/surveys", { schema: contracts.createSurvey }, async (request, reply) => {
     const { id: buildingId } = parseOr400(idParams, request.params);
     const inputs = parseOr400(surveyInputsSchema, request.body);
     return idempotentWrite(store, request, reply, (seal) =>
@@ -26,7 +27,7 @@ export async function surveysRoutes(app: FastifyInstance, opts: { store: Store }
     );
   });
 
-  app.post("/v1/surveys/:id/revisions", async (request, reply) => {
+  app.post("/v1/surveys/:id/revisions", { schema: contracts.reviseSurvey }, async (request, reply) => {
     const { id: surveyId } = parseOr400(idParams, request.params);
     const { reason, ...inputs } = parseOr400(revisionInputsSchema, request.body);
     return idempotentWrite(store, request, reply, (seal) =>
