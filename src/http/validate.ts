@@ -4,6 +4,8 @@ import { pathOf, ProblemError, validationProblem, zodErrors } from "./problem.js
 
 /** Parse with a zod schema or throw a 400 problem naming each field. */
 export function parseOr400<S extends z.ZodType>(schema: S, value: unknown, prefix: (string | number)[] = []): z.infer<S> {
+  const nul = pathOfNul(value, prefix);
+  if (nul) throw new ProblemError(validationProblem([{ path: pathOf(nul), message: "must not contain the NUL character (U+0000)" }]));
   const parsed = schema.safeParse(value);
   if (!parsed.success) throw new ProblemError(validationProblem(zodErrors(parsed.error, prefix)));
   return parsed.data;
@@ -12,4 +14,26 @@ export function parseOr400<S extends z.ZodType>(schema: S, value: unknown, prefi
 /** The engine's plausibility issues (e.g. kW above kVA) as a 400. */
 export function engineIssuesTo400(issues: InputIssue[], prefix: (string | number)[] = []): ProblemError {
   return new ProblemError(validationProblem(issues.map((i) => ({ path: pathOf([...prefix, ...i.path]), message: i.message }))));
+}
+
+/**
+ * The path of the first string (or object key) holding U+0000, or null. No field has a use for it, PostgreSQL's text
+ * and jsonb cannot store it, and a terminal or CSV reader may cut the value there: refused everywhere, on both stores.
+ */
+function pathOfNul(value: unknown, path: (string | number)[]): (string | number)[] | null {
+  if (typeof value === "string") return value.includes("\u0000") ? path : null;
+  if (typeof value !== "object" || value === null) return null;
+  if (Array.isArray(value)) {
+    for (let i = 0; i < value.length; i++) {
+      const found = pathOfNul(value[i], [...path, i]);
+      if (found) return found;
+    }
+    return null;
+  }
+  for (const [key, item] of Object.entries(value)) {
+    if (key.includes("\u0000")) return [...path, key];
+    const found = pathOfNul(item, [...path, key]);
+    if (found) return found;
+  }
+  return null;
 }

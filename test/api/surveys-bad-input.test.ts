@@ -94,3 +94,37 @@ describe("a reading far outside the system is a 400 and stores nothing (issue 11
     expect(codes).toContain("reading_line_to_neutral");
   });
 });
+
+describe("text PostgreSQL cannot store is refused on both stores, at the field", () => {
+  it("U+0000 anywhere in a body, and a year outside 1900–2200, are 400s naming the field; nothing stored changes", async () => {
+    // jsonb and text refuse U+0000 and timestamptz refuses year 0000 (PostgreSQL 15 docs, §8.14 and §8.5, from memory)
+    const before = await rowCounts(store);
+    const cases = [
+      { req: { method: "POST", url: "/v1/buildings", payload: { ...buildingBody(), name: "Boiler\u0000house" } }, path: "name", reason: /NUL/ },
+      { req: { method: "PATCH", url: `/v1/buildings/${buildingId}`, payload: { notes: "\u0000" } }, path: "notes", reason: /NUL/ },
+      { req: { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyor: "A\u0000" }) }, path: "surveyor", reason: /NUL/ },
+      {
+        req: { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: { ...surveyBody(), loads: surveyBody().loads.map((l, i) => (i === 1 ? { ...l, label: "x\u0000" } : l)) } },
+        path: "loads.1.label",
+        reason: /NUL/,
+      },
+      { req: { method: "POST", url: "/v1/sizing", payload: { "\u0000": 1 } }, path: "\u0000", reason: /NUL/ },
+      { req: { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyedAt: "0000-01-01" }) }, path: "surveyedAt", reason: /1900 and 2200/ },
+      { req: { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyedAt: "9999-12-31T23:59:59Z" }) }, path: "surveyedAt", reason: /1900 and 2200/ },
+      { req: { method: "POST", url: `/v1/surveys/${surveyId}/revisions`, payload: { ...surveyBody({ surveyedAt: "1899-12-31" }), reason: "r" } }, path: "surveyedAt", reason: /1900 and 2200/ },
+      { req: { method: "GET", url: `/v1/buildings/${buildingId}/surveys?from=0000-01-01` }, path: "from", reason: /1900 and 2200/ },
+    ];
+    for (const { req, path, reason } of cases) {
+      const res = await inject(app, req as never);
+      expect(res.statusCode, `${req.method} ${req.url}`).toBe(400);
+      const errors = res.json().errors as { path: string; message: string }[];
+      expect(errors.map((e) => e.path), `${req.method} ${req.url}`).toContain(path);
+      expect(errors.find((e) => e.path === path)?.message).toMatch(reason);
+    }
+    // the edges are accepted
+    const edge = await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyedAt: "1900-01-01" }) });
+    expect(edge.statusCode).toBe(201);
+    const after = await rowCounts(store);
+    expect(after.surveys).toBe((before.surveys ?? 0) + 1);
+  });
+});

@@ -15,7 +15,7 @@ import { buildingBody } from "../store/fixtures.js";
 const run = promisify(execFile);
 const root = fileURLToPath(new URL("../../", import.meta.url));
 const keysCli = (path: string, args: string[], env: Record<string, string> = { DATABASE_PATH: path }) =>
-  run(process.execPath, ["--import", "tsx", "scripts/keys.ts", ...args], { cwd: root, env: { ...process.env, ...env } });
+  run(process.execPath, ["--import", "tsx", "src/tools/keys.ts", ...args], { cwd: root, env: { ...process.env, ...env } });
 
 describe("bootstrap key", () => {
   it("generates one admin key on a database without keys, hands it over once, and not again on the next start", async () => {

@@ -30,7 +30,7 @@ describe("backup", () => {
   it("npm run backup -- <file> prints the written file", async () => {
     const { app, path } = await makeStoreApp({ DEMO_DATA: "on" });
     const target = join(tempDir(), "nightly.sqlite");
-    const run = spawnSync(process.execPath, ["--import", "tsx", "scripts/backup.ts", target], {
+    const run = spawnSync(process.execPath, ["--import", "tsx", "src/tools/backup.ts", target], {
       cwd: root,
       env: { ...process.env, DATABASE_PATH: path },
       encoding: "utf8",
@@ -41,7 +41,7 @@ describe("backup", () => {
     const copy = new Database(target, { readonly: true });
     expect((copy.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n).toBe(2);
     copy.close();
-    const usage = spawnSync(process.execPath, ["--import", "tsx", "scripts/backup.ts"], { cwd: root, encoding: "utf8" });
+    const usage = spawnSync(process.execPath, ["--import", "tsx", "src/tools/backup.ts"], { cwd: root, encoding: "utf8" });
     expect(usage.status).toBe(2);
     expect(usage.stderr).toMatch(/usage: npm run backup -- <backup-file>/);
     await app.close();

@@ -16,9 +16,20 @@ import type { SurveyInputs } from "../../store/types.js";
 
 /** Request and response schemas of surveys and their revisions. */
 
-export const isoInstantSchema = z.union([z.iso.date(), z.iso.datetime({ offset: true })], {
-  error: "must be an ISO 8601 date (2024-03-05) or date-time with a zone (2024-03-05T09:30:00Z or …+01:00)",
-});
+/** Years a survey can plausibly carry; also keeps year 0000 (which PostgreSQL's timestamptz refuses) out of both stores. */
+const FIRST_YEAR = 1900;
+const LAST_YEAR = 2200;
+export const isoInstantSchema = z
+  .union([z.iso.date(), z.iso.datetime({ offset: true })], {
+    error: "must be an ISO 8601 date (2024-03-05) or date-time with a zone (2024-03-05T09:30:00Z or …+01:00)",
+  })
+  .refine(
+    (v) => {
+      const year = new Date(v).getUTCFullYear();
+      return year >= FIRST_YEAR && year <= LAST_YEAR;
+    },
+    { error: `must fall between the years ${FIRST_YEAR} and ${LAST_YEAR}` },
+  );
 
 export const surveyInputsSchema = z.strictObject({
   surveyedAt: isoInstantSchema.describe("when the readings were taken"),

@@ -1,13 +1,14 @@
-import { loadConfig, loadEnvFileIfPresent } from "../src/config.js";
-import { backupDatabase } from "../src/store/sqlite/backup.js";
+import { loadConfig, loadEnvFileIfPresent } from "../config.js";
+import { backupDatabase } from "../store/sqlite/backup.js";
 
 /**
- * npm run backup -- <file>: an online copy of DATABASE_PATH, safe while the server runs. SQLite only: for
+ * An online copy of DATABASE_PATH, safe while the server runs: `npm run backup -- <file>` from the sources, or
+ * `node dist/tools/backup.js <file>` compiled (the image carries it; no dev dependency needed). SQLite only: for
  * PostgreSQL (DATABASE_URL set) use pg_dump, as the README says.
  */
 const target = process.argv[2];
 if (!target || target.startsWith("-")) {
-  process.stderr.write("usage: npm run backup -- <backup-file>\n");
+  process.stderr.write("usage: npm run backup -- <backup-file>   (compiled: node dist/tools/backup.js <backup-file>)\n");
   process.exit(2);
 }
 try {

@@ -1,12 +1,13 @@
 import { parseArgs } from "node:util";
-import { issueKey, organisationNamed } from "../src/auth/bootstrap.js";
-import { ROLES, type Role } from "../src/auth/keys.js";
-import { loadConfig, loadEnvFileIfPresent } from "../src/config.js";
-import { openStore, storeLocation } from "../src/store/open.js";
-import { DEFAULT_ORG_ID } from "../src/store/ports.js";
+import { issueKey, organisationNamed } from "../auth/bootstrap.js";
+import { ROLES, type Role } from "../auth/keys.js";
+import { loadConfig, loadEnvFileIfPresent } from "../config.js";
+import { openStore, storeLocation } from "../store/open.js";
+import { DEFAULT_ORG_ID } from "../store/ports.js";
 
 /**
- * npm run keys -- create --role <admin|surveyor|auditor> [--org <name>] [--label <text>]
+ * npm run keys -- create (compiled: node dist/tools/keys.js create …; no dev dependency needed)
+ * --role <admin|surveyor|auditor> [--org <name>] [--label <text>]
  * Works offline on the configured store (DATABASE_URL or DATABASE_PATH; migrated first). --org names an organisation, created when new; without it
  * the key belongs to the first organisation. The key is printed once, alone on the last line; only its hash is stored.
  */
