@@ -1,3 +1,4 @@
+import { clientErrorHandler } from "./http/client-errors.js";
 import { Conflict, FieldRejected, InputRejected, NotFound } from "./application/errors.js";
 import { engineIssuesTo400 } from "./http/validate.js";
 import { randomUUID } from "node:crypto";
@@ -97,6 +98,7 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
     connectionTimeout: config.REQUEST_TIMEOUT_MS,
     routerOptions: { maxParamLength: MAX_PARAM_CHARS },
     frameworkErrors: (error, request, reply) => void routerErrorHandler(error, request, reply),
+    clientErrorHandler,
     genReqId: (req) => {
       const given = req.headers["x-request-id"];
       return typeof given === "string" && /^[\w.:-]{1,128}$/.test(given) ? given : randomUUID();

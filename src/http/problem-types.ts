@@ -96,6 +96,18 @@ export const PROBLEM_TYPES = {
     means: "A segment of the path is longer than any id or name the service uses.",
     todo: "Check the URL: ids are short strings taken from the service's own answers.",
   },
+  "headers-too-large": {
+    title: "Request headers too large",
+    status: "431",
+    means: "The request line and headers together exceed 16 KiB, so the server would not read them. Usually a URL made far too long by a script, or an oversized cookie.",
+    todo: "Check the URL and the headers the client sends: query strings in this API are short.",
+  },
+  "request-timeout": {
+    title: "Request timeout",
+    status: "408",
+    means: "The request was not received in full within the server's time limit: a slow or stalled connection.",
+    todo: "Send the request again; on a poor link, send interval data in smaller uploads.",
+  },
   "unsupported-media-type": {
     title: "Unsupported media type",
     status: "415",

@@ -1,3 +1,4 @@
+import { connect } from "node:net";
 import { readdirSync, readFileSync, statSync } from "node:fs";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -81,6 +82,43 @@ describe("414 URI Too Long and a broken URL", () => {
     expect(r.headers["content-type"]).toMatch(/^application\/problem\+json/);
     expect(r.body).toMatchObject({ status: 400, type: "/problems/bad-request" });
     expect(securityHeadersOf(r.headers)).toEqual(baseline);
+  });
+});
+
+/** One raw HTTP/1.1 exchange: what Node's parser refuses never reaches fastify, nor any HTTP client's checks. */
+async function rawExchange(port: number, head: string): Promise<{ status: number; headers: Record<string, string>; body: string }> {
+  const text = await new Promise<string>((resolve, reject) => {
+    const socket = connect(port, "127.0.0.1", () => socket.write(head));
+    let got = "";
+    socket.setEncoding("utf8");
+    socket.on("data", (d: string) => (got += d));
+    socket.on("end", () => resolve(got));
+    socket.on("error", reject);
+  });
+  const [headText = "", body = ""] = text.split("\r\n\r\n");
+  const [statusLine = "", ...lines] = headText.split("\r\n");
+  const headers = Object.fromEntries(lines.map((l) => [l.slice(0, l.indexOf(":")).toLowerCase(), l.slice(l.indexOf(":") + 1).trim()]));
+  return { status: Number(statusLine.split(" ")[1]), headers, body };
+}
+
+describe("requests Node's HTTP parser refuses", () => {
+  it("answers a request head over 16 KiB (a URL that long) with 431 problem+json and the usual security headers", async () => {
+    const server = await makeStoreApp();
+    try {
+      await server.app.listen({ port: 0, host: "127.0.0.1" });
+      const port = (server.app.server.address() as { port: number }).port;
+      const r = await rawExchange(port, `GET /v1/buildings?q=${"a".repeat(20_000)} HTTP/1.1\r\nHost: x\r\n\r\n`);
+      expect(r.status).toBe(431);
+      expect(r.headers["content-type"]).toMatch(/^application\/problem\+json/);
+      expect(JSON.parse(r.body)).toMatchObject({ status: 431, type: "/problems/headers-too-large", errors: [{ path: "headers" }] });
+      expect(securityHeadersOf(r.headers)).toEqual(baseline);
+      const garbled = await rawExchange(port, "NOT HTTP AT ALL\r\n\r\n");
+      expect(garbled.status).toBe(400);
+      expect(JSON.parse(garbled.body)).toMatchObject({ status: 400, type: "/problems/bad-request" });
+      expect(securityHeadersOf(garbled.headers)).toEqual(baseline);
+    } finally {
+      await server.app.close();
+    }
   });
 });
 
