@@ -1,6 +1,7 @@
 /** Frequency scan of the driving-point impedance |Z(h)|, with its resonance peaks and series dips. */
 import { impedanceExtrema, type ImpedanceDip, type ResonancePeak } from "./extrema.js";
 import { fillImpedanceOhm, type BusModel } from "./network.js";
+import { fillPlannedImpedanceOhm, planScan } from "./scan-fill.js";
 import type { Issue } from "./study-types.js";
 
 export interface ScanOptions {
@@ -64,13 +65,19 @@ export function resolveScanGrid(options?: ScanOptions): ScanGrid {
 /**
  * |Z(h)| on a uniform grid (h_i = from + i·step, not accumulated, so no drift) for plots; the peaks and dips are
  * located on the exact |Z(h)| without the grid (extrema.ts), so they do not depend on the step.
+ * The grid is filled by the one-division loop of scan-fill.ts when its range bound holds for this model and range,
+ * else by the reciprocal-per-term loop; both compute the same |Z(h)|.
  */
 export function scanImpedance(model: BusModel, options?: ScanOptions): ImpedanceScan {
   const grid = resolveScanGrid(options);
-  const ordersH = new Float64Array(grid.points);
-  const impedanceOhm = new Float64Array(grid.points);
-  fillImpedanceOhm(model, grid.fromOrder, grid.stepOrder, ordersH, impedanceOhm);
-  const last = ordersH[grid.points - 1] ?? grid.fromOrder;
+  // One allocation for both series (two views of one buffer): half the allocator and GC work per scan.
+  const both = new Float64Array(2 * grid.points);
+  const ordersH = both.subarray(0, grid.points);
+  const impedanceOhm = both.subarray(grid.points);
+  const last = grid.fromOrder + (grid.points - 1) * grid.stepOrder;
+  const plan = planScan(model, grid.fromOrder, last);
+  if (plan) fillPlannedImpedanceOhm(plan, grid.fromOrder, grid.stepOrder, ordersH, impedanceOhm);
+  else fillImpedanceOhm(model, grid.fromOrder, grid.stepOrder, ordersH, impedanceOhm);
   return { grid, ordersH, impedanceOhm, ...impedanceExtrema(model, grid.fromOrder, last) };
 }
 
