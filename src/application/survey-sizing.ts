@@ -1,6 +1,7 @@
 import type { IntervalDemandInput, SizingInput } from "../core/inputs.js";
 import { intervalDemandOf } from "../core/interval/stored-demand.js";
 import { size, type SizingResult } from "../core/pipeline/size.js";
+import type { InputIssue } from "../core/warnings.js";
 import type { BuildingRecord, BuildingSnapshot, IntervalAnalysisRecord, NewRevision, SurveyInputs, SurveySummary } from "../store/types.js";
 import { InputRejected } from "./errors.js";
 import { utcInstantOf } from "./instants.js";
@@ -55,14 +56,12 @@ export interface RevisionMeta {
   at: string;
 }
 
-/**
- * Size the survey with the building's current data (and `analysis`, an interval analysis of the building, when
- * given); implausible readings throw InputRejected.
- */
-export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): NewRevision {
+function sized(building: BuildingRecord, inputs: SurveyInputs, analysis: IntervalAnalysisRecord | undefined) {
   const snapshot = snapshotOf(building, analysis?.id ?? null);
-  const outcome = size(engineInputOf(snapshot, inputs, analysis ? intervalDemandOf(analysis.summary) : undefined));
-  if (!outcome.ok) throw new InputRejected(outcome.issues);
+  return { snapshot, outcome: size(engineInputOf(snapshot, inputs, analysis ? intervalDemandOf(analysis.summary) : undefined)) };
+}
+
+function revisionOf(meta: RevisionMeta, inputs: SurveyInputs, snapshot: BuildingSnapshot, result: SizingResult): NewRevision {
   return {
     surveyId: meta.surveyId,
     n: meta.n,
@@ -70,10 +69,51 @@ export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, 
     createdAt: meta.at,
     actor: meta.actor,
     inputs,
-    result: outcome.result,
-    engineVersion: outcome.result.engineVersion,
+    result,
+    engineVersion: result.engineVersion,
     building: snapshot,
-    summary: summaryOf(outcome.result),
+    summary: summaryOf(result),
     surveyedAtUtc: utcInstantOf(inputs.surveyedAt) ?? inputs.surveyedAt,
   };
+}
+
+/**
+ * Size the survey with the building's current data (and `analysis`, an interval analysis of the building, when
+ * given); implausible readings throw InputRejected.
+ */
+export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): NewRevision {
+  const { snapshot, outcome } = sized(building, inputs, analysis);
+  if (!outcome.ok) throw new InputRejected(outcome.issues);
+  return revisionOf(meta, inputs, snapshot, outcome.result);
+}
+
+/**
+ * A revision whose result is also held as its JSON text. A sized result is some 80 KB of JSON whose serialisation
+ * costs more than the engine: it is serialised once, where it was computed, and that text is what the store writes
+ * and what the answer carries.
+ */
+export type SerializedRevision = NewRevision & { resultJson: string };
+
+/** A SerializedRevision as plain data (what crosses from a worker thread): the text without the object. */
+export type RevisionText = Omit<SerializedRevision, "result">;
+
+export type RevisionSizing = { ok: true; revision: RevisionText } | { ok: false; issues: InputIssue[] };
+
+/** computeRevision as a function of plain data, for a worker thread: the result comes back as JSON text only. */
+export function sizeRevisionAsText(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): RevisionSizing {
+  const { snapshot, outcome } = sized(building, inputs, analysis);
+  if (!outcome.ok) return { ok: false, issues: outcome.issues };
+  const { result, ...rest } = revisionOf(meta, inputs, snapshot, outcome.result);
+  return { ok: true, revision: { ...rest, resultJson: JSON.stringify(result) } };
+}
+
+/**
+ * The revision with `result` parsed from its text on first use only: the SQLite store and the HTTP answer use the
+ * text, so on their path the object is never rebuilt.
+ */
+export function withResultFromText(r: RevisionText): SerializedRevision {
+  let parsed: SizingResult | undefined;
+  const out = { ...r } as SerializedRevision;
+  Object.defineProperty(out, "result", { enumerable: true, get: () => (parsed ??= JSON.parse(r.resultJson) as SizingResult) });
+  return out;
 }

@@ -5,12 +5,12 @@
  * state; moved twice, the caller gets a Conflict.
  */
 import { findBuilding } from "./buildings.js";
-import { Conflict, FieldRejected, NotFound } from "./errors.js";
-import { computeRevision } from "./survey-sizing.js";
+import { Conflict, FieldRejected, InputRejected, NotFound } from "./errors.js";
+import { sizeRevisionAsText, withResultFromText, type RevisionMeta, type SerializedRevision } from "./survey-sizing.js";
 import type { Finish, Who, WriteOutcome } from "./write-outcome.js";
 import { newId } from "../store/ids.js";
 import type { Repositories, Store } from "../store/ports.js";
-import type { IntervalAnalysisRecord, NewRevision, SurveyInputs } from "../store/types.js";
+import type { BuildingRecord, IntervalAnalysisRecord, SurveyInputs } from "../store/types.js";
 
 /** How many times a write sized against a state that moved is sized again before the caller is told. */
 const SIZING_ATTEMPTS = 2;
@@ -27,17 +27,36 @@ export async function analysisFor(repos: Repositories, orgId: string, buildingId
   throw new FieldRejected("intervalAnalysisId", `building ${buildingId} has no interval analysis ${requested}; see GET /v1/buildings/${buildingId}/interval-analyses`);
 }
 
+/**
+ * Sizes a revision (computeRevision's work, the result serialised once): on a worker thread when the HTTP layer
+ * has one, so the event loop only parses, writes and answers; here otherwise. Implausible readings: InputRejected.
+ */
+export type RevisionSizer = (building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord) => Promise<SerializedRevision>;
+
+export const sizeHere: RevisionSizer = async (building, inputs, meta, analysis) => {
+  const sized = sizeRevisionAsText(building, inputs, meta, analysis);
+  if (!sized.ok) throw new InputRejected(sized.issues);
+  return withResultFromText(sized.revision);
+};
+
 /** The revision as sized, and what it was sized against: the transaction checks both are still current. */
 interface Sized {
-  revision: NewRevision;
+  revision: SerializedRevision;
   buildingVersion: number;
   analysisId: string | null;
 }
 
-async function sizeAgainst(repos: Repositories, who: Who, buildingId: string, inputs: SurveyInputs, meta: { surveyId: string; n: number; reason: string | null; at: string }): Promise<Sized> {
+async function sizeAgainst(
+  repos: Repositories,
+  sizer: RevisionSizer,
+  who: Who,
+  buildingId: string,
+  inputs: SurveyInputs,
+  meta: { surveyId: string; n: number; reason: string | null; at: string },
+): Promise<Sized> {
   const building = await findBuilding(repos, who.orgId, buildingId);
   const analysis = await analysisFor(repos, who.orgId, buildingId, inputs.intervalAnalysisId);
-  const revision = computeRevision(building, inputs, { ...meta, actor: who.actorId }, analysis);
+  const revision = await sizer(building, inputs, { ...meta, actor: who.actorId }, analysis);
   return { revision, buildingVersion: building.version, analysisId: analysis?.id ?? null };
 }
 
@@ -53,15 +72,22 @@ const movedTwice = (what: string) => new Conflict("changed_meanwhile", `${what} 
 
 export interface RecordedSurvey {
   surveyId: string;
-  revision: NewRevision;
+  revision: SerializedRevision;
   buildingId: string;
 }
 
-export async function recordSurvey(store: Store, who: Who, buildingId: string, inputs: SurveyInputs, finish: Finish<RecordedSurvey>): Promise<WriteOutcome> {
+export async function recordSurvey(
+  store: Store,
+  who: Who,
+  buildingId: string,
+  inputs: SurveyInputs,
+  finish: Finish<RecordedSurvey>,
+  sizer: RevisionSizer = sizeHere,
+): Promise<WriteOutcome> {
   const surveyId = newId("srv");
   for (let attempt = 1; ; attempt++) {
     const at = store.now().toISOString();
-    const sized = await sizeAgainst(store, who, buildingId, inputs, { surveyId, n: 1, reason: null, at });
+    const sized = await sizeAgainst(store, sizer, who, buildingId, inputs, { surveyId, n: 1, reason: null, at });
     const outcome = await store.transaction(async (tx) => {
       if (!(await stillCurrent(tx, who, buildingId, inputs, sized))) return undefined;
       await tx.surveys.create(who.orgId, buildingId, sized.revision);
@@ -73,12 +99,20 @@ export async function recordSurvey(store: Store, who: Who, buildingId: string, i
   }
 }
 
-export async function reviseSurvey(store: Store, who: Who, surveyId: string, reason: string | null, inputs: SurveyInputs, finish: Finish<RecordedSurvey>): Promise<WriteOutcome> {
+export async function reviseSurvey(
+  store: Store,
+  who: Who,
+  surveyId: string,
+  reason: string | null,
+  inputs: SurveyInputs,
+  finish: Finish<RecordedSurvey>,
+  sizer: RevisionSizer = sizeHere,
+): Promise<WriteOutcome> {
   for (let attempt = 1; ; attempt++) {
     const head = await store.surveys.head(who.orgId, surveyId);
     if (!head) throw new NotFound(`survey ${surveyId}`);
     const at = store.now().toISOString();
-    const sized = await sizeAgainst(store, who, head.buildingId, inputs, { surveyId, n: head.revision + 1, reason, at });
+    const sized = await sizeAgainst(store, sizer, who, head.buildingId, inputs, { surveyId, n: head.revision + 1, reason, at });
     const outcome = await store.transaction(async (tx) => {
       if (!(await stillCurrent(tx, who, head.buildingId, inputs, sized))) return undefined;
       // revise() refuses when revision n - 1 is no longer the latest (another revision committed meanwhile).

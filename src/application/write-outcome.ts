@@ -1,8 +1,17 @@
 import type { Repositories } from "../store/ports.js";
 
+/**
+ * An answer's body already serialised as JSON text: answered and stored under an Idempotency-Key as it is, never
+ * serialised again (a stored survey's answer is mostly its result, whose text the store writes too).
+ */
+export class JsonText {
+  constructor(readonly text: string) {}
+}
+
 /** What a write answers; stored whole under its Idempotency-Key and answered again on a replay. */
 export interface WriteOutcome {
   status: number;
+  /** A value to serialise, or a JsonText. */
   body: unknown;
   location?: string;
 }
@@ -33,3 +42,6 @@ export function finishWith<T>(seal: Seal, answer: (result: T) => WriteOutcome): 
     return outcome;
   };
 }
+
+/** The JSON text of a body: a JsonText's own, else serialised. */
+export const jsonTextOf = (body: unknown): string => (body instanceof JsonText ? body.text : JSON.stringify(body));

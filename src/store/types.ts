@@ -111,6 +111,8 @@ export interface NewRevision {
   actor: string;
   inputs: SurveyInputs;
   result: SizingResult;
+  /** `result` as JSON text, when it was serialised already (where it was computed): stored as it is. */
+  resultJson?: string;
   engineVersion: string;
   building: BuildingSnapshot;
   summary: SurveySummary;
@@ -118,7 +120,7 @@ export interface NewRevision {
   surveyedAtUtc: string;
 }
 
-export interface RevisionRecord extends Omit<NewRevision, "surveyedAtUtc"> {
+export interface RevisionRecord extends Omit<NewRevision, "surveyedAtUtc" | "resultJson"> {
   buildingId: string;
 }
 

@@ -3,7 +3,7 @@ import { auditRepo } from "./audit-repo.js";
 import { surveyResultsRepo } from "./bank-health-repo.js";
 import { buildingsRepo } from "./buildings-repo.js";
 import { enableWal, openDatabase, type Db } from "./database.js";
-import { GroupCommitter } from "./group-commit.js";
+import { GroupCommitter, type GroupCommitStats } from "./group-commit.js";
 import { idempotencyRepo } from "./idempotency-repo.js";
 import { intervalAnalysesRepo } from "./interval-analyses-repo.js";
 import { keysRepo } from "./keys-repo.js";
@@ -25,6 +25,8 @@ export interface SqliteStore extends Store {
   readonly db: Db;
   readonly path: string;
   readonly migration: MigrationReport;
+  /** How many transactions each COMMIT carried so far (group commit). */
+  groupCommitStats(): GroupCommitStats;
 }
 
 /** Each method of a synchronous repository as an async one; `gate` runs first (waits for an open group). */
@@ -100,6 +102,7 @@ export async function openSqliteStore(options: SqliteStoreOptions): Promise<Sqli
     path: options.path,
     migration,
     now,
+    groupCommitStats: () => committer.stats(),
     ...plain,
     transaction: <T>(fn: (tx: Repositories) => Promise<T>) => committer.run(fn),
     // One connection per process and BEGIN IMMEDIATE takes the file's write lock: other processes wait for it.

@@ -152,7 +152,7 @@ export function surveysRepo(db: Db) {
       surveyed_at_utc: r.surveyedAtUtc,
       surveyor: r.inputs.surveyor,
       inputs_json: JSON.stringify(r.inputs),
-      result_json: JSON.stringify(r.result),
+      result_json: r.resultJson ?? JSON.stringify(r.result),
       engine_version: r.engineVersion,
       building_snapshot_json: JSON.stringify(r.building),
       kw: r.summary.kW,
