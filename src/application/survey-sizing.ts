@@ -88,32 +88,38 @@ export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, 
 }
 
 /**
- * A revision whose result is also held as its JSON text. A sized result is some 80 KB of JSON whose serialisation
- * costs more than the engine: it is serialised once, where it was computed, and that text is what the store writes
- * and what the answer carries.
+ * A revision whose result is also held as UTF-8 JSON. A sized result is some 80 KB of JSON whose serialisation
+ * costs more than the engine: it is serialised once, where it was computed, and those bytes are what the store
+ * writes and what the answer carries (bytes, not a string: they cross from a worker thread and go to SQLite and the
+ * socket without being decoded or encoded again).
  */
-export type SerializedRevision = NewRevision & { resultJson: string };
+export type SerializedRevision = NewRevision & { resultUtf8: Uint8Array };
 
-/** A SerializedRevision as plain data (what crosses from a worker thread): the text without the object. */
+/** A SerializedRevision as plain data (what crosses from a worker thread): the bytes without the object. */
 export type RevisionText = Omit<SerializedRevision, "result">;
 
 export type RevisionSizing = { ok: true; revision: RevisionText } | { ok: false; issues: InputIssue[] };
 
-/** computeRevision as a function of plain data, for a worker thread: the result comes back as JSON text only. */
+const utf8 = new TextEncoder();
+
+/** computeRevision as a function of plain data, for a worker thread: the result comes back as UTF-8 JSON only. */
 export function sizeRevisionAsText(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): RevisionSizing {
   const { snapshot, outcome } = sized(building, inputs, analysis);
   if (!outcome.ok) return { ok: false, issues: outcome.issues };
   const { result, ...rest } = revisionOf(meta, inputs, snapshot, outcome.result);
-  return { ok: true, revision: { ...rest, resultJson: JSON.stringify(result) } };
+  return { ok: true, revision: { ...rest, resultUtf8: utf8.encode(JSON.stringify(result)) } };
 }
 
+/** Bytes as a Buffer without copying them (a Buffer crosses threads as a plain Uint8Array). */
+export const bufferOf = (bytes: Uint8Array): Buffer => (Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+
 /**
- * The revision with `result` parsed from its text on first use only: the SQLite store and the HTTP answer use the
- * text, so on their path the object is never rebuilt.
+ * The revision with `result` parsed from its bytes on first use only: the SQLite store and the HTTP answer use the
+ * bytes, so on their path the object is never rebuilt.
  */
 export function withResultFromText(r: RevisionText): SerializedRevision {
   let parsed: SizingResult | undefined;
   const out = { ...r } as SerializedRevision;
-  Object.defineProperty(out, "result", { enumerable: true, get: () => (parsed ??= JSON.parse(r.resultJson) as SizingResult) });
+  Object.defineProperty(out, "result", { enumerable: true, get: () => (parsed ??= JSON.parse(bufferOf(r.resultUtf8).toString("utf8")) as SizingResult) });
   return out;
 }

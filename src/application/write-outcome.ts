@@ -5,7 +5,8 @@ import type { Repositories } from "../store/ports.js";
  * serialised again (a stored survey's answer is mostly its result, whose text the store writes too).
  */
 export class JsonText {
-  constructor(readonly text: string) {}
+  /** JSON text, or the UTF-8 bytes of it. */
+  constructor(readonly json: string | Uint8Array) {}
 }
 
 /** What a write answers; stored whole under its Idempotency-Key and answered again on a replay. */
@@ -44,4 +45,7 @@ export function finishWith<T>(seal: Seal, answer: (result: T) => WriteOutcome): 
 }
 
 /** The JSON text of a body: a JsonText's own, else serialised. */
-export const jsonTextOf = (body: unknown): string => (body instanceof JsonText ? body.text : JSON.stringify(body));
+export function jsonTextOf(body: unknown): string {
+  if (!(body instanceof JsonText)) return JSON.stringify(body);
+  return typeof body.json === "string" ? body.json : Buffer.from(body.json.buffer, body.json.byteOffset, body.json.byteLength).toString("utf8");
+}

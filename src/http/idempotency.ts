@@ -119,7 +119,7 @@ export async function idempotentWrite(
   if (outcome.body instanceof JsonText) {
     // a string with a JSON content type goes out as it is (fastify serialises only objects)
     reply.type("application/json; charset=utf-8");
-    return outcome.body.text;
+    return outcome.body.json;
   }
   return outcome.body;
 }

@@ -47,6 +47,13 @@ describe.skipIf(TEST_STORE_KIND !== "sqlite")("surveys under group commit", () =
       const stored = (await inject(app, `/v1/surveys/${body.id}/revisions/1`)).json();
       expect(stored.result).toEqual(body.result);
     }
+    // the result's bytes from the worker are stored as TEXT, the same text JSON.stringify gives
+    const rows = sqliteStore(store).db.prepare("SELECT typeof(result_json) AS t, result_json AS json FROM survey_revisions").all() as { t: string; json: string }[];
+    expect(rows.length).toBeGreaterThanOrEqual(10);
+    for (const r of rows) {
+      expect(r.t).toBe("text");
+      expect(r.json).toBe(JSON.stringify(JSON.parse(r.json)));
+    }
   });
 
   it("acknowledges none of the surveys whose shared COMMIT failed; every 201 is on disk", async () => {

@@ -2,7 +2,7 @@ import type { FastifyInstance } from "fastify";
 import * as contracts from "../contracts/surveys.js";
 import { z } from "zod";
 import { recordSurvey, reviseSurvey, type RecordedSurvey, type RevisionSizer } from "../../application/surveys.js";
-import { withResultFromText } from "../../application/survey-sizing.js";
+import { bufferOf, withResultFromText } from "../../application/survey-sizing.js";
 import { InputRejected } from "../../application/errors.js";
 import { finishWith, JsonText } from "../../application/write-outcome.js";
 import type { HeavyWork } from "../../heavy-work/pool.js";
@@ -23,13 +23,15 @@ function sizerOn(heavyWork: HeavyWork): RevisionSizer {
   };
 }
 
+const CLOSE = Buffer.from("}");
+
 /**
- * The 201 answer `{ id, revision, buildingId, result }` as JSON text around the result's stored text: the same
+ * The 201 answer `{ id, revision, buildingId, result }` as UTF-8 JSON around the result's stored bytes: the same
  * bytes JSON.stringify would give, without serialising the result a second time.
  */
 function created(s: RecordedSurvey, buildingId: string, location: string) {
-  const head = `{"id":${JSON.stringify(s.surveyId)},"revision":${s.revision.n},"buildingId":${JSON.stringify(buildingId)},"result":`;
-  return { status: 201, body: new JsonText(`${head}${s.revision.resultJson}}`), location };
+  const head = Buffer.from(`{"id":${JSON.stringify(s.surveyId)},"revision":${s.revision.n},"buildingId":${JSON.stringify(buildingId)},"result":`);
+  return { status: 201, body: new JsonText(Buffer.concat([head, bufferOf(s.revision.resultUtf8), CLOSE])), location };
 }
 
 /** Writes of surveys: a new survey, and new revisions of one (nothing is ever changed in place). */

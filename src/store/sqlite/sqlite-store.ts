@@ -91,6 +91,13 @@ export async function openSqliteStore(options: SqliteStoreOptions): Promise<Sqli
   const committer = new GroupCommitter<Repositories>(db, inTx);
   const gate = () => (committer.busy ? committer.idle() : undefined);
   const plain = repositories(sync, gate);
+  // A claim (and its release) is a write of its own, committed before the work: through the committer it shares a
+  // COMMIT, and so an fsync, with the other writes of the moment instead of blocking the event loop for one alone.
+  const claims: Repositories["idempotency"] = {
+    ...plain.idempotency,
+    claim: (...a) => committer.run((tx) => tx.idempotency.claim(...a)),
+    release: (...a) => committer.run((tx) => tx.idempotency.release(...a)),
+  };
   const latestKnown = migration.to;
   const appliedVersion = db.prepare("SELECT coalesce(max(version), 0) AS v FROM schema_migrations");
   let closed = false;
@@ -104,6 +111,7 @@ export async function openSqliteStore(options: SqliteStoreOptions): Promise<Sqli
     now,
     groupCommitStats: () => committer.stats(),
     ...plain,
+    idempotency: claims,
     transaction: <T>(fn: (tx: Repositories) => Promise<T>) => committer.run(fn),
     // One connection per process and BEGIN IMMEDIATE takes the file's write lock: other processes wait for it.
     exclusively: <T>(fn: (tx: Repositories) => Promise<T>) => committer.run(fn),
