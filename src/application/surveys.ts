@@ -28,16 +28,16 @@ export async function analysisFor(repos: Repositories, orgId: string, buildingId
 }
 
 /**
- * Sizes a revision (computeRevision's work, the result serialised once): on a worker thread when the HTTP layer
- * has one, so the event loop only parses, writes and answers; here otherwise. Implausible readings: InputRejected.
+ * computeRevision with the result serialised once, here: the store writes those bytes and the answer carries them.
+ * (Measured on the 2-core bench machine, sizing on the worker pool was slower: results arriving one by one from the
+ * threads formed groups of about two surveys per COMMIT against six or seven here, and the threads competed with
+ * the event loop for the same cores.)
  */
-export type RevisionSizer = (building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord) => Promise<SerializedRevision>;
-
-export const sizeHere: RevisionSizer = async (building, inputs, meta, analysis) => {
+function sizeRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): SerializedRevision {
   const sized = sizeRevisionAsText(building, inputs, meta, analysis);
   if (!sized.ok) throw new InputRejected(sized.issues);
   return withResultFromText(sized.revision);
-};
+}
 
 /** The revision as sized, and what it was sized against: the transaction checks both are still current. */
 interface Sized {
@@ -46,17 +46,10 @@ interface Sized {
   analysisId: string | null;
 }
 
-async function sizeAgainst(
-  repos: Repositories,
-  sizer: RevisionSizer,
-  who: Who,
-  buildingId: string,
-  inputs: SurveyInputs,
-  meta: { surveyId: string; n: number; reason: string | null; at: string },
-): Promise<Sized> {
+async function sizeAgainst(repos: Repositories, who: Who, buildingId: string, inputs: SurveyInputs, meta: { surveyId: string; n: number; reason: string | null; at: string }): Promise<Sized> {
   const building = await findBuilding(repos, who.orgId, buildingId);
   const analysis = await analysisFor(repos, who.orgId, buildingId, inputs.intervalAnalysisId);
-  const revision = await sizer(building, inputs, { ...meta, actor: who.actorId }, analysis);
+  const revision = sizeRevision(building, inputs, { ...meta, actor: who.actorId }, analysis);
   return { revision, buildingVersion: building.version, analysisId: analysis?.id ?? null };
 }
 
@@ -76,18 +69,11 @@ export interface RecordedSurvey {
   buildingId: string;
 }
 
-export async function recordSurvey(
-  store: Store,
-  who: Who,
-  buildingId: string,
-  inputs: SurveyInputs,
-  finish: Finish<RecordedSurvey>,
-  sizer: RevisionSizer = sizeHere,
-): Promise<WriteOutcome> {
+export async function recordSurvey(store: Store, who: Who, buildingId: string, inputs: SurveyInputs, finish: Finish<RecordedSurvey>): Promise<WriteOutcome> {
   const surveyId = newId("srv");
   for (let attempt = 1; ; attempt++) {
     const at = store.now().toISOString();
-    const sized = await sizeAgainst(store, sizer, who, buildingId, inputs, { surveyId, n: 1, reason: null, at });
+    const sized = await sizeAgainst(store, who, buildingId, inputs, { surveyId, n: 1, reason: null, at });
     const outcome = await store.transaction(async (tx) => {
       if (!(await stillCurrent(tx, who, buildingId, inputs, sized))) return undefined;
       await tx.surveys.create(who.orgId, buildingId, sized.revision);
@@ -99,20 +85,12 @@ export async function recordSurvey(
   }
 }
 
-export async function reviseSurvey(
-  store: Store,
-  who: Who,
-  surveyId: string,
-  reason: string | null,
-  inputs: SurveyInputs,
-  finish: Finish<RecordedSurvey>,
-  sizer: RevisionSizer = sizeHere,
-): Promise<WriteOutcome> {
+export async function reviseSurvey(store: Store, who: Who, surveyId: string, reason: string | null, inputs: SurveyInputs, finish: Finish<RecordedSurvey>): Promise<WriteOutcome> {
   for (let attempt = 1; ; attempt++) {
     const head = await store.surveys.head(who.orgId, surveyId);
     if (!head) throw new NotFound(`survey ${surveyId}`);
     const at = store.now().toISOString();
-    const sized = await sizeAgainst(store, sizer, who, head.buildingId, inputs, { surveyId, n: head.revision + 1, reason, at });
+    const sized = await sizeAgainst(store, who, head.buildingId, inputs, { surveyId, n: head.revision + 1, reason, at });
     const outcome = await store.transaction(async (tx) => {
       if (!(await stillCurrent(tx, who, head.buildingId, inputs, sized))) return undefined;
       // revise() refuses when revision n - 1 is no longer the latest (another revision committed meanwhile).

@@ -25,11 +25,6 @@ export interface HeavyWorkOptions {
 
 export interface HeavyWork {
   run<K extends HeavyTaskName>(name: K, payload: HeavyPayload<K>, transfer?: ArrayBuffer[]): Promise<HeavyResult<K>>;
-  /**
-   * Like run, but a task the pool would refuse (its queue full, or no threads) runs inline on the calling thread
-   * instead: for short tasks that the event loop may always afford, moved to threads only to keep it free.
-   */
-  runOrInline<K extends HeavyTaskName>(name: K, payload: HeavyPayload<K>): Promise<HeavyResult<K>>;
   /** Stop the threads (app close). */
   close(): Promise<void>;
 }
@@ -62,20 +57,10 @@ export function createHeavyWork(o: HeavyWorkOptions): HeavyWork {
     });
     return pool;
   };
-  const inline = async (envelope: HeavyEnvelope): Promise<unknown> => (await import("./tasks.js")).runHeavyTask(envelope);
-  const work: HeavyWork = {
-    async runOrInline(name, payload) {
-      if (o.threads === 0 || (pool !== null && pool.queueSize >= o.maxQueue)) return (await inline({ name, payload } as HeavyEnvelope)) as HeavyResult<typeof name>;
-      try {
-        return (await work.run(name, payload)) as HeavyResult<typeof name>;
-      } catch (err) {
-        if (err instanceof ProblemError && err.problem.status === 503) return (await inline({ name, payload } as HeavyEnvelope)) as HeavyResult<typeof name>;
-        throw err;
-      }
-    },
+  return {
     async run(name, payload, transfer) {
       const envelope = { name, payload } as HeavyEnvelope<typeof name>;
-      if (o.threads === 0) return (await inline(envelope)) as HeavyResult<typeof name>;
+      if (o.threads === 0) return (await (await import("./tasks.js")).runHeavyTask(envelope)) as HeavyResult<typeof name>;
       const p = poolOf();
       const full = () => busyProblem(`${p.queueSize} heavy tasks are waiting for a worker thread; the limit is ${o.maxQueue}`, o.retryAfterS);
       if (p.queueSize >= o.maxQueue) throw full();
@@ -93,7 +78,6 @@ export function createHeavyWork(o: HeavyWorkOptions): HeavyWork {
       await p?.destroy();
     },
   };
-  return work;
 }
 
 /** A series' buffers, to move (not copy) to the worker; distinct buffers only. */

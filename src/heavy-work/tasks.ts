@@ -8,15 +8,12 @@ import type { SizingInput } from "../core/inputs.js";
 import type { SizingOptions, SizingOutcome } from "../core/pipeline/size.js";
 import type { InputIssue } from "../core/warnings.js";
 import type { ReportInput } from "../report/types.js";
-import type { RevisionMeta, RevisionSizing } from "../application/survey-sizing.js";
-import type { BuildingRecord, IntervalAnalysisRecord, SurveyInputs } from "../store/types.js";
 import type { IntervalAnalysisTask, IntervalAnswer } from "./interval-task.js";
 
 // Each task loads its modules on first use: a thread that only analyses interval data never loads the PDF
 // renderer and its fonts, and the event loop's thread (which needs none of them when threads run the work) neither.
 const engine = () => import("../core/pipeline/size.js");
 const interval = () => import("./interval-task.js");
-const surveySizing = () => import("../application/survey-sizing.js");
 
 export interface ReportTask {
   input: ReportInput;
@@ -70,13 +67,6 @@ export const HEAVY_TASKS = {
     if (!outcome.ok) return { issues: outcome.issues };
     return renderReport({ input: { inputs: p.inputs, result: outcome.result }, format: p.format, paper: p.paper });
   },
-  /**
-   * A survey's revision sized against the building (and interval analysis) read by the route, its result serialised
-   * to JSON here: the engine and the serialisation (more costly than the engine for an 80 KB result) leave the event
-   * loop, which then only writes the text and answers with it.
-   */
-  surveyRevision: async (p: { building: BuildingRecord; inputs: SurveyInputs; meta: RevisionMeta; analysis?: IntervalAnalysisRecord }): Promise<RevisionSizing> =>
-    (await surveySizing()).sizeRevisionAsText(p.building, p.inputs, p.meta, p.analysis),
   /** Analysis of a parsed interval series: statistics, the controller simulation and the answer. */
   intervalAnalysis: async (p: IntervalAnalysisTask): Promise<IntervalAnswer> => (await interval()).intervalAnswer(p),
 };

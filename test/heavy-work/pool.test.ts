@@ -46,14 +46,6 @@ describe("the heavy-work pool", () => {
     }
   });
 
-  it("runs a task inline instead of refusing it when runOrInline finds the queue full", async () => {
-    pool = createHeavyWork({ threads: 1, maxQueue: 1, retryAfterS: 3 });
-    const results = await Promise.allSettled([1, 2, 3, 4].map(() => pool!.runOrInline("harmonicScan", scanTask)));
-    expect(results.map((r) => r.status)).toEqual(["fulfilled", "fulfilled", "fulfilled", "fulfilled"]);
-    const texts = results.map((r) => Buffer.from((r as PromiseFulfilledResult<Uint8Array>).value).toString("utf8"));
-    expect(new Set(texts).size).toBe(1);
-  });
-
   it("moves a series' distinct buffers", () => {
     const ts = new Float64Array(8);
     const shared = new Float64Array(16);

@@ -1,11 +1,9 @@
 import type { FastifyInstance } from "fastify";
 import * as contracts from "../contracts/surveys.js";
 import { z } from "zod";
-import { recordSurvey, reviseSurvey, type RecordedSurvey, type RevisionSizer } from "../../application/surveys.js";
-import { bufferOf, withResultFromText } from "../../application/survey-sizing.js";
-import { InputRejected } from "../../application/errors.js";
+import { recordSurvey, reviseSurvey, type RecordedSurvey } from "../../application/surveys.js";
+import { bufferOf } from "../../application/survey-sizing.js";
 import { finishWith, JsonText } from "../../application/write-outcome.js";
-import type { HeavyWork } from "../../heavy-work/pool.js";
 import type { Store } from "../../store/ports.js";
 import { whoOf } from "../actor.js";
 import { idempotentWrite } from "../idempotency.js";
@@ -13,15 +11,6 @@ import { revisionInputsSchema, surveyInputsSchema } from "../schemas/surveys.js"
 import { parseOr400 } from "../validate.js";
 
 const idParams = z.object({ id: z.string() });
-
-/** The engine and the result's serialisation on a worker thread (inline when the pool's queue is full). */
-function sizerOn(heavyWork: HeavyWork): RevisionSizer {
-  return async (building, inputs, meta, analysis) => {
-    const sized = await heavyWork.runOrInline("surveyRevision", { building, inputs, meta, ...(analysis ? { analysis } : {}) });
-    if (!sized.ok) throw new InputRejected(sized.issues);
-    return withResultFromText(sized.revision);
-  };
-}
 
 const CLOSE = Buffer.from("}");
 
@@ -37,13 +26,12 @@ function created(s: RecordedSurvey, buildingId: string, location: string) {
 /** Writes of surveys: a new survey, and new revisions of one (nothing is ever changed in place). */
 export async function surveysRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   const { store } = opts;
-  const sizer = sizerOn(app.heavyWork);
 
   app.post("/v1/buildings/:id/surveys", { schema: contracts.createSurvey }, async (request, reply) => {
     const { id: buildingId } = parseOr400(idParams, request.params);
     const inputs = parseOr400(surveyInputsSchema, request.body);
     return idempotentWrite(store, request, reply, (seal) =>
-      recordSurvey(store, whoOf(request), buildingId, inputs, finishWith(seal, (s) => created(s, buildingId, `/v1/surveys/${s.surveyId}`)), sizer),
+      recordSurvey(store, whoOf(request), buildingId, inputs, finishWith(seal, (s) => created(s, buildingId, `/v1/surveys/${s.surveyId}`))),
     );
   });
 
@@ -51,7 +39,7 @@ export async function surveysRoutes(app: FastifyInstance, opts: { store: Store }
     const { id: surveyId } = parseOr400(idParams, request.params);
     const { reason, ...inputs } = parseOr400(revisionInputsSchema, request.body);
     return idempotentWrite(store, request, reply, (seal) =>
-      reviseSurvey(store, whoOf(request), surveyId, reason, inputs, finishWith(seal, (s) => created(s, s.buildingId, `/v1/surveys/${surveyId}/revisions/${s.revision.n}`)), sizer),
+      reviseSurvey(store, whoOf(request), surveyId, reason, inputs, finishWith(seal, (s) => created(s, s.buildingId, `/v1/surveys/${surveyId}/revisions/${s.revision.n}`))),
     );
   });
 }
