@@ -1,7 +1,6 @@
 import type { IntervalDemandInput, SizingInput } from "../core/inputs.js";
 import { intervalDemandOf } from "../core/interval/stored-demand.js";
 import { size, type SizingResult } from "../core/pipeline/size.js";
-import type { InputIssue } from "../core/warnings.js";
 import type { BuildingRecord, BuildingSnapshot, IntervalAnalysisRecord, NewRevision, SurveyInputs, SurveySummary } from "../store/types.js";
 import { InputRejected } from "./errors.js";
 import { utcInstantOf } from "./instants.js";
@@ -89,37 +88,15 @@ export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, 
 
 /**
  * A revision whose result is also held as UTF-8 JSON. A sized result is some 80 KB of JSON whose serialisation
- * costs more than the engine: it is serialised once, where it was computed, and those bytes are what the store
- * writes and what the answer carries (bytes, not a string: they cross from a worker thread and go to SQLite and the
- * socket without being decoded or encoded again).
+ * costs more than the engine: it is serialised once, here, and those bytes are what the store writes and what the
+ * answer carries (bytes, not a string: they go to SQLite and to the socket without being encoded again).
  */
 export type SerializedRevision = NewRevision & { resultUtf8: Uint8Array };
 
-/** A SerializedRevision as plain data (what crosses from a worker thread): the bytes without the object. */
-export type RevisionText = Omit<SerializedRevision, "result">;
-
-export type RevisionSizing = { ok: true; revision: RevisionText } | { ok: false; issues: InputIssue[] };
-
 const utf8 = new TextEncoder();
 
-/** computeRevision as a function of plain data, for a worker thread: the result comes back as UTF-8 JSON only. */
-export function sizeRevisionAsText(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): RevisionSizing {
-  const { snapshot, outcome } = sized(building, inputs, analysis);
-  if (!outcome.ok) return { ok: false, issues: outcome.issues };
-  const { result, ...rest } = revisionOf(meta, inputs, snapshot, outcome.result);
-  return { ok: true, revision: { ...rest, resultUtf8: utf8.encode(JSON.stringify(result)) } };
-}
-
-/** Bytes as a Buffer without copying them (a Buffer crosses threads as a plain Uint8Array). */
-export const bufferOf = (bytes: Uint8Array): Buffer => (Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
-
-/**
- * The revision with `result` parsed from its bytes on first use only: the SQLite store and the HTTP answer use the
- * bytes, so on their path the object is never rebuilt.
- */
-export function withResultFromText(r: RevisionText): SerializedRevision {
-  let parsed: SizingResult | undefined;
-  const out = { ...r } as SerializedRevision;
-  Object.defineProperty(out, "result", { enumerable: true, get: () => (parsed ??= JSON.parse(bufferOf(r.resultUtf8).toString("utf8")) as SizingResult) });
-  return out;
+/** computeRevision, with the result serialised once. */
+export function computeSerializedRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): SerializedRevision {
+  const revision = computeRevision(building, inputs, meta, analysis);
+  return { ...revision, resultUtf8: utf8.encode(JSON.stringify(revision.result)) };
 }

@@ -3,14 +3,19 @@
  * building (and interval analysis) read then; the transaction only checks that neither moved and writes. When one
  * did (a building PATCH or another revision committed meanwhile) the survey is sized once more against the new
  * state; moved twice, the caller gets a Conflict.
+ *
+ * The sizing runs on the event loop, not on the worker pool: measured on the 2-core bench machine, surveys sized on
+ * worker threads came back one by one and formed groups of about two per COMMIT (against six or seven sized here,
+ * src/store/sqlite/group-commit.ts), each group blocking the loop for its fsync, while the threads competed with the
+ * loop for the same cores; stored surveys per second fell by about a third.
  */
 import { findBuilding } from "./buildings.js";
-import { Conflict, FieldRejected, InputRejected, NotFound } from "./errors.js";
-import { sizeRevisionAsText, withResultFromText, type RevisionMeta, type SerializedRevision } from "./survey-sizing.js";
+import { Conflict, FieldRejected, NotFound } from "./errors.js";
+import { computeSerializedRevision, type SerializedRevision } from "./survey-sizing.js";
 import type { Finish, Who, WriteOutcome } from "./write-outcome.js";
 import { newId } from "../store/ids.js";
 import type { Repositories, Store } from "../store/ports.js";
-import type { BuildingRecord, IntervalAnalysisRecord, SurveyInputs } from "../store/types.js";
+import type { IntervalAnalysisRecord, SurveyInputs } from "../store/types.js";
 
 /** How many times a write sized against a state that moved is sized again before the caller is told. */
 const SIZING_ATTEMPTS = 2;
@@ -27,18 +32,6 @@ export async function analysisFor(repos: Repositories, orgId: string, buildingId
   throw new FieldRejected("intervalAnalysisId", `building ${buildingId} has no interval analysis ${requested}; see GET /v1/buildings/${buildingId}/interval-analyses`);
 }
 
-/**
- * computeRevision with the result serialised once, here: the store writes those bytes and the answer carries them.
- * (Measured on the 2-core bench machine, sizing on the worker pool was slower: results arriving one by one from the
- * threads formed groups of about two surveys per COMMIT against six or seven here, and the threads competed with
- * the event loop for the same cores.)
- */
-function sizeRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): SerializedRevision {
-  const sized = sizeRevisionAsText(building, inputs, meta, analysis);
-  if (!sized.ok) throw new InputRejected(sized.issues);
-  return withResultFromText(sized.revision);
-}
-
 /** The revision as sized, and what it was sized against: the transaction checks both are still current. */
 interface Sized {
   revision: SerializedRevision;
@@ -49,7 +42,7 @@ interface Sized {
 async function sizeAgainst(repos: Repositories, who: Who, buildingId: string, inputs: SurveyInputs, meta: { surveyId: string; n: number; reason: string | null; at: string }): Promise<Sized> {
   const building = await findBuilding(repos, who.orgId, buildingId);
   const analysis = await analysisFor(repos, who.orgId, buildingId, inputs.intervalAnalysisId);
-  const revision = sizeRevision(building, inputs, { ...meta, actor: who.actorId }, analysis);
+  const revision = computeSerializedRevision(building, inputs, { ...meta, actor: who.actorId }, analysis);
   return { revision, buildingVersion: building.version, analysisId: analysis?.id ?? null };
 }
 

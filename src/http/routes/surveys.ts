@@ -2,7 +2,6 @@ import type { FastifyInstance } from "fastify";
 import * as contracts from "../contracts/surveys.js";
 import { z } from "zod";
 import { recordSurvey, reviseSurvey, type RecordedSurvey } from "../../application/surveys.js";
-import { bufferOf } from "../../application/survey-sizing.js";
 import { finishWith, JsonText } from "../../application/write-outcome.js";
 import type { Store } from "../../store/ports.js";
 import { whoOf } from "../actor.js";
@@ -20,7 +19,7 @@ const CLOSE = Buffer.from("}");
  */
 function created(s: RecordedSurvey, buildingId: string, location: string) {
   const head = Buffer.from(`{"id":${JSON.stringify(s.surveyId)},"revision":${s.revision.n},"buildingId":${JSON.stringify(buildingId)},"result":`);
-  return { status: 201, body: new JsonText(Buffer.concat([head, bufferOf(s.revision.resultUtf8), CLOSE])), location };
+  return { status: 201, body: new JsonText(Buffer.concat([head, s.revision.resultUtf8, CLOSE])), location };
 }
 
 /** Writes of surveys: a new survey, and new revisions of one (nothing is ever changed in place). */

@@ -100,7 +100,7 @@ function revisionFromRow(r: RevisionRow): RevisionRecord {
 
 export type SurveysRepo = ReturnType<typeof surveysRepo>;
 
-/** Bytes as a Buffer without copying (better-sqlite3 binds Buffers, not plain Uint8Arrays). */
+/** Bytes as a Buffer without copying (better-sqlite3 binds Buffers; a TextEncoder gives a plain Uint8Array). */
 const bufferOf = (b: Uint8Array): Buffer => (Buffer.isBuffer(b) ? b : Buffer.from(b.buffer, b.byteOffset, b.byteLength));
 
 /** Surveys (a head row with the latest revision's summary) and their immutable revisions. */
