@@ -139,6 +139,20 @@ describe("SQLite group commit", () => {
     expect(store.groupCommitStats()).toMatchObject({ groups: 1, transactions: 1 });
   });
 
+  it("commits Idempotency-Key claims made at once in one group, each committed before it is answered", async () => {
+    const claim = (key: string) => store.idempotency.claim(ORG, key, { requestHash: `h-${key}`, createdAt: at }, "1970-01-01T00:00:00.000Z", "1970-01-01T00:00:00.000Z");
+    const outcomes = await Promise.all(["k1", "k2", "k3"].map(claim));
+    expect(outcomes).toEqual([{ kind: "claimed" }, { kind: "claimed" }, { kind: "claimed" }]);
+    expect(execs.filter((s) => s === "COMMIT")).toHaveLength(1);
+    const other = new Database(path, { readonly: true });
+    try {
+      expect((other.prepare("SELECT count(*) AS n FROM idempotency_keys WHERE status IS NULL").get() as { n: number }).n).toBe(3);
+    } finally {
+      other.close();
+    }
+    expect(await claim("k1")).toMatchObject({ kind: "in_flight" });
+  });
+
   it("counts the transactions each COMMIT carried", async () => {
     await Promise.all([1, 2, 3].map((i) => store.transaction((tx) => tx.buildings.create(ORG, `bld_c${i}`, data(`c${i}`), "test", at))));
     await store.transaction((tx) => tx.buildings.create(ORG, "bld_c4", data("c4"), "test", at));
