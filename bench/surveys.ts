@@ -13,6 +13,7 @@ import { newId } from "../src/store/ids.js";
 import { DEFAULT_ORG_ID } from "../src/store/ports.js";
 import { auditRepo } from "../src/store/sqlite/audit-repo.js";
 import { buildingsRepo } from "../src/store/sqlite/buildings-repo.js";
+import type { GroupCommitStats } from "../src/store/sqlite/group-commit.js";
 import { openSqliteStore, sqliteOf } from "../src/store/sqlite/sqlite-store.js";
 import { surveysRepo } from "../src/store/sqlite/surveys-repo.js";
 
@@ -22,11 +23,14 @@ import { surveysRepo } from "../src/store/sqlite/surveys-repo.js";
  * and the raw rate of one better-sqlite3 transaction per survey writing the same rows through the
  * same repositories and pragmas (WAL, synchronous = FULL: one fsync per survey). The goal (issue 16): stored
  * surveys per second over HTTP ≥ that raw ceiling, which only group commit (many surveys per fsync) can reach.
+ * Stored surveys count over the seconds autocannon ran; the notes give how many surveys each COMMIT carried.
  * The older combined ratio http / (1/(1/bare + 1/raw)) is printed beside it.
  */
 
 interface AutocannonResult {
   requests: { average: number };
+  /** Seconds the load actually ran (its worker thread's start-up excluded). */
+  duration: number;
   non2xx: number;
   errors: number;
   timeouts: number;
@@ -97,6 +101,17 @@ async function rawTransactions(dir: string, seconds: number): Promise<number> {
 }
 const surveyOfLoadsParsed = surveyOf20Loads;
 
+/** The COMMITs between two readings of the counts: how many, transactions per COMMIT, and how often each size. */
+function groupsSince(a: GroupCommitStats, b: GroupCommitStats): string {
+  const groups = b.groups - a.groups;
+  if (groups === 0) return "no COMMIT";
+  const sizes = b.bySize
+    .map((n, size) => [size, (n ?? 0) - (a.bySize[size] ?? 0)] as const)
+    .filter(([, n]) => n > 0)
+    .map(([size, n]) => `${size}×${n}`);
+  return `${groups} COMMITs, ${((b.transactions - a.transactions) / groups).toFixed(1)} transactions each on average; sizes ${sizes.join(" ")}`;
+}
+
 /** For the report only: how many times a second the engine alone sizes this survey. */
 function engineRate(seconds: number): number {
   const inputs = parseOr400(surveyInputsSchema, surveyOf20Loads());
@@ -138,12 +153,15 @@ export async function benchSurveys(opts: { seconds: number; connections: number 
     const surveysUrl = `${base}/v1/buildings/${buildingId}/surveys`;
 
     await load(surveysUrl, body, 1, opts.connections); // warm-up
-    const count = () => (sqliteOf(app.store).db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
+    const sqlite = sqliteOf(app.store);
+    const count = () => (sqlite.db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
     const beforeRun = count();
-    const startedMs = performance.now();
+    const groupsBefore = sqlite.groupCommitStats();
     const http = await load(surveysUrl, body, opts.seconds, opts.connections);
-    const storedPerSec = (count() - beforeRun) / ((performance.now() - startedMs) / 1000);
+    // over the seconds autocannon ran: the start-up of its worker thread is no time the server could store in
+    const storedPerSec = (count() - beforeRun) / http.duration;
     const stored = count();
+    const batches = groupsSince(groupsBefore, sqlite.groupCommitStats());
     const bare = await load(`${base}/bench/bare`, body, opts.seconds, opts.connections);
     const rawTxPerSec = await rawTransactions(dir, opts.seconds);
     const engineRps = engineRate(Math.min(2, opts.seconds));
@@ -158,6 +176,7 @@ export async function benchSurveys(opts: { seconds: number; connections: number 
       `surveys: POST /v1/buildings/{id}/surveys, 20 loads, ${opts.connections} connections, ${opts.seconds} s each`,
       `  http (parse + engine + group commit):    ${httpRps.toFixed(0)} req/s, ${storedPerSec.toFixed(0)} surveys stored/s (${stored} in all)`,
       `  bare route (parse only):                 ${bareRps.toFixed(0)} req/s`,
+      `  group commit during the http run:        ${batches}`,
       `  raw better-sqlite3 transaction/survey:   ${rawTxPerSec.toFixed(0)} tx/s (WAL, synchronous=FULL)`,
       `  engine size() alone (for context):       ${engineRps.toFixed(0)} /s`,
       `  ratio http / (1/(1/bare + 1/raw)):        ${ratio.toFixed(2)}`,

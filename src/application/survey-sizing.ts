@@ -55,14 +55,12 @@ export interface RevisionMeta {
   at: string;
 }
 
-/**
- * Size the survey with the building's current data (and `analysis`, an interval analysis of the building, when
- * given); implausible readings throw InputRejected.
- */
-export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): NewRevision {
+function sized(building: BuildingRecord, inputs: SurveyInputs, analysis: IntervalAnalysisRecord | undefined) {
   const snapshot = snapshotOf(building, analysis?.id ?? null);
-  const outcome = size(engineInputOf(snapshot, inputs, analysis ? intervalDemandOf(analysis.summary) : undefined));
-  if (!outcome.ok) throw new InputRejected(outcome.issues);
+  return { snapshot, outcome: size(engineInputOf(snapshot, inputs, analysis ? intervalDemandOf(analysis.summary) : undefined)) };
+}
+
+function revisionOf(meta: RevisionMeta, inputs: SurveyInputs, snapshot: BuildingSnapshot, result: SizingResult): NewRevision {
   return {
     surveyId: meta.surveyId,
     n: meta.n,
@@ -70,10 +68,35 @@ export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, 
     createdAt: meta.at,
     actor: meta.actor,
     inputs,
-    result: outcome.result,
-    engineVersion: outcome.result.engineVersion,
+    result,
+    engineVersion: result.engineVersion,
     building: snapshot,
-    summary: summaryOf(outcome.result),
+    summary: summaryOf(result),
     surveyedAtUtc: utcInstantOf(inputs.surveyedAt) ?? inputs.surveyedAt,
   };
+}
+
+/**
+ * Size the survey with the building's current data (and `analysis`, an interval analysis of the building, when
+ * given); implausible readings throw InputRejected.
+ */
+export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): NewRevision {
+  const { snapshot, outcome } = sized(building, inputs, analysis);
+  if (!outcome.ok) throw new InputRejected(outcome.issues);
+  return revisionOf(meta, inputs, snapshot, outcome.result);
+}
+
+/**
+ * A revision whose result is also held as UTF-8 JSON. A sized result is some 80 KB of JSON whose serialisation
+ * costs more than the engine: it is serialised once, here, and those bytes are what the store writes and what the
+ * answer carries (bytes, not a string: they go to SQLite and to the socket without being encoded again).
+ */
+export type SerializedRevision = NewRevision & { resultUtf8: Uint8Array };
+
+const utf8 = new TextEncoder();
+
+/** computeRevision, with the result serialised once. */
+export function computeSerializedRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): SerializedRevision {
+  const revision = computeRevision(building, inputs, meta, analysis);
+  return { ...revision, resultUtf8: utf8.encode(JSON.stringify(revision.result)) };
 }

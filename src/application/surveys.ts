@@ -3,14 +3,19 @@
  * building (and interval analysis) read then; the transaction only checks that neither moved and writes. When one
  * did (a building PATCH or another revision committed meanwhile) the survey is sized once more against the new
  * state; moved twice, the caller gets a Conflict.
+ *
+ * The sizing runs on the event loop, not on the worker pool: measured on the 2-core bench machine, surveys sized on
+ * worker threads came back one by one and formed groups of about two per COMMIT (against six or seven sized here,
+ * src/store/sqlite/group-commit.ts), each group blocking the loop for its fsync, while the threads competed with the
+ * loop for the same cores; stored surveys per second fell by about a third.
  */
 import { findBuilding } from "./buildings.js";
 import { Conflict, FieldRejected, NotFound } from "./errors.js";
-import { computeRevision } from "./survey-sizing.js";
+import { computeSerializedRevision, type SerializedRevision } from "./survey-sizing.js";
 import type { Finish, Who, WriteOutcome } from "./write-outcome.js";
 import { newId } from "../store/ids.js";
 import type { Repositories, Store } from "../store/ports.js";
-import type { IntervalAnalysisRecord, NewRevision, SurveyInputs } from "../store/types.js";
+import type { IntervalAnalysisRecord, SurveyInputs } from "../store/types.js";
 
 /** How many times a write sized against a state that moved is sized again before the caller is told. */
 const SIZING_ATTEMPTS = 2;
@@ -29,7 +34,7 @@ export async function analysisFor(repos: Repositories, orgId: string, buildingId
 
 /** The revision as sized, and what it was sized against: the transaction checks both are still current. */
 interface Sized {
-  revision: NewRevision;
+  revision: SerializedRevision;
   buildingVersion: number;
   analysisId: string | null;
 }
@@ -37,7 +42,7 @@ interface Sized {
 async function sizeAgainst(repos: Repositories, who: Who, buildingId: string, inputs: SurveyInputs, meta: { surveyId: string; n: number; reason: string | null; at: string }): Promise<Sized> {
   const building = await findBuilding(repos, who.orgId, buildingId);
   const analysis = await analysisFor(repos, who.orgId, buildingId, inputs.intervalAnalysisId);
-  const revision = computeRevision(building, inputs, { ...meta, actor: who.actorId }, analysis);
+  const revision = computeSerializedRevision(building, inputs, { ...meta, actor: who.actorId }, analysis);
   return { revision, buildingVersion: building.version, analysisId: analysis?.id ?? null };
 }
 
@@ -53,7 +58,7 @@ const movedTwice = (what: string) => new Conflict("changed_meanwhile", `${what} 
 
 export interface RecordedSurvey {
   surveyId: string;
-  revision: NewRevision;
+  revision: SerializedRevision;
   buildingId: string;
 }
 

@@ -1,8 +1,18 @@
 import type { Repositories } from "../store/ports.js";
 
+/**
+ * An answer's body already serialised as JSON text: answered and stored under an Idempotency-Key as it is, never
+ * serialised again (a stored survey's answer is mostly its result, whose text the store writes too).
+ */
+export class JsonText {
+  /** JSON text, or the UTF-8 bytes of it. */
+  constructor(readonly json: string | Uint8Array) {}
+}
+
 /** What a write answers; stored whole under its Idempotency-Key and answered again on a replay. */
 export interface WriteOutcome {
   status: number;
+  /** A value to serialise, or a JsonText. */
   body: unknown;
   location?: string;
 }
@@ -32,4 +42,10 @@ export function finishWith<T>(seal: Seal, answer: (result: T) => WriteOutcome): 
     await seal(tx, outcome);
     return outcome;
   };
+}
+
+/** The JSON text of a body: a JsonText's own, else serialised. */
+export function jsonTextOf(body: unknown): string {
+  if (!(body instanceof JsonText)) return JSON.stringify(body);
+  return typeof body.json === "string" ? body.json : Buffer.from(body.json.buffer, body.json.byteOffset, body.json.byteLength).toString("utf8");
 }

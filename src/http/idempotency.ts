@@ -1,7 +1,7 @@
 import { createHash } from "node:crypto";
 import type { FastifyReply, FastifyRequest } from "fastify";
 import { canonicalJson } from "../application/canonical-json.js";
-import { noSeal, type Seal, type WriteOutcome } from "../application/write-outcome.js";
+import { jsonTextOf, JsonText, noSeal, type Seal, type WriteOutcome } from "../application/write-outcome.js";
 import type { Store } from "../store/ports.js";
 import { problem, ProblemError, validationProblem } from "./problem.js";
 
@@ -95,7 +95,7 @@ export async function idempotentWrite(
     if (claim.kind === "done") {
       if (claim.record.requestHash !== hash) throw reused(key, claim.record.createdAt);
       const r = claim.record;
-      outcome = { status: r.status, body: JSON.parse(r.responseJson) as unknown, ...(r.location ? { location: r.location } : {}), replayed: true };
+      outcome = { status: r.status, body: new JsonText(r.responseJson), ...(r.location ? { location: r.location } : {}), replayed: true };
     } else if (claim.kind === "in_flight") {
       if (claim.claim.requestHash !== hash) throw reused(key, claim.claim.createdAt);
       const message = `a request with Idempotency-Key "${key}" is still being worked; retry after ${IN_FLIGHT_RETRY_AFTER_S} s for its answer`;
@@ -104,7 +104,7 @@ export async function idempotentWrite(
       });
     } else {
       const seal: Seal = (tx, o) =>
-        tx.idempotency.complete(orgId, key, { requestHash: hash, status: o.status, location: o.location ?? null, responseJson: JSON.stringify(o.body), createdAt });
+        tx.idempotency.complete(orgId, key, { requestHash: hash, status: o.status, location: o.location ?? null, responseJson: jsonTextOf(o.body), createdAt });
       try {
         outcome = { ...(await work(seal)), replayed: false };
       } catch (err) {
@@ -116,6 +116,11 @@ export async function idempotentWrite(
   reply.code(outcome.status);
   if (outcome.location) reply.header("location", outcome.location);
   if (key !== undefined) reply.header("idempotent-replayed", String(outcome.replayed));
+  if (outcome.body instanceof JsonText) {
+    // a string with a JSON content type goes out as it is (fastify serialises only objects)
+    reply.type("application/json; charset=utf-8");
+    return outcome.body.json;
+  }
   return outcome.body;
 }
 export { canonicalJson };

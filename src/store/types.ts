@@ -111,6 +111,8 @@ export interface NewRevision {
   actor: string;
   inputs: SurveyInputs;
   result: SizingResult;
+  /** `result` as UTF-8 JSON, when it was serialised already (where it was computed): stored as it is. */
+  resultUtf8?: Uint8Array;
   engineVersion: string;
   building: BuildingSnapshot;
   summary: SurveySummary;
@@ -118,7 +120,7 @@ export interface NewRevision {
   surveyedAtUtc: string;
 }
 
-export interface RevisionRecord extends Omit<NewRevision, "surveyedAtUtc"> {
+export interface RevisionRecord extends Omit<NewRevision, "surveyedAtUtc" | "resultUtf8"> {
   buildingId: string;
 }
 

@@ -106,6 +106,62 @@ describe("SQLite group commit", () => {
     await expect(failing).rejects.toThrow("rolled back");
   });
 
+  it("acknowledges no caller of a group whose COMMIT fails (an I/O error at the fsync): every one is told, nothing is on disk", async () => {
+    const exec = store.db.exec.bind(store.db);
+    let failCommit = true;
+    store.db.exec = (sql: string) => {
+      if (sql === "COMMIT" && failCommit) {
+        failCommit = false;
+        throw Object.assign(new Error("disk I/O error"), { code: "SQLITE_IOERR_FSYNC" });
+      }
+      return exec(sql);
+    };
+    const acknowledged: number[] = [];
+    const outcomes = await Promise.allSettled(
+      Array.from({ length: 6 }, (_, i) =>
+        store
+          .transaction(async (tx) => {
+            await tx.buildings.create(ORG, `bld_f${i}`, data(`lost ${i}`), "test", at);
+            return i;
+          })
+          .then((i) => acknowledged.push(i)),
+      ),
+    );
+    expect(acknowledged).toEqual([]);
+    expect(outcomes.map((o) => o.status)).toEqual(Array(6).fill("rejected"));
+    for (const o of outcomes) expect((o as PromiseRejectedResult).reason).toMatchObject({ message: "disk I/O error" });
+    expect(store.db.inTransaction).toBe(false);
+    expect(namesOnDisk()).toEqual([]);
+    expect(await store.buildings.get(ORG, "bld_f0")).toBeUndefined();
+    // the next group commits as usual
+    await store.transaction((tx) => tx.buildings.create(ORG, "bld_next", data("next"), "test", at));
+    expect(namesOnDisk()).toEqual(["next"]);
+    expect(store.groupCommitStats()).toMatchObject({ groups: 1, transactions: 1 });
+  });
+
+  it("commits Idempotency-Key claims made at once in one group, each committed before it is answered", async () => {
+    const claim = (key: string) => store.idempotency.claim(ORG, key, { requestHash: `h-${key}`, createdAt: at }, "1970-01-01T00:00:00.000Z", "1970-01-01T00:00:00.000Z");
+    const outcomes = await Promise.all(["k1", "k2", "k3"].map(claim));
+    expect(outcomes).toEqual([{ kind: "claimed" }, { kind: "claimed" }, { kind: "claimed" }]);
+    expect(execs.filter((s) => s === "COMMIT")).toHaveLength(1);
+    const other = new Database(path, { readonly: true });
+    try {
+      expect((other.prepare("SELECT count(*) AS n FROM idempotency_keys WHERE status IS NULL").get() as { n: number }).n).toBe(3);
+    } finally {
+      other.close();
+    }
+    expect(await claim("k1")).toMatchObject({ kind: "in_flight" });
+  });
+
+  it("counts the transactions each COMMIT carried", async () => {
+    await Promise.all([1, 2, 3].map((i) => store.transaction((tx) => tx.buildings.create(ORG, `bld_c${i}`, data(`c${i}`), "test", at))));
+    await store.transaction((tx) => tx.buildings.create(ORG, "bld_c4", data("c4"), "test", at));
+    const stats = store.groupCommitStats();
+    expect(stats).toMatchObject({ groups: 2, transactions: 4, largest: 3 });
+    expect(stats.bySize[1]).toBe(1);
+    expect(stats.bySize[3]).toBe(1);
+  });
+
   it("fails every caller of a group whose BEGIN cannot take the write lock, and goes on afterwards", async () => {
     const other = new Database(path);
     other.pragma("busy_timeout = 0");

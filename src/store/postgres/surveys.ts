@@ -34,7 +34,7 @@ export function postgresSurveys(sql: Sql): SurveysRepository {
          engine_version, building_snapshot_json, kw, kvar, kva, displacement_pf, kvar_required, warning_count,
          installed_kvar_in_service, installed_kvar_delivered)
        VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17, $18)`,
-      [orgId, r.surveyId, r.n, r.reason, r.createdAt, r.actor, jsonb(r.inputs), jsonb(r.result), r.engineVersion, jsonb(r.building), s.kW, s.kvar, s.kVA, s.displacementPF, s.kvarRequired, s.warningCount, s.installedKvarInService, s.installedKvarDelivered],
+      [orgId, r.surveyId, r.n, r.reason, r.createdAt, r.actor, jsonb(r.inputs), r.resultUtf8 ? Buffer.from(r.resultUtf8.buffer, r.resultUtf8.byteOffset, r.resultUtf8.byteLength).toString("utf8") : jsonb(r.result), r.engineVersion, jsonb(r.building), s.kW, s.kvar, s.kVA, s.displacementPF, s.kvarRequired, s.warningCount, s.installedKvarInService, s.installedKvarDelivered],
     );
   };
   const range = (q: SurveyRange) => [q.fromUtc ?? null, q.toUtc ?? null];

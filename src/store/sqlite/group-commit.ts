@@ -10,6 +10,18 @@ interface Job<R> {
 /** Most transactions one COMMIT carries; the rest wait for the next. */
 export const MAX_GROUP = 256;
 
+/** What the groups carried so far: how well concurrent writes share a COMMIT (printed by the bench). */
+export interface GroupCommitStats {
+  /** COMMITs run (groups whose BEGIN failed are not counted). */
+  groups: number;
+  /** Transactions those COMMITs carried. */
+  transactions: number;
+  /** The most one COMMIT carried. */
+  largest: number;
+  /** bySize[n]: groups that carried n transactions (index 0 unused). */
+  bySize: number[];
+}
+
 /**
  * Group commit on one better-sqlite3 connection. Transactions asked for while another group runs or commits wait in
  * a queue; the next turn of the event loop runs all of them in one BEGIN IMMEDIATE … COMMIT, each inside its own
@@ -24,11 +36,17 @@ export class GroupCommitter<R> {
   private readonly queue: Job<R>[] = [];
   private scheduled = false;
   private open: Promise<void> | null = null;
+  private readonly counts: GroupCommitStats = { groups: 0, transactions: 0, largest: 0, bySize: [] };
 
   constructor(
     private readonly db: Db,
     private readonly tx: R,
   ) {}
+
+  /** A copy of the counts so far. */
+  stats(): GroupCommitStats {
+    return { ...this.counts, bySize: [...this.counts.bySize] };
+  }
 
   /** True while a group's transaction is open. */
   get busy(): boolean {
@@ -78,6 +96,14 @@ export class GroupCommitter<R> {
     }
   }
 
+  private count(n: number): void {
+    const c = this.counts;
+    c.groups++;
+    c.transactions += n;
+    c.largest = Math.max(c.largest, n);
+    c.bySize[n] = (c.bySize[n] ?? 0) + 1;
+  }
+
   private async commitGroup(jobs: Job<R>[]): Promise<void> {
     const failAll = (error: unknown) => {
       if (this.db.inTransaction) this.db.exec("ROLLBACK");
@@ -112,6 +138,7 @@ export class GroupCommitter<R> {
       failAll(error);
       return;
     }
+    this.count(jobs.length);
     for (const j of jobs) {
       const o = j.outcome;
       if (o?.ok) j.resolve(o.value);

@@ -3,7 +3,7 @@ import { auditRepo } from "./audit-repo.js";
 import { surveyResultsRepo } from "./bank-health-repo.js";
 import { buildingsRepo } from "./buildings-repo.js";
 import { enableWal, openDatabase, type Db } from "./database.js";
-import { GroupCommitter } from "./group-commit.js";
+import { GroupCommitter, type GroupCommitStats } from "./group-commit.js";
 import { idempotencyRepo } from "./idempotency-repo.js";
 import { intervalAnalysesRepo } from "./interval-analyses-repo.js";
 import { keysRepo } from "./keys-repo.js";
@@ -25,6 +25,8 @@ export interface SqliteStore extends Store {
   readonly db: Db;
   readonly path: string;
   readonly migration: MigrationReport;
+  /** How many transactions each COMMIT carried so far (group commit). */
+  groupCommitStats(): GroupCommitStats;
 }
 
 /** Each method of a synchronous repository as an async one; `gate` runs first (waits for an open group). */
@@ -89,6 +91,13 @@ export async function openSqliteStore(options: SqliteStoreOptions): Promise<Sqli
   const committer = new GroupCommitter<Repositories>(db, inTx);
   const gate = () => (committer.busy ? committer.idle() : undefined);
   const plain = repositories(sync, gate);
+  // A claim (and its release) is a write of its own, committed before the work: through the committer it shares a
+  // COMMIT, and so an fsync, with the other writes of the moment instead of blocking the event loop for one alone.
+  const claims: Repositories["idempotency"] = {
+    ...plain.idempotency,
+    claim: (...a) => committer.run((tx) => tx.idempotency.claim(...a)),
+    release: (...a) => committer.run((tx) => tx.idempotency.release(...a)),
+  };
   const latestKnown = migration.to;
   const appliedVersion = db.prepare("SELECT coalesce(max(version), 0) AS v FROM schema_migrations");
   let closed = false;
@@ -100,7 +109,9 @@ export async function openSqliteStore(options: SqliteStoreOptions): Promise<Sqli
     path: options.path,
     migration,
     now,
+    groupCommitStats: () => committer.stats(),
     ...plain,
+    idempotency: claims,
     transaction: <T>(fn: (tx: Repositories) => Promise<T>) => committer.run(fn),
     // One connection per process and BEGIN IMMEDIATE takes the file's write lock: other processes wait for it.
     exclusively: <T>(fn: (tx: Repositories) => Promise<T>) => committer.run(fn),

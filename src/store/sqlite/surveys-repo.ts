@@ -100,6 +100,9 @@ function revisionFromRow(r: RevisionRow): RevisionRecord {
 
 export type SurveysRepo = ReturnType<typeof surveysRepo>;
 
+/** Bytes as a Buffer without copying (better-sqlite3 binds Buffers; a TextEncoder gives a plain Uint8Array). */
+const bufferOf = (b: Uint8Array): Buffer => (Buffer.isBuffer(b) ? b : Buffer.from(b.buffer, b.byteOffset, b.byteLength));
+
 /** Surveys (a head row with the latest revision's summary) and their immutable revisions. */
 export function surveysRepo(db: Db) {
   const insertHead = db.prepare(
@@ -119,7 +122,7 @@ export function surveysRepo(db: Db) {
     `INSERT INTO survey_revisions (org_id, survey_id, n, reason, created_at, actor, inputs_json, result_json,
        engine_version, building_snapshot_json, kw, kvar, kva, displacement_pf, kvar_required, warning_count,
        installed_kvar_in_service, installed_kvar_delivered)
-     VALUES (@org_id, @id, @n, @reason, @created_at, @actor, @inputs_json, @result_json, @engine_version,
+     VALUES (@org_id, @id, @n, @reason, @created_at, @actor, @inputs_json, CAST(@result_json AS TEXT), @engine_version,
        @building_snapshot_json, @kw, @kvar, @kva, @displacement_pf, @kvar_required, @warning_count,
        @installed_kvar_in_service, @installed_kvar_delivered)`,
   );
@@ -152,7 +155,8 @@ export function surveysRepo(db: Db) {
       surveyed_at_utc: r.surveyedAtUtc,
       surveyor: r.inputs.surveyor,
       inputs_json: JSON.stringify(r.inputs),
-      result_json: JSON.stringify(r.result),
+      // bytes bind as a BLOB; the insert's CAST stores them as the TEXT they are (UTF-8, the file's encoding)
+      result_json: r.resultUtf8 ? bufferOf(r.resultUtf8) : JSON.stringify(r.result),
       engine_version: r.engineVersion,
       building_snapshot_json: JSON.stringify(r.building),
       kw: r.summary.kW,
