@@ -1,4 +1,3 @@
-import { isAscii } from "node:buffer";
 import type { Hash } from "node:crypto";
 import type { FatalKind, IntervalParser, ParseOutcome } from "../../core/interval/parser.js";
 import { problem, ProblemError, type Problem } from "../problem.js";
@@ -14,28 +13,19 @@ export function tooLarge(detail: string): ProblemError {
 }
 
 /**
- * Feed a byte stream to the parser chunk by chunk (UTF-8 decoded incrementally; nothing is buffered whole).
- * Throws a 413 problem past maxBytes; stops reading as soon as the parser refuses the upload. `hash`, when given,
- * sees every raw chunk read (the whole upload, when the parser accepts it).
+ * Feed a byte stream to the parser chunk by chunk, as bytes (the parser finds lines and reads rows in them; no
+ * text is decoded per chunk, nothing is buffered whole). Throws a 413 problem past maxBytes; stops reading as soon
+ * as the parser refuses the upload. `hash`, when given, sees every raw chunk read (the whole upload, when the
+ * parser accepts it).
  */
 export async function feedStream(stream: AsyncIterable<Buffer | string>, parser: IntervalParser, maxBytes: number, hash?: Hash): Promise<number> {
-  const decoder = new TextDecoder("utf-8");
-  let ascii = true; // while every chunk so far is ASCII, a chunk is its own latin1 text (no decoder state pending)
   let bytes = 0;
   for await (const chunk of stream) {
     bytes += chunk.length;
     if (bytes > maxBytes) throw tooLarge(`the upload exceeds ${maxBytes} bytes (${maxBytes / 1048576} MiB)`);
     hash?.update(chunk);
-    let text: string;
-    if (typeof chunk === "string") text = chunk;
-    else if (ascii && isAscii(chunk)) text = chunk.toString("latin1");
-    else {
-      ascii = false;
-      text = decoder.decode(chunk, { stream: true });
-    }
-    if (!parser.push(text)) return bytes;
+    if (!(typeof chunk === "string" ? parser.push(chunk) : parser.pushBytes(chunk))) return bytes;
   }
-  parser.push(decoder.decode());
   return bytes;
 }
 
