@@ -217,9 +217,23 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     carryLength += more;
   };
 
+  /** The complete lines of chunk from pos on; returns where the unfinished last line starts. */
+  const readLines = (chunk: Uint8Array, pos: number): number => {
+    const len = chunk.length;
+    while (!fatal) {
+      let nl = pos;
+      while (nl < len && chunk[nl] !== 10) nl++;
+      if (nl === len) break;
+      line(chunk, pos, nl);
+      pos = nl + 1;
+    }
+    return pos;
+  };
+
   const pushBytes = (input: Uint8Array): boolean => {
     if (fatal) return false;
-    let chunk = input;
+    // a plain Uint8Array view (a Buffer is a subclass): the readers then see one kind of array
+    let chunk = input.constructor === Uint8Array ? input : new Uint8Array(input.buffer, input.byteOffset, input.byteLength);
     if (bomPending) {
       // U+FEFF at the start of a UTF-8 stream is a byte-order mark, not text (as a UTF-8 decoder drops it)
       const head = bomHead.length > 0 ? concat(bomHead, chunk) : chunk;
@@ -245,15 +259,8 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
       line(carry, 0, joined);
       pos = nl + 1;
     }
-    const len = chunk.length;
-    while (!fatal) {
-      let nl = pos;
-      while (nl < len && chunk[nl] !== 10) nl++;
-      if (nl === len) break;
-      line(chunk, pos, nl);
-      pos = nl + 1;
-    }
-    if (!fatal && pos < len) keepCarry(chunk, pos);
+    pos = readLines(chunk, pos);
+    if (!fatal && pos < chunk.length) keepCarry(chunk, pos);
     return !fatal;
   };
 
