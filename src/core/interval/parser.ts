@@ -28,7 +28,20 @@ export interface ParseOptions extends ColumnOverrides {
   expectedChars?: number;
   maxBadRowFraction?: number;
   maxReported?: number;
+  /**
+   * Where the column arrays come from and go back to, instead of fresh allocations: the caller's pool. Every array
+   * taken goes back when the parse is done, except those the series holds (the caller gives them back after use).
+   */
+  columnArrays?: ColumnArrays;
 }
+
+/** A source of Float64Arrays of at least a given length, and their return. */
+export interface ColumnArrays {
+  take(length: number): Float64Array;
+  give(array: Float64Array): void;
+}
+
+const FRESH: ColumnArrays = { take: (length) => new Float64Array(length), give: () => {} };
 
 export type FatalKind = "options" | "header" | "line_too_long" | "too_many_rows" | "no_data" | "too_many_bad_rows" | "too_few_intervals";
 
@@ -95,21 +108,24 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   let firstHeaderLine = 0;
   let candidates = 0;
   // The accepted rows, column by column in typed arrays that double as they fill (no object per row).
-  let capacity = 4096;
-  let tsCol = new Float64Array(capacity), kWCol = new Float64Array(capacity), kvarCol = new Float64Array(capacity), lineCol = new Float64Array(capacity);
+  const arrays = options.columnArrays ?? FRESH;
+  let tsCol = arrays.take(4096), kWCol = arrays.take(4096), kvarCol = arrays.take(4096), lineCol = arrays.take(4096);
+  let capacity = Math.min(tsCol.length, kWCol.length, kvarCol.length, lineCol.length);
   let n = 0;
   const grow = (rows: number): void => {
     if (rows <= capacity) return;
     const bigger = (a: Float64Array) => {
-      const b = new Float64Array(rows);
+      if (a.length >= rows) return a;
+      const b = arrays.take(rows);
       b.set(a.subarray(0, n));
+      arrays.give(a);
       return b;
     };
     tsCol = bigger(tsCol);
     kWCol = bigger(kWCol);
     kvarCol = bigger(kvarCol);
     lineCol = bigger(lineCol);
-    capacity = rows;
+    capacity = Math.min(tsCol.length, kWCol.length, kvarCol.length, lineCol.length);
   };
   let prevUtc = Number.NaN;
   let withoutOffset = 0;
@@ -277,7 +293,15 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     return pushBytes(encoder.encode(t));
   };
 
-  return { push, pushBytes, end: () => finish() };
+  /** The columns back to their source, except those the series holds. */
+  const end = (): ParseOutcome => {
+    const out = finish();
+    const held = out.ok ? [out.series.timestampsMs.buffer, out.series.kW.buffer, out.series.kvar.buffer] : [];
+    for (const a of [tsCol, kWCol, kvarCol, lineCol]) if (!held.includes(a.buffer)) arrays.give(a);
+    return out;
+  };
+
+  return { push, pushBytes, end };
 
   function finish(): ParseOutcome {
     if (highSurrogate !== "" && !fatal) pushBytes(encoder.encode(highSurrogate));
