@@ -52,6 +52,73 @@ export function assertSeries(series: IntervalSeries): void {
   for (let i = 1; i < n; i++) if (!((t[i] as number) > (t[i - 1] as number))) throw new RangeError(`timestamps not strictly increasing at index ${i}`);
 }
 
+/** What a histogram pass shows: each interval's needed kvar or PF. */
+const NEEDED = 2, PF = 3;
+
+/**
+ * One pass of a RankHistogram over intervals start…end − 1 (count, or gather after startGathering). The hot loops
+ * live in small functions called many times an analysis: they are compiled once and reused, where loops written one
+ * after another in a long function called once would each be compiled on the fly (on-stack replacement).
+ */
+function feed(h: RankHistogram, gather: boolean, what: number, kW: Float64Array, kvar: Float64Array, n: number, tanTarget: number): void {
+  for (let i = 0; i < n; i++) {
+    const p = kW[i] as number, q = kvar[i] as number;
+    const v = what === NEEDED ? neededKvarAt(p, q, tanTarget) : intervalPF(p, q);
+    if (gather) h.gather(v);
+    else h.count(v);
+  }
+}
+
+function fillGrid(grid: LoadPointGrid, kW: Float64Array, kvar: Float64Array, start: number, end: number): void {
+  for (let i = start; i < end; i++) grid.add(kW[i] as number, kvar[i] as number);
+}
+
+/** Running sums, counts and exact ranges of pass 1. */
+class Pass1 {
+  sumP = 0;
+  sumQ = 0;
+  below = 0;
+  leading = 0;
+  pMin = Infinity;
+  pMax = -Infinity;
+  qMin = Infinity;
+  qMax = -Infinity;
+  needMin = Infinity;
+  needMax = -Infinity;
+  pfMin = Infinity;
+  pfMax = -Infinity;
+}
+
+/** Pass 1 over one month's intervals; returns the month's load-point grid range. */
+function pass1Month(a: Pass1, tally: MonthTally, kW: Float64Array, kvar: Float64Array, start: number, end: number, tanTarget: number): { pMax: number; qMin: number; qMax: number } {
+  let { sumP, sumQ, below, leading, pMin, pMax, qMin, qMax, needMin, needMax, pfMin, pfMax } = a;
+  let mpMax = 0, mqMin = Infinity, mqMax = -Infinity;
+  for (let i = start; i < end; i++) {
+    const p = kW[i] as number, q = kvar[i] as number;
+    const need = q - p * tanTarget;
+    const held = need > 0 ? need : 0; // = neededKvarAt(p, q, tanTarget)
+    if (need > 1e-9) below++; // PF below target ⇔ Q > P·tan(acos target)
+    const f = intervalPF(p, q);
+    if (q < 0) leading++;
+    sumP += p;
+    sumQ += q;
+    if (p < pMin) pMin = p;
+    if (p > pMax) pMax = p;
+    if (q < qMin) qMin = q;
+    if (q > qMax) qMax = q;
+    if (held < needMin) needMin = held;
+    if (held > needMax) needMax = held;
+    if (f < pfMin) pfMin = f;
+    if (f > pfMax) pfMax = f;
+    if (p > mpMax) mpMax = p;
+    if (q < mqMin) mqMin = q;
+    if (q > mqMax) mqMax = q;
+    tally.add(i, p, q);
+  }
+  Object.assign(a, { sumP, sumQ, below, leading, pMin, pMax, qMin, qMax, needMin, needMax, pfMin, pfMax });
+  return { pMax: mpMax, qMin: mqMin, qMax: mqMax };
+}
+
 /**
  * Reactive-demand analysis of a sorted series against a target PF (0 < target ≤ 1). Three passes over the
  * intervals, none of which keeps a value per interval: (1) sums, counts, exact ranges and the months' peaks;
@@ -68,63 +135,27 @@ export function analyseIntervals(series: IntervalSeries, targetPF: number): Inte
   const zone = zoneOfSeries(series);
   const runs = monthRuns(series, zone);
   const tallies = runs.map((run) => new MonthTally(run.start));
-  const monthRanges: { pMax: number; qMin: number; qMax: number }[] = [];
-  let sumP = 0, sumQ = 0, below = 0, leading = 0;
-  let pMin = Infinity, pMax = -Infinity, qMin = Infinity, qMax = -Infinity;
-  let needMin = Infinity, needMax = -Infinity, pfMin = Infinity, pfMax = -Infinity;
-  for (let k = 0; k < runs.length; k++) {
-    const { start, end } = runs[k]!;
-    const tally = tallies[k]!;
-    let mpMax = 0, mqMin = Infinity, mqMax = -Infinity; // the month's load-point grid range
-    for (let i = start; i < end; i++) {
-      const p = kW[i] as number, q = kvar[i] as number;
-      const need = q - p * tanTarget;
-      const held = need > 0 ? need : 0; // = neededKvarAt(p, q, tanTarget)
-      if (need > 1e-9) below++; // PF below target ⇔ Q > P·tan(acos target)
-      const f = intervalPF(p, q);
-      if (q < 0) leading++;
-      sumP += p;
-      sumQ += q;
-      if (p < pMin) pMin = p;
-      if (p > pMax) pMax = p;
-      if (q < qMin) qMin = q;
-      if (q > qMax) qMax = q;
-      if (held < needMin) needMin = held;
-      if (held > needMax) needMax = held;
-      if (f < pfMin) pfMin = f;
-      if (f > pfMax) pfMax = f;
-      if (p > mpMax) mpMax = p;
-      if (q < mqMin) mqMin = q;
-      if (q > mqMax) mqMax = q;
-      tally.add(i, p, q);
-    }
-    monthRanges.push({ pMax: mpMax, qMin: mqMin, qMax: mqMax });
-  }
+  const a = new Pass1();
+  const monthRanges = runs.map((run, k) => pass1Month(a, tallies[k]!, kW, kvar, run.start, run.end, tanTarget));
+  const { sumP, sumQ, below, leading, pMax, qMin, qMax } = a;
   const std = percentileRanks(n);
-  const kWAt = new RankHistogram(n, std, { min: pMin, max: pMax });
+  const kWAt = new RankHistogram(n, std, { min: a.pMin, max: pMax });
   const kvarAt = new RankHistogram(n, durationCurveRanks(n), { min: qMin, max: qMax });
-  const neededAt = new RankHistogram(n, std, { min: needMin, max: needMax });
-  const pfAt = new RankHistogram(n, std, { min: pfMin, max: pfMax });
+  const neededAt = new RankHistogram(n, std, { min: a.needMin, max: a.needMax });
+  const pfAt = new RankHistogram(n, std, { min: a.pfMin, max: a.pfMax });
   const grid = new LoadPointGrid(LOAD_POINT_KW_BINS, LOAD_POINT_KVAR_BINS, pMax > 0 ? pMax : 0, qMin, qMax);
   const monthGrids = monthRanges.map((r) => new LoadPointGrid(MONTH_POINT_KW_BINS, MONTH_POINT_KVAR_BINS, r.pMax, r.qMin, r.qMax));
-  for (let i = 0; i < n; i++) kWAt.count(kW[i] as number);
-  for (let i = 0; i < n; i++) kvarAt.count(kvar[i] as number);
-  for (let i = 0; i < n; i++) neededAt.count(neededKvarAt(kW[i] as number, kvar[i] as number, tanTarget));
-  for (let i = 0; i < n; i++) pfAt.count(intervalPF(kW[i] as number, kvar[i] as number));
-  for (let i = 0; i < n; i++) grid.add(kW[i] as number, kvar[i] as number);
-  for (let k = 0; k < runs.length; k++) {
-    const { start, end } = runs[k]!;
-    const monthGrid = monthGrids[k]!;
-    for (let i = start; i < end; i++) monthGrid.add(kW[i] as number, kvar[i] as number);
-  }
-  kWAt.startGathering();
-  kvarAt.startGathering();
-  neededAt.startGathering();
-  pfAt.startGathering();
-  for (let i = 0; i < n; i++) kWAt.gather(kW[i] as number);
-  for (let i = 0; i < n; i++) kvarAt.gather(kvar[i] as number);
-  for (let i = 0; i < n; i++) neededAt.gather(neededKvarAt(kW[i] as number, kvar[i] as number, tanTarget));
-  for (let i = 0; i < n; i++) pfAt.gather(intervalPF(kW[i] as number, kvar[i] as number));
+  kWAt.countAll(kW);
+  kvarAt.countAll(kvar);
+  feed(neededAt, false, NEEDED, kW, kvar, n, tanTarget);
+  feed(pfAt, false, PF, kW, kvar, n, tanTarget);
+  fillGrid(grid, kW, kvar, 0, n);
+  runs.forEach((run, k) => fillGrid(monthGrids[k]!, kW, kvar, run.start, run.end));
+  for (const h of [kWAt, kvarAt, neededAt, pfAt]) h.startGathering();
+  kWAt.gatherAll(kW);
+  kvarAt.gatherAll(kvar);
+  feed(neededAt, true, NEEDED, kW, kvar, n, tanTarget);
+  feed(pfAt, true, PF, kW, kvar, n, tanTarget);
   const neededP = labelled(STANDARD_PERCENTILES, neededAt.finish());
   const { curve, percentiles: kvarP } = durationCurveAt(kvarAt.finish()); // CURVE_PERCENTILES include every whole percent
   const monthly = monthlyDemandOf(series, kvar, runs, zone, tallies);

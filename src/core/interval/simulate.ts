@@ -1,6 +1,6 @@
 import { tanPhi } from "../conventions.js";
 import { assertSeries, intervalPF } from "./analyse.js";
-import { CONTROLLER_RULE, createController, DEFAULT_LEADING_LIMIT_PF, type ControllerOptions } from "./controller.js";
+import { CONTROLLER_RULE, createController, DEFAULT_LEADING_LIMIT_PF, type Controller, type ControllerOptions } from "./controller.js";
 import { billingPF, MonthTally, monthlyDemand, monthlyDemandOf, monthRuns, zoneOfSeries } from "./months.js";
 import { labelled, percentileRanks, RankHistogram, STANDARD_PERCENTILES } from "./percentiles.js";
 import type { CapacitorBank, IntervalSeries, Percentiles } from "./series-types.js";
@@ -46,6 +46,72 @@ export interface ControllerSimulation {
   total: { billingPFBefore: number; billingPFAfter: number };
 }
 
+/** The running state and counts of a simulation, carried from month to month. */
+class Run {
+  mask = 0;
+  qMin = Infinity;
+  qMax = -Infinity;
+  pfMin = Infinity;
+  pfMax = -Infinity;
+  belowBefore = 0;
+  belowAfter = 0;
+  leadBefore = 0;
+  leadAfter = 0;
+  beyond = 0;
+  constructor(
+    readonly controller: Controller,
+    readonly masks: Uint16Array,
+    readonly ops: Float64Array,
+    readonly onCount: Float64Array,
+    readonly tanTarget: number,
+    readonly tanLead: number,
+  ) {}
+}
+
+/**
+ * The controller over one month's intervals (the hot loops live in small functions called many times: compiled
+ * once and reused, rather than compiled on the fly inside one long function).
+ */
+function simulateMonth(r: Run, tally: MonthTally, kW: Float64Array, kvar: Float64Array, start: number, end: number): void {
+  const { controller, masks, ops, onCount, tanTarget, tanLead } = r;
+  let { mask, qMin, qMax, pfMin, pfMax, belowBefore, belowAfter, leadBefore, leadAfter, beyond } = r;
+  for (let i = start; i < end; i++) {
+    const p = kW[i] as number, q = kvar[i] as number;
+    const next = controller.decide(p, q, mask);
+    if (next !== mask) {
+      for (let changed = next ^ mask, s = 0; changed; s++, changed >>>= 1) if (changed & 1) ops[s]!++;
+      mask = next;
+    }
+    masks[i] = mask;
+    for (let m = mask, s = 0; m; s++, m >>>= 1) if (m & 1) onCount[s]!++;
+    const qa = q - controller.fixedKvar - controller.switchedKvar(mask);
+    const f = intervalPF(p, qa);
+    if (qa < qMin) qMin = qa;
+    if (qa > qMax) qMax = qa;
+    if (f < pfMin) pfMin = f;
+    if (f > pfMax) pfMax = f;
+    // below target: lagging beyond P·tan(acos target); leading beyond the limit: more than P·tan(acos limit)
+    if (q > p * tanTarget + 1e-9) belowBefore++;
+    if (qa > p * tanTarget + 1e-9) belowAfter++;
+    if (q < -1e-9) leadBefore++;
+    if (qa < -1e-9) leadAfter++;
+    if (qa < -p * tanLead - 1e-9) beyond++;
+    tally.add(i, p, qa);
+  }
+  Object.assign(r, { mask, qMin, qMax, pfMin, pfMax, belowBefore, belowAfter, leadBefore, leadAfter, beyond });
+}
+
+/** One RankHistogram pass over the corrected kvar (pf false) or PF (pf true), recomputed from the kept combinations. */
+function feedCorrected(h: RankHistogram, gather: boolean, pf: boolean, r: Run, kW: Float64Array, kvar: Float64Array, n: number): void {
+  const { controller, masks } = r;
+  for (let i = 0; i < n; i++) {
+    const qa = (kvar[i] as number) - controller.fixedKvar - controller.switchedKvar(masks[i] as number);
+    const v = pf ? intervalPF(kW[i] as number, qa) : qa;
+    if (gather) h.gather(v);
+    else h.count(v);
+  }
+}
+
 /**
  * Simulate an automatic bank on every interval of a sorted series (see CONTROLLER_RULE). The bank starts with
  * all steps off; each change of a step's state is one switching operation. The step combination of each interval
@@ -59,61 +125,23 @@ export function simulateController(series: IntervalSeries, bank: CapacitorBank, 
   const n = series.length;
   const { kW, kvar } = series;
   const nSteps = bank.stepsKvar.length;
-  const masks = new Uint16Array(n); // MAX_STEPS = 16
   const ops = new Float64Array(nSteps);
   const onCount = new Float64Array(nSteps);
-  const tanTarget = tanPhi(targetPF);
-  const tanLead = tanPhi(leadingLimitPF);
+  const r = new Run(controller, new Uint16Array(n) /* MAX_STEPS = 16 */, ops, onCount, tanPhi(targetPF), tanPhi(leadingLimitPF));
   const zone = zoneOfSeries(series);
   const runs = monthRuns(series, zone);
   const tallies = runs.map((run) => new MonthTally(run.start));
-  let mask = 0;
-  let qMin = Infinity, qMax = -Infinity, pfMin = Infinity, pfMax = -Infinity;
-  let belowBefore = 0, belowAfter = 0, leadBefore = 0, leadAfter = 0, beyond = 0;
-  for (let k = 0; k < runs.length; k++) {
-    const { start, end } = runs[k]!;
-    const tally = tallies[k]!;
-    for (let i = start; i < end; i++) {
-      const p = kW[i] as number, q = kvar[i] as number;
-      const next = controller.decide(p, q, mask);
-      if (next !== mask) {
-        for (let changed = next ^ mask, s = 0; changed; s++, changed >>>= 1) if (changed & 1) ops[s]!++;
-        mask = next;
-      }
-      masks[i] = mask;
-      for (let m = mask, s = 0; m; s++, m >>>= 1) if (m & 1) onCount[s]!++;
-      const qa = q - controller.fixedKvar - controller.switchedKvar(mask);
-      const f = intervalPF(p, qa);
-      if (qa < qMin) qMin = qa;
-      if (qa > qMax) qMax = qa;
-      if (f < pfMin) pfMin = f;
-      if (f > pfMax) pfMax = f;
-      // below target: lagging beyond P·tan(acos target); leading beyond the limit: more than P·tan(acos limit)
-      if (q > p * tanTarget + 1e-9) belowBefore++;
-      if (qa > p * tanTarget + 1e-9) belowAfter++;
-      if (q < -1e-9) leadBefore++;
-      if (qa < -1e-9) leadAfter++;
-      if (qa < -p * tanLead - 1e-9) beyond++;
-      tally.add(i, p, qa);
-    }
-  }
+  runs.forEach((run, k) => simulateMonth(r, tallies[k]!, kW, kvar, run.start, run.end));
+  const { belowBefore, belowAfter, leadBefore, leadAfter, beyond } = r;
   const std = percentileRanks(n);
-  const kvarAt = new RankHistogram(n, std, { min: qMin, max: qMax });
-  const pfAt = new RankHistogram(n, std, { min: pfMin, max: pfMax });
-  for (let i = 0; i < n; i++) {
-    const p = kW[i] as number;
-    const qa = (kvar[i] as number) - controller.fixedKvar - controller.switchedKvar(masks[i] as number);
-    kvarAt.count(qa);
-    pfAt.count(intervalPF(p, qa));
-  }
+  const kvarAt = new RankHistogram(n, std, { min: r.qMin, max: r.qMax });
+  const pfAt = new RankHistogram(n, std, { min: r.pfMin, max: r.pfMax });
+  feedCorrected(kvarAt, false, false, r, kW, kvar, n);
+  feedCorrected(pfAt, false, true, r, kW, kvar, n);
   kvarAt.startGathering();
   pfAt.startGathering();
-  for (let i = 0; i < n; i++) {
-    const p = kW[i] as number;
-    const qa = (kvar[i] as number) - controller.fixedKvar - controller.switchedKvar(masks[i] as number);
-    kvarAt.gather(qa);
-    pfAt.gather(intervalPF(p, qa));
-  }
+  feedCorrected(kvarAt, true, false, r, kW, kvar, n);
+  feedCorrected(pfAt, true, true, r, kW, kvar, n);
   const before = monthlyDemand(series, kvar, runs, zone);
   const corrected = monthlyDemandOf(series, null, runs, zone, tallies);
   const monthly = before.map((b, k): MonthlyCorrection => {
