@@ -102,23 +102,33 @@ export class RankHistogram {
 
   /** count() of the first n values of an array (the same, in one tight loop). */
   countAll(values: Float64Array): void {
+    this.countSome(values, this.n);
+  }
+
+  /** gather() of the first n values of an array. */
+  gatherAll(values: Float64Array): void {
+    this.gatherSome(values, this.n);
+  }
+
+  /** count() of values[0, length): a block of the n values, in their order. */
+  countSome(values: Float64Array, length: number): void {
     const counts = this.counts;
     if (counts === null) return;
-    const { min, scale, last, n } = this;
-    for (let i = 0; i < n; i++) {
+    const { min, scale, last } = this;
+    for (let i = 0; i < length; i++) {
       const b = Math.floor(((values[i] as number) - min) * scale);
       counts[b > last ? last : b]!++;
     }
   }
 
-  /** gather() of the first n values of an array. */
-  gatherAll(values: Float64Array): void {
+  /** gather() of values[0, length). */
+  gatherSome(values: Float64Array, length: number): void {
     if (this.counts === null) {
-      for (let i = 0; i < this.n; i++) this.gather(values[i] as number);
+      for (let i = 0; i < length; i++) this.gather(values[i] as number);
       return;
     }
-    const { min, scale, last, n, slot, gathered, fill } = this;
-    for (let i = 0; i < n; i++) {
+    const { min, scale, last, slot, gathered, fill } = this;
+    for (let i = 0; i < length; i++) {
       const v = values[i] as number;
       const bi = Math.floor((v - min) * scale);
       const s = slot[bi > last ? last : bi] as number;

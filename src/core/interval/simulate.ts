@@ -1,5 +1,5 @@
 import { tanPhi } from "../conventions.js";
-import { assertSeries, intervalPF } from "./analyse.js";
+import { assertSeries, BLOCK, intervalPF } from "./analyse.js";
 import { CONTROLLER_RULE, createController, DEFAULT_LEADING_LIMIT_PF, type Controller, type ControllerOptions } from "./controller.js";
 import { billingPF, MonthTally, monthlyDemand, monthlyDemandOf, monthRuns, zoneOfSeries } from "./months.js";
 import { labelled, percentileRanks, RankHistogram, STANDARD_PERCENTILES } from "./percentiles.js";
@@ -102,13 +102,17 @@ function simulateMonth(r: Run, tally: MonthTally, kW: Float64Array, kvar: Float6
 }
 
 /** One RankHistogram pass over the corrected kvar (pf false) or PF (pf true), recomputed from the kept combinations. */
-function feedCorrected(h: RankHistogram, gather: boolean, pf: boolean, r: Run, kW: Float64Array, kvar: Float64Array, n: number): void {
+function feedCorrected(h: RankHistogram, gather: boolean, pf: boolean, r: Run, kW: Float64Array, kvar: Float64Array, n: number, block: Float64Array): void {
   const { controller, masks } = r;
-  for (let i = 0; i < n; i++) {
-    const qa = (kvar[i] as number) - controller.fixedKvar - controller.switchedKvar(masks[i] as number);
-    const v = pf ? intervalPF(kW[i] as number, qa) : qa;
-    if (gather) h.gather(v);
-    else h.count(v);
+  for (let from = 0; from < n; from += BLOCK) {
+    const length = Math.min(BLOCK, n - from);
+    for (let j = 0; j < length; j++) {
+      const i = from + j;
+      const qa = (kvar[i] as number) - controller.fixedKvar - controller.switchedKvar(masks[i] as number);
+      block[j] = pf ? intervalPF(kW[i] as number, qa) : qa;
+    }
+    if (gather) h.gatherSome(block, length);
+    else h.countSome(block, length);
   }
 }
 
@@ -136,12 +140,13 @@ export function simulateController(series: IntervalSeries, bank: CapacitorBank, 
   const std = percentileRanks(n);
   const kvarAt = new RankHistogram(n, std, { min: r.qMin, max: r.qMax });
   const pfAt = new RankHistogram(n, std, { min: r.pfMin, max: r.pfMax });
-  feedCorrected(kvarAt, false, false, r, kW, kvar, n);
-  feedCorrected(pfAt, false, true, r, kW, kvar, n);
+  const block = new Float64Array(BLOCK);
+  feedCorrected(kvarAt, false, false, r, kW, kvar, n, block);
+  feedCorrected(pfAt, false, true, r, kW, kvar, n, block);
   kvarAt.startGathering();
   pfAt.startGathering();
-  feedCorrected(kvarAt, true, false, r, kW, kvar, n);
-  feedCorrected(pfAt, true, true, r, kW, kvar, n);
+  feedCorrected(kvarAt, true, false, r, kW, kvar, n, block);
+  feedCorrected(pfAt, true, true, r, kW, kvar, n, block);
   const before = monthlyDemand(series, kvar, runs, zone);
   const corrected = monthlyDemandOf(series, null, runs, zone, tallies);
   const monthly = before.map((b, k): MonthlyCorrection => {
