@@ -1,8 +1,8 @@
 /**
  * The service alone in its own process, for bench/interval.ts: its peak RSS (VmHWM) is then the server's, apart
  * from the client that generates and sends the file. Reads DATABASE_PATH and PFC_BOOTSTRAP_KEY from the
- * environment, prints "listening <port>" once ready, and closes on SIGTERM. BENCH_SERVER_FROM=dist runs the compiled
- * service (npm run build first), as production does: no TypeScript loader in the process or its worker threads.
+ * environment, prints "listening <port>" once ready, and closes on SIGTERM. The bench starts it for the sources
+ * (through tsx); with BENCH_SERVER_FROM=dist it starts node dist/server.js instead, as production does.
  */
 import type { AddressInfo } from "node:net";
 

@@ -2,13 +2,15 @@
  * POST /v1/interval-analyses end to end with a year of 1-minute data (525,600 rows, ~20 MB), against a bare pass
  * that only reads the same file and splits it into lines. ratio = upload / bare (goal ≤ 3×). The server runs in a
  * child process, so its peak RSS is measured apart from this client's (goal ≤ 250 MB); BENCH_SERVER_FROM=dist
- * runs that server from the compiled dist/ (build first) instead of the sources through tsx.
+ * runs the compiled service (build first) as `npm start` does — node dist/server.js configured by environment, no
+ * TypeScript loader in the process — instead of the sources through tsx (bench/interval-server.ts).
  * Run alone: npx tsx bench/interval.ts
  */
 import { spawn, type ChildProcess } from "node:child_process";
 import { once } from "node:events";
 import { createReadStream, createWriteStream, mkdtempSync, readFileSync, rmSync, statSync } from "node:fs";
-import { request } from "node:http";
+import { createServer, request } from "node:http";
+import type { AddressInfo } from "node:net";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
@@ -79,10 +81,52 @@ function upload(port: number, path: string): Promise<{ status: number; body: str
 
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)] as number;
 
-/** The server in a child process (bench/interval-server.ts, through tsx's loader like the rest of the bench). */
+/** A TCP port free on the loopback now (the dist server is given its port, as in production). */
+async function freePort(): Promise<number> {
+  const probe = createServer();
+  probe.listen(0, "127.0.0.1");
+  await once(probe, "listening");
+  const port = (probe.address() as AddressInfo).port;
+  probe.close();
+  await once(probe, "close");
+  return port;
+}
+
+/** GET /health until it answers 200 (the dist server prints nothing when ready). */
+async function healthy(port: number, child: ChildProcess): Promise<void> {
+  for (let tries = 0; tries < 600; tries++) {
+    if (child.exitCode !== null) throw new Error(`the bench server exited (${child.exitCode}) before listening`);
+    const status = await new Promise<number>((resolve) => {
+      const req = request({ host: "127.0.0.1", port, path: "/health" }, (res) => {
+        res.resume();
+        resolve(res.statusCode ?? 0);
+      });
+      req.on("error", () => resolve(0));
+      req.end();
+    });
+    if (status === 200) return;
+    await new Promise((r) => setTimeout(r, 50));
+  }
+  throw new Error("the bench server did not answer /health within 30 s");
+}
+
+/**
+ * The server in a child process: the sources through tsx's loader (bench/interval-server.ts), like the rest of the
+ * bench, or with BENCH_SERVER_FROM=dist the compiled service as production starts it (node dist/server.js).
+ */
 async function startServer(dir: string): Promise<{ child: ChildProcess; port: number }> {
+  const env = { ...process.env, DATABASE_PATH: join(dir, "bench.sqlite"), PFC_BOOTSTRAP_KEY: BENCH_KEY };
+  if (process.env.BENCH_SERVER_FROM === "dist") {
+    const port = await freePort();
+    const child = spawn(process.execPath, [fileURLToPath(new URL("../dist/server.js", import.meta.url))], {
+      env: { ...env, PORT: String(port), HOST: "127.0.0.1", DEMO_DATA: "off", LOG_LEVEL: "silent", RATE_LIMIT_PER_MINUTE: "10000000" },
+      stdio: ["ignore", "ignore", "inherit"],
+    });
+    await healthy(port, child);
+    return { child, port };
+  }
   const child = spawn(process.execPath, ["--import", "tsx", fileURLToPath(new URL("./interval-server.ts", import.meta.url))], {
-    env: { ...process.env, DATABASE_PATH: join(dir, "bench.sqlite"), PFC_BOOTSTRAP_KEY: BENCH_KEY },
+    env,
     stdio: ["ignore", "pipe", "inherit"],
   });
   let out = "";

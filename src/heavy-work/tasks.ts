@@ -8,7 +8,7 @@ import type { SizingInput } from "../core/inputs.js";
 import type { SizingOptions, SizingOutcome } from "../core/pipeline/size.js";
 import type { InputIssue } from "../core/warnings.js";
 import type { ReportInput } from "../report/types.js";
-import type { IntervalAnalysisTask, IntervalAnswer } from "./interval-task.js";
+import type { IntervalAnalysisTask, IntervalResult } from "./interval-task.js";
 
 // Each task loads its modules on first use: a thread that only analyses interval data never loads the PDF
 // renderer and its fonts, and the event loop's thread (which needs none of them when threads run the work) neither.
@@ -68,7 +68,7 @@ export const HEAVY_TASKS = {
     return renderReport({ input: { inputs: p.inputs, result: outcome.result }, format: p.format, paper: p.paper });
   },
   /** Analysis of a parsed interval series: statistics, the controller simulation and the answer. */
-  intervalAnalysis: async (p: IntervalAnalysisTask): Promise<IntervalAnswer> => (await interval()).intervalAnswer(p),
+  intervalAnalysis: async (p: IntervalAnalysisTask): Promise<IntervalResult> => (await interval()).intervalResult(p),
 };
 
 export type HeavyTaskName = keyof typeof HEAVY_TASKS;

@@ -51,29 +51,29 @@ export function isoWithOffset(utcMs: number, offsetMs: number): string {
 const C0 = 48;
 
 /**
- * The common shape "YYYY-MM-DD[T ]HH:MM[:SS][Z]" read by position, without loops: its wall-clock ms (as if UTC),
- * or NaN when the text is anything else (the general parser then reads or rejects it).
+ * The common shape "YYYY-MM-DD[T ]HH:MM[:SS][Z]" read by position from bytes, without loops: its wall-clock ms
+ * (as if UTC), or NaN when the text is anything else (the general parser then reads or rejects it).
  */
-export function fastIsoWallMs(s: string, p: number, end: number): number {
+export function fastIsoWallMs(b: Uint8Array, p: number, end: number): number {
   const len = end - p;
   if (len !== 16 && len !== 17 && len !== 19 && len !== 20) return Number.NaN;
-  if (s.charCodeAt(p + 4) !== 45 || s.charCodeAt(p + 7) !== 45 || s.charCodeAt(p + 13) !== 58) return Number.NaN;
-  const sep = s.charCodeAt(p + 10);
+  if (b[p + 4] !== 45 || b[p + 7] !== 45 || b[p + 13] !== 58) return Number.NaN;
+  const sep = b[p + 10];
   if (sep !== 84 && sep !== 32) return Number.NaN;
   let second = 0;
   if (len >= 19) {
-    if (s.charCodeAt(p + 16) !== 58) return Number.NaN;
-    second = twoDigits(s, p + 17);
+    if (b[p + 16] !== 58) return Number.NaN;
+    second = twoDigits(b, p + 17);
   }
   if (len === 17 || len === 20) {
-    const z = s.charCodeAt(end - 1);
+    const z = b[end - 1];
     if (z !== 90 && z !== 122) return Number.NaN;
   }
-  const year = twoDigits(s, p) * 100 + twoDigits(s, p + 2);
-  const month = twoDigits(s, p + 5);
-  const day = twoDigits(s, p + 8);
-  const hour = twoDigits(s, p + 11);
-  const minute = twoDigits(s, p + 14);
+  const year = twoDigits(b, p) * 100 + twoDigits(b, p + 2);
+  const month = twoDigits(b, p + 5);
+  const day = twoDigits(b, p + 8);
+  const hour = twoDigits(b, p + 11);
+  const minute = twoDigits(b, p + 14);
   // NaN from a non-digit fails every comparison below
   if (!(month >= 1 && month <= 12 && day >= 1 && day <= daysInMonth(year, month) && hour <= 23 && minute <= 59 && second <= 59)) return Number.NaN;
   const key = (year * 16 + month) * 32 + day;
@@ -88,8 +88,8 @@ let lastDateKey = -1;
 let lastDateDays = 0;
 
 /** Two decimal digits at p as a number, NaN if either is not a digit. */
-function twoDigits(s: string, p: number): number {
-  const a = s.charCodeAt(p) - C0;
-  const b = s.charCodeAt(p + 1) - C0;
-  return (a >>> 0) > 9 || (b >>> 0) > 9 ? Number.NaN : a * 10 + b;
+function twoDigits(b: Uint8Array, p: number): number {
+  const x = (b[p] as number) - C0;
+  const y = (b[p + 1] as number) - C0;
+  return (x >>> 0) > 9 || (y >>> 0) > 9 ? Number.NaN : x * 10 + y;
 }

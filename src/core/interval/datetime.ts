@@ -1,9 +1,11 @@
 /**
- * Allocation-free date-time parsing for interval rows. A parse writes the wall-clock time (as if UTC) and the
- * offset found in the text into the parser object and returns an error code (0 = ok).
+ * Allocation-free date-time parsing for interval rows, on the row's bytes (ASCII; see text-bytes.ts). A parse
+ * writes the wall-clock time (as if UTC) and the offset found in the text into the parser object and returns an
+ * error code (0 = ok). The string forms read the same way (for callers holding text).
  */
 
 import { daysFromCivil, daysInMonth, fastIsoWallMs, MS_PER_DAY, MS_PER_MINUTE } from "./calendar.js";
+import { unitBytes } from "./text-bytes.js";
 
 export { daysFromCivil, isoWithOffset, monthIndexOfDays, monthLabel, MS_PER_DAY, MS_PER_HOUR, MS_PER_MINUTE } from "./calendar.js";
 
@@ -38,6 +40,16 @@ export class TimestampParser {
 
   /** A date with an optional time and offset in s[start, end). */
   parse(s: string, start: number, end: number): number {
+    return this.parseBytes(unitBytes(s), start, end);
+  }
+
+  /** A date with an optional time and offset in s[dStart, dEnd) and a time of day in t[tStart, tEnd). */
+  parseSplit(s: string, dStart: number, dEnd: number, t: string, tStart: number, tEnd: number): number {
+    return this.parseSplitBytes(unitBytes(s), dStart, dEnd, unitBytes(t), tStart, tEnd);
+  }
+
+  /** A date with an optional time and offset in the bytes s[start, end). */
+  parseBytes(s: Uint8Array, start: number, end: number): number {
     const fast = fastIsoWallMs(s, start, end);
     if (!Number.isNaN(fast)) {
       this.wallMs = fast;
@@ -50,10 +62,10 @@ export class TimestampParser {
     if (Number.isNaN(days)) return this.err;
     let timeMs = 0;
     if (this.pos < end) {
-      const c = s.charCodeAt(this.pos);
+      const c = s[this.pos];
       if (c !== 84 && c !== 116 && c !== 32) return TS_SYNTAX; // 'T', 't' or space
       let q = this.pos + 1;
-      while (q < end && s.charCodeAt(q) === 32) q++;
+      while (q < end && s[q] === 32) q++;
       timeMs = this.time(s, q, end);
       if (Number.isNaN(timeMs)) return this.err;
     }
@@ -61,8 +73,8 @@ export class TimestampParser {
     return TS_OK;
   }
 
-  /** A date in one column and a time of day in another. */
-  parseSplit(s: string, dStart: number, dEnd: number, t: string, tStart: number, tEnd: number): number {
+  /** A date in one column and a time of day in another (bytes). */
+  parseSplitBytes(s: Uint8Array, dStart: number, dEnd: number, t: Uint8Array, tStart: number, tEnd: number): number {
     this.offsetMs = Number.NaN;
     const days = this.date(s, dStart, dEnd);
     if (Number.isNaN(days)) return this.err;
@@ -79,11 +91,11 @@ export class TimestampParser {
   }
 
   /** Up to `max` digits at this.pos; their value (−1 when none), their count in this.nDigits. */
-  private digits(s: string, end: number, max: number): number {
+  private digits(s: Uint8Array, end: number, max: number): number {
     let v = 0;
     let n = 0;
     while (this.pos < end && n < max) {
-      const c = s.charCodeAt(this.pos);
+      const c = s[this.pos] as number;
       if (!isDigit(c)) break;
       v = v * 10 + c - C0;
       this.pos++;
@@ -94,16 +106,16 @@ export class TimestampParser {
   }
 
   /** Days since the epoch (NaN on error); leaves this.pos after the date. */
-  private date(s: string, start: number, end: number): number {
+  private date(s: Uint8Array, start: number, end: number): number {
     this.pos = start;
     const a = this.digits(s, end, 4);
     const aLen = this.nDigits;
     if (a < 0 || this.pos >= end) return this.fail(TS_SYNTAX);
-    const sep = s.charCodeAt(this.pos);
+    const sep = s[this.pos] as number;
     if (sep !== 45 && sep !== 47 && sep !== 46) return this.fail(TS_SYNTAX); // '-', '/', '.'
     this.pos++;
     const b = this.digits(s, end, 2);
-    if (b < 0 || this.pos >= end || s.charCodeAt(this.pos) !== sep) return this.fail(TS_SYNTAX);
+    if (b < 0 || this.pos >= end || (s[this.pos] as number) !== sep) return this.fail(TS_SYNTAX);
     this.pos++;
     let year: number;
     let month: number;
@@ -127,26 +139,26 @@ export class TimestampParser {
   }
 
   /** Time of day in ms (24:00 allowed; NaN on error); reads an optional AM/PM and offset. */
-  private time(s: string, start: number, end: number): number {
+  private time(s: Uint8Array, start: number, end: number): number {
     this.pos = start;
     let hour = this.digits(s, end, 2);
-    if (hour < 0 || this.pos >= end || s.charCodeAt(this.pos) !== 58) return this.fail(TS_SYNTAX);
+    if (hour < 0 || this.pos >= end || (s[this.pos] as number) !== 58) return this.fail(TS_SYNTAX);
     this.pos++;
     const minute = this.digits(s, end, 2);
     if (this.nDigits !== 2) return this.fail(TS_SYNTAX);
     let second = 0;
     let ms = 0;
-    if (this.pos < end && s.charCodeAt(this.pos) === 58) {
+    if (this.pos < end && (s[this.pos] as number) === 58) {
       this.pos++;
       second = this.digits(s, end, 2);
       if (this.nDigits !== 2) return this.fail(TS_SYNTAX);
-      const c = this.pos < end ? s.charCodeAt(this.pos) : 0;
+      const c = this.pos < end ? (s[this.pos] as number) : 0;
       if (c === 46 || c === 44) {
         this.pos++;
         let scale = 100;
         const from = this.pos;
-        while (this.pos < end && isDigit(s.charCodeAt(this.pos))) {
-          ms += (s.charCodeAt(this.pos) - C0) * scale;
+        while (this.pos < end && isDigit(s[this.pos] as number)) {
+          ms += ((s[this.pos] as number) - C0) * scale;
           scale /= 10;
           this.pos++;
         }
@@ -154,8 +166,8 @@ export class TimestampParser {
       }
     }
     this.spaces(s, end);
-    if (this.pos + 1 < end && (s.charCodeAt(this.pos + 1) | 32) === 109) {
-      const ap = s.charCodeAt(this.pos) | 32; // 'a' or 'p' before 'm'
+    if (this.pos + 1 < end && ((s[this.pos + 1] as number) | 32) === 109) {
+      const ap = (s[this.pos] as number) | 32; // 'a' or 'p' before 'm'
       if (ap === 97 || ap === 112) {
         if (hour < 1 || hour > 12) return this.fail(TS_RANGE);
         hour = (hour % 12) + (ap === 112 ? 12 : 0);
@@ -172,19 +184,19 @@ export class TimestampParser {
     return ((hour * 60 + minute) * 60 + second) * 1000 + Math.round(ms);
   }
 
-  private spaces(s: string, end: number): void {
-    while (this.pos < end && s.charCodeAt(this.pos) === 32) this.pos++;
+  private spaces(s: Uint8Array, end: number): void {
+    while (this.pos < end && (s[this.pos] as number) === 32) this.pos++;
   }
 
   /** "Z", "UTC", ±hh, ±hhmm or ±hh:mm; sets this.offsetMs. */
-  private offset(s: string, end: number): boolean {
-    const c = s.charCodeAt(this.pos);
+  private offset(s: Uint8Array, end: number): boolean {
+    const c = s[this.pos] as number;
     if (c === 90 || c === 122) {
       this.pos++;
       this.offsetMs = 0;
       return true;
     }
-    if (c === 85 && s.startsWith("UTC", this.pos)) {
+    if (c === 85 && s[this.pos + 1] === 84 && s[this.pos + 2] === 67) { // "UTC"
       this.pos += 3;
       this.offsetMs = 0;
       return true;
@@ -193,9 +205,9 @@ export class TimestampParser {
     this.pos++;
     const hh = this.digits(s, end, 2);
     if (this.nDigits !== 2) return false;
-    if (this.pos < end && s.charCodeAt(this.pos) === 58) this.pos++;
+    if (this.pos < end && (s[this.pos] as number) === 58) this.pos++;
     let mm = 0;
-    if (this.pos < end && isDigit(s.charCodeAt(this.pos))) {
+    if (this.pos < end && isDigit(s[this.pos] as number)) {
       mm = this.digits(s, end, 2);
       if (this.nDigits !== 2) return false;
     }

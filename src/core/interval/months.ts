@@ -65,45 +65,69 @@ const demandCache = new WeakMap<Float64Array, { runs: MonthRun[]; minutes: numbe
 export function monthlyDemand(series: IntervalSeries, kvar: Float64Array, runs: MonthRun[], zone: Zone): MonthlyDemand[] {
   const hit = demandCache.get(kvar);
   if (hit && hit.runs === runs && hit.minutes === series.intervalMinutes) return hit.result.map((m) => ({ ...m }));
-  const result = monthlyDemandOf(series, kvar, runs, zone);
-  if (kvar === series.kvar) demandCache.set(kvar, { runs, minutes: series.intervalMinutes, result: result.map((m) => ({ ...m })) });
-  return result;
+  const tallies = runs.map((run) => {
+    const t = new MonthTally(run.start);
+    for (let i = run.start, end = run.end; i < end; i++) t.add(i, series.kW[i] as number, kvar[i] as number);
+    return t;
+  });
+  return monthlyDemandOf(series, kvar, runs, zone, tallies);
 }
 
-function monthlyDemandOf(series: IntervalSeries, kvar: Float64Array, runs: MonthRun[], zone: Zone): MonthlyDemand[] {
+/**
+ * The months' figures from their tallies (fed with `kvar`); remembered as monthlyDemand's answer when `kvar` is
+ * the series' own.
+ */
+export function monthlyDemandOf(series: IntervalSeries, kvar: Float64Array | null, runs: MonthRun[], zone: Zone, tallies: MonthTally[]): MonthlyDemand[] {
   const hours = series.intervalMinutes / 60;
   const at = (i: number) => {
     const u = series.timestampsMs[i] as number;
     return isoWithOffset(u, zone.offsetMsAt(u));
   };
-  const kWs = series.kW;
-  return runs.map((run) => {
-    let peakKW = -Infinity, peakKWi = run.start, peakKVA = -Infinity, peakKVAi = run.start;
-    let kW = 0, lag = 0, lead = 0;
-    for (let i = run.start, end = run.end; i < end; i++) {
-      const p = kWs[i] as number;
-      const q = kvar[i] as number;
-      const s = Math.sqrt(p * p + q * q); // S = √(P² + Q²)
-      if (p > peakKW) (peakKW = p), (peakKWi = i);
-      if (s > peakKVA) (peakKVA = s), (peakKVAi = i);
-      kW += p;
-      if (q > 0) lag += q;
-      else lead -= q;
-    }
-    const kWh = kW * hours;
+  const result = runs.map((run, k) => (tallies[k] as MonthTally).figures(run, hours, at));
+  if (kvar !== null && kvar === series.kvar) demandCache.set(kvar, { runs, minutes: series.intervalMinutes, result: result.map((m) => ({ ...m })) });
+  return result;
+}
+
+/** One month's running peaks and sums, fed its intervals in time order (kvar as given: measured or corrected). */
+export class MonthTally {
+  private peakKW = -Infinity;
+  private peakKWi: number;
+  private peakKWKvar = 0;
+  private peakKVA = -Infinity;
+  private peakKVAi: number;
+  private kW = 0;
+  private lag = 0;
+  private lead = 0;
+
+  constructor(start: number) {
+    this.peakKWi = start;
+    this.peakKVAi = start;
+  }
+
+  add(i: number, p: number, q: number): void {
+    const s = Math.sqrt(p * p + q * q); // S = √(P² + Q²)
+    if (p > this.peakKW) (this.peakKW = p), (this.peakKWi = i), (this.peakKWKvar = q);
+    if (s > this.peakKVA) (this.peakKVA = s), (this.peakKVAi = i);
+    this.kW += p;
+    if (q > 0) this.lag += q;
+    else this.lead -= q;
+  }
+
+  figures(run: MonthRun, hours: number, at: (i: number) => string): MonthlyDemand {
+    const kWh = this.kW * hours;
     return {
       month: monthLabel(run.monthIndex),
       intervals: run.end - run.start,
-      peakKW,
-      peakKWAt: at(peakKWi),
-      peakKWKvar: kvar[peakKWi] as number,
-      peakKVA,
-      peakKVAAt: at(peakKVAi),
+      peakKW: this.peakKW,
+      peakKWAt: at(this.peakKWi),
+      peakKWKvar: this.peakKWKvar,
+      peakKVA: this.peakKVA,
+      peakKVAAt: at(this.peakKVAi),
       kWh,
-      kvarhLagging: lag * hours,
-      kvarhLeading: lead * hours,
-      billingPF: billingPF(kWh, (lag - lead) * hours),
-      billingPFLaggingOnly: billingPF(kWh, lag * hours),
+      kvarhLagging: this.lag * hours,
+      kvarhLeading: this.lead * hours,
+      billingPF: billingPF(kWh, (this.lag - this.lead) * hours),
+      billingPFLaggingOnly: billingPF(kWh, this.lag * hours),
     };
-  });
+  }
 }

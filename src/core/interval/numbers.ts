@@ -1,5 +1,7 @@
+import { byteText, unitBytes } from "./text-bytes.js";
+
 /**
- * Decimal numbers from a slice of a row, without allocating: digits with an optional sign and one decimal
+ * Decimal numbers from a slice of a row's bytes, without allocating: digits with an optional sign and one decimal
  * separator. Up to 15 significant digits the result is exact (integer mantissa ÷ a power of ten, both exact
  * doubles: one correctly rounded division — Clinger's fast path); anything longer, or with an exponent, falls
  * back to Number().
@@ -8,12 +10,17 @@ const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12,
 
 /** The number in s[start, end) (spaces trimmed), or NaN. `decimalComma` accepts "1,5" for 1.5. */
 export function parseDecimal(s: string, start: number, end: number, decimalComma: boolean): number {
-  while (start < end && s.charCodeAt(start) === 32) start++;
-  while (end > start && s.charCodeAt(end - 1) === 32) end--;
+  return parseDecimalBytes(unitBytes(s), start, end, decimalComma);
+}
+
+/** The number in the bytes b[start, end) (spaces trimmed), or NaN; as parseDecimal. */
+export function parseDecimalBytes(b: Uint8Array, start: number, end: number, decimalComma: boolean): number {
+  while (start < end && b[start] === 32) start++;
+  while (end > start && b[end - 1] === 32) end--;
   if (start === end) return Number.NaN;
   let i = start;
   let negative = false;
-  const first = s.charCodeAt(i);
+  const first = b[i] as number;
   if (first === 45 || first === 43) {
     negative = first === 45;
     i++;
@@ -22,7 +29,7 @@ export function parseDecimal(s: string, start: number, end: number, decimalComma
   let digits = 0;
   let fraction = -1;
   for (; i < end; i++) {
-    const c = s.charCodeAt(i);
+    const c = b[i] as number;
     if (c >= 48 && c <= 57) {
       if (mantissa !== 0 || c !== 48) digits++;
       mantissa = mantissa * 10 + (c - 48);
@@ -30,18 +37,18 @@ export function parseDecimal(s: string, start: number, end: number, decimalComma
     } else if ((c === 46 || (decimalComma && c === 44)) && fraction < 0) {
       fraction = 0;
     } else {
-      return slow(s, start, end, decimalComma);
+      return slow(b, start, end, decimalComma);
     }
   }
   const intDigits = i - start - (negative || first === 43 ? 1 : 0) - (fraction >= 0 ? fraction + 1 : 0);
   if (intDigits === 0 && fraction <= 0) return Number.NaN; // "", ".", "-"
-  if (digits > 15 || fraction > 22) return slow(s, start, end, decimalComma);
+  if (digits > 15 || fraction > 22) return slow(b, start, end, decimalComma);
   const value = fraction > 0 ? mantissa / (POW10[fraction] as number) : mantissa;
   return negative ? -value : value;
 }
 
-function slow(s: string, start: number, end: number, decimalComma: boolean): number {
-  let text = s.slice(start, end);
+function slow(b: Uint8Array, start: number, end: number, decimalComma: boolean): number {
+  let text = byteText(b, start, end); // a byte above 0x7f becomes a character the pattern refuses
   if (decimalComma) text = text.replace(",", ".");
   if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(text)) return Number.NaN;
   const value = Number(text);

@@ -3,6 +3,7 @@ import { isoWithOffset, type DateOrder } from "./datetime.js";
 import { checkSteps, medianStepMinutes, sortAndDedupe, type DuplicateExample, type StepReport } from "./quality.js";
 import { RowDecoder, type SenseOption } from "./rows.js";
 import type { IntervalSeries, RowError } from "./series-types.js";
+import { utf16Length, utf8Text } from "./text-bytes.js";
 import { fixedZone, UTC_ZONE, zoneFor, type Zone } from "./zone.js";
 
 export const DEFAULT_MAX_ROWS = 1_100_000;
@@ -27,7 +28,20 @@ export interface ParseOptions extends ColumnOverrides {
   expectedChars?: number;
   maxBadRowFraction?: number;
   maxReported?: number;
+  /**
+   * Where the column arrays come from and go back to, instead of fresh allocations: the caller's pool. Every array
+   * taken goes back when the parse is done, except those the series holds (the caller gives them back after use).
+   */
+  columnArrays?: ColumnArrays;
 }
+
+/** A source of Float64Arrays of at least a given length, and their return. */
+export interface ColumnArrays {
+  take(length: number): Float64Array;
+  give(array: Float64Array): void;
+}
+
+const FRESH: ColumnArrays = { take: (length) => new Float64Array(length), give: () => {} };
 
 export type FatalKind = "options" | "header" | "line_too_long" | "too_many_rows" | "no_data" | "too_many_bad_rows" | "too_few_intervals";
 
@@ -61,11 +75,19 @@ export type ParseOutcome = { ok: true; series: IntervalSeries; report: ParseRepo
 export interface IntervalParser {
   /** Feed the next piece of text (any split, even mid-line); false once the upload is refused. */
   push(chunk: string): boolean;
+  /**
+   * Feed the next bytes of a UTF-8 upload (any split, even inside a character); false once the upload is refused.
+   * A byte-order mark at the very start is dropped. The bytes are read, not kept: the caller may reuse them.
+   */
+  pushBytes(chunk: Uint8Array): boolean;
   /** No more text: finish the last line and build the series. */
   end(): ParseOutcome;
 }
 
-/** A streaming CSV parser: a state machine over lines (header search, then rows) fed string chunks. */
+/**
+ * A streaming CSV parser: a state machine over lines (header search, then rows) fed byte chunks (or text, which
+ * it encodes as UTF-8). Lines are found and rows decoded in the bytes; no string is made per line.
+ */
 export function createIntervalParser(options: ParseOptions = {}): IntervalParser {
   const maxRows = options.maxRows ?? DEFAULT_MAX_ROWS;
   const maxReported = options.maxReported ?? DEFAULT_MAX_REPORTED;
@@ -86,26 +108,35 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   let firstHeaderLine = 0;
   let candidates = 0;
   // The accepted rows, column by column in typed arrays that double as they fill (no object per row).
-  let capacity = 4096;
-  let tsCol = new Float64Array(capacity), kWCol = new Float64Array(capacity), kvarCol = new Float64Array(capacity), lineCol = new Float64Array(capacity);
+  const arrays = options.columnArrays ?? FRESH;
+  let tsCol = arrays.take(4096), kWCol = arrays.take(4096), kvarCol = arrays.take(4096), lineCol = arrays.take(4096);
+  let capacity = Math.min(tsCol.length, kWCol.length, kvarCol.length, lineCol.length);
   let n = 0;
   const grow = (rows: number): void => {
     if (rows <= capacity) return;
     const bigger = (a: Float64Array) => {
-      const b = new Float64Array(rows);
+      if (a.length >= rows) return a;
+      const b = arrays.take(rows);
       b.set(a.subarray(0, n));
+      arrays.give(a);
       return b;
     };
     tsCol = bigger(tsCol);
     kWCol = bigger(kWCol);
     kvarCol = bigger(kvarCol);
     lineCol = bigger(lineCol);
-    capacity = rows;
+    capacity = Math.min(tsCol.length, kWCol.length, kvarCol.length, lineCol.length);
   };
   let prevUtc = Number.NaN;
   let withoutOffset = 0;
   let firstOffsetMs = Number.NaN;
-  let carry = "";
+  // The unfinished last line of the chunks so far (bytes, copied: a caller may reuse its buffers).
+  let carry = new Uint8Array(0);
+  let carryLength = 0;
+  let bomPending = true; // a byte upload's first bytes may be a byte-order mark
+  let bomHead = new Uint8Array(0);
+  let highSurrogate = ""; // a text chunk's last code unit when it starts a surrogate pair
+  const encoder = new TextEncoder();
   const fmt = (u: number) => isoWithOffset(u, zone.offsetMsAt(u));
 
   const header = (text: string): void => {
@@ -139,7 +170,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     grow(rows);
   };
 
-  const badRow = (d: RowDecoder, s: string): void => {
+  const badRow = (d: RowDecoder, s: Uint8Array): void => {
     const b = report.badRows;
     b.count++;
     const key = d.errReason.split(/[:(]/)[0]!.trim();
@@ -147,7 +178,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     if (b.first.length < maxReported) {
       const column = d.errColumn >= 0 ? (report.header[d.errColumn] ?? "") : "";
       const e: RowError = { line: report.lines, column, reason: d.errReason };
-      if (d.errColumn >= 0) e.value = s.slice(d.errStart, Math.min(d.errEnd, d.errStart + 40));
+      if (d.errColumn >= 0) e.value = utf8Text(s, d.errStart, d.errEnd).slice(0, 40);
       b.first.push(e);
     }
   };
@@ -156,13 +187,16 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     fatal = { kind: "line_too_long", message: `line ${lineNumber} is longer than ${MAX_LINE_CHARS} characters`, issues: [{ path: `line.${lineNumber}`, message: "line too long" }] };
   };
 
-  const line = (s: string, start: number, end: number): void => {
+  /** Characters (UTF-16 code units, as text would count them) above the limit; bytes count only when all ASCII. */
+  const overLong = (s: Uint8Array, start: number, end: number): boolean => end - start > MAX_LINE_CHARS && utf16Length(s, start, end) > MAX_LINE_CHARS;
+
+  const line = (s: Uint8Array, start: number, end: number): void => {
     report.lines++;
     // The bound holds wherever the line falls in the chunks (a line inside one chunk as well as one across two).
-    if (end - start > MAX_LINE_CHARS) return tooLong(report.lines);
-    if (end > start && s.charCodeAt(end - 1) === 13) end--;
+    if (overLong(s, start, end)) return tooLong(report.lines);
+    if (end > start && s[end - 1] === 13) end--;
     const d = decoder;
-    if (d === null) return header(s.slice(start, end));
+    if (d === null) return header(utf8Text(s, start, end));
     if (start === end) return void report.blankLines++;
     if (report.dataRows < SIZING_ROWS) charsSoFar += end - start + 1;
     if (++report.dataRows > maxRows) {
@@ -188,36 +222,95 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     n++;
   };
 
-  const push = (chunk: string): boolean => {
-    if (fatal) return false;
-    let pos = 0;
-    if (carry !== "") {
-      const nl = chunk.indexOf("\n");
-      if (nl < 0) {
-        carry += chunk;
-        if (carry.length > MAX_LINE_CHARS) tooLong(report.lines + 1);
-        return !fatal;
-      }
-      const joined = carry + chunk.slice(0, nl);
-      carry = "";
-      line(joined, 0, joined.length);
-      pos = nl + 1;
+  const keepCarry = (chunk: Uint8Array, from: number): void => {
+    const more = chunk.length - from;
+    if (carryLength + more > carry.length) {
+      const bigger = new Uint8Array(Math.max(carryLength + more, carry.length * 2, 256));
+      bigger.set(carry.subarray(0, carryLength));
+      carry = bigger;
     }
+    carry.set(chunk.subarray(from), carryLength);
+    carryLength += more;
+  };
+
+  /** The complete lines of chunk from pos on; returns where the unfinished last line starts. */
+  const readLines = (chunk: Uint8Array, pos: number): number => {
+    const len = chunk.length;
     while (!fatal) {
-      const nl = chunk.indexOf("\n", pos);
-      if (nl < 0) break;
+      let nl = pos;
+      while (nl < len && chunk[nl] !== 10) nl++;
+      if (nl === len) break;
       line(chunk, pos, nl);
       pos = nl + 1;
     }
-    carry = pos < chunk.length ? chunk.slice(pos) : "";
+    return pos;
+  };
+
+  const pushBytes = (input: Uint8Array): boolean => {
+    if (fatal) return false;
+    // a plain Uint8Array view (a Buffer is a subclass): the readers then see one kind of array
+    let chunk = input.constructor === Uint8Array ? input : new Uint8Array(input.buffer, input.byteOffset, input.byteLength);
+    if (bomPending) {
+      // U+FEFF at the start of a UTF-8 stream is a byte-order mark, not text (as a UTF-8 decoder drops it)
+      const head = bomHead.length > 0 ? concat(bomHead, chunk) : chunk;
+      if (head.length < 3 && (head.length === 0 || isBomPrefix(head))) {
+        bomHead = Uint8Array.from(head);
+        return true;
+      }
+      bomPending = false;
+      bomHead = new Uint8Array(0);
+      chunk = head.length >= 3 && isBomPrefix(head) ? head.subarray(3) : head;
+    }
+    let pos = 0;
+    if (carryLength > 0) {
+      const nl = chunk.indexOf(10);
+      if (nl < 0) {
+        keepCarry(chunk, 0);
+        if (overLong(carry, 0, carryLength)) tooLong(report.lines + 1);
+        return !fatal;
+      }
+      keepCarry(chunk.subarray(0, nl), 0);
+      const joined = carryLength;
+      carryLength = 0; // the joined line is read before the carry is written again
+      line(carry, 0, joined);
+      pos = nl + 1;
+    }
+    pos = readLines(chunk, pos);
+    if (!fatal && pos < chunk.length) keepCarry(chunk, pos);
     return !fatal;
   };
 
-  return { push, end: () => finish() };
+  /** Text: encoded as UTF-8 (a surrogate pair split between two chunks is joined first). */
+  const push = (text: string): boolean => {
+    bomPending = false; // a BOM in text is a character; the header search drops it
+    let t = highSurrogate + text;
+    highSurrogate = "";
+    const last = t.charCodeAt(t.length - 1);
+    if (last >= 0xd800 && last <= 0xdbff) {
+      highSurrogate = t.slice(-1);
+      t = t.slice(0, -1);
+    }
+    return pushBytes(encoder.encode(t));
+  };
+
+  /** The columns back to their source, except those the series holds. */
+  const end = (): ParseOutcome => {
+    const out = finish();
+    const held = out.ok ? [out.series.timestampsMs.buffer, out.series.kW.buffer, out.series.kvar.buffer] : [];
+    for (const a of [tsCol, kWCol, kvarCol, lineCol]) if (!held.includes(a.buffer)) arrays.give(a);
+    return out;
+  };
+
+  return { push, pushBytes, end };
 
   function finish(): ParseOutcome {
-    if (!fatal && carry !== "") line(carry, 0, carry.length);
-    carry = "";
+    if (highSurrogate !== "" && !fatal) pushBytes(encoder.encode(highSurrogate));
+    if (bomHead.length > 0 && !fatal) {
+      bomPending = false;
+      pushBytes(bomHead); // fewer than three bytes in all: not a byte-order mark
+    }
+    if (!fatal && carryLength > 0) line(carry, 0, carryLength);
+    carryLength = 0;
     const fail = (kind: FatalKind, message: string, issues: MappingIssue[]): ParseOutcome => ({ ok: false, fatal: { kind, message, issues }, report });
     if (fatal) return { ok: false, fatal, report };
     if (decoder === null) {
@@ -260,4 +353,19 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     };
     return { ok: true, series, report };
   }
+}
+
+const BOM = [0xef, 0xbb, 0xbf];
+
+/** The first bytes (up to three) are those of a UTF-8 byte-order mark. */
+function isBomPrefix(b: Uint8Array): boolean {
+  for (let i = 0; i < 3 && i < b.length; i++) if (b[i] !== BOM[i]) return false;
+  return true;
+}
+
+function concat(a: Uint8Array, b: Uint8Array): Uint8Array {
+  const out = new Uint8Array(a.length + b.length);
+  out.set(a);
+  out.set(b, a.length);
+  return out;
 }

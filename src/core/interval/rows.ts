@@ -1,6 +1,6 @@
 import type { ColumnMapping, Delimiter } from "./columns.js";
 import { TimestampParser, TS_REASONS, type DateOrder } from "./datetime.js";
-import { parseDecimal } from "./numbers.js";
+import { parseDecimalBytes } from "./numbers.js";
 import type { Zone } from "./zone.js";
 
 export type SenseOption = "lagging" | "leading";
@@ -21,8 +21,10 @@ export interface RowDecoderOptions {
 }
 
 /**
- * Decodes one data row in place: splits it at the delimiter (double-quoted fields allowed), reads the timestamp
- * and the powers, and leaves either the values (utcMs, kW, kvar) or an error (errColumn, errReason) on the object.
+ * Decodes one data row in place from its bytes (UTF-8; every character read is ASCII, see text-bytes.ts): splits
+ * it at the delimiter (double-quoted fields allowed), reads the timestamp and the powers, and leaves either the
+ * values (utcMs, kW, kvar) or an error (errColumn, errReason, and the cell's byte range errStart–errEnd) on the
+ * object.
  */
 export class RowDecoder {
   utcMs = 0;
@@ -40,7 +42,7 @@ export class RowDecoder {
   private readonly starts: Int32Array;
   private readonly ends: Int32Array;
   readonly ts: TimestampParser;
-  private readonly delim: string;
+  private readonly delim: number;
   private readonly decimalComma: boolean;
 
   constructor(
@@ -51,7 +53,7 @@ export class RowDecoder {
     this.starts = new Int32Array(columnCount);
     this.ends = new Int32Array(columnCount);
     this.ts = new TimestampParser(opts.dateOrder);
-    this.delim = opts.delimiter;
+    this.delim = opts.delimiter.charCodeAt(0);
     this.decimalComma = opts.delimiter !== ",";
   }
 
@@ -66,34 +68,34 @@ export class RowDecoder {
   }
 
   /** Split s[start, end) into fields; false on an unterminated quote. */
-  private split(s: string, start: number, end: number): boolean {
+  private split(s: Uint8Array, start: number, end: number): boolean {
     const delim = this.delim;
     let pos = start;
     let f = 0;
     for (;;) {
       let fs = pos;
       let fe: number;
-      if (pos < end && s.charCodeAt(pos) === 34) {
+      if (pos < end && s[pos] === 34) {
         let q = pos + 1;
         for (;;) {
-          const k = s.indexOf('"', q);
-          if (k < 0 || k >= end) return false;
-          if (k + 1 < end && s.charCodeAt(k + 1) === 34) q = k + 2;
+          let k = q;
+          while (k < end && s[k] !== 34) k++;
+          if (k >= end) return false;
+          if (k + 1 < end && s[k + 1] === 34) q = k + 2;
           else {
             fs = pos + 1;
             fe = k;
             break;
           }
         }
-        const k = s.indexOf(delim, fe + 1);
-        pos = k < 0 || k >= end ? end : k;
+        pos = fe + 1; // anything between the closing quote and the delimiter is dropped
+        while (pos < end && s[pos] !== delim) pos++;
       } else {
-        const k = s.indexOf(delim, pos);
-        pos = k < 0 || k >= end ? end : k;
+        while (pos < end && s[pos] !== delim) pos++;
         fe = pos;
       }
-      while (fs < fe && s.charCodeAt(fs) === 32) fs++;
-      while (fe > fs && s.charCodeAt(fe - 1) === 32) fe--;
+      while (fs < fe && s[fs] === 32) fs++;
+      while (fe > fs && s[fe - 1] === 32) fe--;
       if (f < this.columnCount) {
         this.starts[f] = fs;
         this.ends[f] = fe;
@@ -107,8 +109,8 @@ export class RowDecoder {
   }
 
   /** The number in a column; NaN (with the reason in numberError) when unreadable or implausibly large. */
-  private number(s: string, column: number): number {
-    const v = parseDecimal(s, this.starts[column] as number, this.ends[column] as number, this.decimalComma);
+  private number(s: Uint8Array, column: number): number {
+    const v = parseDecimalBytes(s, this.starts[column] as number, this.ends[column] as number, this.decimalComma);
     if (v <= MAX_ABS_POWER && v >= -MAX_ABS_POWER) return v;
     this.numberError = Number.isNaN(v) ? "unparseable number" : `number out of range (|value| > ${MAX_ABS_POWER})`;
     return Number.NaN;
@@ -116,20 +118,20 @@ export class RowDecoder {
 
 
   /** +1 lagging, −1 leading, 0 when the sense cell is absent or empty, NaN when unrecognised. */
-  private senseSign(s: string): number {
+  private senseSign(s: Uint8Array): number {
     const col = this.map.sense;
     if (col < 0) return 0;
     const a = this.starts[col] as number;
     if (a >= (this.ends[col] as number)) return 0;
-    const c = s.charCodeAt(a) | 32;
-    const c2 = a + 1 < (this.ends[col] as number) ? s.charCodeAt(a + 1) | 32 : 0;
+    const c = (s[a] as number) | 32;
+    const c2 = a + 1 < (this.ends[col] as number) ? (s[a + 1] as number) | 32 : 0;
     if (c === 105 || (c === 108 && c2 === 97) || (c === 108 && c2 === 0)) return 1; // ind…, la…, L
     if (c === 99 || (c === 108 && c2 === 101)) return -1; // cap…, le…
     return Number.NaN;
   }
 
   /** Decode the row in s[start, end); `afterUtcMs` (previous row) resolves repeated local times. */
-  decode(s: string, start: number, end: number, afterUtcMs: number): boolean {
+  decode(s: Uint8Array, start: number, end: number, afterUtcMs: number): boolean {
     this.errColumn = -1;
     if (!this.split(s, start, end)) return this.fail(-1, "unterminated double quote");
     if (this.fieldCount !== this.columnCount) {
@@ -138,8 +140,8 @@ export class RowDecoder {
     const m = this.map;
     const code =
       m.timestamp >= 0
-        ? this.ts.parse(s, this.starts[m.timestamp] as number, this.ends[m.timestamp] as number)
-        : this.ts.parseSplit(s, this.starts[m.date] as number, this.ends[m.date] as number, s, this.starts[m.time] as number, this.ends[m.time] as number);
+        ? this.ts.parseBytes(s, this.starts[m.timestamp] as number, this.ends[m.timestamp] as number)
+        : this.ts.parseSplitBytes(s, this.starts[m.date] as number, this.ends[m.date] as number, s, this.starts[m.time] as number, this.ends[m.time] as number);
     const tsColumn = m.timestamp >= 0 ? m.timestamp : m.date;
     if (code !== 0) return this.fail(tsColumn, `bad timestamp: ${TS_REASONS[code]}`);
     this.offsetMs = this.ts.offsetMs;

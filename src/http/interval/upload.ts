@@ -5,6 +5,7 @@ import type { FastifyInstance, FastifyRequest } from "fastify";
 import { createIntervalParser, type ParseOutcome } from "../../core/interval/parser.js";
 import { seriesTransfer } from "../../heavy-work/pool.js";
 import { problem, ProblemError, validationProblem } from "../problem.js";
+import { columnPool } from "./column-pool.js";
 import { fatalProblem, feedStream, INTERVAL_MAX_BYTES, INTERVAL_MAX_ROWS, tooLarge } from "./ingest.js";
 import { parseIntervalOptions, type IntervalRequestOptions } from "./options.js";
 import type { intervalResponse } from "./response.js";
@@ -59,7 +60,7 @@ type Read = { outcome: ParseOutcome; bytes: number };
 
 /** Stream phase: feed the upload to the parser; errors here are the client's. */
 async function readCsv(stream: AsyncIterable<Buffer | string>, o: IntervalRequestOptions, hash: Hash | undefined, declaredBytes?: number): Promise<Read> {
-  const parser = createIntervalParser({ ...o.parse, maxRows: INTERVAL_MAX_ROWS, ...(declaredBytes ? { expectedChars: declaredBytes } : {}) });
+  const parser = createIntervalParser({ ...o.parse, maxRows: INTERVAL_MAX_ROWS, columnArrays: columnPool, ...(declaredBytes ? { expectedChars: declaredBytes } : {}) });
   try {
     const bytes = await feedStream(stream, parser, INTERVAL_MAX_BYTES, hash);
     return { outcome: parser.end(), bytes };
@@ -72,10 +73,12 @@ async function readCsv(stream: AsyncIterable<Buffer | string>, o: IntervalReques
  * Analysis phase: pure computation on the parsed series, on a worker thread (sorting a year of intervals for the
  * percentiles and simulating the controller over it would hold the event loop); the series' arrays are moved there.
  */
-function analyse(request: FastifyRequest, { outcome, bytes }: Read, o: IntervalRequestOptions): Promise<IntervalAnswer> {
+async function analyse(request: FastifyRequest, { outcome, bytes }: Read, o: IntervalRequestOptions): Promise<IntervalAnswer> {
   if (!outcome.ok) throw new ProblemError(fatalProblem(outcome));
   const { series, report } = outcome;
-  return request.server.heavyWork.run("intervalAnalysis", { bytes, series, report, options: o }, seriesTransfer(series));
+  const { answer, columns } = await request.server.heavyWork.run("intervalAnalysis", { bytes, series, report, options: o }, seriesTransfer(series));
+  for (const c of columns) columnPool.give(c);
+  return answer;
 }
 
 /** Multipart: option fields first, then the file in field `file` (streamed straight into the parser). */
