@@ -25,6 +25,12 @@ export function parallelResonanceOrders(branches: readonly Branch[], shortCircui
   for (const b of branches) if (b.capacitorKvar > 0) byP.set(b.reactorFraction, (byP.get(b.reactorFraction) ?? 0) + b.capacitorKvar);
   const live = [...byP.entries()].map(([reactorFraction, capacitorKvar]) => ({ reactorFraction, capacitorKvar }));
   if (live.length === 0) return [];
+  if (live.length === 1) {
+    // One reactor value: the closed form h = √(S_sc/(Q + p·S_sc)), the only root (below 1/√p when p > 0).
+    const { reactorFraction: p, capacitorKvar: q } = live[0]!;
+    const h = Math.sqrt(shortCircuitKVA / (q + p * shortCircuitKVA));
+    return Number.isFinite(h) && h > 0 && h <= maxOrder ? [h] : [];
+  }
   const f = (h: number) => live.reduce((s, b) => s + (b.capacitorKvar * h) / (1 - b.reactorFraction * h * h), 0) - shortCircuitKVA / h;
   const poles = [...new Set(live.filter((b) => b.reactorFraction > 0).map((b) => 1 / Math.sqrt(b.reactorFraction)))].sort((a, b) => a - b);
   const hasPlain = live.some((b) => b.reactorFraction === 0);

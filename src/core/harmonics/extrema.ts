@@ -6,7 +6,8 @@
  * resonance, parallelResonanceOrders) and one minimum at each tuning order (the series dip). Damping (R_s, the
  * reactors' R, the load resistance) moves and flattens these extrema but leaves that order in place: so each peak
  * is sought between two neighbouring tuning orders, each dip between the two lossless resonances around its tuning
- * order, by golden-section search on the exact |Z(h)|, and kept only if it is a true interior extremum of the range.
+ * order, by a safeguarded Newton search on the slope of the exact |Y(h)|² (refineExtremum), and kept only if it is a
+ * true interior extremum of the range.
  */
 import { parallelResonanceOrders } from "./combined-stages.js";
 import { drivingPointImpedanceOhm, sourceImpedanceOhmAt, type BusModel } from "./network.js";
@@ -27,10 +28,69 @@ export interface ImpedanceDip {
   impedanceOhm: number;
 }
 
+/**
+ * Running sums of Y, Y′ and Y″ (real and imaginary parts) while admittanceSlopes adds the bus's elements; module
+ * scratch, so the search's inner loop allocates nothing.
+ */
+const acc = new Float64Array(6);
+
+/**
+ * Adds one series element z = r + j·x(h) (x′ = dx/dh, x″ = d²x/dh²) to acc: y = 1/z, y′ = −j·x′·y²,
+ * y″ = −j·x″·y² − 2·x′²·y³ (differentiating y = 1/z twice). False when z = 0 (a lossless branch exactly tuned).
+ */
+function addElement(r: number, x: number, x1: number, x2: number): boolean {
+  const d = r * r + x * x;
+  if (d === 0) return false;
+  const er = r / d;
+  const ei = -x / d;
+  const ar = er * er - ei * ei; // y²
+  const ai = 2 * er * ei;
+  const cr = ar * er - ai * ei; // y³
+  const ci = ar * ei + ai * er;
+  const k = 2 * x1 * x1;
+  acc[0] = acc[0]! + er;
+  acc[1] = acc[1]! + ei;
+  acc[2] = acc[2]! + x1 * ai;
+  acc[3] = acc[3]! - x1 * ar;
+  acc[4] = acc[4]! + x2 * ai - k * cr;
+  acc[5] = acc[5]! - x2 * ar - k * ci;
+  return true;
+}
+
+/**
+ * d|Y|²/dh and d²|Y|²/dh² of the bus admittance Y(h) = 1/Z(h) (Z_s ∥ R_load ∥ branches), into out[0] and out[1]:
+ * |Y|²′ = 2·Re(Ȳ·Y′), |Y|²″ = 2·(|Y′|² + Re(Ȳ·Y″)). The source is x = h·X_s, a branch x = h·X_L − X_C/h.
+ * NaN when a branch shorts the bus at h.
+ */
+function admittanceSlopes(model: BusModel, h: number, out: Float64Array): void {
+  acc.fill(0);
+  const xs = model.source.reactanceOhm;
+  addElement(model.source.resistanceOhm, h * xs, xs, 0);
+  if (model.loadResistanceOhm !== null) acc[0] = acc[0]! + 1 / model.loadResistanceOhm;
+  const branches = model.branches;
+  for (let i = 0; i < branches.length; i++) {
+    const br = branches[i]!;
+    const xc = br.capacitorReactanceOhm;
+    if (!addElement(br.reactorResistanceOhm, h * br.reactorReactanceOhm - xc / h, br.reactorReactanceOhm + xc / (h * h), (-2 * xc) / (h * h * h))) {
+      out[0] = Number.NaN;
+      out[1] = Number.NaN;
+      return;
+    }
+  }
+  const [yr, yi, d1r, d1i, d2r, d2i] = acc as unknown as [number, number, number, number, number, number];
+  out[0] = 2 * (yr * d1r + yi * d1i);
+  out[1] = 2 * (d1r * d1r + d1i * d1i + yr * d2r + yi * d2i);
+}
+
+const slopes = new Float64Array(2);
+
 const GOLDEN = (Math.sqrt(5) - 1) / 2;
 
-/** Golden-section search for the extremum of |Z(h)| in [lo, hi] (sign 1: maximum, −1: minimum), to ~1e-12 in h. */
-export function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1): number {
+/**
+ * Golden-section search for the extremum of |Z(h)| in [lo, hi] (sign 1: maximum, −1: minimum): the fallback when
+ * the slope of |Y|² does not bracket the extremum at the range's ends or the start.
+ */
+function goldenExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1): number {
   let a = lo;
   let b = hi;
   let c = b - GOLDEN * (b - a);
@@ -49,6 +109,64 @@ export function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 
     }
   }
   return (a + b) / 2;
+}
+
+/** Relative width in h at which the search stops: far below any figure the study reports. */
+const REFINE_REL = 1e-14;
+
+/**
+ * The extremum of |Z(h)| in [lo, hi] (sign 1: maximum, −1: minimum), to ~1e-14 in h: a root of d|Y|²/dh, found by
+ * Newton's method kept inside a bracket that bisection shrinks whenever a Newton step would leave it (the safeguarded
+ * Newton–Raphson of Press et al., Numerical Recipes, §9.4). A peak of |Z| is a minimum of |Y|², a dip a maximum.
+ * `start` (the lossless resonance or tuning order, when known) is where Newton begins. When the slope does not change
+ * sign over the range, the extremum is at an end of it (the caller then finds no interior extremum there).
+ */
+export function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1, start?: number): number {
+  // g = sign·d|Y|²/dh rises through 0 at the sought extremum
+  const g = (h: number): number => {
+    admittanceSlopes(model, h, slopes);
+    return sign * slopes[0]!;
+  };
+  let a = lo;
+  let b = hi;
+  // An end next to a tuning order or a resonance can sit just past the neighbouring extremum of the other kind,
+  // so its slope has the wrong sign: then the start (near the sought extremum) is one end of the bracket.
+  if (!(g(a) < 0 && g(b) > 0)) {
+    if (start === undefined || !(start > lo && start < hi)) return goldenExtremum(model, lo, hi, sign);
+    const gs = g(start);
+    if (gs === 0) return start;
+    if (Number.isNaN(gs)) return goldenExtremum(model, lo, hi, sign);
+    let found = false;
+    // the start is on one side of the extremum: the other end is tried halfway to the range's end, then nearer it
+    for (let k = 1; k <= 8 && !found; k++) {
+      const reach = 1 - 1 / 2 ** k;
+      if (gs < 0) {
+        a = start;
+        b = start + (hi - start) * reach;
+        found = g(b) > 0;
+      } else {
+        a = start - (start - lo) * reach;
+        b = start;
+        found = g(a) < 0;
+      }
+    }
+    if (!found) return goldenExtremum(model, lo, hi, sign);
+  }
+  let h = start !== undefined && start >= a && start <= b ? start : (a + b) / 2;
+  for (let i = 0; i < 200; i++) {
+    admittanceSlopes(model, h, slopes);
+    const gh = sign * slopes[0]!;
+    const dg = sign * slopes[1]!;
+    if (gh === 0) return h;
+    if (Number.isNaN(gh)) return h;
+    if (gh < 0) a = h;
+    else b = h;
+    const newton = h - gh / dg;
+    const next = dg > 0 && newton > a && newton < b ? newton : (a + b) / 2;
+    if (Math.abs(next - h) <= REFINE_REL * h || b - a <= REFINE_REL * b) return next;
+    h = next;
+  }
+  return h;
 }
 
 /**
@@ -98,7 +216,9 @@ export function impedanceExtrema(model: BusModel, fromOrder: number, toOrder: nu
   for (let i = 0; i + 1 < edges.length; i++) {
     const range = clip(edges[i]!, edges[i + 1]!);
     if (!range) continue;
-    const h = refineExtremum(model, range[0], range[1], 1);
+    // the lossless resonance in this interval, where there is one, is where the search starts
+    const guess = resonances.find((r) => r > edges[i]! && r < edges[i + 1]!);
+    const h = refineExtremum(model, range[0], range[1], 1, guess);
     if (!isExtremum(model, h, 1, fromOrder, toOrder)) continue;
     const z = drivingPointImpedanceOhm(model, h);
     peaks.push({ order: h, impedanceOhm: z, timesSourceImpedance: z / sourceImpedanceOhmAt(model.source, h), timesBaseImpedance: z / model.source.baseImpedanceOhm });
@@ -108,7 +228,7 @@ export function impedanceExtrema(model: BusModel, fromOrder: number, toOrder: nu
     const above = resonances.find((r) => r > ht) ?? Number.POSITIVE_INFINITY;
     const range = clip(below, above);
     if (!range) continue;
-    const h = refineExtremum(model, range[0], range[1], -1);
+    const h = refineExtremum(model, range[0], range[1], -1, ht);
     if (isExtremum(model, h, -1, fromOrder, toOrder)) dips.push({ order: h, impedanceOhm: drivingPointImpedanceOhm(model, h) });
   }
   return { peaks, dips };
