@@ -111,6 +111,27 @@ function goldenExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1): 
   return (a + b) / 2;
 }
 
+/** Interior points probedExtremum tries: enough to catch a damped extremum the lossless picture does not predict. */
+const PROBES = 16;
+
+/**
+ * An interval where the lossless picture predicts no extremum (no resonance inside it, so no start): the slope is
+ * probed at PROBES interior points; a sign change there is refined like any other, otherwise the extremum lies at an
+ * end (no interior extremum: the caller drops it).
+ */
+function probedExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1, g: (h: number) => number): number {
+  let prevH = lo;
+  let prevG = g(lo);
+  for (let i = 1; i <= PROBES + 1; i++) {
+    const h = i > PROBES ? hi : lo + ((hi - lo) * i) / (PROBES + 1);
+    const gh = g(h);
+    if (prevG < 0 && gh > 0) return refineExtremum(model, prevH, h, sign, (prevH + h) / 2);
+    prevH = h;
+    prevG = gh;
+  }
+  return g(lo) >= 0 ? lo : hi;
+}
+
 /** Relative width in h at which the search stops: far below any figure the study reports. */
 const REFINE_REL = 1e-14;
 
@@ -132,7 +153,7 @@ export function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 
   // An end next to a tuning order or a resonance can sit just past the neighbouring extremum of the other kind,
   // so its slope has the wrong sign: then the start (near the sought extremum) is one end of the bracket.
   if (!(g(a) < 0 && g(b) > 0)) {
-    if (start === undefined || !(start > lo && start < hi)) return goldenExtremum(model, lo, hi, sign);
+    if (start === undefined || !(start > lo && start < hi)) return probedExtremum(model, lo, hi, sign, g);
     const gs = g(start);
     if (gs === 0) return start;
     if (Number.isNaN(gs)) return goldenExtremum(model, lo, hi, sign);
