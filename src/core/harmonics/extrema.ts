@@ -29,55 +29,55 @@ export interface ImpedanceDip {
 }
 
 /**
- * Running sums of Y, Y′ and Y″ (real and imaginary parts) while admittanceSlopes adds the bus's elements; module
- * scratch, so the search's inner loop allocates nothing.
- */
-const acc = new Float64Array(6);
-
-/**
- * Adds one series element z = r + j·x(h) (x′ = dx/dh, x″ = d²x/dh²) to acc: y = 1/z, y′ = −j·x′·y²,
- * y″ = −j·x″·y² − 2·x′²·y³ (differentiating y = 1/z twice). False when z = 0 (a lossless branch exactly tuned).
- */
-function addElement(r: number, x: number, x1: number, x2: number): boolean {
-  const d = r * r + x * x;
-  if (d === 0) return false;
-  const er = r / d;
-  const ei = -x / d;
-  const ar = er * er - ei * ei; // y²
-  const ai = 2 * er * ei;
-  const cr = ar * er - ai * ei; // y³
-  const ci = ar * ei + ai * er;
-  const k = 2 * x1 * x1;
-  acc[0] = acc[0]! + er;
-  acc[1] = acc[1]! + ei;
-  acc[2] = acc[2]! + x1 * ai;
-  acc[3] = acc[3]! - x1 * ar;
-  acc[4] = acc[4]! + x2 * ai - k * cr;
-  acc[5] = acc[5]! - x2 * ar - k * ci;
-  return true;
-}
-
-/**
- * d|Y|²/dh and d²|Y|²/dh² of the bus admittance Y(h) = 1/Z(h) (Z_s ∥ R_load ∥ branches), into out[0] and out[1]:
- * |Y|²′ = 2·Re(Ȳ·Y′), |Y|²″ = 2·(|Y′|² + Re(Ȳ·Y″)). The source is x = h·X_s, a branch x = h·X_L − X_C/h.
- * NaN when a branch shorts the bus at h.
+ * d|Y|²/dh and d²|Y|²/dh² of the bus admittance Y(h) = 1/Z(h) (Z_s ∥ R_load ∥ branches), into out[0] and out[1].
+ * Each series element z = r + j·x(h) has y = 1/z, y′ = −j·x′·y², y″ = −j·x″·y² − 2·x′²·y³ (differentiating y = 1/z
+ * twice); the source has x = h·X_s, a branch x = h·X_L − X_C/h. Then |Y|²′ = 2·Re(Ȳ·Y′) and
+ * |Y|²″ = 2·(|Y′|² + Re(Ȳ·Y″)). Plain numbers, no allocation: the search's inner loop. NaN when a lossless branch
+ * shorts the bus at h.
  */
 function admittanceSlopes(model: BusModel, h: number, out: Float64Array): void {
-  acc.fill(0);
-  const xs = model.source.reactanceOhm;
-  addElement(model.source.resistanceOhm, h * xs, xs, 0);
-  if (model.loadResistanceOhm !== null) acc[0] = acc[0]! + 1 / model.loadResistanceOhm;
+  // the source: r = R_s, x = h·X_s, x′ = X_s, x″ = 0
+  const rs = model.source.resistanceOhm;
+  const xs1 = model.source.reactanceOhm;
+  const xs = h * xs1;
+  const ds = rs * rs + xs * xs;
+  let yr = rs / ds;
+  let yi = -xs / ds;
+  let ar = yr * yr - yi * yi; // y²
+  let ai = 2 * yr * yi;
+  let d1r = xs1 * ai;
+  let d1i = -xs1 * ar;
+  let d2r = -2 * xs1 * xs1 * (ar * yr - ai * yi);
+  let d2i = -2 * xs1 * xs1 * (ar * yi + ai * yr);
+  if (model.loadResistanceOhm !== null) yr += 1 / model.loadResistanceOhm;
   const branches = model.branches;
+  const invH = 1 / h;
   for (let i = 0; i < branches.length; i++) {
     const br = branches[i]!;
+    const r = br.reactorResistanceOhm;
+    const xl = br.reactorReactanceOhm;
     const xc = br.capacitorReactanceOhm;
-    if (!addElement(br.reactorResistanceOhm, h * br.reactorReactanceOhm - xc / h, br.reactorReactanceOhm + xc / (h * h), (-2 * xc) / (h * h * h))) {
+    const x = h * xl - xc * invH;
+    const x1 = xl + xc * invH * invH;
+    const x2 = -2 * xc * invH * invH * invH;
+    const d = r * r + x * x;
+    if (d === 0) {
       out[0] = Number.NaN;
       out[1] = Number.NaN;
       return;
     }
+    const er = r / d;
+    const ei = -x / d;
+    ar = er * er - ei * ei;
+    ai = 2 * er * ei;
+    const k = 2 * x1 * x1;
+    yr += er;
+    yi += ei;
+    d1r += x1 * ai;
+    d1i -= x1 * ar;
+    d2r += x2 * ai - k * (ar * er - ai * ei);
+    d2i += -x2 * ar - k * (ar * ei + ai * er);
   }
-  const [yr, yi, d1r, d1i, d2r, d2i] = acc as unknown as [number, number, number, number, number, number];
   out[0] = 2 * (yr * d1r + yi * d1i);
   out[1] = 2 * (d1r * d1r + d1i * d1i + yr * d2r + yi * d2i);
 }
