@@ -1,7 +1,7 @@
 import type { FastifyInstance } from "fastify";
 import * as contracts from "../contracts/sizing.js";
 import { size } from "../../core/pipeline/size.js";
-import { asciiJson } from "../ascii-json.js";
+import { jsonBytes } from "../json-bytes.js";
 import { sizingRequestSchema } from "../schemas/sizing.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
 
@@ -10,7 +10,7 @@ export async function sizingRoutes(app: FastifyInstance): Promise<void> {
     const input = parseOr400(sizingRequestSchema, request.body);
     const outcome = size(input);
     if (!outcome.ok) throw engineIssuesTo400(outcome.issues);
-    // The same JSON as the default serialiser's, in ASCII: see ascii-json.ts.
-    return reply.type("application/json; charset=utf-8").send(asciiJson(outcome.result));
+    // The default serialiser's JSON, as bytes: see json-bytes.ts.
+    return reply.type("application/json; charset=utf-8").send(jsonBytes(outcome.result));
   });
 }

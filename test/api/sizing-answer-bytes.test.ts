@@ -3,20 +3,17 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { twentyLoadBody } from "../../bench/bodies.js";
 import { twentyLoadBodyWithDrives } from "../../bench/engine.js";
 import { size } from "../../src/core/pipeline/size.js";
-import { asciiJson } from "../../src/http/ascii-json.js";
+import { jsonBytes } from "../../src/http/json-bytes.js";
 import { sizingRequestSchema } from "../../src/http/schemas/sizing.js";
 import { makeTestApp } from "../helpers/app.js";
 import { api } from "../helpers/auth.js";
 
 /**
- * POST /v1/sizing writes its answer as JSON in ASCII (non-ASCII characters as \u escapes, src/http/ascii-json.ts):
- * every field must survive, so the answer read back equals JSON.stringify's of the same result.
+ * POST /v1/sizing writes its answer as UTF-8 bytes it serialised itself (src/http/json-bytes.ts): every field must
+ * survive, so the answer is byte for byte JSON.stringify's of the same result, and reads back as it.
  */
 
-const ASCII = /^[\x00-\x7f]*$/;
-const viaStringify = (value: unknown): unknown => JSON.parse(JSON.stringify(value));
-
-describe("asciiJson", () => {
+describe("jsonBytes", () => {
   const samples: [string, unknown][] = [
     ["typographic characters", { note: "≥ 135 % — see → notes; √3·V·I; ±10 %; 5 Ω; X²" }],
     ["Latin-1 and DEL", { s: "café\u00a0naïve\u007f" }],
@@ -28,17 +25,16 @@ describe("asciiJson", () => {
     ["an empty object", {}],
   ];
   for (const [name, value] of samples) {
-    it(`${name}: ASCII, and reads back as JSON.stringify's`, () => {
-      const text = asciiJson(value);
-      expect(text).toMatch(ASCII);
-      expect(JSON.parse(text)).toEqual(viaStringify(value));
+    it(`${name}: JSON.stringify's text in UTF-8`, () => {
+      const bytes = jsonBytes(value);
+      expect(Buffer.isBuffer(bytes)).toBe(true);
+      expect(bytes.toString("utf8")).toBe(JSON.stringify(value));
+      expect(JSON.parse(bytes.toString("utf8"))).toEqual(JSON.parse(JSON.stringify(value)));
     });
   }
-  it("leaves an ASCII text as JSON.stringify wrote it", () => {
-    const value = { a: "plain", b: [1, 2.5, "x"] };
-    expect(asciiJson(value)).toBe(JSON.stringify(value));
-  });
 });
+
+const ASCII = /^[\x00-\x7f]*$/;
 
 type Body = Record<string, unknown> & { loads: Record<string, unknown>[] };
 const copy = <T>(v: T): T => JSON.parse(JSON.stringify(v)) as T;
@@ -84,17 +80,19 @@ afterAll(async () => {
   await app.close();
 });
 
-describe("POST /v1/sizing answers in ASCII with every field of the result", () => {
+describe("POST /v1/sizing answers JSON.stringify's bytes of the result", () => {
   const cases = bodies();
   for (const [name, body] of cases) {
     it(name, async () => {
       const res = await api(app).post("/v1/sizing").send(body);
       expect(res.status).toBe(200);
       expect(res.headers["content-type"]).toMatch(/^application\/json; charset=utf-8/);
-      expect(res.text).toMatch(ASCII);
       const outcome = size(sizingRequestSchema.parse(body));
       if (!outcome.ok) throw new Error("the body must size");
-      expect(JSON.parse(res.text)).toEqual(viaStringify(outcome.result));
+      const expected = JSON.stringify(outcome.result);
+      expect(res.text).toBe(expected);
+      expect(res.headers["content-length"]).toBe(String(Buffer.byteLength(expected)));
+      expect(JSON.parse(res.text)).toEqual(JSON.parse(expected));
     });
   }
 
