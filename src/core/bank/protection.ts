@@ -48,10 +48,13 @@ export interface CircuitProtection {
 
 /** The next standard rating at or above a current, or null when above the table. */
 export function nextStandardRatingA(minA: number, device: OvercurrentDevice): number | null {
-  const list: number[] = device === "fuse" ? [...FUSE_ONLY_RATINGS_A, ...STANDARD_AMPERE_RATINGS_A] : [...STANDARD_AMPERE_RATINGS_A];
-  list.sort((a, b) => a - b);
-  return list.find((r) => r >= minA - 1e-9) ?? null;
+  const list = device === "fuse" ? FUSE_RATINGS_ASCENDING : STANDARD_AMPERE_RATINGS_A;
+  for (const r of list) if (r >= minA - 1e-9) return r;
+  return null;
 }
+
+/** Every rating a fuse may have, ascending (the breaker list is ascending as written). */
+const FUSE_RATINGS_ASCENDING: readonly number[] = [...FUSE_ONLY_RATINGS_A, ...STANDARD_AMPERE_RATINGS_A].sort((a, b) => a - b);
 
 /** Rated line current of a capacitor circuit: Q·1000/(√3·V) three-phase, Q·1000/V single-phase. */
 export function capacitorRatedCurrentA(kvar: number, voltageV: number, phases: Phases): number {

@@ -26,6 +26,11 @@ export function baseLadder(units: readonly number[], switchedNeededKvar: number,
   return new Ladder(units, switchedNeededKvar, minSteps, multipliers);
 }
 
+/** A base within 1e-6 (relative) of `kvar`. */
+function isNear(base: number, kvar: number): boolean {
+  return Math.abs(base - kvar) <= 1e-6 * base;
+}
+
 class Ladder implements BaseLadder {
   readonly length: number;
   private readonly usableUnits: number[];
@@ -56,23 +61,23 @@ class Ladder implements BaseLadder {
 
   firstReaching(k: number, needKvar: number): number {
     const u = this.usableUnits.length;
-    const short = (base: number) => k * base < needKvar - REACH_EPS_KVAR;
-    for (let i = 0; i < u; i++) if (!short(this.usableUnits[i] as number)) return i;
+    // "short": k·base < need − ε, written out at each use (no closure per call: the search calls this per step count)
+    const floor = needKvar - REACH_EPS_KVAR;
+    for (let i = 0; i < u; i++) if (!(k * (this.usableUnits[i] as number) < floor)) return i;
     if (this.maxUsableJ < 2) return u;
     const L = this.largest;
     let j = Math.max(2, Math.ceil(needKvar / (k * L)));
     // the estimate is within one of the answer; settle it with the same comparison as the listed search
-    while (j > 2 && !short((j - 1) * L)) j--;
-    while (j <= this.maxUsableJ && short(j * L)) j++;
+    while (j > 2 && !(k * ((j - 1) * L) < floor)) j--;
+    while (j <= this.maxUsableJ && k * (j * L) < floor) j++;
     return j > this.maxUsableJ ? this.length : u + j - 2;
   }
 
   indexNear(kvar: number): number {
     const u = this.usableUnits.length;
-    const near = (b: number) => Math.abs(b - kvar) <= 1e-6 * b;
-    for (let i = 0; i < u; i++) if (near(this.usableUnits[i] as number)) return i;
+    for (let i = 0; i < u; i++) if (isNear(this.usableUnits[i] as number, kvar)) return i;
     const j = Math.round(kvar / this.largest);
-    for (const c of [j - 1, j]) if (c >= 2 && c <= this.maxUsableJ && near(c * this.largest)) return u + c - 2;
+    for (const c of [j - 1, j]) if (c >= 2 && c <= this.maxUsableJ && isNear(c * this.largest, kvar)) return u + c - 2;
     return -1;
   }
 }

@@ -5,7 +5,7 @@ import { baseLadder } from "./step-bases.js";
 import { warning, type Warning } from "../warnings.js";
 import { chooseFixedPart, neededKvar, type DemandArrays, type FixedPart } from "./demand.js";
 import { percentileOf } from "../interval/percentiles.js";
-import { ruleSettings, type ControllerOptions } from "./controller-rule.js";
+import { DEFAULT_RESPONSE_THRESHOLD, ruleSettings, type ControllerOptions, type RuleSettings } from "./controller-rule.js";
 import { simulateStepProgram, STEP_RATIOS, stepMultipliers, type SimulationResult, type StepRatio } from "./step-ranking.js";
 
 export interface StepSearchOptions {
@@ -77,7 +77,9 @@ export const DEFAULT_COVERAGE = 0.99;
 export const DEFAULT_MIN_STEPS = 3;
 export const DEFAULT_MAX_STEPS = 12;
 
-function better(a: StepCandidate, b: StepCandidate, tie: number, preferredBaseKvar?: number): boolean {
+type Ranked = Pick<StepCandidate, "stepCount" | "baseKvar" | "totalKvar" | "simulation">;
+
+function better(a: Ranked, b: Ranked, tie: number, preferredBaseKvar?: number): boolean {
   const dm = a.simulation.metCoveredCount - b.simulation.metCoveredCount;
   if (Math.abs(dm) > tie) return dm > 0;
   if (preferredBaseKvar !== undefined && a.stepCount > 0 && b.stepCount > 0) {
@@ -135,42 +137,49 @@ export function planSteps(input: StepsInput): StepPlan {
     covered[i] = (need[i] as number) <= needAtCoverage + 1e-9 ? 1 : 0;
   }
   const samples = { kW: kWs, residualKvar: residual, covered };
-  // the rule's threshold is a share of the smallest step, the program's base
-  const ruleFor = (baseKvar: number) => ruleSettings(input.targetPF, baseKvar, o.controller);
+  // The rule's threshold is a share of the smallest step, the program's base; the rest of the rule is the same for
+  // every candidate, so it is worked out once.
+  const rule0 = ruleSettings(input.targetPF, 0, o.controller);
+  const share = o.controller?.responseThreshold ?? DEFAULT_RESPONSE_THRESHOLD;
+  const ruleFor = (baseKvar: number): RuleSettings => (baseKvar > 0 ? { ...rule0, thresholdKvar: share * baseKvar } : rule0);
 
-  const candidates: StepCandidate[] = [
-    { ratio: "1:1:1", stepCount: 0, baseKvar: 0, stepsKvar: [], totalKvar: 0, rounding: "none", simulation: simulateStepProgram("1:1:1", 0, 1, samples, ruleFor(0)) },
-  ];
+  const tie = (o.metTieShare ?? 0) * n;
+  // The fixed-only plan first; each candidate then replaces the best so far when better (the ranking's order).
+  let best: Omit<StepCandidate, "stepsKvar"> = { ratio: "1:1:1", stepCount: 0, baseKvar: 0, totalKvar: 0, rounding: "none", simulation: simulateStepProgram("1:1:1", 0, 1, samples, rule0) };
+  let bestMults: readonly number[] = [];
+  let evaluated = 1;
+  const consider = (ratio: StepRatio, stepCount: number, baseKvar: number, k: number, rounding: "up" | "down", mults: readonly number[]): void => {
+    evaluated++;
+    const c = { ratio, stepCount, baseKvar, totalKvar: k * baseKvar, rounding, simulation: simulateStepProgram(ratio, stepCount, baseKvar, samples, ruleFor(baseKvar)) };
+    if (better(c, best, tie, o.preferredBaseKvar)) {
+      best = c;
+      bestMults = mults;
+    }
+  };
   if (switchedNeeded > 1e-9) {
-    const seen = new Set<string>();
-    for (const ratio of o.ratios ?? STEP_RATIOS) {
+    // Each (ratio, step count) pair is visited once and its bases are distinct ladder entries, so no candidate repeats.
+    for (const ratio of new Set(o.ratios ?? STEP_RATIOS)) {
       const mults = stepMultipliers(ratio, maxSteps);
       const distinct = [...new Set(mults.slice(0, Math.max(3, minSteps)))];
       const bases = baseLadder(units, switchedNeeded, minSteps, distinct);
+      const iPref = o.preferredBaseKvar === undefined ? -1 : bases.indexNear(o.preferredBaseKvar);
       let k = 0;
       for (let steps = 1; steps <= maxSteps; steps++) {
         k += mults[steps - 1] as number; // maxMultiple(ratio, steps) as a running sum
         if (steps < Math.max(ratio === "1:2:4" ? 3 : 1, minSteps)) continue;
         // bases ascend: the first reaching the need (round up) and the one before it (round down)
         const iUp = bases.firstReaching(k, switchedNeeded);
-        const iPref = o.preferredBaseKvar === undefined ? -1 : bases.indexNear(o.preferredBaseKvar);
-        const tries: (readonly [number, "up" | "down"])[] = [[iUp, "up"], [iUp - 1, "down"]];
-        if (iPref >= 0 && iPref !== iUp && iPref !== iUp - 1) tries.push([iPref, iPref > iUp ? "up" : "down"]);
-        for (const [i, rounding] of tries) {
-          if (i < 0 || i >= bases.length) continue;
-          const base = bases.at(i);
-          const key = `${ratio}|${steps}|${base}`;
-          if (seen.has(key)) continue;
-          seen.add(key);
-          candidates.push({ ratio, stepCount: steps, baseKvar: base, stepsKvar: mults.slice(0, steps).map((m) => m * base), totalKvar: k * base, rounding, simulation: simulateStepProgram(ratio, steps, base, samples, ruleFor(base)) });
-        }
+        if (iUp < bases.length) consider(ratio, steps, bases.at(iUp), k, "up", mults);
+        if (iUp - 1 >= 0 && iUp - 1 < bases.length) consider(ratio, steps, bases.at(iUp - 1), k, "down", mults);
+        if (iPref >= 0 && iPref !== iUp && iPref !== iUp - 1 && iPref < bases.length) consider(ratio, steps, bases.at(iPref), k, iPref > iUp ? "up" : "down", mults);
       }
     }
   }
-  const tie = (o.metTieShare ?? 0) * n;
-  let best = candidates[0] as StepCandidate;
-  for (const c of candidates) if (better(c, best, tie, o.preferredBaseKvar)) best = c;
-  const switched = best.stepCount === 0 ? null : best;
+  const b = best;
+  const switched: StepCandidate | null =
+    b.stepCount === 0
+      ? null
+      : { ratio: b.ratio, stepCount: b.stepCount, baseKvar: b.baseKvar, stepsKvar: bestMults.slice(0, b.stepCount).map((m) => m * b.baseKvar), totalKvar: b.totalKvar, rounding: b.rounding, simulation: b.simulation };
 
   const largest = Math.max(...units);
   if (switched && switched.stepsKvar.some((s) => s > largest + 1e-9)) {
@@ -193,7 +202,7 @@ export function planSteps(input: StepsInput): StepPlan {
     fixed,
     switchedNeededKvar: switchedNeeded,
     switched,
-    candidatesEvaluated: candidates.length,
+    candidatesEvaluated: evaluated,
     metShare: n > 0 ? sim.metCount / n : 0,
     metCoveredShare: sim.coveredCount > 0 ? sim.metCoveredCount / sim.coveredCount : 0,
     switchingOperations: sim.switchingOperations,

@@ -20,11 +20,17 @@ export interface Branch {
  * closed form h = √(1/(Q_C/S_sc + p)).
  */
 export function parallelResonanceOrders(branches: readonly Branch[], shortCircuitKVA: number, maxOrder = 50): number[] {
+  // One branch (every stage of a bank studied alone): the closed form below, without grouping by reactor value.
+  if (branches.length === 1) {
+    const b = branches[0]!;
+    return b.capacitorKvar > 0 ? singleReactorResonance(b.reactorFraction, b.capacitorKvar, shortCircuitKVA, maxOrder) : [];
+  }
   // Branches with the same p add (Q_i·h/(1 − p·h²) is linear in Q_i): one term per reactor value.
   const byP = new Map<number, number>();
   for (const b of branches) if (b.capacitorKvar > 0) byP.set(b.reactorFraction, (byP.get(b.reactorFraction) ?? 0) + b.capacitorKvar);
   const live = [...byP.entries()].map(([reactorFraction, capacitorKvar]) => ({ reactorFraction, capacitorKvar }));
   if (live.length === 0) return [];
+  if (live.length === 1) return singleReactorResonance(live[0]!.reactorFraction, live[0]!.capacitorKvar, shortCircuitKVA, maxOrder);
   const f = (h: number) => live.reduce((s, b) => s + (b.capacitorKvar * h) / (1 - b.reactorFraction * h * h), 0) - shortCircuitKVA / h;
   const poles = [...new Set(live.filter((b) => b.reactorFraction > 0).map((b) => 1 / Math.sqrt(b.reactorFraction)))].sort((a, b) => a - b);
   const hasPlain = live.some((b) => b.reactorFraction === 0);
@@ -46,6 +52,12 @@ export function parallelResonanceOrders(branches: readonly Branch[], shortCircui
     if (h <= maxOrder) roots.push(h);
   }
   return roots;
+}
+
+/** One reactor value: the closed form h = √(S_sc/(Q + p·S_sc)), the only root (below 1/√p when p > 0). */
+function singleReactorResonance(p: number, q: number, shortCircuitKVA: number, maxOrder: number): number[] {
+  const h = Math.sqrt(shortCircuitKVA / (q + p * shortCircuitKVA));
+  return Number.isFinite(h) && h > 0 && h <= maxOrder ? [h] : [];
 }
 
 /** A switchable unit on the bus: a step of an installed bank, or a stage option of the new bank. */

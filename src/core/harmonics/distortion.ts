@@ -29,6 +29,19 @@ export function thdPct(pcts: readonly number[]): number {
   return Math.sqrt(sum);
 }
 
+/** Background percent per order (summed when an order repeats), per background list: every stage of a study shares it. */
+const backgroundArrays = new WeakMap<readonly SpectrumLine[], Float64Array>();
+
+function backgroundByOrder(background: readonly SpectrumLine[]): Float64Array {
+  let bg = backgroundArrays.get(background);
+  if (!bg) {
+    bg = new Float64Array(MAX_HARMONIC_ORDER + 1);
+    for (const line of background) bg[line.order] = bg[line.order]! + line.pct;
+    backgroundArrays.set(background, bg);
+  }
+  return bg;
+}
+
 /**
  * V_h = I_h·|Z(h)| at each integer order; site background voltage is added arithmetically per order
  * (in phase with the injection: worst case), and is not itself amplified by the bank.
@@ -39,8 +52,7 @@ export function busDistortion(
   background: readonly SpectrumLine[] = [],
 ): BusDistortion {
   const phaseV = branchVoltageV(model.voltageV, model.phases);
-  const bg = new Float64Array(MAX_HARMONIC_ORDER + 1);
-  for (const line of background) bg[line.order] = bg[line.order]! + line.pct;
+  const bg = backgroundByOrder(background);
   const lines: BusHarmonicLine[] = [];
   for (let h = 2; h <= MAX_HARMONIC_ORDER; h++) {
     const currentA = currents.byOrderA[h] ?? 0;

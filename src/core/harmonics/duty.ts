@@ -1,8 +1,7 @@
 /** Capacitor duty of a stage against the IEEE Std 18 continuous limits. */
-import { branchImpedance, capacitorBranch, capacitorKvarAtSystem, DEFAULT_REACTOR_QUALITY_FACTOR } from "./branch.js";
+import { capacitorBranch, capacitorKvarAtSystem, DEFAULT_REACTOR_QUALITY_FACTOR } from "./branch.js";
 import type { Phases } from "../conventions.js";
 import { capacitorCurrentA } from "../bank/capacitor.js";
-import { cAbs } from "./complex.js";
 import { branchVoltageV } from "./network.js";
 import { limitCheck, type LimitCheck, type SpectrumLine } from "./study-types.js";
 
@@ -80,7 +79,8 @@ export function capacitorDuty(input: CapacitorDutyInput): CapacitorDutyCheck {
   for (const line of input.busHarmonics) {
     const h = line.order;
     const busPhaseV = (line.pct / 100) * busBranchV;
-    const currentA = busPhaseV / cAbs(branchImpedance(branch, h));
+    // |Z_cap(h)| = |R_r + j·(h·X_L − X_C/h)| (branchImpedance), without a complex value per order
+    const currentA = busPhaseV / Math.hypot(branch.reactorResistanceOhm, h * branch.reactorReactanceOhm - branch.capacitorReactanceOhm / h);
     orders.push({ order: h, voltagePhaseV: (currentA * xc) / h, currentA });
   }
 

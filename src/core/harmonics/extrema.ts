@@ -6,7 +6,8 @@
  * resonance, parallelResonanceOrders) and one minimum at each tuning order (the series dip). Damping (R_s, the
  * reactors' R, the load resistance) moves and flattens these extrema but leaves that order in place: so each peak
  * is sought between two neighbouring tuning orders, each dip between the two lossless resonances around its tuning
- * order, by golden-section search on the exact |Z(h)|, and kept only if it is a true interior extremum of the range.
+ * order, by a safeguarded Newton search on the slope of the exact |Y(h)|² (refineExtremum), and kept only if it is a
+ * true interior extremum of the range.
  */
 import { parallelResonanceOrders } from "./combined-stages.js";
 import { drivingPointImpedanceOhm, sourceImpedanceOhmAt, type BusModel } from "./network.js";
@@ -27,10 +28,69 @@ export interface ImpedanceDip {
   impedanceOhm: number;
 }
 
+/**
+ * d|Y|²/dh and d²|Y|²/dh² of the bus admittance Y(h) = 1/Z(h) (Z_s ∥ R_load ∥ branches), into out[0] and out[1].
+ * Each series element z = r + j·x(h) has y = 1/z, y′ = −j·x′·y², y″ = −j·x″·y² − 2·x′²·y³ (differentiating y = 1/z
+ * twice); the source has x = h·X_s, a branch x = h·X_L − X_C/h. Then |Y|²′ = 2·Re(Ȳ·Y′) and
+ * |Y|²″ = 2·(|Y′|² + Re(Ȳ·Y″)). Plain numbers, no allocation: the search's inner loop. NaN when a lossless branch
+ * shorts the bus at h.
+ */
+function admittanceSlopes(model: BusModel, h: number, out: Float64Array): void {
+  // the source: r = R_s, x = h·X_s, x′ = X_s, x″ = 0
+  const rs = model.source.resistanceOhm;
+  const xs1 = model.source.reactanceOhm;
+  const xs = h * xs1;
+  const ds = rs * rs + xs * xs;
+  let yr = rs / ds;
+  let yi = -xs / ds;
+  let ar = yr * yr - yi * yi; // y²
+  let ai = 2 * yr * yi;
+  let d1r = xs1 * ai;
+  let d1i = -xs1 * ar;
+  let d2r = -2 * xs1 * xs1 * (ar * yr - ai * yi);
+  let d2i = -2 * xs1 * xs1 * (ar * yi + ai * yr);
+  if (model.loadResistanceOhm !== null) yr += 1 / model.loadResistanceOhm;
+  const branches = model.branches;
+  const invH = 1 / h;
+  for (let i = 0; i < branches.length; i++) {
+    const br = branches[i]!;
+    const r = br.reactorResistanceOhm;
+    const xl = br.reactorReactanceOhm;
+    const xc = br.capacitorReactanceOhm;
+    const x = h * xl - xc * invH;
+    const x1 = xl + xc * invH * invH;
+    const x2 = -2 * xc * invH * invH * invH;
+    const d = r * r + x * x;
+    if (d === 0) {
+      out[0] = Number.NaN;
+      out[1] = Number.NaN;
+      return;
+    }
+    const er = r / d;
+    const ei = -x / d;
+    ar = er * er - ei * ei;
+    ai = 2 * er * ei;
+    const k = 2 * x1 * x1;
+    yr += er;
+    yi += ei;
+    d1r += x1 * ai;
+    d1i -= x1 * ar;
+    d2r += x2 * ai - k * (ar * er - ai * ei);
+    d2i += -x2 * ar - k * (ar * ei + ai * er);
+  }
+  out[0] = 2 * (yr * d1r + yi * d1i);
+  out[1] = 2 * (d1r * d1r + d1i * d1i + yr * d2r + yi * d2i);
+}
+
+const slopes = new Float64Array(2);
+
 const GOLDEN = (Math.sqrt(5) - 1) / 2;
 
-/** Golden-section search for the extremum of |Z(h)| in [lo, hi] (sign 1: maximum, −1: minimum), to ~1e-12 in h. */
-export function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1): number {
+/**
+ * Golden-section search for the extremum of |Z(h)| in [lo, hi] (sign 1: maximum, −1: minimum): the fallback when
+ * the slope of |Y|² does not bracket the extremum at the range's ends or the start.
+ */
+function goldenExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1): number {
   let a = lo;
   let b = hi;
   let c = b - GOLDEN * (b - a);
@@ -49,6 +109,85 @@ export function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 
     }
   }
   return (a + b) / 2;
+}
+
+/** Interior points probedExtremum tries: enough to catch a damped extremum the lossless picture does not predict. */
+const PROBES = 16;
+
+/**
+ * An interval where the lossless picture predicts no extremum (no resonance inside it, so no start): the slope is
+ * probed at PROBES interior points; a sign change there is refined like any other, otherwise the extremum lies at an
+ * end (no interior extremum: the caller drops it).
+ */
+function probedExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1, g: (h: number) => number): number {
+  let prevH = lo;
+  let prevG = g(lo);
+  for (let i = 1; i <= PROBES + 1; i++) {
+    const h = i > PROBES ? hi : lo + ((hi - lo) * i) / (PROBES + 1);
+    const gh = g(h);
+    if (prevG < 0 && gh > 0) return refineExtremum(model, prevH, h, sign, (prevH + h) / 2);
+    prevH = h;
+    prevG = gh;
+  }
+  return g(lo) >= 0 ? lo : hi;
+}
+
+/** Relative width in h at which the search stops: far below any figure the study reports. */
+const REFINE_REL = 1e-14;
+
+/**
+ * The extremum of |Z(h)| in [lo, hi] (sign 1: maximum, −1: minimum), to ~1e-14 in h: a root of d|Y|²/dh, found by
+ * Newton's method kept inside a bracket that bisection shrinks whenever a Newton step would leave it (the safeguarded
+ * Newton–Raphson of Press et al., Numerical Recipes, §9.4). A peak of |Z| is a minimum of |Y|², a dip a maximum.
+ * `start` (the lossless resonance or tuning order, when known) is where Newton begins. When the slope does not change
+ * sign over the range, the extremum is at an end of it (the caller then finds no interior extremum there).
+ */
+export function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1, start?: number): number {
+  // g = sign·d|Y|²/dh rises through 0 at the sought extremum
+  const g = (h: number): number => {
+    admittanceSlopes(model, h, slopes);
+    return sign * slopes[0]!;
+  };
+  let a = lo;
+  let b = hi;
+  // An end next to a tuning order or a resonance can sit just past the neighbouring extremum of the other kind,
+  // so its slope has the wrong sign: then the start (near the sought extremum) is one end of the bracket.
+  if (!(g(a) < 0 && g(b) > 0)) {
+    if (start === undefined || !(start > lo && start < hi)) return probedExtremum(model, lo, hi, sign, g);
+    const gs = g(start);
+    if (gs === 0) return start;
+    if (Number.isNaN(gs)) return goldenExtremum(model, lo, hi, sign);
+    let found = false;
+    // the start is on one side of the extremum: the other end is tried halfway to the range's end, then nearer it
+    for (let k = 1; k <= 8 && !found; k++) {
+      const reach = 1 - 1 / 2 ** k;
+      if (gs < 0) {
+        a = start;
+        b = start + (hi - start) * reach;
+        found = g(b) > 0;
+      } else {
+        a = start - (start - lo) * reach;
+        b = start;
+        found = g(a) < 0;
+      }
+    }
+    if (!found) return goldenExtremum(model, lo, hi, sign);
+  }
+  let h = start !== undefined && start >= a && start <= b ? start : (a + b) / 2;
+  for (let i = 0; i < 200; i++) {
+    admittanceSlopes(model, h, slopes);
+    const gh = sign * slopes[0]!;
+    const dg = sign * slopes[1]!;
+    if (gh === 0) return h;
+    if (Number.isNaN(gh)) return h;
+    if (gh < 0) a = h;
+    else b = h;
+    const newton = h - gh / dg;
+    const next = dg > 0 && newton > a && newton < b ? newton : (a + b) / 2;
+    if (Math.abs(next - h) <= REFINE_REL * h || b - a <= REFINE_REL * b) return next;
+    h = next;
+  }
+  return h;
 }
 
 /**
@@ -98,7 +237,9 @@ export function impedanceExtrema(model: BusModel, fromOrder: number, toOrder: nu
   for (let i = 0; i + 1 < edges.length; i++) {
     const range = clip(edges[i]!, edges[i + 1]!);
     if (!range) continue;
-    const h = refineExtremum(model, range[0], range[1], 1);
+    // the lossless resonance in this interval, where there is one, is where the search starts
+    const guess = resonances.find((r) => r > edges[i]! && r < edges[i + 1]!);
+    const h = refineExtremum(model, range[0], range[1], 1, guess);
     if (!isExtremum(model, h, 1, fromOrder, toOrder)) continue;
     const z = drivingPointImpedanceOhm(model, h);
     peaks.push({ order: h, impedanceOhm: z, timesSourceImpedance: z / sourceImpedanceOhmAt(model.source, h), timesBaseImpedance: z / model.source.baseImpedanceOhm });
@@ -108,7 +249,7 @@ export function impedanceExtrema(model: BusModel, fromOrder: number, toOrder: nu
     const above = resonances.find((r) => r > ht) ?? Number.POSITIVE_INFINITY;
     const range = clip(below, above);
     if (!range) continue;
-    const h = refineExtremum(model, range[0], range[1], -1);
+    const h = refineExtremum(model, range[0], range[1], -1, ht);
     if (isExtremum(model, h, -1, fromOrder, toOrder)) dips.push({ order: h, impedanceOhm: drivingPointImpedanceOhm(model, h) });
   }
   return { peaks, dips };

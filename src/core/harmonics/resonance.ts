@@ -42,7 +42,16 @@ export function ordersNearResonance(
   presentOrders: readonly number[],
   bandPct = RESONANCE_BAND_PCT,
 ): number[] {
-  return presentOrders.filter((n) => resonanceOrders.some((h) => withinResonanceBand(h, n, bandPct)));
+  const out: number[] = [];
+  for (const n of presentOrders) {
+    for (const h of resonanceOrders) {
+      if (withinResonanceBand(h, n, bandPct)) {
+        out.push(n);
+        break;
+      }
+    }
+  }
+  return out;
 }
 
 /** Nonlinear load above 15 % of the transformer calls for a harmonic study (rule of thumb from makers' guides, not a standard). */

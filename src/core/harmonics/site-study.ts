@@ -4,6 +4,7 @@ import type { LoadResult } from "../readings/site-totals.js";
 import {
   resolveScanGrid,
   runHarmonicStudy,
+  runHarmonicStudyInContext,
   studyContextOf,
   type CapacitorBankInput,
   type HarmonicStudyInput,
@@ -147,7 +148,7 @@ export function studySiteHarmonics(
       );
     }
   }
-  return { study, context: studyContextOf(studyInput), issues: [], warnings };
+  return { study, context: "context" in outcome ? outcome.context : studyContextOf(studyInput), issues: [], warnings };
 }
 
 /**
@@ -165,8 +166,8 @@ function seriesCount(study: HarmonicStudyResult): number {
  * With series asked for, the figures first (no grid: cheap), then the series only if they fit MAX_SERIES_POINTS;
  * otherwise an issue on scan.stepOrder naming the limit and the step that would fit.
  */
-function runWithinSeriesBudget(input: HarmonicStudyInput): ReturnType<typeof runHarmonicStudy> | { budgetIssue: InputIssue } {
-  if (!input.options?.includeScanSeries) return runHarmonicStudy(input);
+function runWithinSeriesBudget(input: HarmonicStudyInput): ReturnType<typeof runHarmonicStudy> | ReturnType<typeof runHarmonicStudyInContext> | { budgetIssue: InputIssue } {
+  if (!input.options?.includeScanSeries) return runHarmonicStudyInContext(input);
   const figures = runHarmonicStudy({ ...input, options: { ...input.options, includeScanSeries: false } });
   if (!figures.ok) return figures;
   const grid = resolveScanGrid(input.options.scan);

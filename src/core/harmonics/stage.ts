@@ -7,7 +7,8 @@ import { checkIeee519, type Ieee519Check } from "./limits.js";
 import { withBranches, type BusModel, type NetworkInput } from "./network.js";
 import { ordersNearResonance, parallelResonanceOrder } from "./resonance.js";
 import { tuningOrder } from "../bank/capacitor.js";
-import { extremaInScanRange, scanImpedance, type ImpedanceDip, type ResonancePeak, type ScanOptions } from "./scan.js";
+import { impedanceExtrema } from "./extrema.js";
+import { resolveScanGrid, scanImpedance, type ImpedanceDip, type ResonancePeak, type ScanOptions } from "./scan.js";
 import type { SpectrumLine } from "./study-types.js";
 
 export interface CapacitorStepInput {
@@ -90,10 +91,25 @@ export interface Finding {
   stageNumber?: number;
 }
 
+/** The scan range of each options object, resolved once: every stage of a study shares it. */
+const rangeOf = new WeakMap<ScanOptions, { fromOrder: number; toOrder: number }>();
+
+/** The peaks and dips scanImpedance would report for these options (extremaInScanRange), the range resolved once. */
+function extremaInRange(model: BusModel, options: ScanOptions): { peaks: ResonancePeak[]; dips: ImpedanceDip[] } {
+  let range = rangeOf.get(options);
+  if (!range) {
+    const grid = resolveScanGrid(options);
+    // the last grid point, as scanImpedance's own range ends there
+    range = { fromOrder: grid.fromOrder, toOrder: grid.fromOrder + (grid.points - 1) * grid.stepOrder };
+    rangeOf.set(options, range);
+  }
+  return impedanceExtrema(model, range.fromOrder, range.toOrder);
+}
+
 export function studyBus(ctx: StudyContext, model: BusModel): BusStudy {
   // The dense series only when it is returned (the scan endpoint, the report's chart); the figures need no grid.
   const scan = ctx.includeScanSeries ? scanImpedance(model, ctx.scan) : null;
-  const { peaks, dips } = scan ?? extremaInScanRange(model, ctx.scan);
+  const { peaks, dips } = scan ?? extremaInRange(model, ctx.scan);
   const distortion = busDistortion(model, ctx.currents, ctx.background);
   const study: BusStudy = {
     peaks,

@@ -81,7 +81,15 @@ const TRIGGERS: readonly FindingCode[] = ["resonance_near_harmonic", "capacitor_
 
 export function runHarmonicStudy(input: HarmonicStudyInput): HarmonicStudyOutcome {
   const issues = validateHarmonicStudyInput(input);
-  return issues.length > 0 ? { ok: false, issues } : { ok: true, result: computeStudy(input) };
+  return issues.length > 0 ? { ok: false, issues } : { ok: true, result: computeStudy(input, studyContextOf(input)) };
+}
+
+/** runHarmonicStudy, also giving the context it worked in (the bus and its injection), so a caller need not rebuild it. */
+export function runHarmonicStudyInContext(input: HarmonicStudyInput): (HarmonicStudyOutcome & { ok: false }) | { ok: true; result: HarmonicStudyResult; context: StudyContext } {
+  const issues = validateHarmonicStudyInput(input);
+  if (issues.length > 0) return { ok: false, issues };
+  const context = studyContextOf(input);
+  return { ok: true, result: computeStudy(input, context), context };
 }
 
 /** The bus, its injected currents and the study's options: what every stage study shares (input already validated). */
@@ -104,9 +112,8 @@ export function studyContextOf(input: HarmonicStudyInput): StudyContext {
   };
 }
 
-function computeStudy(input: HarmonicStudyInput): HarmonicStudyResult {
+function computeStudy(input: HarmonicStudyInput, ctx: StudyContext): HarmonicStudyResult {
   const o = input.options ?? {};
-  const ctx = studyContextOf(input);
   const { model, currents, background, presentOrders } = ctx;
   const bg3 = background.filter((l) => l.order === 3).reduce((s, l) => s + l.pct, 0);
   const thirdHarmonicSignificant = isThirdHarmonicSignificant(currents.byOrderA[3] ?? 0, currents.fundamentalA, bg3);

@@ -77,18 +77,26 @@ export function evaluateSite(
     const t = scaleTriangle(outcome.triangle, quantity);
     sumKW += t.kW;
     sumKvar += t.kvar;
-    results.push({
+    // The triangle's fields written out (not spread): the same keys in the same order, without a generic copy per load.
+    const result: LoadResult = {
       label: load.label,
       kind: load.kind ?? "other",
       method: load.measurement.method,
       quantity,
       phases,
-      ...t,
-      // I = S/(√3·V) at the volts read: a 460 V / 125 A reading is 125 A, not its kVA over the 480 V bus (119.8 A).
-      lineCurrentA: lineCurrentA(t.measuredKVA ?? t.kVA, volts ?? system.voltageV, phases),
-      currentVoltageV: volts ?? system.voltageV,
-      currentBasis: volts === undefined ? "system_voltage" : "reading",
-    });
+      kW: t.kW,
+      kvar: t.kvar,
+      kVA: t.kVA,
+      displacementPF: t.displacementPF,
+      sense: t.sense,
+    } as LoadResult;
+    if (t.measuredKVA !== undefined) result.measuredKVA = t.measuredKVA;
+    if (t.truePF !== undefined) result.truePF = t.truePF;
+    // I = S/(√3·V) at the volts read: a 460 V / 125 A reading is 125 A, not its kVA over the 480 V bus (119.8 A).
+    result.lineCurrentA = lineCurrentA(t.measuredKVA ?? t.kVA, volts ?? system.voltageV, phases);
+    result.currentVoltageV = volts ?? system.voltageV;
+    result.currentBasis = volts === undefined ? "system_voltage" : "reading";
+    results.push(result);
   });
 
   let main: MeasuredTriangle | undefined;

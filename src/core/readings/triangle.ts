@@ -47,7 +47,6 @@ function signOf(sense: Sense | undefined): number {
 export function triangleOf(m: Measurement, phases: Phases, at: (string | number)[]): TriangleOutcome {
   const issues: InputIssue[] = [];
   const warnings: Warning[] = [];
-  const pathStr = (f: string) => [...at, f].join(".");
 
   let kW: number;
   let meterPF: number;
@@ -91,7 +90,7 @@ export function triangleOf(m: Measurement, phases: Phases, at: (string | number)
           warning(
             "kw_clamped_to_kva",
             `kW is ${round3(kW - kVA)} above kVA, within 1 % meter tolerance: read as unity power factor`,
-            pathStr("kW"),
+            pathOf(at, "kW"),
           ),
         );
         meterPF = 1;
@@ -123,7 +122,7 @@ export function triangleOf(m: Measurement, phases: Phases, at: (string | number)
         warning(
           "displacement_pf_derived",
           `displacement PF ${round3(displacementPF)} derived from true PF ${round3(meterPF)} and current THD ${m.currentTHDPct} %`,
-          pathStr("pfType"),
+          pathOf(at, "pfType"),
         ),
       );
     } else {
@@ -131,7 +130,7 @@ export function triangleOf(m: Measurement, phases: Phases, at: (string | number)
         warning(
           "true_pf_without_thd",
           "a true-PF reading without current THD is used as if it were displacement PF; capacitors correct only the displacement part, so the kvar may be overstated — add currentTHDPct",
-          pathStr("pfType"),
+          pathOf(at, "pfType"),
         ),
       );
     }
@@ -163,6 +162,11 @@ export function scaleTriangle<T extends PowerTriangle>(t: T, quantity: number): 
   const withMeasured = out as T & { measuredKVA?: number };
   if (withMeasured.measuredKVA !== undefined) withMeasured.measuredKVA *= quantity;
   return out;
+}
+
+/** The dotted path of a field of the reading, e.g. "loads.3.measurement.kW". */
+function pathOf(at: (string | number)[], field: string): string {
+  return [...at, field].join(".");
 }
 
 function round3(x: number): number {
