@@ -16,7 +16,10 @@ export default tseslint.config(
       "@typescript-eslint/await-thenable": "error",
       // The code writes paired assignments as comma sequences on purpose ("(best = m), (fewest = c)").
       "@typescript-eslint/no-unused-expressions": "off",
-      "@typescript-eslint/no-unused-vars": ["error", { argsIgnorePattern: "^_", varsIgnorePattern: "^_", destructuredArrayIgnorePattern: "^_", caughtErrors: "none" }],
+      "@typescript-eslint/no-unused-vars": [
+        "error",
+        { argsIgnorePattern: "^_", varsIgnorePattern: "^_", destructuredArrayIgnorePattern: "^_", caughtErrors: "none" },
+      ],
     },
   },
   // Tests read JSON answers loosely on purpose.

@@ -66,7 +66,13 @@ async function bare(path: string): Promise<number> {
 function upload(port: number, path: string): Promise<{ status: number; body: string }> {
   return new Promise((resolve, reject) => {
     const req = request(
-      { host: "127.0.0.1", port, method: "POST", path: `/v1/interval-analyses?${QUERY}`, headers: { "content-type": "text/csv", "content-length": statSync(path).size, ...AUTH } },
+      {
+        host: "127.0.0.1",
+        port,
+        method: "POST",
+        path: `/v1/interval-analyses?${QUERY}`,
+        headers: { "content-type": "text/csv", "content-length": statSync(path).size, ...AUTH },
+      },
       (res) => {
         const chunks: Buffer[] = [];
         res.on("data", (c: Buffer) => chunks.push(c));
@@ -181,7 +187,11 @@ export async function benchInterval(): Promise<{ lines: string[]; uploadMs: numb
       const res = await upload(port, file);
       uploads.push(performance.now() - t);
       if (res.status !== 200) throw new Error(`upload answered ${res.status}: ${res.body.slice(0, 300)}`);
-      const json = JSON.parse(res.body) as { input: { acceptedRows: number }; neededKvar: { hold95PctKvar: number }; simulation: { switching: { operationsPerDay: number } } };
+      const json = JSON.parse(res.body) as {
+        input: { acceptedRows: number };
+        neededKvar: { hold95PctKvar: number };
+        simulation: { switching: { operationsPerDay: number } };
+      };
       if (json.input.acceptedRows !== ROWS) throw new Error(`accepted ${json.input.acceptedRows} rows`);
       summary = `hold95 ${json.neededKvar.hold95PctKvar.toFixed(1)} kvar, ${json.simulation.switching.operationsPerDay.toFixed(1)} switchings/day, response ${(res.body.length / 1024).toFixed(0)} KiB`;
     }

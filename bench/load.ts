@@ -23,7 +23,11 @@ const survey = {
   surveyedAt: "2024-06-03T09:00:00Z",
   surveyor: "Load bench",
   targetPF: 0.95,
-  loads: Array.from({ length: 8 }, (_, i) => ({ label: `Feeder ${i + 1}`, kind: "motor", measurement: { method: "kw_pf", kW: 20 + i, pf: 0.72 + i * 0.02, sense: "lagging" } })),
+  loads: Array.from({ length: 8 }, (_, i) => ({
+    label: `Feeder ${i + 1}`,
+    kind: "motor",
+    measurement: { method: "kw_pf", kW: 20 + i, pf: 0.72 + i * 0.02, sense: "lagging" },
+  })),
 };
 
 /**
@@ -35,7 +39,10 @@ const survey = {
 export async function benchLoad(opts: { seconds: number; connections?: number }): Promise<SectionResult> {
   const connections = opts.connections ?? LOAD_CONNECTIONS;
   const dir = mkdtempSync(join(tmpdir(), "pfc-bench-load-"));
-  const app = await buildApp({ config: defaultConfig({ DATABASE_PATH: join(dir, "load.sqlite"), DEMO_DATA: "off", LOG_LEVEL: "silent", ...BENCH_CONFIG }), logger: false });
+  const app = await buildApp({
+    config: defaultConfig({ DATABASE_PATH: join(dir, "load.sqlite"), DEMO_DATA: "off", LOG_LEVEL: "silent", ...BENCH_CONFIG }),
+    logger: false,
+  });
   try {
     const base = await app.listen({ port: 0, host: "127.0.0.1" });
     const ids: { b: string; s: string }[] = [];
@@ -57,12 +64,19 @@ export async function benchLoad(opts: { seconds: number; connections?: number })
     const r = await autocannon({ url: base, connections, duration: opts.seconds, requests, workers: 1 });
     const after = (sqliteOf(app.store).db.prepare("SELECT count(*) AS n FROM surveys").get() as { n: number }).n;
     const stats = r.statusCodeStats ?? {};
-    const fiveXX = Object.entries(stats).filter(([code]) => Number(code) >= 500).reduce((n, [, v]) => n + v.count, 0);
+    const fiveXX = Object.entries(stats)
+      .filter(([code]) => Number(code) >= 500)
+      .reduce((n, [, v]) => n + v.count, 0);
     const total = Math.round(r.requests.average * r.duration);
     const ok = r.errors === 0 && r.timeouts === 0 && r.non2xx === 0;
     return {
       rows: [
-        { section: "load", metric: `mixed reads + survey POSTs, ${connections} connections, req/s`, value: r.requests.average.toFixed(0), detail: `p50 ${r.latency.p50} ms, p99 ${r.latency.p99} ms` },
+        {
+          section: "load",
+          metric: `mixed reads + survey POSTs, ${connections} connections, req/s`,
+          value: r.requests.average.toFixed(0),
+          detail: `p50 ${r.latency.p50} ms, p99 ${r.latency.p99} ms`,
+        },
         { section: "load", metric: "latency p50 / p99, ms", value: `${r.latency.p50} / ${r.latency.p99}` },
         { section: "load", metric: "errors + timeouts + non-2xx", value: String(r.errors + r.timeouts + r.non2xx), goal: "0", pass: ok },
         { section: "load", metric: "5xx (SQLITE_BUSY would show here)", value: String(fiveXX), goal: "0", pass: fiveXX === 0 },

@@ -27,7 +27,11 @@ const SURVEY = {
   surveyedAt: "2024-06-03T09:00:00Z",
   surveyor: "Postgres bench",
   targetPF: 0.95,
-  loads: Array.from({ length: 8 }, (_, i) => ({ label: `Feeder ${i + 1}`, kind: "motor", measurement: { method: "kw_pf", kW: 20 + i, pf: 0.72 + i * 0.02, sense: "lagging" } })),
+  loads: Array.from({ length: 8 }, (_, i) => ({
+    label: `Feeder ${i + 1}`,
+    kind: "motor",
+    measurement: { method: "kw_pf", kW: 20 + i, pf: 0.72 + i * 0.02, sense: "lagging" },
+  })),
 };
 const POOL_SIZE = 10;
 
@@ -45,7 +49,15 @@ async function load(urls: string[], path: string, seconds: number, connections: 
   const per = Math.max(1, Math.round(connections / urls.length));
   const runs = await Promise.all(
     urls.map((u) =>
-      autocannon({ url: `${u}${path}`, method: "POST", headers: { "content-type": "application/json", ...AUTH }, body: JSON.stringify(SURVEY), connections: per, duration: seconds, workers: 1 }),
+      autocannon({
+        url: `${u}${path}`,
+        method: "POST",
+        headers: { "content-type": "application/json", ...AUTH },
+        body: JSON.stringify(SURVEY),
+        connections: per,
+        duration: seconds,
+        workers: 1,
+      }),
     ),
   );
   return { rps: runs.reduce((s, r) => s + r.requests.average, 0), bad: runs.reduce((s, r) => s + r.non2xx + r.errors + r.timeouts, 0) };
@@ -119,7 +131,9 @@ export async function benchPostgres(opts: { seconds: number; connections: number
     const [first, second] = servers;
     if (!first || !second) throw new Error("the bench servers did not start");
     const headers = { "content-type": "application/json", ...AUTH };
-    const b = (await (await fetch(`${first.baseUrl}/v1/buildings`, { method: "POST", headers, body: JSON.stringify(BUILDING) })).json()) as { id: string };
+    const b = (await (await fetch(`${first.baseUrl}/v1/buildings`, { method: "POST", headers, body: JSON.stringify(BUILDING) })).json()) as {
+      id: string;
+    };
     const path = `/v1/buildings/${b.id}/surveys`;
     const s = (await (await fetch(`${first.baseUrl}${path}`, { method: "POST", headers, body: JSON.stringify(SURVEY) })).json()) as { id: string };
     if (!b.id || !s.id) throw new Error("the bench could not store its building and first survey");
@@ -136,7 +150,12 @@ export async function benchPostgres(opts: { seconds: number; connections: number
         { section: "postgres", metric: "raw pg transaction per survey /s", value: raw.toFixed(0) },
         { section: "postgres", metric: "1 instance / raw", value: (one.rps / raw).toFixed(2) },
         { section: "postgres", metric: "2 instances / raw", value: (two.rps / raw).toFixed(2) },
-        { section: "postgres", metric: "2 instances / 1 instance", value: (two.rps / one.rps).toFixed(2), ...(bad > 0 ? { detail: `${bad} non-2xx or errors` } : {}) },
+        {
+          section: "postgres",
+          metric: "2 instances / 1 instance",
+          value: (two.rps / one.rps).toFixed(2),
+          ...(bad > 0 ? { detail: `${bad} non-2xx or errors` } : {}),
+        },
       ],
       notes: [
         `PostgreSQL at ${u.host}, database ${name} (dropped after); ${opts.connections} connections, ${opts.seconds} s per run, pool ${POOL_SIZE} per instance`,

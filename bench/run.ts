@@ -35,7 +35,13 @@ const SECTIONS: BenchSection[] = [
           { section: "surveys", metric: "bare route req/s", value: (r.bareRps ?? NaN).toFixed(0) },
           { section: "surveys", metric: "stored surveys/s (HTTP, group commit)", value: r.storedPerSec.toFixed(0) },
           { section: "surveys", metric: "http / combined ceiling", value: r.ratio.toFixed(2) },
-          { section: "surveys", metric: "stored surveys / raw ceiling", value: r.storedOverRaw.toFixed(2), goal: "≥ 1.0", pass: r.storedOverRaw >= 1.0 },
+          {
+            section: "surveys",
+            metric: "stored surveys / raw ceiling",
+            value: r.storedOverRaw.toFixed(2),
+            goal: "≥ 1.0",
+            pass: r.storedOverRaw >= 1.0,
+          },
         ],
         notes: r.lines,
       };
@@ -65,8 +71,20 @@ const SECTIONS: BenchSection[] = [
       const r = await benchInterval();
       return {
         rows: [
-          { section: "interval", metric: "525,600-row upload end to end, ms", value: r.uploadMs.toFixed(0), goal: "≤ 1500", pass: r.uploadMs <= 1500 },
-          { section: "interval", metric: "server peak RSS (own process), MB", value: r.peakRssMB.toFixed(0), goal: "≤ 250", pass: r.peakRssMB <= 250 },
+          {
+            section: "interval",
+            metric: "525,600-row upload end to end, ms",
+            value: r.uploadMs.toFixed(0),
+            goal: "≤ 1500",
+            pass: r.uploadMs <= 1500,
+          },
+          {
+            section: "interval",
+            metric: "server peak RSS (own process), MB",
+            value: r.peakRssMB.toFixed(0),
+            goal: "≤ 250",
+            pass: r.peakRssMB <= 250,
+          },
           { section: "interval", metric: "upload / bare line split", value: r.ratio.toFixed(1), goal: "≤ 3", pass: r.ratio <= 3 },
         ],
         notes: r.lines,
@@ -81,13 +99,19 @@ function table(rows: SummaryRow[]): string {
   const head = ["section", "metric", "value", "goal", "ok", "detail"];
   const cells = rows.map((r) => [r.section, r.metric, r.value, r.goal ?? "", r.pass === undefined ? "" : r.pass ? "yes" : "NO", r.detail ?? ""]);
   const widths = head.map((h, i) => Math.max(h.length, ...cells.map((c) => (c[i] ?? "").length)));
-  const line = (c: string[]) => c.map((x, i) => x.padEnd(widths[i] ?? 0)).join("  ").trimEnd();
+  const line = (c: string[]) =>
+    c
+      .map((x, i) => x.padEnd(widths[i] ?? 0))
+      .join("  ")
+      .trimEnd();
   return [line(head), line(widths.map((w) => "-".repeat(w))), ...cells.map(line)].join("\n");
 }
 
 async function main(): Promise<number> {
   const knobs = knobsFromEnv(process.env);
-  const only = process.env.BENCH_ONLY?.split(",").map((s) => s.trim()).filter(Boolean);
+  const only = process.env.BENCH_ONLY?.split(",")
+    .map((s) => s.trim())
+    .filter(Boolean);
   const chosen = only?.length ? SECTIONS.filter((s) => only.includes(s.name)) : SECTIONS;
   if (only?.length && chosen.length !== only.length) {
     process.stderr.write(`unknown section in BENCH_ONLY; known: ${SECTIONS.map((s) => s.name).join(", ")}\n`);

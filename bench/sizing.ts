@@ -50,14 +50,28 @@ export async function benchSizing(knobs: Knobs): Promise<SectionResult> {
     }
     // The three routes take turns in one-second windows, so load from outside the bench (a shared machine) falls
     // on all three alike instead of on whichever ran while it lasted.
-    const [sizing, bare, echo] = (await interleavedLoads([sizingUrl, bareUrl, echoUrl], body, knobs.seconds, knobs.connections)) as [LoadResult, LoadResult, LoadResult];
+    const [sizing, bare, echo] = (await interleavedLoads([sizingUrl, bareUrl, echoUrl], body, knobs.seconds, knobs.connections)) as [
+      LoadResult,
+      LoadResult,
+      LoadResult,
+    ];
     const ratio = sizing.reqPerSec / bare.reqPerSec;
     const echoRatio = sizing.reqPerSec / echo.reqPerSec;
     const fmt = (n: number) => n.toFixed(0);
     return {
       rows: [
-        { section: "sizing", metric: "POST /v1/sizing (20 loads) req/s", value: fmt(sizing.reqPerSec), detail: `p50 ${sizing.p50Ms} ms, p99 ${sizing.p99Ms} ms` },
-        { section: "sizing", metric: `POST ${BARE_PATH} (same body) req/s`, value: fmt(bare.reqPerSec), detail: `p50 ${bare.p50Ms} ms, p99 ${bare.p99Ms} ms` },
+        {
+          section: "sizing",
+          metric: "POST /v1/sizing (20 loads) req/s",
+          value: fmt(sizing.reqPerSec),
+          detail: `p50 ${sizing.p50Ms} ms, p99 ${sizing.p99Ms} ms`,
+        },
+        {
+          section: "sizing",
+          metric: `POST ${BARE_PATH} (same body) req/s`,
+          value: fmt(bare.reqPerSec),
+          detail: `p50 ${bare.p50Ms} ms, p99 ${bare.p99Ms} ms`,
+        },
         {
           section: "sizing",
           metric: "sizing / bare ratio",
@@ -65,7 +79,12 @@ export async function benchSizing(knobs: Knobs): Promise<SectionResult> {
           goal: `≥ ${SIZING_RATIO_GOAL}`,
           pass: ratio >= SIZING_RATIO_GOAL,
         },
-        { section: "sizing", metric: `POST ${ECHO_PATH} (parse, answer a stored result) req/s`, value: fmt(echo.reqPerSec), detail: `p50 ${echo.p50Ms} ms, p99 ${echo.p99Ms} ms` },
+        {
+          section: "sizing",
+          metric: `POST ${ECHO_PATH} (parse, answer a stored result) req/s`,
+          value: fmt(echo.reqPerSec),
+          detail: `p50 ${echo.p50Ms} ms, p99 ${echo.p99Ms} ms`,
+        },
         { section: "sizing", metric: "sizing / same-size-answer ratio", value: echoRatio.toFixed(3), detail: "the engine's own cost" },
         {
           section: "sizing",

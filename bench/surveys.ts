@@ -66,7 +66,15 @@ function surveyOf20Loads() {
 
 async function load(url: string, body: string, seconds: number, connections: number): Promise<AutocannonResult> {
   // the load generator runs in a worker thread, so the server keeps the main thread to itself
-  return autocannon({ url, method: "POST", headers: { "content-type": "application/json", ...AUTH }, body, connections, duration: seconds, workers: 1 });
+  return autocannon({
+    url,
+    method: "POST",
+    headers: { "content-type": "application/json", ...AUTH },
+    body,
+    connections,
+    duration: seconds,
+    workers: 1,
+  });
 }
 
 async function rawTransactions(dir: string, seconds: number): Promise<number> {
@@ -90,7 +98,15 @@ async function rawTransactions(dir: string, seconds: number): Promise<number> {
         const at = new Date().toISOString();
         const surveyId = newId("srv");
         surveys.create(DEFAULT_ORG_ID, building.id, { ...template, surveyId, createdAt: at });
-        audit.record({ orgId: DEFAULT_ORG_ID, actor: "bench", action: "survey.create", resourceType: "survey", resourceId: surveyId, requestId: "bench", at });
+        audit.record({
+          orgId: DEFAULT_ORG_ID,
+          actor: "bench",
+          action: "survey.create",
+          resourceType: "survey",
+          resourceId: surveyId,
+          requestId: "bench",
+          at,
+        });
       });
       n++;
     }

@@ -107,7 +107,11 @@ async function assemble(options: AppOptions, store: Store): Promise<FastifyInsta
 
   // Before every other hook: a lagging loop sheds requests before they cost anything.
   await installPressure(app, config);
-  const heavyWork = createHeavyWork({ threads: config.HEAVY_WORK_THREADS, maxQueue: config.HEAVY_WORK_QUEUE, retryAfterS: config.OVERLOAD_RETRY_AFTER_S });
+  const heavyWork = createHeavyWork({
+    threads: config.HEAVY_WORK_THREADS,
+    maxQueue: config.HEAVY_WORK_QUEUE,
+    retryAfterS: config.OVERLOAD_RETRY_AFTER_S,
+  });
   app.decorate("heavyWork", heavyWork);
   app.addHook("onClose", async () => heavyWork.close());
 

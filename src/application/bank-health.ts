@@ -34,7 +34,18 @@ export interface HealthSeries {
 
 /** What makes a bank the same bank: everything but its label. */
 function signature(b: InstalledBankInput): string {
-  return JSON.stringify([b.location, b.group ?? null, b.loadLabel ?? null, b.control, b.ratedVoltageV, b.ratedFrequencyHz ?? null, b.connection ?? null, b.reactorPct ?? 0, b.steps.map((s) => s.kvar), b.installedOn ?? null]);
+  return JSON.stringify([
+    b.location,
+    b.group ?? null,
+    b.loadLabel ?? null,
+    b.control,
+    b.ratedVoltageV,
+    b.ratedFrequencyHz ?? null,
+    b.connection ?? null,
+    b.reactorPct ?? 0,
+    b.steps.map((s) => s.kvar),
+    b.installedOn ?? null,
+  ]);
 }
 
 export function bankHealthSeries(surveys: readonly SurveyBanks[]): HealthSeries[] {
@@ -62,7 +73,16 @@ export function bankHealthSeries(surveys: readonly SurveyBanks[]): HealthSeries[
             open.delete(renamedFrom[0]);
           }
         }
-        cur = { s: { bank: r.label, startedBecause, note, definition: def, steps: r.steps.map((st) => ({ step: st.step, nameplateKvar: st.nameplateKvar, points: [] })) }, sig };
+        cur = {
+          s: {
+            bank: r.label,
+            startedBecause,
+            note,
+            definition: def,
+            steps: r.steps.map((st) => ({ step: st.step, nameplateKvar: st.nameplateKvar, points: [] })),
+          },
+          sig,
+        };
         series.push(cur.s);
         open.set(r.label, cur);
       }

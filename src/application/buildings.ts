@@ -7,7 +7,16 @@ import type { BuildingData, BuildingRecord } from "../store/types.js";
 
 /** The building's data as stored (without id, version and times). */
 export function dataOf(b: BuildingRecord): BuildingData {
-  return { name: b.name, address: b.address, notes: b.notes, system: b.system, transformer: b.transformer, utility: b.utility, economics: b.economics, ...(b.installedBanks ? { installedBanks: b.installedBanks } : {}) };
+  return {
+    name: b.name,
+    address: b.address,
+    notes: b.notes,
+    system: b.system,
+    transformer: b.transformer,
+    utility: b.utility,
+    economics: b.economics,
+    ...(b.installedBanks ? { installedBanks: b.installedBanks } : {}),
+  };
 }
 
 /** Field order fixed and absent parts explicit, so an unchanged PATCH compares equal. */
@@ -38,7 +47,15 @@ export async function createBuilding(store: Store, who: Who, data: BuildingData,
   const normal = normalised(data);
   return store.transaction(async (tx) => {
     const b = await tx.buildings.create(who.orgId, newId("bld"), normal, who.actorId, at);
-    await tx.audit.record({ orgId: who.orgId, actor: who.actorId, action: "building.create", resourceType: "building", resourceId: b.id, requestId: who.requestId, at });
+    await tx.audit.record({
+      orgId: who.orgId,
+      actor: who.actorId,
+      action: "building.create",
+      resourceType: "building",
+      resourceId: b.id,
+      requestId: who.requestId,
+      at,
+    });
     return finish(tx, b);
   });
 }
@@ -47,7 +64,13 @@ export async function createBuilding(store: Store, who: Who, data: BuildingData,
  * Apply `change` as the building's next version (its history keeps the previous one). An unchanged building
  * writes no version. The version read is the one written against: a concurrent change in between is retried.
  */
-export async function updateBuilding(store: Store, who: Who, id: string, change: BuildingChange, finish: Finish<BuildingRecord>): Promise<WriteOutcome> {
+export async function updateBuilding(
+  store: Store,
+  who: Who,
+  id: string,
+  change: BuildingChange,
+  finish: Finish<BuildingRecord>,
+): Promise<WriteOutcome> {
   return store.transaction(async (tx) => {
     const current = await findBuilding(tx, who.orgId, id);
     const now = dataOf(current);
@@ -56,7 +79,15 @@ export async function updateBuilding(store: Store, who: Who, id: string, change:
     const at = store.now().toISOString();
     const b = await tx.buildings.update(who.orgId, id, current.version, next, who.actorId, at);
     if (!b) throw new Error(`building ${id} changed inside its own transaction`);
-    await tx.audit.record({ orgId: who.orgId, actor: who.actorId, action: "building.update", resourceType: "building", resourceId: id, requestId: who.requestId, at });
+    await tx.audit.record({
+      orgId: who.orgId,
+      actor: who.actorId,
+      action: "building.update",
+      resourceType: "building",
+      resourceId: id,
+      requestId: who.requestId,
+      at,
+    });
     return finish(tx, b);
   });
 }

@@ -13,6 +13,14 @@ export async function revokeKey(store: Store, who: Who, id: string): Promise<voi
     }
     const at = store.now().toISOString();
     await tx.keys.revoke(who.orgId, id, at);
-    await tx.audit.record({ orgId: who.orgId, actor: who.actorId, action: "key.revoke", resourceType: "api_key", resourceId: id, requestId: who.requestId, at });
+    await tx.audit.record({
+      orgId: who.orgId,
+      actor: who.actorId,
+      action: "key.revoke",
+      resourceType: "api_key",
+      resourceId: id,
+      requestId: who.requestId,
+      at,
+    });
   });
 }

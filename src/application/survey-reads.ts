@@ -20,7 +20,11 @@ export async function revisionOf(repos: Repositories, orgId: string, id: string,
   return latest;
 }
 
-export async function surveyWithRevisions(repos: Repositories, orgId: string, id: string): Promise<{ latest: RevisionRecord; revisions: RevisionListEntry[] }> {
+export async function surveyWithRevisions(
+  repos: Repositories,
+  orgId: string,
+  id: string,
+): Promise<{ latest: RevisionRecord; revisions: RevisionListEntry[] }> {
   const latest = await revisionOf(repos, orgId, id);
   return { latest, revisions: await repos.surveys.revisions(orgId, id) };
 }
@@ -47,13 +51,27 @@ async function bankHistoryOf(repos: Repositories, orgId: string, r: RevisionReco
   if (!r.result.installedBanks) return {};
   const rows = await repos.surveys.withInstalledBanks(orgId, r.buildingId, BANK_HEALTH_MAX_SURVEYS);
   const upTo = rows.findIndex((x) => x.surveyId === r.surveyId);
-  const used = (upTo >= 0 ? rows.slice(0, upTo + 1) : rows).map((x) => (x.surveyId === r.surveyId ? { ...x, result: r.result, building: r.building } : x));
-  const bankHistory = bankHealthSeries(used.map((x) => ({ surveyId: x.surveyId, surveyedAt: x.surveyedAt, definitions: x.building.installedBanks ?? [], results: x.result.installedBanks ?? [] })));
+  const used = (upTo >= 0 ? rows.slice(0, upTo + 1) : rows).map((x) =>
+    x.surveyId === r.surveyId ? { ...x, result: r.result, building: r.building } : x,
+  );
+  const bankHistory = bankHealthSeries(
+    used.map((x) => ({
+      surveyId: x.surveyId,
+      surveyedAt: x.surveyedAt,
+      definitions: x.building.installedBanks ?? [],
+      results: x.result.installedBanks ?? [],
+    })),
+  );
   return { bankHistory };
 }
 
 /** A stored survey's report input: the revision, its building's data at the snapshot, the interval analysis it names, the bank history. */
-export async function surveyReportData(repos: Repositories, orgId: string, id: string, n?: number): Promise<{ revision: RevisionRecord; input: ReportInput }> {
+export async function surveyReportData(
+  repos: Repositories,
+  orgId: string,
+  id: string,
+  n?: number,
+): Promise<{ revision: RevisionRecord; input: ReportInput }> {
   const r = await revisionOf(repos, orgId, id, n);
   const current = await repos.buildings.get(orgId, r.buildingId);
   const atSnapshot = current && (await repos.buildings.history(orgId, r.buildingId)).find((v) => v.version === r.building.buildingVersion)?.data;

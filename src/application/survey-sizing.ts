@@ -96,7 +96,12 @@ export type SerializedRevision = NewRevision & { resultUtf8: Uint8Array };
 const utf8 = new TextEncoder();
 
 /** computeRevision, with the result serialised once. */
-export function computeSerializedRevision(building: BuildingRecord, inputs: SurveyInputs, meta: RevisionMeta, analysis?: IntervalAnalysisRecord): SerializedRevision {
+export function computeSerializedRevision(
+  building: BuildingRecord,
+  inputs: SurveyInputs,
+  meta: RevisionMeta,
+  analysis?: IntervalAnalysisRecord,
+): SerializedRevision {
   const revision = computeRevision(building, inputs, meta, analysis);
   return { ...revision, resultUtf8: utf8.encode(JSON.stringify(revision.result)) };
 }

@@ -24,12 +24,20 @@ const SIZING_ATTEMPTS = 2;
  * The interval analysis a survey of the building is sized with: the one named (it must be the same building's),
  * none when null, else the building's newest (none when it has none).
  */
-export async function analysisFor(repos: Repositories, orgId: string, buildingId: string, requested: string | null | undefined): Promise<IntervalAnalysisRecord | undefined> {
+export async function analysisFor(
+  repos: Repositories,
+  orgId: string,
+  buildingId: string,
+  requested: string | null | undefined,
+): Promise<IntervalAnalysisRecord | undefined> {
   if (requested === null) return undefined;
   if (requested === undefined) return repos.intervalAnalyses.newestOf(orgId, buildingId);
   const a = await repos.intervalAnalyses.get(orgId, requested);
   if (a && a.buildingId === buildingId) return a;
-  throw new FieldRejected("intervalAnalysisId", `building ${buildingId} has no interval analysis ${requested}; see GET /v1/buildings/${buildingId}/interval-analyses`);
+  throw new FieldRejected(
+    "intervalAnalysisId",
+    `building ${buildingId} has no interval analysis ${requested}; see GET /v1/buildings/${buildingId}/interval-analyses`,
+  );
 }
 
 /** The revision as sized, and what it was sized against: the transaction checks both are still current. */
@@ -39,7 +47,13 @@ interface Sized {
   analysisId: string | null;
 }
 
-async function sizeAgainst(repos: Repositories, who: Who, buildingId: string, inputs: SurveyInputs, meta: { surveyId: string; n: number; reason: string | null; at: string }): Promise<Sized> {
+async function sizeAgainst(
+  repos: Repositories,
+  who: Who,
+  buildingId: string,
+  inputs: SurveyInputs,
+  meta: { surveyId: string; n: number; reason: string | null; at: string },
+): Promise<Sized> {
   const building = await findBuilding(repos, who.orgId, buildingId);
   const analysis = await analysisFor(repos, who.orgId, buildingId, inputs.intervalAnalysisId);
   const revision = computeSerializedRevision(building, inputs, { ...meta, actor: who.actorId }, analysis);
@@ -54,7 +68,8 @@ async function stillCurrent(tx: Repositories, who: Who, buildingId: string, inpu
   return ((await tx.intervalAnalyses.newestOf(who.orgId, buildingId))?.id ?? null) === s.analysisId;
 }
 
-const movedTwice = (what: string) => new Conflict("changed_meanwhile", `${what} changed twice while this request was being sized; read it again and retry`);
+const movedTwice = (what: string) =>
+  new Conflict("changed_meanwhile", `${what} changed twice while this request was being sized; read it again and retry`);
 
 export interface RecordedSurvey {
   surveyId: string;
@@ -62,7 +77,13 @@ export interface RecordedSurvey {
   buildingId: string;
 }
 
-export async function recordSurvey(store: Store, who: Who, buildingId: string, inputs: SurveyInputs, finish: Finish<RecordedSurvey>): Promise<WriteOutcome> {
+export async function recordSurvey(
+  store: Store,
+  who: Who,
+  buildingId: string,
+  inputs: SurveyInputs,
+  finish: Finish<RecordedSurvey>,
+): Promise<WriteOutcome> {
   const surveyId = newId("srv");
   for (let attempt = 1; ; attempt++) {
     const at = store.now().toISOString();
@@ -70,7 +91,15 @@ export async function recordSurvey(store: Store, who: Who, buildingId: string, i
     const outcome = await store.transaction(async (tx) => {
       if (!(await stillCurrent(tx, who, buildingId, inputs, sized))) return undefined;
       await tx.surveys.create(who.orgId, buildingId, sized.revision);
-      await tx.audit.record({ orgId: who.orgId, actor: who.actorId, action: "survey.create", resourceType: "survey", resourceId: surveyId, requestId: who.requestId, at });
+      await tx.audit.record({
+        orgId: who.orgId,
+        actor: who.actorId,
+        action: "survey.create",
+        resourceType: "survey",
+        resourceId: surveyId,
+        requestId: who.requestId,
+        at,
+      });
       return finish(tx, { surveyId, revision: sized.revision, buildingId });
     });
     if (outcome) return outcome;
@@ -78,7 +107,14 @@ export async function recordSurvey(store: Store, who: Who, buildingId: string, i
   }
 }
 
-export async function reviseSurvey(store: Store, who: Who, surveyId: string, reason: string | null, inputs: SurveyInputs, finish: Finish<RecordedSurvey>): Promise<WriteOutcome> {
+export async function reviseSurvey(
+  store: Store,
+  who: Who,
+  surveyId: string,
+  reason: string | null,
+  inputs: SurveyInputs,
+  finish: Finish<RecordedSurvey>,
+): Promise<WriteOutcome> {
   for (let attempt = 1; ; attempt++) {
     const head = await store.surveys.head(who.orgId, surveyId);
     if (!head) throw new NotFound(`survey ${surveyId}`);
@@ -88,7 +124,15 @@ export async function reviseSurvey(store: Store, who: Who, surveyId: string, rea
       if (!(await stillCurrent(tx, who, head.buildingId, inputs, sized))) return undefined;
       // revise() refuses when revision n - 1 is no longer the latest (another revision committed meanwhile).
       if (!(await tx.surveys.revise(who.orgId, sized.revision))) return undefined;
-      await tx.audit.record({ orgId: who.orgId, actor: who.actorId, action: "survey.revise", resourceType: "survey", resourceId: surveyId, requestId: who.requestId, at });
+      await tx.audit.record({
+        orgId: who.orgId,
+        actor: who.actorId,
+        action: "survey.revise",
+        resourceType: "survey",
+        resourceId: surveyId,
+        requestId: who.requestId,
+        at,
+      });
       return finish(tx, { surveyId, revision: sized.revision, buildingId: head.buildingId });
     });
     if (outcome) return outcome;

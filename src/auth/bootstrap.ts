@@ -24,8 +24,16 @@ function newKey(store: Store, k: KeyRequest, given?: string): IssuedKey {
   if (given !== undefined && !parsed) throw new Error(`the given key is not a key: ${keyShapeProblem(given) ?? "it does not have the key's shape"}`);
   const fresh = parsed ? { key: given as string, prefix: parsed.prefix, secretSha256: hashSecret(parsed.secret) } : generateKey();
   const record: ApiKeyRecord = {
-    id: newId("key"), orgId: k.orgId, prefix: fresh.prefix, secretSha256: fresh.secretSha256, role: k.role,
-    label: k.label ?? null, createdAt: store.now().toISOString(), createdBy: k.createdBy, revokedAt: null, lastUsedAt: null,
+    id: newId("key"),
+    orgId: k.orgId,
+    prefix: fresh.prefix,
+    secretSha256: fresh.secretSha256,
+    role: k.role,
+    label: k.label ?? null,
+    createdAt: store.now().toISOString(),
+    createdBy: k.createdBy,
+    revokedAt: null,
+    lastUsedAt: null,
   };
   return { key: fresh.key, record };
 }
@@ -34,7 +42,15 @@ async function storeKey(tx: Repositories, k: KeyRequest, issued: IssuedKey): Pro
   await tx.keys.create(issued.record);
   if (k.audit !== false) {
     const r = issued.record;
-    await tx.audit.record({ orgId: k.orgId, actor: k.createdBy, action: "key.create", resourceType: "api_key", resourceId: r.id, requestId: k.requestId ?? null, at: r.createdAt });
+    await tx.audit.record({
+      orgId: k.orgId,
+      actor: k.createdBy,
+      action: "key.create",
+      resourceType: "api_key",
+      resourceId: r.id,
+      requestId: k.requestId ?? null,
+      at: r.createdAt,
+    });
   }
 }
 

@@ -14,18 +14,39 @@ interface MeasurementCommon {
   currentTHDPct?: number;
 }
 
-export interface KwKvaMeasurement extends MeasurementCommon { method: "kw_kva"; kW: number; kVA: number; sense?: Sense }
-export interface KwKvarMeasurement extends MeasurementCommon { method: "kw_kvar"; kW: number; kvar: number }
-export interface KwPfMeasurement extends MeasurementCommon { method: "kw_pf"; kW: number; pf: number; sense: Sense }
-export interface VIKwMeasurement extends MeasurementCommon { method: "v_i_kw"; volts: number; amps: number; kW: number; sense?: Sense }
-export interface VIPfMeasurement extends MeasurementCommon { method: "v_i_pf"; volts: number; amps: number; pf: number; sense: Sense }
+export interface KwKvaMeasurement extends MeasurementCommon {
+  method: "kw_kva";
+  kW: number;
+  kVA: number;
+  sense?: Sense;
+}
+export interface KwKvarMeasurement extends MeasurementCommon {
+  method: "kw_kvar";
+  kW: number;
+  kvar: number;
+}
+export interface KwPfMeasurement extends MeasurementCommon {
+  method: "kw_pf";
+  kW: number;
+  pf: number;
+  sense: Sense;
+}
+export interface VIKwMeasurement extends MeasurementCommon {
+  method: "v_i_kw";
+  volts: number;
+  amps: number;
+  kW: number;
+  sense?: Sense;
+}
+export interface VIPfMeasurement extends MeasurementCommon {
+  method: "v_i_pf";
+  volts: number;
+  amps: number;
+  pf: number;
+  sense: Sense;
+}
 
-export type Measurement =
-  | KwKvaMeasurement
-  | KwKvarMeasurement
-  | KwPfMeasurement
-  | VIKwMeasurement
-  | VIPfMeasurement;
+export type Measurement = KwKvaMeasurement | KwKvarMeasurement | KwPfMeasurement | VIKwMeasurement | VIPfMeasurement;
 
 export type MeasurementMethod = Measurement["method"];
 
@@ -35,14 +56,7 @@ export interface HarmonicComponent {
 }
 
 export type StartingMethod =
-  | "across_the_line"
-  | "star_delta"
-  | "soft_starter"
-  | "reduced_voltage"
-  | "jogging"
-  | "plugging"
-  | "reversing"
-  | "multi_speed";
+  "across_the_line" | "star_delta" | "soft_starter" | "reduced_voltage" | "jogging" | "plugging" | "reversing" | "multi_speed";
 
 export interface LoadInput {
   label: string;

@@ -58,7 +58,7 @@ export function ieee18Severity(valuePct: number, limitPct: number): Severity | n
 export function compactList(ns: readonly number[]): string {
   const sorted = [...new Set(ns)].sort((a, b) => a - b);
   const parts: string[] = [];
-  for (let i = 0; i < sorted.length; ) {
+  for (let i = 0; i < sorted.length;) {
     let j = i;
     while (j + 1 < sorted.length && sorted[j + 1] === sorted[j]! + 1) j++;
     parts.push(j - i >= 2 ? `${sorted[i]}–${sorted[j]}` : sorted.slice(i, j + 1).join(", "));

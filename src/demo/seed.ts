@@ -17,7 +17,14 @@ export async function seedDemo(store: Store): Promise<string | null> {
   const at = store.now().toISOString();
   const buildingId = newId("bld");
   // The building as create() will store it (version 1): the surveys are sized against it before the write.
-  const planned: BuildingRecord = { ...DEMO_BUILDING, economics: DEMO_BUILDING.economics ?? null, id: buildingId, version: 1, createdAt: at, updatedAt: at };
+  const planned: BuildingRecord = {
+    ...DEMO_BUILDING,
+    economics: DEMO_BUILDING.economics ?? null,
+    id: buildingId,
+    version: 1,
+    createdAt: at,
+    updatedAt: at,
+  };
   const surveys = DEMO_SURVEYS.map((inputs) => {
     const surveyId = newId("srv");
     return computeRevision(planned, inputs, { surveyId, n: 1, reason: null, actor: DEMO_ACTOR, at });

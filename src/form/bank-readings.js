@@ -29,7 +29,12 @@ function voltageOf(r) {
 }
 
 /** Whether anything was entered for the bank: a bank with nothing is sent as not read (taken as out of service). */
-const isRead = (r, bank) => filled(r.voltageV) || bank.steps.some((_, i) => { const s = stepOf(r, i + 1); return s.on || phasesOf(r).some((p) => filled(s[p])); });
+const isRead = (r, bank) =>
+  filled(r.voltageV) ||
+  bank.steps.some((_, i) => {
+    const s = stepOf(r, i + 1);
+    return s.on || phasesOf(r).some((p) => filled(s[p]));
+  });
 
 /**
  * The readings as the service takes them, and the body path of each control (by its data-key), so a message from
@@ -121,26 +126,53 @@ function bankPanel(bank, bi, count) {
   const id = (...p) => `br${bi}-${p.join("-")}`;
   const ph = phasesOf(r);
   const v = voltageOf(r);
-  const voltage = el("input", { type: "text", inputmode: "decimal", id: id("voltageV"), "data-key": `${bank.label}|voltageV`, placeholder: String(sys.voltageV), autocomplete: "off" });
+  const voltage = el("input", {
+    type: "text",
+    inputmode: "decimal",
+    id: id("voltageV"),
+    "data-key": `${bank.label}|voltageV`,
+    placeholder: String(sys.voltageV),
+    autocomplete: "off",
+  });
   voltage.value = r.voltageV;
   const top = el(
     "div",
     { class: "grid" },
-    el("div", { class: "field" }, el("label", { for: voltage.id }, "Voltage at the bank (V)"), voltage, el("p", { class: "msg", id: `${voltage.id}-msg`, role: "alert" })),
+    el(
+      "div",
+      { class: "field" },
+      el("label", { for: voltage.id }, "Voltage at the bank (V)"),
+      voltage,
+      el("p", { class: "msg", id: `${voltage.id}-msg`, role: "alert" }),
+    ),
   );
   if (sys.phases !== 1) {
     const mode = el("select", { id: id("mode"), "data-mode": bank.label }, new Option("Per phase", "phase"), new Option("One figure", "one"));
     mode.value = r.perPhase ? "phase" : "one";
     top.append(el("div", { class: "field" }, el("label", { for: mode.id }, "Step currents"), mode));
   }
-  const head = el("tr", {}, el("th", { scope: "col" }, "Step"), el("th", { scope: "col" }, "In service"), ...ph.map((p) => el("th", { scope: "col" }, p === "one" ? "Amps" : `${p.toUpperCase()} (A)`)), el("th", { scope: "col" }, "Found"));
+  const head = el(
+    "tr",
+    {},
+    el("th", { scope: "col" }, "Step"),
+    el("th", { scope: "col" }, "In service"),
+    ...ph.map((p) => el("th", { scope: "col" }, p === "one" ? "Amps" : `${p.toUpperCase()} (A)`)),
+    el("th", { scope: "col" }, "Found"),
+  );
   const rows = bank.steps.map((step, i) => {
     const n = i + 1;
     const s = stepOf(r, n);
     const on = el("input", { type: "checkbox", id: id("on", n), "data-key": `${bank.label}|on|${n}` });
     on.checked = s.on;
     const amps = ph.map((p) => {
-      const input = el("input", { type: "text", inputmode: "decimal", id: id("amps", n, p), "data-key": `${bank.label}|amps|${n}|${p}`, autocomplete: "off", "aria-label": `step ${n} ${p === "one" ? "amps" : `phase ${p.toUpperCase()} amps`}` });
+      const input = el("input", {
+        type: "text",
+        inputmode: "decimal",
+        id: id("amps", n, p),
+        "data-key": `${bank.label}|amps|${n}|${p}`,
+        autocomplete: "off",
+        "aria-label": `step ${n} ${p === "one" ? "amps" : `phase ${p.toUpperCase()} amps`}`,
+      });
       input.value = s[p];
       return cell(input, `${input.id}-msg`);
     });
@@ -148,7 +180,13 @@ function bankPanel(bank, bi, count) {
     return el(
       "tr",
       { "data-step": n },
-      el("th", { scope: "row" }, `${n}`, el("span", { class: "sub" }, `${step.kvar} kvar`), el("span", { class: "expect" }, `expect ${f1(expected)} A`)),
+      el(
+        "th",
+        { scope: "row" },
+        `${n}`,
+        el("span", { class: "sub" }, `${step.kvar} kvar`),
+        el("span", { class: "expect" }, `expect ${f1(expected)} A`),
+      ),
       el("td", {}, el("label", { class: "tick", for: on.id }, on, " on")),
       ...amps,
       el("td", { class: "found", "data-found": n }, foundText(bank, r, n)),
@@ -191,7 +229,8 @@ function refreshBank(label) {
   const r = readingOf(label);
   const v = voltageOf(r);
   panel.querySelector("summary").textContent = summaryText(bank, r);
-  for (const c of panel.querySelectorAll("[data-key]")) if (c.type !== "checkbox" && (filled(c.value) || c.getAttribute("aria-invalid"))) setMsg(c, messageOf(c));
+  for (const c of panel.querySelectorAll("[data-key]"))
+    if (c.type !== "checkbox" && (filled(c.value) || c.getAttribute("aria-invalid"))) setMsg(c, messageOf(c));
   bank.steps.forEach((step, i) => {
     const row = panel.querySelector(`tr[data-step="${i + 1}"]`);
     row.querySelector(".expect").textContent = `expect ${f1(expectedStepA(step.kvar, bank, v, state.system()))} A`;

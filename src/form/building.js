@@ -59,7 +59,14 @@ export function renderNewBuilding(openFolds) {
   BUILDING_SECTIONS.forEach((section, i) => {
     const part = document.createElement("div");
     part.id = `nb-part-${i}`;
-    if (section.fold) drawFields(part, section.fields.map((d) => ({ ...d, fold: true })), nb.values, idOf, { foldTitle: section.title, foldKey: `nb-${i}`, openFolds });
+    if (section.fold)
+      drawFields(
+        part,
+        section.fields.map((d) => ({ ...d, fold: true })),
+        nb.values,
+        idOf,
+        { foldTitle: section.title, foldKey: `nb-${i}`, openFolds },
+      );
     else drawFields(part, section.fields, nb.values, idOf);
     box.append(part);
   });
@@ -85,7 +92,8 @@ export function onNewBuildingEdit(ev, openFolds) {
   saveNb();
   const def = defs().find((d) => d.path === path);
   const msg = input.closest(".field")?.querySelector(".msg");
-  if (def && (ev.type === "change" || msg?.textContent)) setMsg(input, errorsOf([def], values())[0]?.message ?? bankIssues(nb.banks).find((e) => e.path === path)?.message ?? "");
+  if (def && (ev.type === "change" || msg?.textContent))
+    setMsg(input, errorsOf([def], values())[0]?.message ?? bankIssues(nb.banks).find((e) => e.path === path)?.message ?? "");
   if (ev.type === "change" && input.tagName === "SELECT") {
     renderNewBuilding(openFolds);
     $(input.id)?.focus();

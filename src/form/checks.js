@@ -11,7 +11,9 @@ const VOLTS_TOLERANCE = 0.1;
 
 /** "" → null (missing); "1,5" reads as 1.5; anything else not a number → NaN. */
 export function num(raw) {
-  const s = String(raw ?? "").trim().replace(",", ".");
+  const s = String(raw ?? "")
+    .trim()
+    .replace(",", ".");
   if (s === "") return null;
   return /^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(s) ? Number(s) : NaN;
 }
@@ -20,17 +22,21 @@ const isNum = (v) => v !== null && Number.isFinite(v);
 
 /** Rules: each takes the raw text and returns "" or the service's message. Empty text is "" (the caller decides). */
 export const rules = {
-  positive: (what, max = MAX_FIGURE) => (raw) => {
-    const v = num(raw);
-    if (!isNum(v)) return `${what} must be a number`;
-    if (v <= 0) return `${what} must be greater than 0`;
-    return v > max ? `${what} must be at most ${max}` : "";
-  },
-  range: (what, min, max, message, { minExclusive = false } = {}) => (raw) => {
-    const v = num(raw);
-    if (!isNum(v)) return `${what} must be a number`;
-    return (minExclusive ? v <= min : v < min) || v > max ? message : "";
-  },
+  positive:
+    (what, max = MAX_FIGURE) =>
+    (raw) => {
+      const v = num(raw);
+      if (!isNum(v)) return `${what} must be a number`;
+      if (v <= 0) return `${what} must be greater than 0`;
+      return v > max ? `${what} must be at most ${max}` : "";
+    },
+  range:
+    (what, min, max, message, { minExclusive = false } = {}) =>
+    (raw) => {
+      const v = num(raw);
+      if (!isNum(v)) return `${what} must be a number`;
+      return (minExclusive ? v <= min : v < min) || v > max ? message : "";
+    },
   money: (what) => (raw) => {
     const v = num(raw);
     if (!isNum(v)) return `${what} must be a number`;
@@ -167,7 +173,9 @@ export function triangle(m, phases) {
     if (meterPF === 1) sense = "unity";
   }
   if (sense === "unity" && meterPF < 0.995 && m.method !== "kw_kvar")
-    return { error: { field: "sense", message: `sense is "unity" but the reading gives PF ${Math.round(meterPF * 1000) / 1000}: choose lagging or leading` } };
+    return {
+      error: { field: "sense", message: `sense is "unity" but the reading gives PF ${Math.round(meterPF * 1000) / 1000}: choose lagging or leading` },
+    };
   let dpf = meterPF;
   if (m.pfType === "true" && !thd(m.currentTHDPct) && num(m.currentTHDPct) !== null) {
     const t = num(m.currentTHDPct) / 100;
@@ -191,7 +199,10 @@ export function stepsOf(raw) {
   const s = String(raw ?? "").trim();
   if (s === "") return null;
   const out = [];
-  for (const part of s.split(/[;+]|,\s+/).map((p) => p.trim()).filter(Boolean)) {
+  for (const part of s
+    .split(/[;+]|,\s+/)
+    .map((p) => p.trim())
+    .filter(Boolean)) {
     const m = /^(\d+)\s*[x×*]\s*(.+)$/i.exec(part);
     const count = m ? Number(m[1]) : 1;
     const kvar = num(m ? m[2].replace(/\s*kvar$/i, "") : part.replace(/\s*kvar$/i, ""));
@@ -222,7 +233,7 @@ export const MAX_STEP_CURRENT_RATIO = 3;
  */
 export function expectedStepA(nameplateKvar, bank, voltageV, system) {
   const ratedHz = bank.ratedFrequencyHz ?? system.frequencyHz;
-  const q = nameplateKvar * (voltageV / bank.ratedVoltageV) ** 2 * (system.frequencyHz / ratedHz) / (1 - (bank.reactorPct ?? 0) / 100);
+  const q = (nameplateKvar * (voltageV / bank.ratedVoltageV) ** 2 * (system.frequencyHz / ratedHz)) / (1 - (bank.reactorPct ?? 0) / 100);
   return (q * 1000) / ((system.phases === 1 ? 1 : Math.sqrt(3)) * voltageV);
 }
 

@@ -29,7 +29,12 @@ export function fieldEl(def, values, id) {
     input = el("input", { type: "checkbox" });
     input.checked = values[def.path] === true;
   } else {
-    input = el("input", { type: def.kind === "date" ? "date" : "text", autocomplete: def.autocomplete ?? "off", spellcheck: "false", placeholder: def.placeholder });
+    input = el("input", {
+      type: def.kind === "date" ? "date" : "text",
+      autocomplete: def.autocomplete ?? "off",
+      spellcheck: "false",
+      placeholder: def.placeholder,
+    });
     if (def.inputmode) input.inputMode = def.inputmode;
     input.value = values[def.path] ?? "";
   }
@@ -43,7 +48,9 @@ export function fieldEl(def, values, id) {
   // A select whose longest choice would not fit a grid column takes the whole row: no option text is cut.
   const long = def.kind === "select" && Math.max(...def.options.map(([, t]) => t.length)) > 12;
   const cls = `field${def.wide || long ? " wide" : ""}${def.kind === "check" ? " check" : ""}`;
-  return def.kind === "check" ? el("div", { class: cls }, el("label", { class: "tick", for: id }, input, ` ${def.label}`), msg) : el("div", { class: cls }, label, input, note, msg, hint);
+  return def.kind === "check"
+    ? el("div", { class: cls }, el("label", { class: "tick", for: id }, input, ` ${def.label}`), msg)
+    : el("div", { class: cls }, label, input, note, msg, hint);
 }
 
 /**
@@ -56,7 +63,12 @@ export function drawFields(box, defs, values, idOf, { foldTitle = "More", foldKe
   const folded = shown.filter((d) => d.fold);
   box.replaceChildren(main);
   if (folded.length) {
-    const details = el("details", { class: "fold", "data-fold": foldKey }, el("summary", {}, foldTitle), el("div", { class: "grid" }, ...folded.map((d) => fieldEl(d, values, idOf(d)))));
+    const details = el(
+      "details",
+      { class: "fold", "data-fold": foldKey },
+      el("summary", {}, foldTitle),
+      el("div", { class: "grid" }, ...folded.map((d) => fieldEl(d, values, idOf(d)))),
+    );
     details.open = openFolds?.has(foldKey) ?? false;
     details.addEventListener("toggle", () => (details.open ? openFolds?.add(foldKey) : openFolds?.delete(foldKey)));
     box.append(details);

@@ -33,7 +33,8 @@ export function bankIssues(banks) {
     const fixed = fixedBankIssue(values, at(i));
     if (fixed) issues.push({ path: `${at(i)}.steps`, message: fixed });
     const label = String(b.label ?? "").trim();
-    if (label && seen.has(label)) issues.push({ path: `${at(i)}.label`, message: `bank label "${label}" is used twice: labels are how readings refer to a bank` });
+    if (label && seen.has(label))
+      issues.push({ path: `${at(i)}.label`, message: `bank label "${label}" is used twice: labels are how readings refer to a bank` });
     seen.add(label);
   });
   return issues;
@@ -63,7 +64,11 @@ export function renderInstalledBanks(box, banks, openFolds, onChange) {
     onChange(`nb-b${banks.length - 1}-label`);
   });
   const summary = el("summary", {}, banks.length ? `Installed banks (${banks.length})` : "Installed banks (none)");
-  const note = el("p", { class: "hint" }, "Capacitor banks already on site. Steps as the nameplates read: 5 × 50 for five 50 kvar steps, or 50 + 50 + 25 (a comma between steps needs a space after it: 12,5 is a decimal). Surveys of the building then read each bank's steps.");
+  const note = el(
+    "p",
+    { class: "hint" },
+    "Capacitor banks already on site. Steps as the nameplates read: 5 × 50 for five 50 kvar steps, or 50 + 50 + 25 (a comma between steps needs a space after it: 12,5 is a decimal). Surveys of the building then read each bank's steps.",
+  );
   const details = el("details", { class: "fold", "data-fold": "nb-banks", id: "nb-banks-part" }, summary, el("div", {}, note, list, add));
   details.open = openFolds?.has("nb-banks") ?? false;
   details.addEventListener("toggle", () => (details.open ? openFolds?.add("nb-banks") : openFolds?.delete("nb-banks")));

@@ -48,7 +48,11 @@ const outcomes = {
     if (String(answer.data?.type ?? "").endsWith("idempotency-key-reused")) {
       state.draft.idem = newKey();
       saveDraft(state.draft);
-      say("submit-msg", "An earlier version of this survey was stored before your last change (its answer was lost). Submit again to store this version as another survey.", "error");
+      say(
+        "submit-msg",
+        "An earlier version of this survey was stored before your last change (its answer was lost). Submit again to store this version as another survey.",
+        "error",
+      );
       return;
     }
     const rest = placeErrors(answer.data?.errors, $("survey-section"));
@@ -82,7 +86,11 @@ async function submit() {
     }
     $("building-msg").textContent = "";
     if (state.draft.storedAs)
-      return say("submit-msg", "This survey is already stored. Change a reading to send a new version, or clear the form for the next survey.", "info");
+      return say(
+        "submit-msg",
+        "This survey is already stored. Change a reading to send a new version, or clear the form for the next survey.",
+        "info",
+      );
     if (!checkSurvey()) return say("submit-msg", "Please correct the fields marked in red.", "error");
     const body = surveyBody();
     const waiting = readQueue().find((e) => e.idem === state.draft.idem);

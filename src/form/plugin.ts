@@ -52,13 +52,21 @@ export function formAssets(dir = assetDir()): FormAsset[] {
     if (!t) throw new Error(`files.json lists ${file}, whose type the service does not know`);
     return t;
   };
-  const cached = [list.page, ...list.files].map((file) => ({ url: urlOf(list, file), file, type: typeOf(file), body: readFileSync(join(dir, file)) }));
+  const cached = [list.page, ...list.files].map((file) => ({
+    url: urlOf(list, file),
+    file,
+    type: typeOf(file),
+    body: readFileSync(join(dir, file)),
+  }));
   const digest = createHash("sha256");
   for (const a of cached) digest.update(a.url).update(a.body);
   const worker = readFileSync(join(dir, list.worker));
   digest.update(worker);
   const header = `const FILES = ${JSON.stringify(cached.map((a) => a.url))};\nconst VERSION = "${digest.digest("hex").slice(0, 16)}";\n`;
-  return [...cached, { url: urlOf(list, list.worker), file: list.worker, type: typeOf(list.worker), body: Buffer.concat([Buffer.from(header), worker]) }];
+  return [
+    ...cached,
+    { url: urlOf(list, list.worker), file: list.worker, type: typeOf(list.worker), body: Buffer.concat([Buffer.from(header), worker]) },
+  ];
 }
 
 export async function formRoutes(app: FastifyInstance): Promise<void> {

@@ -34,7 +34,7 @@ export function flush(on) {
   round = (async () => {
     // Re-read after each send: a survey queued during the round is sent in it too.
     const tried = new Set();
-    for (let entry; (entry = readQueue().find((e) => !tried.has(e.idem))); ) {
+    for (let entry; (entry = readQueue().find((e) => !tried.has(e.idem)));) {
       tried.add(entry.idem);
       const r = await call("POST", `/v1/buildings/${encodeURIComponent(entry.buildingId)}/surveys`, {
         body: entry.body,

@@ -39,13 +39,19 @@ export function showResult(survey) {
   $("r-pf").textContent = `${f3(r.site.displacementPF)} ${r.site.sense} (target ${r.correction.targetPF})`;
   $("r-kvar").textContent = `${f2(r.correction.kvarRequired)} kvar`;
   const v = verdictOf(r);
-  const lines = (id, items) => $(id).replaceChildren(...(items.length > 1 ? [el("ul", { class: "result-list" }, ...items.map((t) => el("li", {}, t)))] : items));
+  const lines = (id, items) =>
+    $(id).replaceChildren(...(items.length > 1 ? [el("ul", { class: "result-list" }, ...items.map((t) => el("li", {}, t)))] : items));
   lines("r-install", v.install);
   $("r-repair-dt").hidden = $("r-repair").hidden = !v.repair;
   $("r-repair").textContent = v.repair ?? "";
   $("r-after").textContent = v.after;
   $("r-detuned").textContent = detunedText(bank);
-  $("r-cost").textContent = eco?.installedCost != null ? money(eco, eco.installedCost) : eco ? "– (give the building costs per kvar)" : "– (give the building a tariff and costs)";
+  $("r-cost").textContent =
+    eco?.installedCost != null
+      ? money(eco, eco.installedCost)
+      : eco
+        ? "– (give the building costs per kvar)"
+        : "– (give the building a tariff and costs)";
   $("r-saving").textContent = eco ? `${money(eco, eco.savingPerYear)} a year` : "–";
   $("r-payback").textContent = eco?.simplePaybackYears != null ? `${eco.simplePaybackYears.toFixed(1)} years (simple payback)` : "–";
   lines("r-risks", v.risks.length ? v.risks : ["none that matter"]);
@@ -57,7 +63,9 @@ export function showResult(survey) {
       ? `Repair ${repairs.length} installed step${repairs.length === 1 ? "" : "s"}: no new bank.`
       : "No new bank.";
   $("r-steps").replaceChildren(
-    ...(bank?.physicalSteps ?? []).map((s, i) => el("li", {}, `Step ${i + 1}: ${s.role}, ${s.nameplateKvar} kvar nameplate (${f2(s.effectiveKvar)} kvar effective)`)),
+    ...(bank?.physicalSteps ?? []).map((s, i) =>
+      el("li", {}, `Step ${i + 1}: ${s.role}, ${s.nameplateKvar} kvar nameplate (${f2(s.effectiveKvar)} kvar effective)`),
+    ),
   );
   $("trend").hidden = true;
   say("r-msg", "");
@@ -69,7 +77,11 @@ export async function saveReport(pdf) {
   const url = `/v1/surveys/${encodeURIComponent(lastSurvey.id)}/report${pdf ? ".pdf" : ""}`;
   const r = await call("GET", url, { as: "blob" });
   if (r.status !== 200) {
-    say("r-msg", r.status === 0 ? "No network to the service: the report can be saved once it answers." : `The report could not be fetched (${r.status}).`, "error");
+    say(
+      "r-msg",
+      r.status === 0 ? "No network to the service: the report can be saved once it answers." : `The report could not be fetched (${r.status}).`,
+      "error",
+    );
     return;
   }
   const a = /** @type {HTMLAnchorElement} */ ($("r-download"));
@@ -84,11 +96,19 @@ export async function showTrend() {
   if (!lastSurvey) return;
   const r = await call("GET", `/v1/buildings/${encodeURIComponent(lastSurvey.buildingId)}/trend`);
   if (r.status !== 200) {
-    say("r-msg", r.status === 0 ? "No network to the service: the trend can be shown once it answers." : `The trend could not be fetched (${r.status}).`, "error");
+    say(
+      "r-msg",
+      r.status === 0 ? "No network to the service: the trend can be shown once it answers." : `The trend could not be fetched (${r.status}).`,
+      "error",
+    );
     return;
   }
-  $("trend").querySelector("tbody").replaceChildren(
-    ...r.data.items.map((p) => el("tr", {}, ...[p.surveyedAt.slice(0, 10), f2(p.kW), f2(p.kvar), f3(p.displacementPF), f2(p.kvarRequired)].map((v) => el("td", {}, v)))),
-  );
+  $("trend")
+    .querySelector("tbody")
+    .replaceChildren(
+      ...r.data.items.map((p) =>
+        el("tr", {}, ...[p.surveyedAt.slice(0, 10), f2(p.kW), f2(p.kvar), f3(p.displacementPF), f2(p.kvarRequired)].map((v) => el("td", {}, v))),
+      ),
+    );
   $("trend").hidden = false;
 }

@@ -77,7 +77,11 @@ export function renderSurvey() {
 // ---------- live figures ----------
 
 const reading = (values, at) =>
-  Object.fromEntries(Object.entries(values).filter(([k]) => k.startsWith(`${at}.`)).map(([k, v]) => [k.slice(at.length + 1), v]));
+  Object.fromEntries(
+    Object.entries(values)
+      .filter(([k]) => k.startsWith(`${at}.`))
+      .map(([k, v]) => [k.slice(at.length + 1), v]),
+  );
 
 /** A cross-field fault (kW above kVA, unity sense) shown beside its field while the field's own check passes. */
 function showCross(at, t) {
@@ -108,7 +112,12 @@ function figuresLine(out, t) {
     out.textContent = "– enter the readings –";
     return;
   }
-  for (const [k, v, unit] of [["kW", f2(t.kW), "kW"], ["kvar", f2(t.kvar), "kvar"], ["kVA", f2(t.kVA), "kVA"], ["pf", f3(t.pf), "PF"]]) {
+  for (const [k, v, unit] of [
+    ["kW", f2(t.kW), "kW"],
+    ["kvar", f2(t.kvar), "kvar"],
+    ["kVA", f2(t.kVA), "kVA"],
+    ["pf", f3(t.pf), "PF"],
+  ]) {
     out.append(el("span", { "data-v": k }, v), ` ${unit}`, k === "pf" ? "" : " · ");
   }
 }
@@ -154,7 +163,10 @@ export function updateFigures() {
   // The service sizes from the main's reading when there is one, else from the sum of the loads (src/core/site.ts).
   const basis = state.draft.values[`${seAt}.method`] ? (se && !se.error ? se : null) : complete ? sum : null;
   const target = num(state.draft.values.targetPF);
-  const targetOk = !fieldError(SURVEY_FIELDS.find((d) => d.path === "targetPF"), state.draft.values);
+  const targetOk = !fieldError(
+    SURVEY_FIELDS.find((d) => d.path === "targetPF"),
+    state.draft.values,
+  );
   if (basis && targetOk) cells["t-need"] = f2(kvarToTarget(basis.kW, basis.kvar, target));
   $("t-basis").textContent = state.draft.values[`${seAt}.method`] ? "(from the main's reading)" : "(from the sum of the loads)";
   for (const [id, v] of Object.entries(cells)) $(id).textContent = v;

@@ -62,7 +62,11 @@ export const HEAVY_TASKS = {
   /** Report model and its rendering (the model computes scan series when none are supplied). */
   report: (p: ReportTask): Promise<ReportOutput> => renderReport(p),
   /** A sizing and its report in one task: POST /v1/sizing/report (the engine's issues come back for a 400). */
-  sizingReport: async (p: { inputs: SizingInput; format: "html" | "pdf"; paper: "A4" | "LETTER" }): Promise<ReportOutput | { issues: InputIssue[] }> => {
+  sizingReport: async (p: {
+    inputs: SizingInput;
+    format: "html" | "pdf";
+    paper: "A4" | "LETTER";
+  }): Promise<ReportOutput | { issues: InputIssue[] }> => {
     const outcome = (await engine()).size(p.inputs);
     if (!outcome.ok) return { issues: outcome.issues };
     return renderReport({ input: { inputs: p.inputs, result: outcome.result }, format: p.format, paper: p.paper });

@@ -10,7 +10,13 @@ const WRITERS: readonly Role[] = ["admin", "surveyor"];
 const ADMIN: readonly Role[] = ["admin"];
 
 const STATELESS = new Set(["/v1/sizing", "/v1/harmonics/scan", "/v1/interval-analyses", "/v1/sizing/report"]);
-const WRITES = [/^\/v1\/buildings$/, /^\/v1\/buildings\/:id$/, /^\/v1\/buildings\/:id\/surveys$/, /^\/v1\/surveys\/:id\/revisions$/, /^\/v1\/buildings\/:id\/interval-analyses$/];
+const WRITES = [
+  /^\/v1\/buildings$/,
+  /^\/v1\/buildings\/:id$/,
+  /^\/v1\/buildings\/:id\/surveys$/,
+  /^\/v1\/surveys\/:id\/revisions$/,
+  /^\/v1\/buildings\/:id\/interval-analyses$/,
+];
 
 /** The roles allowed on a route, given its method and its pattern as registered (e.g. /v1/buildings/:id). */
 export function allowedRoles(method: string, route: string): readonly Role[] {

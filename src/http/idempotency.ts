@@ -46,7 +46,9 @@ function unquoted(value: string): string | undefined {
 }
 
 export function requestHash(method: string, url: string, body: unknown): string {
-  return createHash("sha256").update(`${method.toUpperCase()} ${url}\n${canonicalJson(body ?? null)}`).digest("hex");
+  return createHash("sha256")
+    .update(`${method.toUpperCase()} ${url}\n${canonicalJson(body ?? null)}`)
+    .digest("hex");
 }
 
 async function purgeNowAndThen(store: Store, nowMs: number): Promise<void> {
@@ -99,12 +101,23 @@ export async function idempotentWrite(
     } else if (claim.kind === "in_flight") {
       if (claim.claim.requestHash !== hash) throw reused(key, claim.claim.createdAt);
       const message = `a request with Idempotency-Key "${key}" is still being worked; retry after ${IN_FLIGHT_RETRY_AFTER_S} s for its answer`;
-      throw new ProblemError(problem(409, "idempotency-key-in-flight", "Request with this Idempotency-Key in progress", message, [{ path: "headers.idempotency-key", message }]), {
-        "retry-after": String(IN_FLIGHT_RETRY_AFTER_S),
-      });
+      throw new ProblemError(
+        problem(409, "idempotency-key-in-flight", "Request with this Idempotency-Key in progress", message, [
+          { path: "headers.idempotency-key", message },
+        ]),
+        {
+          "retry-after": String(IN_FLIGHT_RETRY_AFTER_S),
+        },
+      );
     } else {
       const seal: Seal = (tx, o) =>
-        tx.idempotency.complete(orgId, key, { requestHash: hash, status: o.status, location: o.location ?? null, responseJson: jsonTextOf(o.body), createdAt });
+        tx.idempotency.complete(orgId, key, {
+          requestHash: hash,
+          status: o.status,
+          location: o.location ?? null,
+          responseJson: jsonTextOf(o.body),
+          createdAt,
+        });
       try {
         outcome = { ...(await work(seal)), replayed: false };
       } catch (err) {

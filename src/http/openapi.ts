@@ -40,7 +40,8 @@ type ZodToJsonConfig = NonNullable<Parameters<typeof createJsonSchemaTransform>[
  */
 const override: NonNullable<ZodToJsonConfig["override"]> = (ctx) => {
   const json = ctx.jsonSchema as Json;
-  if (ctx.zodSchema._zod.def.type === "union" && Array.isArray(json.anyOf)) json.anyOf = json.anyOf.filter((branch: Json) => Object.keys(branch).length > 0);
+  if (ctx.zodSchema._zod.def.type === "union" && Array.isArray(json.anyOf))
+    json.anyOf = json.anyOf.filter((branch: Json) => Object.keys(branch).length > 0);
   const description = z.globalRegistry.get(ctx.zodSchema)?.description;
   if (description !== undefined && json.description === undefined) json.description = description;
 };

@@ -27,7 +27,8 @@ export const PROBLEM_TYPES = {
   "bad-request": {
     title: "Bad request",
     status: "400",
-    means: "The request could not be read at all: JSON that does not parse, an empty body where a JSON object is needed, or a URL with a broken %-escape.",
+    means:
+      "The request could not be read at all: JSON that does not parse, an empty body where a JSON object is needed, or a URL with a broken %-escape.",
     todo: "Check that the body is well-formed JSON sent with content-type application/json, and that the URL is correctly escaped.",
   },
   "bad-upload": {
@@ -63,7 +64,8 @@ export const PROBLEM_TYPES = {
   "not-found": {
     title: "Not found",
     status: "404",
-    means: "There is no such route, or no such building, survey, revision or analysis in your organisation. Another organisation's records also answer 404.",
+    means:
+      "There is no such route, or no such building, survey, revision or analysis in your organisation. Another organisation's records also answer 404.",
     todo: "Check the path and the id; lists such as GET /v1/buildings give the ids your key can see.",
   },
   "method-not-allowed": {
@@ -99,7 +101,8 @@ export const PROBLEM_TYPES = {
   "headers-too-large": {
     title: "Request headers too large",
     status: "431",
-    means: "The request line and headers together exceed 16 KiB, so the server would not read them. Usually a URL made far too long by a script, or an oversized cookie.",
+    means:
+      "The request line and headers together exceed 16 KiB, so the server would not read them. Usually a URL made far too long by a script, or an oversized cookie.",
     todo: "Check the URL and the headers the client sends: query strings in this API are short.",
   },
   "request-timeout": {
@@ -117,7 +120,8 @@ export const PROBLEM_TYPES = {
   "idempotency-key-reused": {
     title: "Idempotency-Key reused",
     status: "422",
-    means: "The Idempotency-Key was already used, within the time keys are kept, for a request with another method, URL or body. The first request's answer stands.",
+    means:
+      "The Idempotency-Key was already used, within the time keys are kept, for a request with another method, URL or body. The first request's answer stands.",
     todo: "Use a new key for a new request; repeat a key only to retry exactly the same request.",
   },
   "idempotency-key-in-flight": {

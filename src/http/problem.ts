@@ -34,7 +34,10 @@ export function problem(status: number, slug: ProblemSlug, title: string, detail
 }
 
 export function sendProblem(reply: FastifyReply, p: Problem): FastifyReply {
-  return reply.code(p.status).type("application/problem+json").send({ ...p, instance: reply.request.url });
+  return reply
+    .code(p.status)
+    .type("application/problem+json")
+    .send({ ...p, instance: reply.request.url });
 }
 
 export function pathOf(path: readonly PropertyKey[]): string {
@@ -43,8 +46,7 @@ export function pathOf(path: readonly PropertyKey[]): string {
 
 export function validationProblem(errors: { path: string; message: string }[]): Problem {
   const first = errors[0];
-  const detail =
-    errors.length === 1 && first ? `${first.path || "body"}: ${first.message}` : `${errors.length} fields are invalid; see errors`;
+  const detail = errors.length === 1 && first ? `${first.path || "body"}: ${first.message}` : `${errors.length} fields are invalid; see errors`;
   return problem(400, "validation", "The request is not valid", detail, errors);
 }
 

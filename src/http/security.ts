@@ -12,7 +12,10 @@ export const DOCS_CSP =
 
 /** helmet's options for every answer: CSP default-src 'none' (the JSON API loads nothing). */
 export const HELMET_OPTIONS = {
-  contentSecurityPolicy: { useDefaults: false, directives: { defaultSrc: ["'none'"], frameAncestors: ["'none'"], baseUri: ["'none'"], formAction: ["'none'"] } },
+  contentSecurityPolicy: {
+    useDefaults: false,
+    directives: { defaultSrc: ["'none'"], frameAncestors: ["'none'"], baseUri: ["'none'"], formAction: ["'none'"] },
+  },
 } as const;
 
 /** Probes a load balancer polls: never rate-limited. */
@@ -41,7 +44,9 @@ export async function installSecurity(app: FastifyInstance, config: Config): Pro
     maxAge: 600,
   });
 
-  const redis = config.REDIS_URL ? new Redis(config.REDIS_URL, { connectTimeout: 2000, maxRetriesPerRequest: 1, enableOfflineQueue: false }) : undefined;
+  const redis = config.REDIS_URL
+    ? new Redis(config.REDIS_URL, { connectTimeout: 2000, maxRetriesPerRequest: 1, enableOfflineQueue: false })
+    : undefined;
   if (redis) {
     redis.on("error", (err: Error) => app.log.warn({ err }, "rate-limit store (Redis) error"));
     app.addHook("onClose", async () => {

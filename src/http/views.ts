@@ -29,7 +29,14 @@ export function buildingView(b: BuildingRecord) {
 }
 
 export function buildingVersionView(v: BuildingVersion) {
-  return { version: v.version, recordedAt: v.recordedAt, actor: v.actor, ...v.data, economics: v.data.economics ?? null, installedBanks: v.data.installedBanks ?? [] };
+  return {
+    version: v.version,
+    recordedAt: v.recordedAt,
+    actor: v.actor,
+    ...v.data,
+    economics: v.data.economics ?? null,
+    installedBanks: v.data.installedBanks ?? [],
+  };
 }
 
 /** Snapshots stored before economics and interval analyses existed lack those keys: they had none. */

@@ -17,7 +17,10 @@ function fixed(value: number, digits: number): string {
   return /^-0(\.0+)?$/.test(s) ? s.slice(1) : s;
 }
 
-const orNA = (f: (x: number) => string) => (x: number | null | undefined): string => (x === null || x === undefined ? "n/a" : f(x));
+const orNA =
+  (f: (x: number) => string) =>
+  (x: number | null | undefined): string =>
+    x === null || x === undefined ? "n/a" : f(x);
 
 export const fmt = {
   /** kW, kvar, kVA: 1 decimal. */
@@ -70,6 +73,6 @@ export function phasesText(phases: number): string {
 }
 
 export function ordinal(n: number): string {
-  const s = n % 100 >= 11 && n % 100 <= 13 ? "th" : ({ 1: "st", 2: "nd", 3: "rd" } as Record<number, string>)[n % 10] ?? "th";
+  const s = n % 100 >= 11 && n % 100 <= 13 ? "th" : (({ 1: "st", 2: "nd", 3: "rd" } as Record<number, string>)[n % 10] ?? "th");
   return `${n}${s}`;
 }

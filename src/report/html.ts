@@ -48,7 +48,8 @@ function section(s: Section, n: number): string {
 
 export function renderReportHtml(model: ReportModel): string {
   const cautionsIndex = model.sections.findIndex((s) => s.id === "cautions");
-  const safety = cautionsIndex >= 0 ? `Safety: read section ${cautionsIndex + 1}, "${model.sections[cautionsIndex]?.heading}", before any work on the bank.` : "";
+  const safety =
+    cautionsIndex >= 0 ? `Safety: read section ${cautionsIndex + 1}, "${model.sections[cautionsIndex]?.heading}", before any work on the bank.` : "";
   const facts = model.facts.map((f) => `<dt>${esc(f.key)}</dt><dd>${esc(f.value)}</dd>`).join("");
   const toc = model.sections.map((s) => `<li><a href="#${esc(s.id)}">${esc(s.heading)}</a></li>`).join("");
   return [

@@ -17,15 +17,34 @@ import type { ReportInput, ReportModel } from "./types.js";
 export type { ReportInput, ReportModel } from "./types.js";
 
 /** Section headings in their fixed order (the interval section sits after the site's figures). */
-export const SECTION_ORDER = ["building", "readings", "site", "interval", "installed", "bank", "harmonics", "economics", "warnings", "cautions", "methods"] as const;
+export const SECTION_ORDER = [
+  "building",
+  "readings",
+  "site",
+  "interval",
+  "installed",
+  "bank",
+  "harmonics",
+  "economics",
+  "warnings",
+  "cautions",
+  "methods",
+] as const;
 
 export function buildReportModel(input: ReportInput): ReportModel {
   const { result, building, survey } = input;
   const title = input.title ?? "Power-factor correction report";
-  const subtitle = [building?.name, survey ? `survey ${survey.id}, revision ${survey.revision}` : "sizing request (not stored)"].filter(Boolean).join(" — ");
+  const subtitle = [building?.name, survey ? `survey ${survey.id}, revision ${survey.revision}` : "sizing request (not stored)"]
+    .filter(Boolean)
+    .join(" — ");
   const facts = [
     ...(building ? [{ key: "Site", value: building.address ? `${building.name}, ${building.address}` : building.name }] : []),
-    ...(survey ? [{ key: "Surveyed", value: `${dateTime(survey.surveyedAt)} by ${survey.surveyor}` }, { key: "Revision", value: `${survey.revision} (recorded ${dateTime(survey.createdAt)})` }] : []),
+    ...(survey
+      ? [
+          { key: "Surveyed", value: `${dateTime(survey.surveyedAt)} by ${survey.surveyor}` },
+          { key: "Revision", value: `${survey.revision} (recorded ${dateTime(survey.createdAt)})` },
+        ]
+      : []),
     { key: "Engine version", value: survey?.engineVersion ?? result.engineVersion },
   ];
   const sections = [

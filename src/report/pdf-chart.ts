@@ -51,7 +51,10 @@ function drawShape(doc: Doc, s: Shape): number {
       return 1;
     case "text": {
       const t = pdfSafe(s.text);
-      doc.font(s.bold ? BOLD : FONT).fontSize(s.size).fillColor(s.color ?? "#000000");
+      doc
+        .font(s.bold ? BOLD : FONT)
+        .fontSize(s.size)
+        .fillColor(s.color ?? "#000000");
       const w = doc.widthOfString(t);
       const dx = s.anchor === "middle" ? -w / 2 : s.anchor === "end" ? -w : 0;
       doc.save();
@@ -69,7 +72,12 @@ export function drawChart(doc: Doc, chart: Chart, x: number, y: number, width: n
   let count = 0;
   doc.save();
   doc.translate(x, y).scale(k);
-  doc.rect(0, 0, chart.width, chart.height).lineWidth(1 / k).undash().strokeColor("#000000").stroke();
+  doc
+    .rect(0, 0, chart.width, chart.height)
+    .lineWidth(1 / k)
+    .undash()
+    .strokeColor("#000000")
+    .stroke();
   for (const s of chart.shapes) count += drawShape(doc, s);
   doc.restore();
   doc.undash().lineWidth(1).strokeColor("#000000").fillColor("#000000");

@@ -61,7 +61,10 @@ export class Flow {
   }
 
   style(s: TextStyle): void {
-    this.doc.font(s.bold ? BOLD : FONT).fontSize(s.size).fillColor(s.color ?? "#000000");
+    this.doc
+      .font(s.bold ? BOLD : FONT)
+      .fontSize(s.size)
+      .fillColor(s.color ?? "#000000");
   }
 
   height(text: string, width: number, s: TextStyle): number {

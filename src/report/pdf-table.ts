@@ -25,7 +25,13 @@ export function columnWidths(flow: Flow, header: string[], rows: string[][], tot
     return flow.doc.widthOfString(pdfSafe(t)) + 2 * PAD + SLACK;
   };
   // pdfkit's line breaker measures each word with the space after it, and cuts a word that does not fit so.
-  const longestWord = (t: string, s: TextStyle) => Math.max(0, ...pdfSafe(t).split(/\s+/).map((w) => Math.min(widthOf(`${w} `, s), total / n)));
+  const longestWord = (t: string, s: TextStyle) =>
+    Math.max(
+      0,
+      ...pdfSafe(t)
+        .split(/\s+/)
+        .map((w) => Math.min(widthOf(`${w} `, s), total / n)),
+    );
   header.forEach((h, i) => {
     head[i] = widthOf(h, HEAD);
     headWord[i] = longestWord(h, HEAD);

@@ -89,7 +89,11 @@ function sectionHeading(flow: Flow, text: string, pageBreakBefore = false): void
     ...(pageBreakBefore ? { pageBreakBefore } : {}),
     draw: (y) => {
       flow.doc.rect(flow.left, y, flow.width, 20).fill("#000000");
-      flow.doc.font(BOLD).fontSize(12.5).fillColor("#ffffff").text(pdfSafe(text), flow.left + 7, y + 5, { lineBreak: false });
+      flow.doc
+        .font(BOLD)
+        .fontSize(12.5)
+        .fillColor("#ffffff")
+        .text(pdfSafe(text), flow.left + 7, y + 5, { lineBreak: false });
     },
   });
 }

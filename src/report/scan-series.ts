@@ -3,7 +3,15 @@
  * so they are recomputed here with the pure harmonic engine from the result's own network figures (or taken as
  * supplied, e.g. from POST /v1/harmonics/scan).
  */
-import { buildBusModel, capacitorBranch, DEFAULT_REACTOR_QUALITY_FACTOR, scanImpedance, withBranches, type BusModel, type NetworkInput } from "../core/harmonics/harmonics-api.js";
+import {
+  buildBusModel,
+  capacitorBranch,
+  DEFAULT_REACTOR_QUALITY_FACTOR,
+  scanImpedance,
+  withBranches,
+  type BusModel,
+  type NetworkInput,
+} from "../core/harmonics/harmonics-api.js";
 import { linearLoadKW } from "../core/harmonics/site-study.js";
 import type { ScanLine } from "./charts/index.js";
 import type { ReportInput } from "./types.js";
@@ -35,7 +43,11 @@ function bankSpecs(input: ReportInput): BankSpec[] {
   const { result } = input;
   const h = result.harmonics;
   if (h) {
-    const own = h.banks.map((b) => ({ bank: b.name, reactorPct: b.reactorPct, stages: b.stages.map((s) => ({ stageNumber: s.stageNumber, capacitorKvar: s.capacitorKvarAtSystem })) }));
+    const own = h.banks.map((b) => ({
+      bank: b.name,
+      reactorPct: b.reactorPct,
+      stages: b.stages.map((s) => ({ stageNumber: s.stageNumber, capacitorKvar: s.capacitorKvarAtSystem })),
+    }));
     const detuned = h.proposals.map((p) => ({
       bank: p.study.name,
       reactorPct: p.study.reactorPct,
@@ -82,7 +94,10 @@ function supplied(input: ReportInput): ScanSet | null {
     return {
       basis: "supplied",
       markerOrders: markerOrders(input),
-      banks: input.scanSeries.map((b) => ({ bank: b.bank, lines: b.stages.map((s) => toLine(`stage ${s.stageNumber}`, "stage", s.orders, s.impedanceOhm, s.stageNumber)) })),
+      banks: input.scanSeries.map((b) => ({
+        bank: b.bank,
+        lines: b.stages.map((s) => toLine(`stage ${s.stageNumber}`, "stage", s.orders, s.impedanceOhm, s.stageNumber)),
+      })),
     };
   }
   const h = input.result.harmonics;
@@ -95,7 +110,10 @@ function supplied(input: ReportInput): ScanSet | null {
       markerOrders: h.presentOrders,
       banks: banks.map((b) => ({
         bank: b.name,
-        lines: [...busLine, ...b.stages.map((s) => toLine(`stage ${s.stageNumber}`, "stage", s.series?.orders ?? [], s.series?.impedanceOhm ?? [], s.stageNumber))],
+        lines: [
+          ...busLine,
+          ...b.stages.map((s) => toLine(`stage ${s.stageNumber}`, "stage", s.series?.orders ?? [], s.series?.impedanceOhm ?? [], s.stageNumber)),
+        ],
       })),
     };
   }

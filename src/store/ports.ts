@@ -20,7 +20,17 @@ import type {
   SurveyResultRow,
 } from "./types.js";
 
-export type { ApiKeyRecord, AuditEvent, BuildingListQuery, IdempotencyRecord, NewIntervalAnalysis, Organisation, SurveyPageQuery, SurveyRange, SurveyResultRow };
+export type {
+  ApiKeyRecord,
+  AuditEvent,
+  BuildingListQuery,
+  IdempotencyRecord,
+  NewIntervalAnalysis,
+  Organisation,
+  SurveyPageQuery,
+  SurveyRange,
+  SurveyResultRow,
+};
 
 /** The first organisation (created by the first migration); the bootstrap admin key belongs to it. */
 export const DEFAULT_ORG_ID = "org_default";

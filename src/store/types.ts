@@ -1,10 +1,4 @@
-import type {
-  InstalledBankInput,
-  SizingInput,
-  SystemInput,
-  TransformerInput,
-  UtilityInput,
-} from "../core/inputs.js";
+import type { InstalledBankInput, SizingInput, SystemInput, TransformerInput, UtilityInput } from "../core/inputs.js";
 import type { IntervalSummary } from "../core/interval/summary.js";
 import type { EconomicsSettings } from "../core/economics/of-sizing.js";
 import type { SizingResult } from "../core/pipeline/size.js";
@@ -44,7 +38,10 @@ export interface BuildingVersion {
  * What a survey submits (the revision's reason is kept beside, not inside): the sizing body less the building's
  * data (system, transformer, utility, economics, interval demand), plus who and when.
  */
-export interface SurveyInputs extends Omit<SizingInput, "system" | "transformer" | "utility" | "targetPF" | "economics" | "intervalDemand" | "installedBanks"> {
+export interface SurveyInputs extends Omit<
+  SizingInput,
+  "system" | "transformer" | "utility" | "targetPF" | "economics" | "intervalDemand" | "installedBanks"
+> {
   surveyedAt: string;
   surveyor: string;
   notes?: string;

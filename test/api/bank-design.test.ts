@@ -83,7 +83,9 @@ describe("bank design through /v1/sizing", () => {
     expectClose(whole.ratedCurrentA, (whole.kvar * 1000) / (SQRT3 * 480), { rel: 1e-9 }, "rated current");
     expectClose(whole.conductorMinAmpacityA, 1.35 * whole.ratedCurrentA, { rel: 1e-9 }, "conductor");
     // fuse at 165 % (common practice) rounded up to a standard rating of NFPA 70 240.6(A)
-    const standard = [15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200, 225, 250, 300, 350, 400, 450, 500, 600, 700, 800, 1000];
+    const standard = [
+      15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200, 225, 250, 300, 350, 400, 450, 500, 600, 700, 800, 1000,
+    ];
     expect(standard).toContain(whole.ocpdRatingA);
     expect(whole.ocpdRatingA).toBeGreaterThanOrEqual(1.65 * whole.ratedCurrentA);
     // NFPA 70 460.6(A): ≤ 50 V within 1 min for ≤ 1000 V

@@ -18,7 +18,11 @@ const bank = { label: "Wall bank", location: "service", control: "automatic", ra
 const reading = (step2A: number, step3: number[]) => ({
   bank: "Wall bank",
   inServiceSteps: [1, 2, 3],
-  stepCurrents: [{ step: 1, amps: 36 }, { step: 2, amps: step2A }, { step: 3, amps: step3 }],
+  stepCurrents: [
+    { step: 1, amps: 36 },
+    { step: 2, amps: step2A },
+    { step: 3, amps: step3 },
+  ],
 });
 
 describe("GET /v1/buildings/{id}/bank-health", () => {
@@ -49,13 +53,28 @@ describe("GET /v1/buildings/{id}/bank-health", () => {
     expect(trend.items[2].kvarDelivered).toBeLessThan(trend.items[0].kvarDelivered);
 
     // the bank is replaced by a larger one under the same label: a new series, and the answer says so
-    await inject(app, { method: "PATCH", url: `/v1/buildings/${b.id}`, payload: { installedBanks: [{ ...bank, steps: [{ kvar: 50 }, { kvar: 50 }, { kvar: 50 }] }] } });
-    await post(`/v1/buildings/${b.id}/surveys`, surveyBody({ surveyedAt: "2024-10-10", bankReadings: [{ bank: "Wall bank", inServiceSteps: [1], stepCurrents: [{ step: 1, amps: 72 }] }] }));
+    await inject(app, {
+      method: "PATCH",
+      url: `/v1/buildings/${b.id}`,
+      payload: { installedBanks: [{ ...bank, steps: [{ kvar: 50 }, { kvar: 50 }, { kvar: 50 }] }] },
+    });
+    await post(
+      `/v1/buildings/${b.id}/surveys`,
+      surveyBody({ surveyedAt: "2024-10-10", bankReadings: [{ bank: "Wall bank", inServiceSteps: [1], stepCurrents: [{ step: 1, amps: 72 }] }] }),
+    );
     // and then renamed, same definition
-    await inject(app, { method: "PATCH", url: `/v1/buildings/${b.id}`, payload: { installedBanks: [{ ...bank, label: "MSB bank", steps: [{ kvar: 50 }, { kvar: 50 }, { kvar: 50 }] }] } });
+    await inject(app, {
+      method: "PATCH",
+      url: `/v1/buildings/${b.id}`,
+      payload: { installedBanks: [{ ...bank, label: "MSB bank", steps: [{ kvar: 50 }, { kvar: 50 }, { kvar: 50 }] }] },
+    });
     await post(`/v1/buildings/${b.id}/surveys`, surveyBody({ surveyedAt: "2025-01-10", bankReadings: [{ bank: "MSB bank", inServiceSteps: [1] }] }));
     const after = (await inject(app, `/v1/buildings/${b.id}/bank-health`)).json();
-    expect(after.series.map((s: { bank: string; startedBecause: string }) => `${s.bank}:${s.startedBecause}`)).toEqual(["Wall bank:first_seen", "Wall bank:replaced", "MSB bank:renamed"]);
+    expect(after.series.map((s: { bank: string; startedBecause: string }) => `${s.bank}:${s.startedBecause}`)).toEqual([
+      "Wall bank:first_seen",
+      "Wall bank:replaced",
+      "MSB bank:renamed",
+    ]);
     expect(after.series[2].note).toContain('"Wall bank"');
   });
 

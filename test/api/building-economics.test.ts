@@ -20,7 +20,8 @@ const kvaTariff = { currency: "EUR", tariff: { form: "kva_demand", chargePerKVA:
 
 const postBuilding = (payload: unknown) => inject(app, { method: "POST", url: "/v1/buildings", payload: payload as object });
 const patch = (id: string, payload: unknown) => inject(app, { method: "PATCH", url: `/v1/buildings/${id}`, payload: payload as object });
-const postSurvey = (id: string, payload: unknown = surveyBody()) => inject(app, { method: "POST", url: `/v1/buildings/${id}/surveys`, payload: payload as object });
+const postSurvey = (id: string, payload: unknown = surveyBody()) =>
+  inject(app, { method: "POST", url: `/v1/buildings/${id}/surveys`, payload: payload as object });
 
 describe("a building's economics", () => {
   it("is stored on POST, returned on GET, and used by its surveys (basis survey_demand)", async () => {
@@ -75,7 +76,11 @@ describe("a building's economics", () => {
     expect(firstStored.building).toMatchObject({ buildingVersion: 1, economics: kvaTariff });
     expect(firstStored.result.economics.basis).toBe("survey_demand");
     // a revision made now is sized with the building's current data: no economics
-    const rev = await inject(app, { method: "POST", url: `/v1/surveys/${first.id}/revisions`, payload: { ...surveyBody(), reason: "tariff removed" } });
+    const rev = await inject(app, {
+      method: "POST",
+      url: `/v1/surveys/${first.id}/revisions`,
+      payload: { ...surveyBody(), reason: "tariff removed" },
+    });
     expect(rev.statusCode).toBe(201);
     expect(rev.json().result).not.toHaveProperty("economics");
     const revStored = (await inject(app, `/v1/surveys/${first.id}/revisions/2`)).json();

@@ -12,7 +12,8 @@ beforeAll(async () => {
 });
 afterAll(() => app.close());
 
-const post = (payload: unknown, headers: Record<string, string> = {}) => inject(app, { method: "POST", url: "/v1/buildings", payload: payload as object, headers });
+const post = (payload: unknown, headers: Record<string, string> = {}) =>
+  inject(app, { method: "POST", url: "/v1/buildings", payload: payload as object, headers });
 const patch = (id: string, payload: unknown) => inject(app, { method: "PATCH", url: `/v1/buildings/${id}`, payload: payload as object });
 
 describe("POST /v1/buildings", () => {
@@ -118,14 +119,26 @@ describe("GET/PATCH /v1/buildings/{id} and history", () => {
     const created = (await post(buildingBody({ name: "History hall" }))).json();
     const r1 = await patch(created.id, { notes: "MCC-3 replaced", transformer: { kVA: 1000, impedancePct: 5.5 } });
     expect(r1.statusCode).toBe(200);
-    expect(r1.json()).toMatchObject({ version: 2, name: "History hall", notes: "MCC-3 replaced", transformer: { kVA: 1000, impedancePct: 5.5 }, utility: { faultMVA: 150 } });
+    expect(r1.json()).toMatchObject({
+      version: 2,
+      name: "History hall",
+      notes: "MCC-3 replaced",
+      transformer: { kVA: 1000, impedancePct: 5.5 },
+      utility: { faultMVA: 150 },
+    });
     const r2 = await patch(created.id, { utility: null, address: null, name: "History hall (east)" });
     expect(r2.json()).toMatchObject({ version: 3, utility: null, address: null, name: "History hall (east)", createdAt: created.createdAt });
 
     const history = (await inject(app, `/v1/buildings/${created.id}/history`)).json();
     expect(history.order).toBe("oldest_first");
     expect(history.items.map((v: { version: number }) => v.version)).toEqual([1, 2, 3]);
-    expect(history.items[0]).toMatchObject({ name: "History hall", notes: null, transformer: { kVA: 630 }, utility: { faultMVA: 150 }, actor: keyIdOf(app) });
+    expect(history.items[0]).toMatchObject({
+      name: "History hall",
+      notes: null,
+      transformer: { kVA: 630 },
+      utility: { faultMVA: 150 },
+      actor: keyIdOf(app),
+    });
     expect(history.items[1]).toMatchObject({ notes: "MCC-3 replaced", transformer: { kVA: 1000 } });
     expect(history.items[2]).toMatchObject({ utility: null, name: "History hall (east)" });
     expect((await inject(app, `/v1/buildings/${created.id}`)).json()).toEqual(r2.json());
@@ -154,7 +167,12 @@ describe("GET/PATCH /v1/buildings/{id} and history", () => {
   });
 
   it("records each write in the audit log with the request id", async () => {
-    const res = await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Audited hall" }), headers: { "x-request-id": "req-audit-1" } });
+    const res = await inject(app, {
+      method: "POST",
+      url: "/v1/buildings",
+      payload: buildingBody({ name: "Audited hall" }),
+      headers: { "x-request-id": "req-audit-1" },
+    });
     const id = res.json().id;
     await inject(app, { method: "PATCH", url: `/v1/buildings/${id}`, payload: { notes: "n" }, headers: { "x-request-id": "req-audit-2" } });
     const log = (await inject(app, "/v1/audit-log?limit=2")).json();

@@ -40,7 +40,10 @@ function nonFiniteInEngine(url: string, body: unknown): string[] {
   const outcome =
     url === "/v1/sizing"
       ? size(sizingRequestSchema.parse(body))
-      : size(sizing, { forceHarmonicStudy: true, harmonics: { includeScanSeries: true, ...(scan ? { scan } : {}), ...(combination ? { combination } : {}) } });
+      : size(sizing, {
+          forceHarmonicStudy: true,
+          harmonics: { includeScanSeries: true, ...(scan ? { scan } : {}), ...(combination ? { combination } : {}) },
+        });
   expect(outcome.ok).toBe(true);
   return nonFinitePaths(outcome).slice(0, 5);
 }
@@ -55,7 +58,16 @@ describe("the heaviest schema-valid requests", () => {
     [`sizing: ${SPECTRA_LOADS} loads with full spectra`, "/v1/sizing", () => worstSizingBody({ loads: SPECTRA_LOADS, spectra: true })],
     // 7 series (the bus, 2 + 2 stages, a 2-stage detuned proposal) × 24 501 points: 171 507, near MAX_SERIES_POINTS
     ["scan: 7 series at stepOrder 0.002", "/v1/harmonics/scan", () => ({ ...exampleSizingBody(), scan: { stepOrder: 0.002 } })],
-    ["scan: the bus alone at the schema's finest grid (49 001 points)", "/v1/harmonics/scan", () => ({ ...exampleSizingBody(), proposedBank: undefined, loads: [{ label: "Heater", kind: "other", measurement: { method: "kw_pf", kW: 10, pf: 0.99, sense: "lagging" } }], scan: { fromOrder: 1, toOrder: 50, stepOrder: 0.001 } })],
+    [
+      "scan: the bus alone at the schema's finest grid (49 001 points)",
+      "/v1/harmonics/scan",
+      () => ({
+        ...exampleSizingBody(),
+        proposedBank: undefined,
+        loads: [{ label: "Heater", kind: "other", measurement: { method: "kw_pf", kW: 10, pf: 0.99, sense: "lagging" } }],
+        scan: { fromOrder: 1, toOrder: 50, stepOrder: 0.001 },
+      }),
+    ],
   ];
   for (const [name, url, body] of cases) {
     it(`${name}: answers within the bounds`, async () => {
@@ -87,7 +99,11 @@ describe("the requests that once stalled the service or failed", () => {
   }
 
   it("a 64-step bank scanned at stepOrder 0.001: a 400 naming scan.stepOrder and the limit", async () => {
-    const body = { ...exampleSizingBody(), proposedBank: { ratedVoltageV: 480, reactorPct: 7, steps: Array.from({ length: 64 }, () => ({ kvar: 25 })) }, scan: { stepOrder: 0.001 } };
+    const body = {
+      ...exampleSizingBody(),
+      proposedBank: { ratedVoltageV: 480, reactorPct: 7, steps: Array.from({ length: 64 }, () => ({ kvar: 25 })) },
+      scan: { stepOrder: 0.001 },
+    };
     const { r, ms } = await post("/v1/harmonics/scan", body);
     expect(r.statusCode).toBe(400);
     expect(ms).toBeLessThan(WALL_MS);
@@ -97,7 +113,11 @@ describe("the requests that once stalled the service or failed", () => {
   });
 
   it("a step of 5e-324 kvar with background distortion: a 400 naming the step's kvar and the limit", async () => {
-    const body = { ...exampleSizingBody(), proposedBank: { ratedVoltageV: 480, steps: [{ kvar: 5e-324 }] }, backgroundVoltageDistortion: [{ order: 5, pct: 3 }] };
+    const body = {
+      ...exampleSizingBody(),
+      proposedBank: { ratedVoltageV: 480, steps: [{ kvar: 5e-324 }] },
+      backgroundVoltageDistortion: [{ order: 5, pct: 3 }],
+    };
     for (const url of ["/v1/sizing", "/v1/harmonics/scan"]) {
       const { r } = await post(url, body);
       expect(r.statusCode).toBe(400);
@@ -107,7 +127,11 @@ describe("the requests that once stalled the service or failed", () => {
   });
 
   it("the smallest step allowed, with background distortion, answers a finite 200", async () => {
-    const body = { ...exampleSizingBody(), proposedBank: { ratedVoltageV: 480, steps: [{ kvar: MIN_STEP_KVAR }] }, backgroundVoltageDistortion: [{ order: 5, pct: 3 }] };
+    const body = {
+      ...exampleSizingBody(),
+      proposedBank: { ratedVoltageV: 480, steps: [{ kvar: MIN_STEP_KVAR }] },
+      backgroundVoltageDistortion: [{ order: 5, pct: 3 }],
+    };
     for (const url of ["/v1/sizing", "/v1/harmonics/scan"]) {
       const { r } = await post(url, body);
       expect(r.statusCode, r.body.slice(0, 400)).toBe(200);

@@ -38,7 +38,9 @@ describe("economics through /v1/sizing", () => {
     const steps = res.body.recommendedBank.physicalSteps as { role: string; effectiveKvar: number }[];
     const fixed = steps.filter((s) => s.role === "fixed").reduce((a, s) => a + s.effectiveKvar, 0);
     const switched = steps.filter((s) => s.role === "switched").map((s) => s.effectiveKvar);
-    const sums = Array.from({ length: 1 << switched.length }, (_, m) => switched.reduce((a, k, i) => a + (m & (1 << i) ? k : 0), 0)).sort((a, b) => a - b);
+    const sums = Array.from({ length: 1 << switched.length }, (_, m) => switched.reduce((a, k, i) => a + (m & (1 << i) ? k : 0), 0)).sort(
+      (a, b) => a - b,
+    );
     const on = sums.find((x) => 300 - fixed - x <= 400 * Math.tan(Math.acos(0.95)) + 1e-9) ?? sums[sums.length - 1]!;
     const afterKvar = 300 - fixed - on;
     const saving = (500 - Math.hypot(400, afterKvar)) * 8;
@@ -63,7 +65,10 @@ describe("economics through /v1/sizing", () => {
   });
 
   it("a PF-adjusted tariff echoes its pfBasis (default average) and works the survey path on it", async () => {
-    const send = (tariff: object) => api(app).post("/v1/sizing").send({ ...base, economics: { currency: "USD", tariff } });
+    const send = (tariff: object) =>
+      api(app)
+        .post("/v1/sizing")
+        .send({ ...base, economics: { currency: "USD", tariff } });
     const avg = await send({ form: "kw_demand_pf_adjusted", chargePerKW: 10, basePF: 0.9 });
     expect(avg.status).toBe(200);
     expect(avg.body.economics.tariff.pfBasis).toBe("average");

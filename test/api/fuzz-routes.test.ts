@@ -5,7 +5,18 @@ import { organisationNamed } from "../../src/auth/bootstrap.js";
 import type { Store } from "../../src/store/ports.js";
 import { inject, keyFor, keyIdOf } from "../helpers/auth.js";
 import { makeStoreApp, rowCounts } from "../helpers/db.js";
-import { appRoutes, label, queryNames, takesBody, takesUpload, urlWithIds, validBody, weekCsv, type AppRoute, type RouteIds } from "../helpers/routes.js";
+import {
+  appRoutes,
+  label,
+  queryNames,
+  takesBody,
+  takesUpload,
+  urlWithIds,
+  validBody,
+  weekCsv,
+  type AppRoute,
+  type RouteIds,
+} from "../helpers/routes.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 import { sqlRows } from "../helpers/store.js";
 
@@ -31,7 +42,9 @@ beforeAll(async () => {
   ({ app, store } = await makeStoreApp());
   const b = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Fuzz hall" }) })).json();
   ids.building = b.id;
-  ids.interval = (await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/interval-analyses`, headers: { "content-type": "text/csv" }, payload: week })).json().id;
+  ids.interval = (
+    await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/interval-analyses`, headers: { "content-type": "text/csv" }, payload: week })
+  ).json().id;
   ids.survey = (await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/surveys`, payload: surveyBody() })).json().id;
   const spare = await keyFor(app, "auditor");
   ids.key = keyIdOf(app, spare);
@@ -65,12 +78,30 @@ function mutated(valid: unknown): fc.Arbitrary<unknown> {
 }
 
 function bodyArb(r: AppRoute): fc.Arbitrary<{ payload?: string; type?: string }> {
-  const types = fc.constantFrom(undefined, "application/json", "text/csv", "text/plain", "multipart/form-data; boundary=zz", "application/x-www-form-urlencoded");
+  const types = fc.constantFrom(
+    undefined,
+    "application/json",
+    "text/csv",
+    "text/plain",
+    "multipart/form-data; boundary=zz",
+    "application/x-www-form-urlencoded",
+  );
   if (takesUpload(r)) {
-    const csv = fc.oneof(fc.constant(week), printable, fc.tuple(fc.nat(week.length), printable).map(([i, s]) => week.slice(0, i) + s + week.slice(i)));
+    const csv = fc.oneof(
+      fc.constant(week),
+      printable,
+      fc.tuple(fc.nat(week.length), printable).map(([i, s]) => week.slice(0, i) + s + week.slice(i)),
+    );
     return fc.record({ payload: csv, type: fc.oneof(fc.constant("text/csv"), types) });
   }
-  if (!takesBody(r)) return fc.record({ payload: fc.option(fc.jsonValue().map((v) => JSON.stringify(v) ?? ""), { nil: undefined }), type: types });
+  if (!takesBody(r))
+    return fc.record({
+      payload: fc.option(
+        fc.jsonValue().map((v) => JSON.stringify(v) ?? ""),
+        { nil: undefined },
+      ),
+      type: types,
+    });
   const valid = validBody(r, "fuzz")?.payload;
   const json = fc.oneof(fc.constant(valid), mutated(valid), fc.jsonValue()).map((v) => JSON.stringify(v) ?? "");
   return fc.record({ payload: fc.oneof(json, printable), type: fc.oneof(fc.constant("application/json"), types) });
@@ -80,8 +111,13 @@ function urlArb(r: AppRoute): fc.Arbitrary<string> {
   // Each parameter (and a wildcard's tail) real or random; the real URL on its own too.
   const parts = r.url.split(/(:\w+|\*)/);
   const real = urlWithIds(r.url, ids).replace("*", "");
-  const random = fc.tuple(...parts.map((p, i) => (i % 2 === 1 ? fc.oneof(fc.constant(p === ":n" ? "1" : ""), printable.map(encodeURIComponent)) : fc.constant(p))));
-  const path = fc.oneof(fc.constant(real), random.map((ps) => ps.join("")));
+  const random = fc.tuple(
+    ...parts.map((p, i) => (i % 2 === 1 ? fc.oneof(fc.constant(p === ":n" ? "1" : ""), printable.map(encodeURIComponent)) : fc.constant(p))),
+  );
+  const path = fc.oneof(
+    fc.constant(real),
+    random.map((ps) => ps.join("")),
+  );
   const names = [...queryNames(r), "limit", "cursor", "x"];
   const query = fc.dictionary(fc.constantFrom(...names), printable, { maxKeys: 3 }).map((q) => new URLSearchParams(q).toString());
   return fc.tuple(path, query).map(([p, q]) => p + (q ? `?${q}` : ""));

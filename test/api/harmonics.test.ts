@@ -29,7 +29,9 @@ const S_SC_KVA = 1500 / 0.0575;
 
 describe("POST /v1/harmonics/scan", () => {
   it("returns the |Z(h)| series for the bus and every stage, with peaks near the closed form", async () => {
-    const res = await api(app).post("/v1/harmonics/scan").send({ ...site, scan: { stepOrder: 0.01 } });
+    const res = await api(app)
+      .post("/v1/harmonics/scan")
+      .send({ ...site, scan: { stepOrder: 0.01 } });
     expect(res.status).toBe(200);
     expect(() => harmonicScanResultSchema.parse(res.body)).not.toThrow();
     const study = res.body.study;
@@ -69,7 +71,9 @@ describe("POST /v1/harmonics/scan", () => {
     [{ toOrder: 60 }, "scan.toOrder"],
     [{ points: 3 }, "scan.points"],
   ])("rejects scan options %j at %s", async (scan, path) => {
-    const res = await api(app).post("/v1/harmonics/scan").send({ ...site, scan });
+    const res = await api(app)
+      .post("/v1/harmonics/scan")
+      .send({ ...site, scan });
     expect(res.status).toBe(400);
     expect(res.body.errors.map((e: { path: string }) => e.path)).toContain(path);
   });
@@ -108,8 +112,7 @@ describe("harmonics in /v1/sizing", () => {
       .post("/v1/sizing")
       .send({ ...site, backgroundVoltageDistortion: [{ order: 5, pct: 2 }] });
     const without = await api(app).post("/v1/sizing").send(site);
-    const line = (b: typeof withBg.body) =>
-      b.harmonics.withoutCapacitors.distortion.lines.find((l: { order: number }) => l.order === 5).voltagePct;
+    const line = (b: typeof withBg.body) => b.harmonics.withoutCapacitors.distortion.lines.find((l: { order: number }) => l.order === 5).voltagePct;
     // the stated model: background + injected, arithmetic (worst case)
     expect(line(withBg.body) - line(without.body)).toBeCloseTo(2, 9);
   });
@@ -118,8 +121,20 @@ describe("harmonics in /v1/sizing", () => {
     [[{ order: 1, pct: 10 }], "loads.0.harmonics.0.order"],
     [[{ order: 51, pct: 10 }], "loads.0.harmonics.0.order"],
     [[{ order: 5, pct: -1 }], "loads.0.harmonics.0.pct"],
-    [[{ order: 5, pct: 200 }, { order: 7, pct: 150 }], "loads.0.harmonics"],
-    [[{ order: 5, pct: 20 }, { order: 5, pct: 10 }], "loads.0.harmonics"],
+    [
+      [
+        { order: 5, pct: 200 },
+        { order: 7, pct: 150 },
+      ],
+      "loads.0.harmonics",
+    ],
+    [
+      [
+        { order: 5, pct: 20 },
+        { order: 5, pct: 10 },
+      ],
+      "loads.0.harmonics",
+    ],
   ])("rejects the spectrum %j at %s", async (harmonics, path) => {
     const res = await api(app)
       .post("/v1/sizing")
@@ -131,9 +146,7 @@ describe("harmonics in /v1/sizing", () => {
 
 describe("harmonics in stored surveys", () => {
   it("stores the harmonics section with the survey and returns it unchanged", async () => {
-    const b = await api(app)
-      .post("/v1/buildings")
-      .send({ name: "Drive hall", system: site.system, transformer: site.transformer });
+    const b = await api(app).post("/v1/buildings").send({ name: "Drive hall", system: site.system, transformer: site.transformer });
     expect(b.status).toBe(201);
     const s = await api(app)
       .post(`/v1/buildings/${b.body.id}/surveys`)

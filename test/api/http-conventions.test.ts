@@ -175,7 +175,9 @@ describe("report CSP", () => {
     const r = await api(app).post("/v1/sizing/report").send(exampleSizingBody());
     expect(r.status).toBe(200);
     expect(r.headers["content-type"]).toMatch(/^text\/html/);
-    const csp = String(r.headers["content-security-policy"]).split(";").map((d) => d.trim());
+    const csp = String(r.headers["content-security-policy"])
+      .split(";")
+      .map((d) => d.trim());
     expect(csp).toContain("frame-ancestors 'none'");
     expect(csp).toContain("default-src 'none'");
   });

@@ -75,7 +75,13 @@ describe("Idempotency-Key claims", () => {
   it("a claim left by an instance that died is taken over after the lease", async () => {
     const t = new Date(clock).toISOString();
     // what a crashed instance leaves: a claim without an answer
-    const claimed = await store.idempotency.claim("org_default", "k-orphan", { requestHash: "a dead request", createdAt: t }, "1970-01-01T00:00:00.000Z", "1970-01-01T00:00:00.000Z");
+    const claimed = await store.idempotency.claim(
+      "org_default",
+      "k-orphan",
+      { requestHash: "a dead request", createdAt: t },
+      "1970-01-01T00:00:00.000Z",
+      "1970-01-01T00:00:00.000Z",
+    );
     expect(claimed).toEqual({ kind: "claimed" });
     const during = await postSurvey("k-orphan", surveyBody());
     expect(during.statusCode).toBe(422); // another request holds the key (a different hash)

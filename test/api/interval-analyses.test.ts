@@ -12,7 +12,10 @@ afterAll(async () => close());
 
 const TAN95 = Math.sqrt(1 - 0.95 ** 2) / 0.95;
 /** January 2025, 15-minute intervals: 00–08 h 200 kW / 100 kvar, 08–24 h 600 kW / 450 kvar. */
-const january = csvOfSeries(syntheticYear(96, (k) => (k < 32 ? { kW: 200, kvar: 100 } : { kW: 600, kvar: 450 }), 31), "Interval Start,Demand kW,kVAr");
+const january = csvOfSeries(
+  syntheticYear(96, (k) => (k < 32 ? { kW: 200, kvar: 100 } : { kW: 600, kvar: 450 }), 31),
+  "Interval Start,Demand kW,kVAr",
+);
 
 const post = (query: string, payload: string, headers: Record<string, string> = CSV) =>
   inject(app, { method: "POST", url: `/v1/interval-analyses${query}`, headers, payload });
@@ -24,9 +27,27 @@ describe("POST /v1/interval-analyses (text/csv)", () => {
     expect(r.headers["content-type"]).toMatch(/^application\/json/);
     const b = r.json();
     expect(Object.keys(b)).toEqual([
-      "engineVersion", "input", "quality", "interval", "targetPF", "reactiveDemand", "neededKvar", "kW", "pf", "monthly", "total", "simulation", "summary", "warnings",
+      "engineVersion",
+      "input",
+      "quality",
+      "interval",
+      "targetPF",
+      "reactiveDemand",
+      "neededKvar",
+      "kW",
+      "pf",
+      "monthly",
+      "total",
+      "simulation",
+      "summary",
+      "warnings",
     ]);
-    expect(b.input).toMatchObject({ dataRows: 2976, acceptedRows: 2976, method: "kW_kvar", columns: { timestamp: "Interval Start", kW: "Demand kW", kvar: "kVAr" } });
+    expect(b.input).toMatchObject({
+      dataRows: 2976,
+      acceptedRows: 2976,
+      method: "kW_kvar",
+      columns: { timestamp: "Interval Start", kW: "Demand kW", kvar: "kVAr" },
+    });
     expect(b.interval).toMatchObject({ minutes: 15, source: "detected", count: 2976, firstTimestamp: "2025-01-01T00:00:00Z" });
     expect(b.targetPF).toBe(0.95);
     expect(b.simulation).toBeNull();
@@ -66,7 +87,8 @@ describe("POST /v1/interval-analyses (text/csv)", () => {
   });
 
   it("takes column overrides from the query", async () => {
-    const csv = "Read time,kW max,Demand kW,kvar,Q net\n2025-01-01 00:00,999,100,40,10\n2025-01-01 00:15,999,100,40,10\n2025-01-01 00:30,999,100,40,10\n";
+    const csv =
+      "Read time,kW max,Demand kW,kvar,Q net\n2025-01-01 00:00,999,100,40,10\n2025-01-01 00:15,999,100,40,10\n2025-01-01 00:30,999,100,40,10\n";
     const auto = (await post("", csv)).json();
     expect(auto.input.columns).toMatchObject({ kW: "Demand kW", kvar: "kvar" });
     const over = (await post("?kWColumn=kw%20max&kvarColumn=Q%20net&timestampColumn=1", csv)).json();
@@ -87,14 +109,26 @@ describe("POST /v1/interval-analyses (text/csv)", () => {
   });
 
   it("local timestamps through the Chicago fall-back hour: 7 instants, no duplicates, months in Chicago", async () => {
-    const locals = ["2026-10-31 23:30", "2026-11-01 00:00", "2026-11-01 00:30", "2026-11-01 01:00", "2026-11-01 01:30", "2026-11-01 01:00", "2026-11-01 01:30", "2026-11-01 02:00"];
+    const locals = [
+      "2026-10-31 23:30",
+      "2026-11-01 00:00",
+      "2026-11-01 00:30",
+      "2026-11-01 01:00",
+      "2026-11-01 01:30",
+      "2026-11-01 01:00",
+      "2026-11-01 01:30",
+      "2026-11-01 02:00",
+    ];
     const csv = ["time,kW,kvar", ...locals.map((t) => `${t},100,50`)].join("\n");
     const b = (await post("?timeZone=America/Chicago", csv)).json();
     expect(b.quality.duplicates.count).toBe(0);
     expect(b.quality.gaps.count).toBe(0);
     expect(b.interval.minutes).toBe(30);
     expect(b.interval.lastTimestamp).toBe("2026-11-01T02:00:00-06:00");
-    expect(b.monthly.map((m: { month: string; intervals: number }) => [m.month, m.intervals])).toEqual([["2026-10", 1], ["2026-11", 7]]);
+    expect(b.monthly.map((m: { month: string; intervals: number }) => [m.month, m.intervals])).toEqual([
+      ["2026-10", 1],
+      ["2026-11", 7],
+    ]);
   });
 
   it("reports gaps, duplicates, out-of-order rows and accepted bad rows in quality, with warnings", async () => {
@@ -105,6 +139,8 @@ describe("POST /v1/interval-analyses (text/csv)", () => {
     expect(b.quality.outOfOrder.count).toBe(1);
     expect(b.quality.gaps.missingIntervals).toBeGreaterThanOrEqual(2);
     expect(b.quality.badRows.first[0]).toMatchObject({ line: 40, column: "Demand kW", reason: "unparseable number" });
-    expect(b.warnings.map((w: { code: string }) => w.code)).toEqual(expect.arrayContaining(["bad_rows_skipped", "duplicate_timestamps", "out_of_order", "gaps"]));
+    expect(b.warnings.map((w: { code: string }) => w.code)).toEqual(
+      expect.arrayContaining(["bad_rows_skipped", "duplicate_timestamps", "out_of_order", "gaps"]),
+    );
   });
 });

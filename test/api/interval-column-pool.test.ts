@@ -3,7 +3,8 @@ import { columnPool } from "../../src/http/interval/column-pool.js";
 
 describe("the interval column pool", () => {
   it("hands a kept array back once, the smallest long enough, and makes a new one otherwise", () => {
-    const small = new Float64Array(1000), big = new Float64Array(5000);
+    const small = new Float64Array(1000),
+      big = new Float64Array(5000);
     columnPool.give(big);
     columnPool.give(small);
     columnPool.give(small); // twice: kept once

@@ -12,7 +12,12 @@ afterAll(async () => close());
 
 const URL = "/v1/interval-analyses";
 /** A week of 15-minute data: 00–08 h 200 kW / 100 kvar, 08–24 h 600 kW / 450 kvar. */
-const week = Buffer.from(csvOfSeries(syntheticYear(96, (k) => (k < 32 ? { kW: 200, kvar: 100 } : { kW: 600, kvar: 450 }), 7), "Timestamp,kW,kvar"));
+const week = Buffer.from(
+  csvOfSeries(
+    syntheticYear(96, (k) => (k < 32 ? { kW: 200, kvar: 100 } : { kW: 600, kvar: 450 }), 7),
+    "Timestamp,kW,kvar",
+  ),
+);
 
 describe("POST /v1/interval-analyses (multipart/form-data)", () => {
   it("reads the file field with the options given as form fields before it", async () => {
@@ -65,8 +70,13 @@ describe("POST /v1/interval-analyses (multipart/form-data)", () => {
 
   it("bad rows in an uploaded file give a 422 with line numbers", async () => {
     const text = week.toString().split("\n");
-    for (const k of [3, 5, 7, 9, 11, 13, 15, 17, 19, 21, 23, 25, 27, 29, 31, 33, 35, 37, 39, 41, 43, 45, 47, 49, 51, 53, 55, 57, 59, 61, 63, 65, 67, 69]) text[k] = "oops";
-    const r = await api(app).post(URL).attach("file", Buffer.from(text.join("\n")), "bad.csv");
+    for (const k of [
+      3, 5, 7, 9, 11, 13, 15, 17, 19, 21, 23, 25, 27, 29, 31, 33, 35, 37, 39, 41, 43, 45, 47, 49, 51, 53, 55, 57, 59, 61, 63, 65, 67, 69,
+    ])
+      text[k] = "oops";
+    const r = await api(app)
+      .post(URL)
+      .attach("file", Buffer.from(text.join("\n")), "bad.csv");
     expect(r.status).toBe(422);
     expect(r.body.errors[0]).toEqual({ path: "line.4", message: "wrong column count: 1 field, the header has 3" });
   });

@@ -11,7 +11,8 @@ afterAll(async () => close());
 
 const URL = "/v1/interval-analyses";
 const good = "time,kW,kvar\n2026-03-01 00:00,100,50\n2026-03-01 00:15,100,50\n2026-03-01 00:30,100,50\n";
-const post = (query: string, payload: string | Readable, headers: Record<string, string> = CSV) => inject(app, { method: "POST", url: URL + query, headers, payload });
+const post = (query: string, payload: string | Readable, headers: Record<string, string> = CSV) =>
+  inject(app, { method: "POST", url: URL + query, headers, payload });
 
 function expectProblem(r: { statusCode: number; headers: Record<string, unknown>; json: () => any }, status: number) {
   expect(r.statusCode).toBe(status);
@@ -47,7 +48,10 @@ describe("POST /v1/interval-analyses — 400/422: the CSV", () => {
   });
 
   it("422 above 5 % bad rows, with each first error's line, column and reason", async () => {
-    const rows = Array.from({ length: 40 }, (_, i) => `2026-03-01 ${String(Math.floor(i / 4)).padStart(2, "0")}:${String((i % 4) * 15).padStart(2, "0")},100,50`);
+    const rows = Array.from(
+      { length: 40 },
+      (_, i) => `2026-03-01 ${String(Math.floor(i / 4)).padStart(2, "0")}:${String((i % 4) * 15).padStart(2, "0")},100,50`,
+    );
     rows[4] = "2026-03-01 01:00,100"; // line 6: one field short
     rows[9] = "2026-03-01 02:15,1e,50"; // line 11
     rows[20] = "2026-02-30 05:00,100,50"; // line 22
@@ -59,7 +63,11 @@ describe("POST /v1/interval-analyses — 400/422: the CSV", () => {
       { path: "line.11.kW", message: "unparseable number" },
       { path: "line.22.time", message: expect.stringMatching(/^bad timestamp: date or time out of range/) },
     ]);
-    expect(p.badRows).toMatchObject({ count: 3, limitFraction: 0.05, first: [{ line: 6 }, { line: 11, value: "1e" }, { line: 22, value: "2026-02-30 05:00" }] });
+    expect(p.badRows).toMatchObject({
+      count: 3,
+      limitFraction: 0.05,
+      first: [{ line: 6 }, { line: 11, value: "1e" }, { line: 22, value: "2026-02-30 05:00" }],
+    });
   });
 
   it("422 for an empty body, a header alone, or one interval", async () => {

@@ -28,7 +28,10 @@ const analysisRows = () => sqlCount(store, "SELECT count(*) AS n FROM interval_a
 
 describe("rejected uploads change nothing", () => {
   const good = "time,kW,kvar\n2026-03-01 00:00,100,50\n2026-03-01 00:15,100,50\n2026-03-01 00:30,100,50\n";
-  const badRows = ["time,kW,kvar", ...Array.from({ length: 20 }, (_, i) => `2026-03-01 ${String(i).padStart(2, "0")}:00,${i < 3 ? "x" : 100},50`)].join("\n");
+  const badRows = [
+    "time,kW,kvar",
+    ...Array.from({ length: 20 }, (_, i) => `2026-03-01 ${String(i).padStart(2, "0")}:00,${i < 3 ? "x" : 100},50`),
+  ].join("\n");
   it.each([
     ["a bad option", () => attach(good, CSV, "?targetPF=0.5"), 400, "targetPF"],
     ["a header without kvar", () => attach("time,kW\n2026-03-01 00:00,1\n"), 400, "kvarColumn"],
@@ -93,7 +96,9 @@ describe("Idempotency-Key on uploads (digest of the bytes read)", () => {
 describe("restart", () => {
   it("a stored analysis, and the survey that used it, survive closing and reopening the database file", async () => {
     const a = (await attach(twoDays)).json();
-    const survey = (await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ scope: "whole_site" }) })).json();
+    const survey = (
+      await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ scope: "whole_site" }) })
+    ).json();
     const list = (await inject(app, url())).json();
     await app.close();
 
@@ -103,7 +108,9 @@ describe("restart", () => {
     expect(again.json().summary).toEqual(a.summary);
     expect((await inject(app, url())).json()).toEqual(list);
     expect((await inject(app, `/v1/surveys/${survey.id}`)).json().building.intervalAnalysisId).toBe(a.id);
-    const next = (await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ scope: "whole_site" }) })).json();
+    const next = (
+      await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ scope: "whole_site" }) })
+    ).json();
     expect(next.result.recommendedBank.stepPlan.source).toBe("intervals");
   });
 });

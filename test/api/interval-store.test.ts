@@ -16,20 +16,26 @@ let otherBuildingId: string;
 beforeAll(async () => {
   ({ app, store } = await makeStoreApp());
   const tariff = { currency: "EUR", tariff: { form: "kva_demand", chargePerKVA: 8 } };
-  buildingId = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Interval hall", economics: tariff }) })).json().id;
+  buildingId = (
+    await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Interval hall", economics: tariff }) })
+  ).json().id;
   otherBuildingId = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Other hall" }) })).json().id;
 });
 afterAll(() => app.close());
 
 const CSV = { "content-type": "text/csv" };
 /** January 2025, 15-minute intervals: 00–08 h 200 kW / 100 kvar, 08–24 h 600 kW / 450 kvar (invented). */
-const january = csvOfSeries(syntheticYear(96, (k) => (k < 32 ? { kW: 200, kvar: 100 } : { kW: 600, kvar: 450 }), 31), "Interval Start,Demand kW,kVAr");
+const january = csvOfSeries(
+  syntheticYear(96, (k) => (k < 32 ? { kW: 200, kvar: 100 } : { kW: 600, kvar: 450 }), 31),
+  "Interval Start,Demand kW,kVAr",
+);
 /** A week of hourly data at a flat 300 kW / 200 kvar (invented). */
 const flatWeek = csvOfSeries(syntheticYear(24, () => ({ kW: 300, kvar: 200 }), 7));
 
 const attach = (csv: string, query = "", b = buildingId, headers: Record<string, string> = CSV) =>
   inject(app, { method: "POST", url: `/v1/buildings/${b}/interval-analyses${query}`, headers, payload: csv });
-const postSurvey = (payload: unknown, b = buildingId) => inject(app, { method: "POST", url: `/v1/buildings/${b}/surveys`, payload: payload as object });
+const postSurvey = (payload: unknown, b = buildingId) =>
+  inject(app, { method: "POST", url: `/v1/buildings/${b}/surveys`, payload: payload as object });
 
 describe("POST /v1/buildings/{id}/interval-analyses", () => {
   it("stores the analysis: 201 with id, buildingId and the same analysis as the stateless route", async () => {
@@ -71,8 +77,15 @@ describe("POST /v1/buildings/{id}/interval-analyses", () => {
     const item = page1.items[1];
     const s = one.json().summary;
     expect(item).toEqual({
-      id: ids[1], createdAt: one.json().createdAt, targetPF: 0.91, intervalCount: 168, intervalMinutes: 60,
-      firstTimestamp: s.firstTimestamp, lastTimestamp: s.lastTimestamp, hold99PctKvar: s.neededKvar.hold99PctKvar, minKvar: 200,
+      id: ids[1],
+      createdAt: one.json().createdAt,
+      targetPF: 0.91,
+      intervalCount: 168,
+      intervalMinutes: 60,
+      firstTimestamp: s.firstTimestamp,
+      lastTimestamp: s.lastTimestamp,
+      hold99PctKvar: s.neededKvar.hold99PctKvar,
+      minKvar: 200,
     });
     const page2 = (await inject(app, `/v1/buildings/${buildingId}/interval-analyses?limit=2&cursor=${page1.nextCursor}`)).json();
     expect(page2.items[0].id).toBe(ids[0]);
@@ -145,7 +158,11 @@ describe("surveys use the building's interval analyses", () => {
     for (const id of [theirs, "iva_unknown"]) {
       for (const res of [
         await postSurvey(surveyBody({ intervalAnalysisId: id })),
-        await inject(app, { method: "POST", url: `/v1/surveys/${survey.id}/revisions`, payload: { ...surveyBody({ intervalAnalysisId: id }), reason: "r" } }),
+        await inject(app, {
+          method: "POST",
+          url: `/v1/surveys/${survey.id}/revisions`,
+          payload: { ...surveyBody({ intervalAnalysisId: id }), reason: "r" },
+        }),
       ]) {
         expect(res.statusCode).toBe(400);
         expect(res.headers["content-type"]).toMatch(/^application\/problem\+json/);

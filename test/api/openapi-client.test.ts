@@ -70,7 +70,10 @@ function expectDocumented(path: string, method: string, expected: number, result
   expect(Object.keys(documented.content), `${method} ${path} ${expected}`).toContain(mediaType);
   if (mediaType.endsWith("json")) {
     const validate = validatorFor(path, method, String(expected), mediaType);
-    expect(validate(body), `${method} ${path} ${expected}: ${JSON.stringify(validate.errors?.slice(0, 5).map((e) => [e.instancePath, e.message, e.params]))}`).toBe(true);
+    expect(
+      validate(body),
+      `${method} ${path} ${expected}: ${JSON.stringify(validate.errors?.slice(0, 5).map((e) => [e.instancePath, e.message, e.params]))}`,
+    ).toBe(true);
   } else {
     expect(body, `${method} ${path} ${expected} has a body`).toBeTruthy();
   }
@@ -96,7 +99,12 @@ describe("a generated client drives every operation", () => {
     expectDocumented("/ready", "get", 200, await client.GET("/ready"));
     expectDocumented("/openapi.json", "get", 200, await client.GET("/openapi.json"));
     expectDocumented("/problems", "get", 200, await client.GET("/problems", { parseAs: "text" }));
-    expectDocumented("/problems/{type}", "get", 200, await client.GET("/problems/{type}", { params: { path: { type: "validation" } }, parseAs: "text" }));
+    expectDocumented(
+      "/problems/{type}",
+      "get",
+      200,
+      await client.GET("/problems/{type}", { params: { path: { type: "validation" } }, parseAs: "text" }),
+    );
     expectDocumented("/problems/{type}", "get", 404, await client.GET("/problems/{type}", { params: { path: { type: "no-such-type" } } }));
   });
 
@@ -108,45 +116,96 @@ describe("a generated client drives every operation", () => {
     expect((bad.error as Json).errors[0].path).toBe("targetPF");
     expectDocumented("/v1/harmonics/scan", "post", 200, await client.POST("/v1/harmonics/scan", { body: sizingBody() }));
     expectDocumented("/v1/sizing/report", "post", 200, await client.POST("/v1/sizing/report", { body: sizingBody(), parseAs: "text" }));
-    const pdf = await client.POST("/v1/sizing/report", { params: { query: { format: "pdf", paper: "letter" } }, body: sizingBody(), parseAs: "arrayBuffer" });
+    const pdf = await client.POST("/v1/sizing/report", {
+      params: { query: { format: "pdf", paper: "letter" } },
+      body: sizingBody(),
+      parseAs: "arrayBuffer",
+    });
     expectDocumented("/v1/sizing/report", "post", 200, pdf);
-    expect(Buffer.from(pdf.data as ArrayBuffer).subarray(0, 5).toString()).toBe("%PDF-");
+    expect(
+      Buffer.from(pdf.data as ArrayBuffer)
+        .subarray(0, 5)
+        .toString(),
+    ).toBe("%PDF-");
   });
 
   it("interval data, as CSV and as a form", async () => {
-    expectDocumented("/v1/interval-analyses", "post", 200, await client.POST("/v1/interval-analyses", { body: weekCsv, bodySerializer: upload, headers: csvHeaders }));
+    expectDocumented(
+      "/v1/interval-analyses",
+      "post",
+      200,
+      await client.POST("/v1/interval-analyses", { body: weekCsv, bodySerializer: upload, headers: csvHeaders }),
+    );
     const viaForm = await client.POST("/v1/interval-analyses", { body: { file: weekCsv, targetPF: "0.97" }, bodySerializer: upload });
     expectDocumented("/v1/interval-analyses", "post", 200, viaForm);
     expect((viaForm.data as Json).targetPF).toBe(0.97);
   });
 
   it("buildings, surveys, stored analyses and reports, keys and the audit log", async () => {
-    const created = await client.POST("/v1/buildings", { params: { header: { "idempotency-key": '"client-1"' } }, body: buildingBody({ name: "Client hall" }) as Body<"NewBuildingInput"> });
+    const created = await client.POST("/v1/buildings", {
+      params: { header: { "idempotency-key": '"client-1"' } },
+      body: buildingBody({ name: "Client hall" }) as Body<"NewBuildingInput">,
+    });
     expectDocumented("/v1/buildings", "post", 201, created);
     const id = created.data!.id;
     const building = { params: { path: { id } } };
     expectDocumented("/v1/buildings", "get", 200, await client.GET("/v1/buildings", { params: { query: { q: "client", limit: 5 } } }));
     expectDocumented("/v1/buildings/{id}", "get", 200, await client.GET("/v1/buildings/{id}", building));
     expectDocumented("/v1/buildings/{id}", "get", 404, await client.GET("/v1/buildings/{id}", { params: { path: { id: "bld_unknown" } } }));
-    expectDocumented("/v1/buildings/{id}", "patch", 200, await client.PATCH("/v1/buildings/{id}", { ...building, body: { notes: "read by the generated client" } }));
+    expectDocumented(
+      "/v1/buildings/{id}",
+      "patch",
+      200,
+      await client.PATCH("/v1/buildings/{id}", { ...building, body: { notes: "read by the generated client" } }),
+    );
     expectDocumented("/v1/buildings/{id}/history", "get", 200, await client.GET("/v1/buildings/{id}/history", building));
 
-    const stored = await client.POST("/v1/buildings/{id}/interval-analyses", { ...building, body: weekCsv, bodySerializer: upload, headers: csvHeaders });
+    const stored = await client.POST("/v1/buildings/{id}/interval-analyses", {
+      ...building,
+      body: weekCsv,
+      bodySerializer: upload,
+      headers: csvHeaders,
+    });
     expectDocumented("/v1/buildings/{id}/interval-analyses", "post", 201, stored);
     expectDocumented("/v1/buildings/{id}/interval-analyses", "get", 200, await client.GET("/v1/buildings/{id}/interval-analyses", building));
-    expectDocumented("/v1/interval-analyses/{id}", "get", 200, await client.GET("/v1/interval-analyses/{id}", { params: { path: { id: stored.data!.id } } }));
+    expectDocumented(
+      "/v1/interval-analyses/{id}",
+      "get",
+      200,
+      await client.GET("/v1/interval-analyses/{id}", { params: { path: { id: stored.data!.id } } }),
+    );
 
     const survey = await client.POST("/v1/buildings/{id}/surveys", { ...building, body: surveyBody() as Body<"NewSurveyInput"> });
     expectDocumented("/v1/buildings/{id}/surveys", "post", 201, survey);
     const s = { params: { path: { id: survey.data!.id } } };
-    expectDocumented("/v1/buildings/{id}/surveys", "get", 200, await client.GET("/v1/buildings/{id}/surveys", { params: { path: { id }, query: { from: "2000-01-01" } } }));
+    expectDocumented(
+      "/v1/buildings/{id}/surveys",
+      "get",
+      200,
+      await client.GET("/v1/buildings/{id}/surveys", { params: { path: { id }, query: { from: "2000-01-01" } } }),
+    );
     expectDocumented("/v1/buildings/{id}/trend", "get", 200, await client.GET("/v1/buildings/{id}/trend", building));
     expectDocumented("/v1/buildings/{id}/bank-health", "get", 200, await client.GET("/v1/buildings/{id}/bank-health", building));
     expectDocumented("/v1/surveys/{id}", "get", 200, await client.GET("/v1/surveys/{id}", s));
-    expectDocumented("/v1/surveys/{id}/revisions", "post", 201, await client.POST("/v1/surveys/{id}/revisions", { ...s, body: { ...(surveyBody() as Body<"NewSurveyInput">), reason: "a second look" } }));
-    expectDocumented("/v1/surveys/{id}/revisions/{n}", "get", 200, await client.GET("/v1/surveys/{id}/revisions/{n}", { params: { path: { id: survey.data!.id, n: "2" } } }));
+    expectDocumented(
+      "/v1/surveys/{id}/revisions",
+      "post",
+      201,
+      await client.POST("/v1/surveys/{id}/revisions", { ...s, body: { ...(surveyBody() as Body<"NewSurveyInput">), reason: "a second look" } }),
+    );
+    expectDocumented(
+      "/v1/surveys/{id}/revisions/{n}",
+      "get",
+      200,
+      await client.GET("/v1/surveys/{id}/revisions/{n}", { params: { path: { id: survey.data!.id, n: "2" } } }),
+    );
     expectDocumented("/v1/surveys/{id}/loads.csv", "get", 200, await client.GET("/v1/surveys/{id}/loads.csv", { ...s, parseAs: "text" }));
-    expectDocumented("/v1/surveys/{id}/report", "get", 200, await client.GET("/v1/surveys/{id}/report", { params: { path: s.params.path, query: { revision: "1" } }, parseAs: "text" }));
+    expectDocumented(
+      "/v1/surveys/{id}/report",
+      "get",
+      200,
+      await client.GET("/v1/surveys/{id}/report", { params: { path: s.params.path, query: { revision: "1" } }, parseAs: "text" }),
+    );
     expectDocumented("/v1/surveys/{id}/report.pdf", "get", 200, await client.GET("/v1/surveys/{id}/report.pdf", { ...s, parseAs: "arrayBuffer" }));
 
     const key = await client.POST("/v1/keys", { body: { role: "auditor", label: "generated client" } });

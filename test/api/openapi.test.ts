@@ -70,7 +70,13 @@ describe("OpenAPI document", () => {
     const real = new Set(routes.map((r) => `${r.method} ${openapiPath(r.url)}`));
     expect([...documented].filter((o) => !real.has(o))).toEqual([]);
     // The routes the hand-kept list once missed, by name.
-    for (const o of ["GET /v1/surveys/{id}/report", "GET /v1/surveys/{id}/report.pdf", "POST /v1/sizing/report", "POST /v1/interval-analyses", "GET /problems/{type}"]) {
+    for (const o of [
+      "GET /v1/surveys/{id}/report",
+      "GET /v1/surveys/{id}/report.pdf",
+      "POST /v1/sizing/report",
+      "POST /v1/interval-analyses",
+      "GET /problems/{type}",
+    ]) {
       expect(documented).toContain(o);
     }
     // The left-out list is not a blanket: it holds only the form's files and the docs viewer.
@@ -98,7 +104,9 @@ describe("OpenAPI document", () => {
   it("writes shared schemas once, as named components", () => {
     const sizing = doc.paths["/v1/sizing"].post;
     expect(sizing.requestBody.content["application/json"].schema).toEqual({ $ref: "#/components/schemas/SizingRequestInput" });
-    expect(doc.paths["/v1/sizing/report"].post.requestBody.content["application/json"].schema).toEqual({ $ref: "#/components/schemas/SizingRequestInput" });
+    expect(doc.paths["/v1/sizing/report"].post.requestBody.content["application/json"].schema).toEqual({
+      $ref: "#/components/schemas/SizingRequestInput",
+    });
     expect(doc.components.schemas.SizingRequestInput.required).toEqual(expect.arrayContaining(["system", "loads"]));
     for (const status of ["400", "413", "415"]) {
       expect(sizing.responses[status].content["application/problem+json"].schema).toEqual({ $ref: "#/components/schemas/Problem" });

@@ -19,7 +19,7 @@ describe("jsonBytes", () => {
     ["Latin-1 and DEL", { s: "café\u00a0naïve\u007f" }],
     ["a character outside the BMP (a surrogate pair)", { s: "kvar 🔋 ok" }],
     ["a lone surrogate", { s: "a\ud800b\udc00c" }],
-    ["control characters, quotes and backslashes", { s: "tab\tline\nquote\"back\\slash\u0001" }],
+    ["control characters, quotes and backslashes", { s: 'tab\tline\nquote"back\\slash\u0001' }],
     ["numbers, nulls, booleans, nesting", { n: [0, -0, 1e-300, 1.7976931348623157e308, 0.1 + 0.2], z: null, t: true, o: { a: [{ b: "Ω" }] } }],
     ["a bare string", "≥"],
     ["an empty object", {}],
@@ -49,17 +49,38 @@ function bodies(): [string, Body][] {
     { label: "MSB", location: "service", control: "automatic", ratedVoltageV: 480, steps: [{ kvar: 50 }, { kvar: 50 }, { kvar: 50 }], reactorPct: 7 },
     { label: "Fixed 1", location: "service", control: "fixed", ratedVoltageV: 480, steps: [{ kvar: 25 }] },
   ];
-  installed.bankReadings = [{ bank: "MSB", inServiceSteps: [1, 2], stepCurrents: [{ step: 1, amps: [60, 59, 61] }, { step: 2, amps: 30 }] }];
+  installed.bankReadings = [
+    {
+      bank: "MSB",
+      inServiceSteps: [1, 2],
+      stepCurrents: [
+        { step: 1, amps: [60, 59, 61] },
+        { step: 2, amps: 30 },
+      ],
+    },
+  ];
   const leading = copy(plain);
   leading.loads = leading.loads.slice(0, 3).map((l, i) => ({ ...l, measurement: { method: "kw_kvar", kW: 50 + i, kvar: -40 } }));
   leading.proposedBank = { ratedVoltageV: 480, steps: [{ kvar: 400 }] };
   const distorted = copy(drives);
-  distorted.backgroundVoltageDistortion = [{ order: 5, pct: 2.5 }, { order: 7, pct: 1.5 }, { order: 11, pct: 0.5 }];
-  distorted.loads[1]!.harmonics = [{ order: 5, pct: 30 }, { order: 7, pct: 12 }, { order: 3, pct: 8 }];
+  distorted.backgroundVoltageDistortion = [
+    { order: 5, pct: 2.5 },
+    { order: 7, pct: 1.5 },
+    { order: 11, pct: 0.5 },
+  ];
+  distorted.loads[1]!.harmonics = [
+    { order: 5, pct: 30 },
+    { order: 7, pct: 12 },
+    { order: 3, pct: 8 },
+  ];
   distorted.harmonicSources = ["twelve_pulse"];
   distorted.bankDesign = { ctRatio: 200, reactorPct: 7, ratedVoltageV: 525, protectionDevice: "breaker" };
   const priced = copy(plain);
-  priced.economics = { currency: "USD", tariff: { form: "kw_demand_pf_adjusted", chargePerKW: 12, basePF: 0.95 }, cost: { perKvar: 30, perStep: 500, fixed: 2000 } };
+  priced.economics = {
+    currency: "USD",
+    tariff: { form: "kw_demand_pf_adjusted", chargePerKW: 12, basePF: 0.95 },
+    cost: { perKvar: 30, perStep: 500, fixed: 2000 },
+  };
   priced.serviceEntrance = { measurement: { method: "kw_pf", kW: 900, pf: 0.78, sense: "lagging" } };
   priced.lightLoad = { measurement: { method: "kw_pf", kW: 200, pf: 0.8, sense: "lagging" } };
   priced.scope = "whole_site";

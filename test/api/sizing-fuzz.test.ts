@@ -80,10 +80,16 @@ describe("junk bodies", () => {
 
   it("random text and bytes declared as JSON → 400", async () => {
     await fc.assert(
-      fc.asyncProperty(fc.oneof(fc.string({ unit: "binary" }), fc.uint8Array({ maxLength: 200 }).map((b) => Buffer.from(b).toString("latin1"))), async (s) => {
-        const r = await post(s);
-        expectHandled(r, s);
-      }),
+      fc.asyncProperty(
+        fc.oneof(
+          fc.string({ unit: "binary" }),
+          fc.uint8Array({ maxLength: 200 }).map((b) => Buffer.from(b).toString("latin1")),
+        ),
+        async (s) => {
+          const r = await post(s);
+          expectHandled(r, s);
+        },
+      ),
       { numRuns: RUNS, seed: SEED + 2 },
     );
   });

@@ -35,7 +35,12 @@ const REJECTIONS: { name: string; body: () => Body; path: string; message?: RegE
   { name: "pf 1.2", body: withBody((b) => (m0(b).pf = 1.2)), path: "loads.0.measurement.pf", message: /at most 1/ },
   { name: "negative amps", body: withBody((b) => (m0(b).amps = -5)), path: "loads.0.measurement.amps" },
   { name: "amps as a string", body: withBody((b) => (m0(b).amps = "120")), path: "loads.0.measurement.amps" },
-  { name: "unknown method", body: withBody((b) => (m0(b).method = "clamp_meter")), path: "loads.0.measurement.method", message: /method must be one of/ },
+  {
+    name: "unknown method",
+    body: withBody((b) => (m0(b).method = "clamp_meter")),
+    path: "loads.0.measurement.method",
+    message: /method must be one of/,
+  },
   {
     name: "kW > kVA (engine plausibility)",
     body: withBody((b) => (b.loads[0].measurement = { method: "kw_kva", kW: 120, kVA: 100 })),
@@ -50,9 +55,24 @@ const REJECTIONS: { name: string; body: () => Body; path: string; message?: RegE
     message: /kW exceeds kVA/,
   },
   // issue 11 point 9: volts beyond 2× or below 0.4× the 480 V line voltage (hand: 150/480 = 0.31, 1000/480 = 2.08)
-  { name: "reading 150 V on a 480 V system (engine)", body: withBody((b) => (m0(b).volts = 150)), path: "loads.0.measurement.volts", message: /less than 0\.4 times the system's 480 V/ },
-  { name: "reading 1000 V on a 480 V system (engine)", body: withBody((b) => (m0(b).volts = 1000)), path: "loads.0.measurement.volts", message: /more than twice the system's 480 V/ },
-  { name: "reading 480 V on a 4160 V system (engine)", body: withBody((b) => (b.system.voltageV = 4160)), path: "loads.0.measurement.volts", message: /480 V is less than 0\.4 times the system's 4160 V/ },
+  {
+    name: "reading 150 V on a 480 V system (engine)",
+    body: withBody((b) => (m0(b).volts = 150)),
+    path: "loads.0.measurement.volts",
+    message: /less than 0\.4 times the system's 480 V/,
+  },
+  {
+    name: "reading 1000 V on a 480 V system (engine)",
+    body: withBody((b) => (m0(b).volts = 1000)),
+    path: "loads.0.measurement.volts",
+    message: /more than twice the system's 480 V/,
+  },
+  {
+    name: "reading 480 V on a 4160 V system (engine)",
+    body: withBody((b) => (b.system.voltageV = 4160)),
+    path: "loads.0.measurement.volts",
+    message: /480 V is less than 0\.4 times the system's 4160 V/,
+  },
   { name: "target 0.7", body: withBody((b) => (b.targetPF = 0.7)), path: "targetPF", message: /between 0.8 and 1/ },
   { name: "target 1.01", body: withBody((b) => (b.targetPF = 1.01)), path: "targetPF" },
   { name: "no loads", body: withBody((b) => (b.loads = [])), path: "loads", message: /at least one load/ },
@@ -65,12 +85,29 @@ const REJECTIONS: { name: string; body: () => Body; path: string; message?: RegE
   { name: "unknown top-level field", body: withBody((b) => (b.surveyor = "J. Doe")), path: "surveyor", message: /"surveyor"/ },
   { name: "unknown load field", body: withBody((b) => (b.loads[0].colour = "red")), path: "loads.0.colour", message: /"colour"/ },
   { name: "unknown measurement field", body: withBody((b) => (m0(b).kvar = 3)), path: "loads.0.measurement.kvar", message: /"kvar"/ },
-  { name: "spectrum order 51", body: withBody((b) => (b.loads[0].harmonics = [{ order: 51, pct: 2 }])), path: "loads.0.harmonics.0.order", message: /2 to 50/ },
+  {
+    name: "spectrum order 51",
+    body: withBody((b) => (b.loads[0].harmonics = [{ order: 51, pct: 2 }])),
+    path: "loads.0.harmonics.0.order",
+    message: /2 to 50/,
+  },
   { name: "spectrum order 1", body: withBody((b) => (b.loads[0].harmonics = [{ order: 1, pct: 2 }])), path: "loads.0.harmonics.0.order" },
-  { name: "spectrum negative pct", body: withBody((b) => (b.loads[0].harmonics = [{ order: 5, pct: -1 }])), path: "loads.0.harmonics.0.pct", message: /not be negative/ },
+  {
+    name: "spectrum negative pct",
+    body: withBody((b) => (b.loads[0].harmonics = [{ order: 5, pct: -1 }])),
+    path: "loads.0.harmonics.0.pct",
+    message: /not be negative/,
+  },
   {
     name: "spectrum sum > 300 %",
-    body: withBody((b) => (b.loads[0].harmonics = [{ order: 5, pct: 150 }, { order: 7, pct: 100 }, { order: 11, pct: 60 }])),
+    body: withBody(
+      (b) =>
+        (b.loads[0].harmonics = [
+          { order: 5, pct: 150 },
+          { order: 7, pct: 100 },
+          { order: 11, pct: 60 },
+        ]),
+    ),
     path: "loads.0.harmonics",
     message: /more than 300 %/,
   },

@@ -21,7 +21,10 @@ const declared = sizingContracts.size.response["200"]?.content?.["application/js
 
 /** Every 200 from /v1/sizing must match sizingResultSchema and the schema the API documents. */
 function expectValidResult(body: unknown): void {
-  for (const [name, schema] of [["sizingResultSchema", sizingResultSchema], ["declared 200 schema", declared]] as const) {
+  for (const [name, schema] of [
+    ["sizingResultSchema", sizingResultSchema],
+    ["declared 200 schema", declared],
+  ] as const) {
     expect(schema, name).toBeDefined();
     const parsed = schema!.safeParse(body);
     expect(parsed.success, `${name}: ${parsed.success ? "" : JSON.stringify(parsed.error.issues.slice(0, 5))}`).toBe(true);
@@ -163,7 +166,15 @@ describe("POST /v1/sizing — other valid requests", () => {
         system: { voltageV: 480, frequencyHz: 60, phases: 3 },
         targetPF: 0.97,
         loads: [
-          { label: "VFD bank", kind: "drive", measurement: { method: "kw_pf", kW: 200, pf: 0.9, sense: "lagging", pfType: "true", currentTHDPct: 35 }, harmonics: [{ order: 5, pct: 30 }, { order: 7, pct: 12 }] },
+          {
+            label: "VFD bank",
+            kind: "drive",
+            measurement: { method: "kw_pf", kW: 200, pf: 0.9, sense: "lagging", pfType: "true", currentTHDPct: 35 },
+            harmonics: [
+              { order: 5, pct: 30 },
+              { order: 7, pct: 12 },
+            ],
+          },
           { label: "motors", kind: "motor", measurement: { method: "kw_pf", kW: 400, pf: 0.78, sense: "lagging" } },
         ],
         utility: { faultMVA: 30 },

@@ -12,7 +12,12 @@ let surveyId: string;
 beforeAll(async () => {
   ({ app, store } = await makeStoreApp({ BODY_LIMIT_BYTES: 64 * 1024 }));
   buildingId = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody() })).json().id;
-  const s = await inject(app, { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody(), headers: { "idempotency-key": "taken" } });
+  const s = await inject(app, {
+    method: "POST",
+    url: `/v1/buildings/${buildingId}/surveys`,
+    payload: surveyBody(),
+    headers: { "idempotency-key": "taken" },
+  });
   surveyId = s.json().id;
 });
 afterAll(() => app.close());
@@ -36,7 +41,12 @@ describe("rejected requests change nothing", () => {
       { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: { ...surveyBody(), loads: [] } },
       { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: implausible },
       { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: { ...surveyBody(), result: { site: {} } } },
-      { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyor: "other" }), headers: { "idempotency-key": "taken" } },
+      {
+        method: "POST",
+        url: `/v1/buildings/${buildingId}/surveys`,
+        payload: surveyBody({ surveyor: "other" }),
+        headers: { "idempotency-key": "taken" },
+      },
       { method: "POST", url: "/v1/buildings/bld_none/surveys", payload: surveyBody() },
       { method: "POST", url: `/v1/surveys/${surveyId}/revisions`, payload: surveyBody() },
       { method: "POST", url: `/v1/surveys/${surveyId}/revisions`, payload: { ...implausible, reason: "x" } },
@@ -102,23 +112,46 @@ describe("text PostgreSQL cannot store is refused on both stores, at the field",
     const cases = [
       { req: { method: "POST", url: "/v1/buildings", payload: { ...buildingBody(), name: "Boiler\u0000house" } }, path: "name", reason: /NUL/ },
       { req: { method: "PATCH", url: `/v1/buildings/${buildingId}`, payload: { notes: "\u0000" } }, path: "notes", reason: /NUL/ },
-      { req: { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyor: "A\u0000" }) }, path: "surveyor", reason: /NUL/ },
       {
-        req: { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: { ...surveyBody(), loads: surveyBody().loads.map((l, i) => (i === 1 ? { ...l, label: "x\u0000" } : l)) } },
+        req: { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyor: "A\u0000" }) },
+        path: "surveyor",
+        reason: /NUL/,
+      },
+      {
+        req: {
+          method: "POST",
+          url: `/v1/buildings/${buildingId}/surveys`,
+          payload: { ...surveyBody(), loads: surveyBody().loads.map((l, i) => (i === 1 ? { ...l, label: "x\u0000" } : l)) },
+        },
         path: "loads.1.label",
         reason: /NUL/,
       },
       { req: { method: "POST", url: "/v1/sizing", payload: { "\u0000": 1 } }, path: "\u0000", reason: /NUL/ },
-      { req: { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyedAt: "0000-01-01" }) }, path: "surveyedAt", reason: /1900 and 2200/ },
-      { req: { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyedAt: "9999-12-31T23:59:59Z" }) }, path: "surveyedAt", reason: /1900 and 2200/ },
-      { req: { method: "POST", url: `/v1/surveys/${surveyId}/revisions`, payload: { ...surveyBody({ surveyedAt: "1899-12-31" }), reason: "r" } }, path: "surveyedAt", reason: /1900 and 2200/ },
+      {
+        req: { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyedAt: "0000-01-01" }) },
+        path: "surveyedAt",
+        reason: /1900 and 2200/,
+      },
+      {
+        req: { method: "POST", url: `/v1/buildings/${buildingId}/surveys`, payload: surveyBody({ surveyedAt: "9999-12-31T23:59:59Z" }) },
+        path: "surveyedAt",
+        reason: /1900 and 2200/,
+      },
+      {
+        req: { method: "POST", url: `/v1/surveys/${surveyId}/revisions`, payload: { ...surveyBody({ surveyedAt: "1899-12-31" }), reason: "r" } },
+        path: "surveyedAt",
+        reason: /1900 and 2200/,
+      },
       { req: { method: "GET", url: `/v1/buildings/${buildingId}/surveys?from=0000-01-01` }, path: "from", reason: /1900 and 2200/ },
     ];
     for (const { req, path, reason } of cases) {
       const res = await inject(app, req as never);
       expect(res.statusCode, `${req.method} ${req.url}`).toBe(400);
       const errors = res.json().errors as { path: string; message: string }[];
-      expect(errors.map((e) => e.path), `${req.method} ${req.url}`).toContain(path);
+      expect(
+        errors.map((e) => e.path),
+        `${req.method} ${req.url}`,
+      ).toContain(path);
       expect(errors.find((e) => e.path === path)?.message).toMatch(reason);
     }
     // the edges are accepted

@@ -48,7 +48,10 @@ describe.skipIf(TEST_STORE_KIND !== "sqlite")("surveys under group commit", () =
       expect(stored.result).toEqual(body.result);
     }
     // the result's bytes from the worker are stored as TEXT, the same text JSON.stringify gives
-    const rows = sqliteStore(store).db.prepare("SELECT typeof(result_json) AS t, result_json AS json FROM survey_revisions").all() as { t: string; json: string }[];
+    const rows = sqliteStore(store).db.prepare("SELECT typeof(result_json) AS t, result_json AS json FROM survey_revisions").all() as {
+      t: string;
+      json: string;
+    }[];
     expect(rows.length).toBeGreaterThanOrEqual(10);
     for (const r of rows) {
       expect(r.t).toBe("text");

@@ -70,7 +70,12 @@ describe("Idempotency-Key", () => {
     expect((await inject(app, p)).json().version).toBe(2);
 
     const s = (await postSurvey("k-for-rev", surveyBody())).json();
-    const rev = { method: "POST" as const, url: `/v1/surveys/${s.id}/revisions`, payload: { ...surveyBody(), reason: "r" }, headers: { "idempotency-key": "k-rev" } };
+    const rev = {
+      method: "POST" as const,
+      url: `/v1/surveys/${s.id}/revisions`,
+      payload: { ...surveyBody(), reason: "r" },
+      headers: { "idempotency-key": "k-rev" },
+    };
     expect((await inject(app, rev)).json().revision).toBe(2);
     expect((await inject(app, rev)).json().revision).toBe(2);
     expect((await inject(app, `/v1/surveys/${s.id}`)).json().revisions).toHaveLength(2);

@@ -28,7 +28,8 @@ beforeAll(async () => {
 });
 afterAll(() => app.close());
 
-const newestFirst = () => [...created].sort((a, b) => (a.surveyedAt === b.surveyedAt ? (a.id < b.id ? 1 : -1) : a.surveyedAt < b.surveyedAt ? 1 : -1));
+const newestFirst = () =>
+  [...created].sort((a, b) => (a.surveyedAt === b.surveyedAt ? (a.id < b.id ? 1 : -1) : a.surveyedAt < b.surveyedAt ? 1 : -1));
 
 async function allPages(query: string, limit: number): Promise<{ items: { id: string }[][] }> {
   const pages: { id: string }[][] = [];
@@ -53,7 +54,17 @@ describe("GET /v1/buildings/{id}/surveys", () => {
 
   it("gives summaries from the stored columns", async () => {
     const first = (await inject(app, `/v1/buildings/${buildingId}/surveys?limit=1`)).json().items[0];
-    expect(Object.keys(first).sort()).toEqual(["displacementPF", "id", "kW", "kvar", "kvarRequired", "revision", "surveyedAt", "surveyor", "warningCount"]);
+    expect(Object.keys(first).sort()).toEqual([
+      "displacementPF",
+      "id",
+      "kW",
+      "kvar",
+      "kvarRequired",
+      "revision",
+      "surveyedAt",
+      "surveyor",
+      "warningCount",
+    ]);
     const full = (await inject(app, `/v1/surveys/${first.id}`)).json();
     expect(first).toEqual({
       id: full.id,
@@ -70,7 +81,11 @@ describe("GET /v1/buildings/{id}/surveys", () => {
 
   it("reflects a revision in the summary", async () => {
     const target = created[3]!;
-    const res = await inject(app, { method: "POST", url: `/v1/surveys/${target.id}/revisions`, payload: { ...surveyBody({ surveyedAt: target.surveyedAt, surveyor: "Reviser" }), reason: "name" } });
+    const res = await inject(app, {
+      method: "POST",
+      url: `/v1/surveys/${target.id}/revisions`,
+      payload: { ...surveyBody({ surveyedAt: target.surveyedAt, surveyor: "Reviser" }), reason: "name" },
+    });
     expect(res.statusCode).toBe(201);
     const { items } = await allPages("", 100);
     expect(items.flat().find((s) => s.id === target.id)).toMatchObject({ revision: 2, surveyor: "Reviser", kW: res.json().result.site.kW });
@@ -111,11 +126,25 @@ describe("GET /v1/buildings/{id}/trend", () => {
     expect(res.statusCode).toBe(200);
     const trend = res.json();
     expect(trend).toMatchObject({ buildingId, order: "oldest_first", truncated: false });
-    expect(trend.items.map((p: { surveyId: string }) => p.surveyId)).toEqual(newestFirst().reverse().map((s) => s.id));
+    expect(trend.items.map((p: { surveyId: string }) => p.surveyId)).toEqual(
+      newestFirst()
+        .reverse()
+        .map((s) => s.id),
+    );
     const list = (await allPages("", 100)).items.flat() as Record<string, unknown>[];
     for (const p of trend.items) {
       const s = list.find((x) => x.id === p.surveyId)!;
-      expect(p).toEqual({ surveyId: s.id, revision: s.revision, surveyedAt: s.surveyedAt, kW: s.kW, kvar: s.kvar, displacementPF: s.displacementPF, kvarRequired: s.kvarRequired, installedKvarInService: null, kvarDelivered: null });
+      expect(p).toEqual({
+        surveyId: s.id,
+        revision: s.revision,
+        surveyedAt: s.surveyedAt,
+        kW: s.kW,
+        kvar: s.kvar,
+        displacementPF: s.displacementPF,
+        kvarRequired: s.kvarRequired,
+        installedKvarInService: null,
+        kvarDelivered: null,
+      });
     }
     const narrowed = (await inject(app, `/v1/buildings/${buildingId}/trend?from=2023-06-01&to=2023-06-30`)).json();
     expect(narrowed.items.map((p: { surveyedAt: string }) => p.surveyedAt)).toEqual(dates.filter((d) => d.startsWith("2023-06")));
@@ -128,7 +157,7 @@ describe("GET /v1/surveys/{id}/loads.csv", () => {
     const body = surveyBody({
       loads: [
         { label, kind: "motor", quantity: 2, measurement: { method: "v_i_pf", volts: 400, amps: 30, pf: 0.8, sense: "lagging" } },
-        { label: "=HYPERLINK(\"x\")", measurement: { method: "kw_kvar", kW: 12, kvar: -3 } },
+        { label: '=HYPERLINK("x")', measurement: { method: "kw_kvar", kW: 12, kvar: -3 } },
         { label: "Lights", kind: "lighting", measurement: { method: "kw_pf", kW: 5, pf: 0.9, sense: "lagging", pfType: "true", currentTHDPct: 20 } },
       ],
     });
@@ -145,16 +174,79 @@ describe("GET /v1/surveys/{id}/loads.csv", () => {
     const r = (x: number, d: number) => String(Number(x.toFixed(d)));
     // records end with CRLF; the LF inside the quoted label does not end one
     expect(lines[1]).toBe(
-      ["1", '"Pump, ""north""\nbay"', "motor", "2", "3", "v_i_pf", "", "", "", "0.8", "lagging", "400", "30", "", "",
-        r(l0.kW, 3), r(l0.kvar, 3), r(l0.kVA, 3), r(l0.displacementPF, 4), "lagging", r(l0.lineCurrentA, 2)].join(","),
+      [
+        "1",
+        '"Pump, ""north""\nbay"',
+        "motor",
+        "2",
+        "3",
+        "v_i_pf",
+        "",
+        "",
+        "",
+        "0.8",
+        "lagging",
+        "400",
+        "30",
+        "",
+        "",
+        r(l0.kW, 3),
+        r(l0.kvar, 3),
+        r(l0.kVA, 3),
+        r(l0.displacementPF, 4),
+        "lagging",
+        r(l0.lineCurrentA, 2),
+      ].join(","),
     );
     expect(lines[2]).toBe(
-      ["2", `"'=HYPERLINK(""x"")"`, "other", "1", "3", "kw_kvar", "12", "", "-3", "", "", "", "", "", "",
-        r(l1.kW, 3), r(l1.kvar, 3), r(l1.kVA, 3), r(l1.displacementPF, 4), "leading", r(l1.lineCurrentA, 2)].join(","),
+      [
+        "2",
+        `"'=HYPERLINK(""x"")"`,
+        "other",
+        "1",
+        "3",
+        "kw_kvar",
+        "12",
+        "",
+        "-3",
+        "",
+        "",
+        "",
+        "",
+        "",
+        "",
+        r(l1.kW, 3),
+        r(l1.kvar, 3),
+        r(l1.kVA, 3),
+        r(l1.displacementPF, 4),
+        "leading",
+        r(l1.lineCurrentA, 2),
+      ].join(","),
     );
     expect(lines[3]).toBe(
-      ["3", "Lights", "lighting", "1", "3", "kw_pf", "5", "", "", "0.9", "lagging", "", "", "true", "20",
-        r(l2.kW, 3), r(l2.kvar, 3), r(l2.kVA, 3), r(l2.displacementPF, 4), "lagging", r(l2.lineCurrentA, 2)].join(","),
+      [
+        "3",
+        "Lights",
+        "lighting",
+        "1",
+        "3",
+        "kw_pf",
+        "5",
+        "",
+        "",
+        "0.9",
+        "lagging",
+        "",
+        "",
+        "true",
+        "20",
+        r(l2.kW, 3),
+        r(l2.kvar, 3),
+        r(l2.kVA, 3),
+        r(l2.displacementPF, 4),
+        "lagging",
+        r(l2.lineCurrentA, 2),
+      ].join(","),
     );
     expect(lines.slice(4)).toEqual([""]); // the last record ends with CRLF too
     expect(l2.displacementPF).toBeGreaterThan(0.9); // derived from the true PF and THD by the engine

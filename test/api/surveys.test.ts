@@ -57,7 +57,11 @@ describe("POST /v1/buildings/{id}/surveys", () => {
   it("keeps the result as stored when the building changes later (no recomputation on read)", async () => {
     const b = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Audit hall" }) })).json();
     const created = (await postSurvey(surveyBody(), b.id)).json();
-    const patched = await inject(app, { method: "PATCH", url: `/v1/buildings/${b.id}`, payload: { transformer: { kVA: 2500, impedancePct: 8 }, system: { voltageV: 415, frequencyHz: 50, phases: 3 } } });
+    const patched = await inject(app, {
+      method: "PATCH",
+      url: `/v1/buildings/${b.id}`,
+      payload: { transformer: { kVA: 2500, impedancePct: 8 }, system: { voltageV: 415, frequencyHz: 50, phases: 3 } },
+    });
     expect(patched.statusCode).toBe(200);
     const s = (await inject(app, `/v1/surveys/${created.id}`)).json();
     expect(s.result).toEqual(created.result);
@@ -83,7 +87,11 @@ describe("POST /v1/buildings/{id}/surveys", () => {
   });
 
   it("answers schema errors with 400 naming each path", async () => {
-    const res = await postSurvey({ surveyedAt: "last tuesday", targetPF: 0.5, loads: [{ label: "x", measurement: { method: "kw_pf", kW: 1, pf: 2 } }] });
+    const res = await postSurvey({
+      surveyedAt: "last tuesday",
+      targetPF: 0.5,
+      loads: [{ label: "x", measurement: { method: "kw_pf", kW: 1, pf: 2 } }],
+    });
     expect(res.statusCode).toBe(400);
     const paths = res.json().errors.map((e: { path: string }) => e.path);
     expect(paths).toEqual(expect.arrayContaining(["surveyedAt", "surveyor", "targetPF", "loads.0.measurement.pf", "loads.0.measurement.sense"]));

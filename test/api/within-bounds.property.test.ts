@@ -28,14 +28,25 @@ afterAll(async () => {
 /** Log-uniform over the schema's whole range, with its edges and a few awkward values as constants. */
 const magnitude = (min: number, max: number) =>
   fc.oneof(
-    { weight: 4, arbitrary: fc.double({ min: Math.log10(Math.max(min, 1e-300)), max: Math.log10(max), noNaN: true }).map((e) => Math.min(max, Math.max(min, 10 ** e))) },
+    {
+      weight: 4,
+      arbitrary: fc
+        .double({ min: Math.log10(Math.max(min, 1e-300)), max: Math.log10(max), noNaN: true })
+        .map((e) => Math.min(max, Math.max(min, 10 ** e))),
+    },
     { weight: 1, arbitrary: fc.constantFrom(...[min, max, 1, 1e-3, 0.5].filter((x) => x >= min && x <= max && x > 0)) },
   );
 /** A power or current figure as the schema allows it: MIN_FIGURE to MAX_FIGURE. */
-const figure = fc.oneof({ weight: 6, arbitrary: magnitude(MIN_FIGURE, MAX_FIGURE) }, { weight: 1, arbitrary: fc.constantFrom(MIN_FIGURE, MAX_FIGURE) });
+const figure = fc.oneof(
+  { weight: 6, arbitrary: magnitude(MIN_FIGURE, MAX_FIGURE) },
+  { weight: 1, arbitrary: fc.constantFrom(MIN_FIGURE, MAX_FIGURE) },
+);
 const pf = fc.oneof(fc.double({ min: MIN_PF, max: 1, noNaN: true }), fc.constantFrom(1, 0.999999, MIN_PF, 0.8));
 const volts = fc.oneof(fc.double({ min: 50, max: 35_000, noNaN: true }), fc.constantFrom(50, 35_000, 480, 208));
-const thd = fc.record({ pfType: fc.constantFrom("displacement", "true"), currentTHDPct: fc.double({ min: 0, max: 300, noNaN: true }) }, { requiredKeys: [] });
+const thd = fc.record(
+  { pfType: fc.constantFrom("displacement", "true"), currentTHDPct: fc.double({ min: 0, max: 300, noNaN: true }) },
+  { requiredKeys: [] },
+);
 
 type System = { voltageV: number; frequencyHz: number; phases: 1 | 3 };
 
@@ -45,7 +56,14 @@ type System = { voltageV: number; frequencyHz: number; phases: 1 | 3 };
  */
 const measurement = (sys: System) =>
   fc
-    .record({ kVA: figure, pf, sense: fc.constantFrom("lagging", "leading"), method: fc.constantFrom("kw_kva", "kw_kvar", "kw_pf", "v_i_kw", "v_i_pf"), vFactor: fc.double({ min: 0.45, max: 1.9, noNaN: true }), t: thd })
+    .record({
+      kVA: figure,
+      pf,
+      sense: fc.constantFrom("lagging", "leading"),
+      method: fc.constantFrom("kw_kva", "kw_kvar", "kw_pf", "v_i_kw", "v_i_pf"),
+      vFactor: fc.double({ min: 0.45, max: 1.9, noNaN: true }),
+      t: thd,
+    })
     .map(({ kVA, pf: p, sense: sn, method, vFactor, t }) => {
       const kW = Math.max(MIN_FIGURE, Math.min(MAX_FIGURE, kVA * p));
       const sense = p === 1 ? "unity" : sn;
@@ -53,11 +71,15 @@ const measurement = (sys: System) =>
       const amps = Math.max(MIN_FIGURE, Math.min(MAX_FIGURE, (kVA * 1000) / (sys.phases === 3 ? Math.sqrt(3) * volts : volts)));
       const kvar = Math.min(MAX_FIGURE, kVA * Math.sqrt(Math.max(0, 1 - p * p))) * (sn === "leading" ? -1 : 1);
       const m =
-        method === "kw_kva" ? { method, kW, kVA }
-        : method === "kw_kvar" ? { method, kW, kvar }
-        : method === "kw_pf" ? { method, kW, pf: p, sense }
-        : method === "v_i_kw" ? { method, volts, amps, kW: Math.min(kW, (amps * volts * (sys.phases === 3 ? Math.sqrt(3) : 1)) / 1000) }
-        : { method, volts, amps, pf: p, sense };
+        method === "kw_kva"
+          ? { method, kW, kVA }
+          : method === "kw_kvar"
+            ? { method, kW, kvar }
+            : method === "kw_pf"
+              ? { method, kW, pf: p, sense }
+              : method === "v_i_kw"
+                ? { method, volts, amps, kW: Math.min(kW, (amps * volts * (sys.phases === 3 ? Math.sqrt(3) : 1)) / 1000) }
+                : { method, volts, amps, pf: p, sense };
       return { ...m, ...t };
     });
 
@@ -71,23 +93,24 @@ const spectrum = (maxPct: number, maxSum: number) =>
     }),
   );
 
-const load = (sys: System) => fc.record(
-  {
-    label: fc.constantFrom("Press", "Kiln fan", "Chiller 2", "Line B"),
-    kind: fc.constantFrom("motor", "drive", "lighting", "hvac", "welder", "other"),
-    phases: fc.constant(sys.phases),
-    quantity: fc.oneof(fc.integer({ min: 1, max: 10_000 }), fc.constant(10_000)),
-    measurement: measurement(sys),
-    harmonics: spectrum(300, 300),
-    starting: fc.constantFrom("across_the_line", "star_delta", "soft_starter", "jogging"),
-    separateCapacitorContactor: fc.boolean(),
-    group: fc.constantFrom("MCC 1", "MCC 2"),
-    noLoadAmps: figure,
-    continuousDuty: fc.boolean(),
-    motorConductorAmpacityA: figure,
-  },
-  { requiredKeys: ["label", "measurement"] },
-);
+const load = (sys: System) =>
+  fc.record(
+    {
+      label: fc.constantFrom("Press", "Kiln fan", "Chiller 2", "Line B"),
+      kind: fc.constantFrom("motor", "drive", "lighting", "hvac", "welder", "other"),
+      phases: fc.constant(sys.phases),
+      quantity: fc.oneof(fc.integer({ min: 1, max: 10_000 }), fc.constant(10_000)),
+      measurement: measurement(sys),
+      harmonics: spectrum(300, 300),
+      starting: fc.constantFrom("across_the_line", "star_delta", "soft_starter", "jogging"),
+      separateCapacitorContactor: fc.boolean(),
+      group: fc.constantFrom("MCC 1", "MCC 2"),
+      noLoadAmps: figure,
+      continuousDuty: fc.boolean(),
+      motorConductorAmpacityA: figure,
+    },
+    { requiredKeys: ["label", "measurement"] },
+  );
 
 const stepKvar = fc.oneof(magnitude(MIN_STEP_KVAR, 100_000), fc.constantFrom(MIN_STEP_KVAR, 100_000));
 const bank = fc.record(
@@ -100,62 +123,85 @@ const bank = fc.record(
   { requiredKeys: ["ratedVoltageV", "steps"] },
 );
 
-const installedBanks = fc.array(
-  fc.record({
-    location: fc.constant("service"),
-    control: fc.constantFrom("fixed", "automatic"),
-    ratedVoltageV: volts,
-    reactorPct: fc.constantFrom(0, 7, 14),
-    steps: fc.array(fc.record({ kvar: stepKvar }), { minLength: 1, maxLength: 32 }),
-  }),
-  { minLength: 1, maxLength: 3 },
-).map((banks) => {
-  let left = 64;
-  return banks.map((b, i) => {
-    const steps = b.control === "fixed" ? b.steps.slice(0, 1) : b.steps.slice(0, Math.max(1, Math.min(b.steps.length, left - (banks.length - i - 1))));
-    left -= steps.length;
-    return { ...b, label: `Bank ${i + 1}`, steps };
+const installedBanks = fc
+  .array(
+    fc.record({
+      location: fc.constant("service"),
+      control: fc.constantFrom("fixed", "automatic"),
+      ratedVoltageV: volts,
+      reactorPct: fc.constantFrom(0, 7, 14),
+      steps: fc.array(fc.record({ kvar: stepKvar }), { minLength: 1, maxLength: 32 }),
+    }),
+    { minLength: 1, maxLength: 3 },
+  )
+  .map((banks) => {
+    let left = 64;
+    return banks.map((b, i) => {
+      const steps =
+        b.control === "fixed" ? b.steps.slice(0, 1) : b.steps.slice(0, Math.max(1, Math.min(b.steps.length, left - (banks.length - i - 1))));
+      left -= steps.length;
+      return { ...b, label: `Bank ${i + 1}`, steps };
+    });
   });
-});
 
 const system = fc.record({ voltageV: volts, frequencyHz: fc.constantFrom(50, 60), phases: fc.constantFrom<1 | 3>(1, 3) });
-const sizingBody = system.chain((sys) => fc.record(
-  {
-    system: fc.constant(sys),
-    targetPF: fc.oneof(fc.double({ min: 0.8, max: 1, noNaN: true }), fc.constantFrom(0.8, 1)),
-    loads: fc.array(load(sys), { minLength: 1, maxLength: 12 }),
-    serviceEntrance: fc.record({ measurement: measurement(sys) }),
-    lightLoad: fc.record({ measurement: measurement(sys) }),
-    transformer: fc.record(
-      { kVA: figure, impedancePct: fc.oneof(fc.double({ min: 0.5, max: 25, noNaN: true }).filter((x) => x > 0.5), fc.constantFrom(25, 0.5000001)), xOverR: fc.oneof(fc.double({ min: 0.1, max: 100, noNaN: true }), fc.constantFrom(0.1, 100)) },
-      { requiredKeys: ["kVA", "impedancePct"] },
-    ),
-    utility: fc.record({ faultMVA: figure }),
-    proposedBank: bank,
-    harmonicSources: fc.uniqueArray(fc.constantFrom("six_pulse", "twelve_pulse", "single_phase_electronic"), { maxLength: 3 }),
-    backgroundVoltageDistortion: spectrum(20, 49 * 20),
-    installedBanks,
-    bankDesign: fc.record(
-      { ctRatio: magnitude(1e-3, 100_000), reactorPct: fc.constantFrom(0, MIN_REACTOR_PCT, 7, 20), coverage: fc.double({ min: 0.5, max: 1, noNaN: true }), protectionDevice: fc.constantFrom("fuse", "breaker"), ocpdFactor: fc.double({ min: 1, max: 3, noNaN: true }) },
-      { requiredKeys: [] },
-    ),
-    economics: fc.record({ currency: fc.constant("EUR"), tariff: fc.record({ form: fc.constant("kva_demand"), chargePerKVA: fc.double({ min: 0, max: 1e9, noNaN: true }) }) }),
-  },
-  { requiredKeys: ["system", "loads"] },
-));
-
-const scanBody = fc.tuple(
-  sizingBody,
+const sizingBody = system.chain((sys) =>
   fc.record(
     {
-      fromOrder: fc.double({ min: 1, max: 40, noNaN: true }),
-      toOrder: fc.double({ min: 41, max: 50, noNaN: true }),
-      stepOrder: fc.oneof(fc.double({ min: 0.001, max: 1, noNaN: true }), fc.constantFrom(0.001, 0.01, 1)),
+      system: fc.constant(sys),
+      targetPF: fc.oneof(fc.double({ min: 0.8, max: 1, noNaN: true }), fc.constantFrom(0.8, 1)),
+      loads: fc.array(load(sys), { minLength: 1, maxLength: 12 }),
+      serviceEntrance: fc.record({ measurement: measurement(sys) }),
+      lightLoad: fc.record({ measurement: measurement(sys) }),
+      transformer: fc.record(
+        {
+          kVA: figure,
+          impedancePct: fc.oneof(
+            fc.double({ min: 0.5, max: 25, noNaN: true }).filter((x) => x > 0.5),
+            fc.constantFrom(25, 0.5000001),
+          ),
+          xOverR: fc.oneof(fc.double({ min: 0.1, max: 100, noNaN: true }), fc.constantFrom(0.1, 100)),
+        },
+        { requiredKeys: ["kVA", "impedancePct"] },
+      ),
+      utility: fc.record({ faultMVA: figure }),
+      proposedBank: bank,
+      harmonicSources: fc.uniqueArray(fc.constantFrom("six_pulse", "twelve_pulse", "single_phase_electronic"), { maxLength: 3 }),
+      backgroundVoltageDistortion: spectrum(20, 49 * 20),
+      installedBanks,
+      bankDesign: fc.record(
+        {
+          ctRatio: magnitude(1e-3, 100_000),
+          reactorPct: fc.constantFrom(0, MIN_REACTOR_PCT, 7, 20),
+          coverage: fc.double({ min: 0.5, max: 1, noNaN: true }),
+          protectionDevice: fc.constantFrom("fuse", "breaker"),
+          ocpdFactor: fc.double({ min: 1, max: 3, noNaN: true }),
+        },
+        { requiredKeys: [] },
+      ),
+      economics: fc.record({
+        currency: fc.constant("EUR"),
+        tariff: fc.record({ form: fc.constant("kva_demand"), chargePerKVA: fc.double({ min: 0, max: 1e9, noNaN: true }) }),
+      }),
     },
-    { requiredKeys: [] },
+    { requiredKeys: ["system", "loads"] },
   ),
-  fc.constantFrom("arithmetic", "rss"),
-).map(([b, scan, combination]) => ({ ...b, transformer: b.transformer ?? { kVA: 1500, impedancePct: 5.75 }, scan, combination }));
+);
+
+const scanBody = fc
+  .tuple(
+    sizingBody,
+    fc.record(
+      {
+        fromOrder: fc.double({ min: 1, max: 40, noNaN: true }),
+        toOrder: fc.double({ min: 41, max: 50, noNaN: true }),
+        stepOrder: fc.oneof(fc.double({ min: 0.001, max: 1, noNaN: true }), fc.constantFrom(0.001, 0.01, 1)),
+      },
+      { requiredKeys: [] },
+    ),
+    fc.constantFrom("arithmetic", "rss"),
+  )
+  .map(([b, scan, combination]) => ({ ...b, transformer: b.transformer ?? { kVA: 1500, impedancePct: 5.75 }, scan, combination }));
 
 async function post(url: string, body: unknown) {
   return inject(app, { method: "POST", url, payload: JSON.stringify(body), headers: { "content-type": "application/json" } });

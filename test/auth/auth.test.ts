@@ -58,7 +58,9 @@ describe("authentication", () => {
   });
 
   it("accepts a valid key and records its id as the actor in the audit log", async () => {
-    const b = await api(app).post("/v1/buildings").send(buildingBody({ name: "Keyed hall" }));
+    const b = await api(app)
+      .post("/v1/buildings")
+      .send(buildingBody({ name: "Keyed hall" }));
     expect(b.status).toBe(201);
     const id = (await app.store.keys.findByPrefix(adminKey.slice(4, 12)))!.id;
     const log = (await api(app).get("/v1/audit-log")).body.items;
@@ -69,13 +71,19 @@ describe("authentication", () => {
 describe("roles", () => {
   it("lets a surveyor create and change buildings and surveys and read, but not keys or the audit log", async () => {
     const k = await keyFor(app, "surveyor");
-    const b = await api(app, k).post("/v1/buildings").send(buildingBody({ name: "Surveyor hall" }));
+    const b = await api(app, k)
+      .post("/v1/buildings")
+      .send(buildingBody({ name: "Surveyor hall" }));
     expect(b.status).toBe(201);
     expect((await api(app, k).patch(`/v1/buildings/${b.body.id}`).send({ notes: "fitted" })).status).toBe(200);
     expect((await api(app, k).post(`/v1/buildings/${b.body.id}/surveys`).send(surveyBody())).status).toBe(201);
     expect((await api(app, k).get(`/v1/buildings/${b.body.id}/history`)).status).toBe(200);
     const before = await rowCounts(app.store);
-    for (const r of [await api(app, k).post("/v1/keys").send({ role: "admin" }), await api(app, k).get("/v1/keys"), await api(app, k).get("/v1/audit-log")]) {
+    for (const r of [
+      await api(app, k).post("/v1/keys").send({ role: "admin" }),
+      await api(app, k).get("/v1/keys"),
+      await api(app, k).get("/v1/audit-log"),
+    ]) {
       expect(r.status).toBe(403);
       expect(r.headers["content-type"]).toMatch(/^application\/problem\+json/);
       expect(r.body.detail).toMatch(/surveyor role may not/);
@@ -85,14 +93,20 @@ describe("roles", () => {
 
   it("lets an auditor read buildings, history and the audit log, and write nothing", async () => {
     const k = await keyFor(app, "auditor");
-    const b = (await api(app).post("/v1/buildings").send(buildingBody({ name: "Audited hall" }))).body;
+    const b = (
+      await api(app)
+        .post("/v1/buildings")
+        .send(buildingBody({ name: "Audited hall" }))
+    ).body;
     expect((await api(app, k).get(`/v1/buildings/${b.id}`)).status).toBe(200);
     expect((await api(app, k).get(`/v1/buildings/${b.id}/history`)).status).toBe(200);
     expect((await api(app, k).get("/v1/audit-log")).status).toBe(200);
     expect((await api(app, k).post("/v1/sizing").send({ system: buildingBody().system, loads: surveyBody().loads })).status).toBe(200);
     const before = await rowCounts(app.store);
     const writes = [
-      await api(app, k).post("/v1/buildings").send(buildingBody({ name: "No" })),
+      await api(app, k)
+        .post("/v1/buildings")
+        .send(buildingBody({ name: "No" })),
       await api(app, k).patch(`/v1/buildings/${b.id}`).send({ notes: "no" }),
       await api(app, k).post(`/v1/buildings/${b.id}/surveys`).send(surveyBody()),
       await api(app, k).post("/v1/keys").send({ role: "auditor" }),

@@ -40,7 +40,11 @@ describe("bootstrap key", () => {
     expect(() => loadConfig({ RATE_LIMIT_PER_MINUTE: "0" })).toThrow(/RATE_LIMIT_PER_MINUTE/);
     expect(() => loadConfig({ REQUEST_TIMEOUT_MS: "abc" })).toThrow(/REQUEST_TIMEOUT_MS/);
     const given: string[] = [];
-    const app = await buildApp({ config: defaultConfig({ DATABASE_PATH: ":memory:", DEMO_DATA: "off", PFC_BOOTSTRAP_KEY: key }), logger: false, onGeneratedKey: (k) => given.push(k) });
+    const app = await buildApp({
+      config: defaultConfig({ DATABASE_PATH: ":memory:", DEMO_DATA: "off", PFC_BOOTSTRAP_KEY: key }),
+      logger: false,
+      onGeneratedKey: (k) => given.push(k),
+    });
     expect(given).toEqual([]);
     expect((await inject(app, "/v1/keys", key)).statusCode).toBe(200);
     await app.close();
@@ -109,8 +113,12 @@ describe("npm run keys", () => {
 
     const { app, key: admin } = await makeStoreApp({ DATABASE_PATH: path });
     try {
-      const mine = await api(app, admin).post("/v1/buildings").send(buildingBody({ name: "First company hall" }));
-      const theirs = await api(app, key).post("/v1/buildings").send(buildingBody({ name: "Second company hall" }));
+      const mine = await api(app, admin)
+        .post("/v1/buildings")
+        .send(buildingBody({ name: "First company hall" }));
+      const theirs = await api(app, key)
+        .post("/v1/buildings")
+        .send(buildingBody({ name: "Second company hall" }));
       expect(theirs.status).toBe(201);
       expect((await api(app, key).get(`/v1/buildings/${mine.body.id}`)).status).toBe(404);
       expect((await api(app, key).get("/v1/buildings")).body.items.map((b: any) => b.name)).toEqual(["Second company hall"]);
@@ -134,7 +142,10 @@ describe("npm run keys", () => {
     };
     const before = await counts();
     for (const args of [["create", "--role", "root"], ["create"], ["delete", "--role", "admin"], ["create", "--role", "admin", "--org", " "]]) {
-      const err = await keysCli(path, args).then(() => undefined, (e: { code: number; stderr: string }) => e);
+      const err = await keysCli(path, args).then(
+        () => undefined,
+        (e: { code: number; stderr: string }) => e,
+      );
       expect(err?.code, args.join(" ")).toBe(2);
       expect(err?.stderr).toMatch(/usage|--role|--org/);
     }

@@ -21,7 +21,12 @@ const week = weekCsv;
 beforeAll(async () => {
   ({ app } = await makeStoreApp());
   const b = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "First org hall" }) })).json();
-  const a = await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/interval-analyses`, headers: { "content-type": "text/csv" }, payload: week });
+  const a = await inject(app, {
+    method: "POST",
+    url: `/v1/buildings/${b.id}/interval-analyses`,
+    headers: { "content-type": "text/csv" },
+    payload: week,
+  });
   const s = (await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/surveys`, payload: surveyBody() })).json();
   ids.building = b.id;
   ids.survey = s.id;
@@ -48,7 +53,9 @@ async function firstOrgRows(): Promise<string> {
   );
   // PostgreSQL has no rowid: the rows in the order of their text.
   const order = postgres ? "t::text" : "rowid";
-  const rows = await Promise.all(tables.map(({ name }) => sqlRows(app.store, `SELECT * FROM "${name}" t WHERE org_id = 'org_default' ORDER BY ${order}`)));
+  const rows = await Promise.all(
+    tables.map(({ name }) => sqlRows(app.store, `SELECT * FROM "${name}" t WHERE org_id = 'org_default' ORDER BY ${order}`)),
+  );
   return JSON.stringify(rows).replace(/"last_used_at":"[^"]*"/g, "");
 }
 
@@ -61,7 +68,16 @@ describe("another organisation's key", () => {
   it.each(v1.map((r) => [label(r), r] as const))("%s: 404 for the first org's ids, none of them in a list", async (_, r) => {
     const before = await firstOrgRows();
     const { payload, headers } = bodyOf(r);
-    const res = await inject(app, { method: r.method as "GET", url: urlWithIds(r.url, ids), ...(payload === undefined ? {} : { payload: payload as string }), ...(headers ? { headers } : {}) }, other);
+    const res = await inject(
+      app,
+      {
+        method: r.method as "GET",
+        url: urlWithIds(r.url, ids),
+        ...(payload === undefined ? {} : { payload: payload as string }),
+        ...(headers ? { headers } : {}),
+      },
+      other,
+    );
     if (r.url.includes(":")) {
       expect(res.statusCode, res.body).toBe(404);
       expect(res.headers["content-type"]).toMatch(/^application\/problem\+json/);

@@ -28,9 +28,13 @@ describe("compiled tools", () => {
     cpSync(join(ROOT, "package.json"), join(app, "package.json"));
     cpSync(join(ROOT, "migrations"), join(app, "migrations"), { recursive: true });
     symlinkSync(join(ROOT, "node_modules"), join(app, "node_modules"), "dir");
-    const tsc = spawnSync(process.execPath, [join(ROOT, "node_modules/typescript/bin/tsc"), "-p", join(ROOT, "tsconfig.build.json"), "--outDir", join(app, "dist")], {
-      encoding: "utf8",
-    });
+    const tsc = spawnSync(
+      process.execPath,
+      [join(ROOT, "node_modules/typescript/bin/tsc"), "-p", join(ROOT, "tsconfig.build.json"), "--outDir", join(app, "dist")],
+      {
+        encoding: "utf8",
+      },
+    );
     if (tsc.status !== 0) throw new Error(`the build failed:\n${tsc.stdout}${tsc.stderr}`);
   }, 180_000);
   afterAll(() => rmSync(app, { recursive: true, force: true }));
@@ -42,7 +46,9 @@ describe("compiled tools", () => {
 
   it("keys.js creates a key and backup.js copies the database, with no dev dependency loaded", () => {
     const path = join(app, "data.sqlite");
-    const keys = node(["dist/tools/keys.js", "create", "--role", "surveyor", "--org", "Harbour Works", "--label", "site tablet"], { DATABASE_PATH: path });
+    const keys = node(["dist/tools/keys.js", "create", "--role", "surveyor", "--org", "Harbour Works", "--label", "site tablet"], {
+      DATABASE_PATH: path,
+    });
     expect(keys.stderr).toBe("");
     expect(keys.status).toBe(0);
     const lines = keys.stdout.trim().split("\n");

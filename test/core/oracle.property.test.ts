@@ -59,14 +59,26 @@ const measurementArb: fc.Arbitrary<{ m: Measurement; phases: 1 | 3; S: Complex }
     S: polar(kVA, ratio, sense),
   })),
   fc
-    .record({ volts: num(PLAUSIBLE_MIN_V, PLAUSIBLE_MAX_V), amps: num(0.1, 2000), pf: num(0.05, 1), sense: senseArb, phases: fc.constantFrom(1 as const, 3 as const) })
+    .record({
+      volts: num(PLAUSIBLE_MIN_V, PLAUSIBLE_MAX_V),
+      amps: num(0.1, 2000),
+      pf: num(0.05, 1),
+      sense: senseArb,
+      phases: fc.constantFrom(1 as const, 3 as const),
+    })
     .map(({ volts, amps, pf, sense, phases }) => ({
       m: { method: "v_i_pf" as const, volts, amps, pf, sense },
       phases,
       S: polar(viKVA(volts, amps, phases), pf, sense),
     })),
   fc
-    .record({ volts: num(PLAUSIBLE_MIN_V, PLAUSIBLE_MAX_V), amps: num(0.1, 2000), ratio: num(0.05, 1), sense: senseArb, phases: fc.constantFrom(1 as const, 3 as const) })
+    .record({
+      volts: num(PLAUSIBLE_MIN_V, PLAUSIBLE_MAX_V),
+      amps: num(0.1, 2000),
+      ratio: num(0.05, 1),
+      sense: senseArb,
+      phases: fc.constantFrom(1 as const, 3 as const),
+    })
     .map(({ volts, amps, ratio, sense, phases }) => {
       const kVA = viKVA(volts, amps, phases);
       return { m: { method: "v_i_kw" as const, volts, amps, kW: ratio * kVA, sense }, phases, S: polar(kVA, ratio, sense) };
@@ -75,7 +87,7 @@ const measurementArb: fc.Arbitrary<{ m: Measurement; phases: 1 | 3; S: Complex }
 
 const loadArb: fc.Arbitrary<GeneratedLoad> = fc
   .record({ meas: measurementArb, quantity: fc.integer({ min: 1, max: 20 }) })
-  .map(({ meas, quantity }, ) => ({
+  .map(({ meas, quantity }) => ({
     load: { label: "load", phases: meas.phases, quantity, measurement: meas.m },
     S: meas.S.mul(quantity),
   }));
@@ -84,7 +96,10 @@ describe("oracle: site power = Σ complex S of the loads", () => {
   it("kW, kvar, kVA, PF and sense of random mixed sites match the phasor sum", () => {
     fc.assert(
       fc.property(fc.array(loadArb, { minLength: 1, maxLength: 25 }), (loads) => {
-        const out = evaluateSite({ voltageV: 480, frequencyHz: 60, phases: 3 }, loads.map((l) => l.load));
+        const out = evaluateSite(
+          { voltageV: 480, frequencyHz: 60, phases: 3 },
+          loads.map((l) => l.load),
+        );
         expect(out.issues).toEqual([]);
         const S = loads.reduce((acc, l) => acc.add(l.S), new Complex(0, 0));
         // cancellation between lagging and leading loads: tolerance scaled to Σ|S_i|

@@ -42,7 +42,13 @@ describe("grouping helpers", () => {
       warning("starting_method_needed", "Planer: state how the motor is started", "loads.2.starting", { subjects: ["Planer"], severity: "error" }),
     ];
     expect(mergeBySubject(ws, "loads")).toEqual([
-      { code: "starting_method_needed", message: "Saw, Planer: state how the motor is started", severity: "error", path: "loads", subjects: ["Saw", "Planer"] },
+      {
+        code: "starting_method_needed",
+        message: "Saw, Planer: state how the motor is started",
+        severity: "error",
+        path: "loads",
+        subjects: ["Saw", "Planer"],
+      },
       { code: "other", message: "unrelated", severity: "warning", path: "x" },
     ]);
   });
@@ -66,7 +72,11 @@ describe("one warning per concern in a sizing", () => {
     const above = stages.filter((s) => s.duty.aboveRating).map((s) => `stage ${s.stageNumber}`);
     expect(above.length).toBeGreaterThan(1);
     expect(proposed.subjects).toEqual(above);
-    const worst = Math.max(...stages.flatMap((s) => [s.duty.rmsVoltage, s.duty.peakVoltage, s.duty.rmsCurrent, s.duty.reactivePower].map((q) => q.valuePct - 100 - (q.limitPct - 100) / 2)));
+    const worst = Math.max(
+      ...stages.flatMap((s) =>
+        [s.duty.rmsVoltage, s.duty.peakVoltage, s.duty.rmsCurrent, s.duty.reactivePower].map((q) => q.valuePct - 100 - (q.limitPct - 100) / 2),
+      ),
+    );
     expect(worst).toBeLessThan(0); // all within half the allowance…
     expect(proposed.severity).toBe("info"); // …so information only
   });
@@ -90,7 +100,11 @@ describe("one warning per concern in a sizing", () => {
     expect(withStudy.warnings.filter((w) => w.path === "proposedBank.ratedVoltageV")).toEqual([]);
     expect(withStudy.warnings.find((w) => w.path === "proposedBank")?.message).toMatch(/rms voltage 104\.\d % of rating/);
     // no drives: no study, the screen's own warning stays, as information
-    const noDrives = { ...hallInput(), loads: hallInput().loads.filter((l) => l.kind !== "drive"), proposedBank: { ratedVoltageV: 460, steps: [{ kvar: 50 }] } };
+    const noDrives = {
+      ...hallInput(),
+      loads: hallInput().loads.filter((l) => l.kind !== "drive"),
+      proposedBank: { ratedVoltageV: 460, steps: [{ kvar: 50 }] },
+    };
     const screen = sized(noDrives).warnings.filter((w) => w.path === "proposedBank.ratedVoltageV");
     expect(screen.map((w) => [w.code, w.severity])).toEqual([["capacitor_above_rated_voltage", "info"]]);
   });
@@ -101,14 +115,21 @@ describe("one warning per concern in a sizing", () => {
     // hand: 480/0.86 = 558.1 V = 116.3 % → error
     { ratedV: 480, reactorPct: 14, code: "capacitor_overvoltage", severity: "error" },
   ] as const)("screen: $reactorPct % reactor on $ratedV V capacitors → $code, $severity", ({ ratedV, reactorPct, code, severity }) => {
-    const noDrives = { ...hallInput(), loads: hallInput().loads.filter((l) => l.kind !== "drive"), proposedBank: { ratedVoltageV: ratedV, reactorPct, steps: [{ kvar: 50 }] } };
+    const noDrives = {
+      ...hallInput(),
+      loads: hallInput().loads.filter((l) => l.kind !== "drive"),
+      proposedBank: { ratedVoltageV: ratedV, reactorPct, steps: [{ kvar: 50 }] },
+    };
     const w = sized(noDrives).warnings.filter((x) => x.path === "proposedBank.ratedVoltageV");
     expect(w.map((x) => [x.code, x.severity])).toEqual([[code, severity]]);
   });
 
   it("a site that needs no bank gets no warning about the fixed part of a bank", () => {
     // 100 kW at PF 0.99 lagging is above the 0.95 target: nothing to design
-    const r = sized({ system: { voltageV: 400, frequencyHz: 50, phases: 3 }, loads: [{ label: "Oven", kind: "other", measurement: { method: "kw_pf", kW: 100, pf: 0.99, sense: "lagging" } }] });
+    const r = sized({
+      system: { voltageV: 400, frequencyHz: 50, phases: 3 },
+      loads: [{ label: "Oven", kind: "other", measurement: { method: "kw_pf", kW: 100, pf: 0.99, sense: "lagging" } }],
+    });
     expect(r.recommendedBank).toBeNull();
     expect(r.warnings.map((w) => w.code)).not.toContain("light_load_unknown");
   });

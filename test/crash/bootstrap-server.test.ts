@@ -25,7 +25,10 @@ async function runServer(path: string, use: (base: string) => Promise<void>): Pr
     const deadline = Date.now() + 20_000;
     for (;;) {
       if (Date.now() > deadline) throw new Error(`no /health: ${err}`);
-      const up = await fetch(`${base}/health`).then((r) => r.ok, () => false);
+      const up = await fetch(`${base}/health`).then(
+        (r) => r.ok,
+        () => false,
+      );
       if (up) break;
       await new Promise((r) => setTimeout(r, 50));
     }

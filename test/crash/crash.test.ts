@@ -92,7 +92,11 @@ describe("kill -9 under concurrent writes", () => {
     }
     const audits = db.prepare("SELECT count(*) AS n FROM audit_log WHERE action = 'survey.create'").get() as { n: number };
     expect(audits.n).toBe(surveys.length);
-    const orphanKeys = db.prepare("SELECT count(*) AS n FROM idempotency_keys WHERE json_extract(response_json, '$.id') NOT IN (SELECT id FROM surveys UNION SELECT id FROM buildings)").get() as { n: number };
+    const orphanKeys = db
+      .prepare(
+        "SELECT count(*) AS n FROM idempotency_keys WHERE json_extract(response_json, '$.id') NOT IN (SELECT id FROM surveys UNION SELECT id FROM buildings)",
+      )
+      .get() as { n: number };
     expect(orphanKeys.n).toBe(0);
     db.close();
     console.log(`crash test: ${accepted.length} surveys got 201 before kill -9, ${surveys.length} stored, all ${accepted.length} found whole`);

@@ -23,7 +23,11 @@ describe("server restarts", () => {
     running = await startServer(path);
     let base = running.base;
     const b = (await postJson(`${base}/v1/buildings`, buildingBody({ name: "Restart hall" }))).body;
-    const patch = await authFetch(`${base}/v1/buildings/${b.id}`, { method: "PATCH", headers: { "content-type": "application/json" }, body: JSON.stringify({ notes: "bank fitted" }) });
+    const patch = await authFetch(`${base}/v1/buildings/${b.id}`, {
+      method: "PATCH",
+      headers: { "content-type": "application/json" },
+      body: JSON.stringify({ notes: "bank fitted" }),
+    });
     expect(patch.status).toBe(200);
     const surveys = [];
     for (let i = 0; i < 3; i++) {
@@ -56,7 +60,15 @@ describe("server restarts", () => {
     expect((await getJson(`${base}/v1/audit-log`)).body).toEqual(before.audit);
     expect(before.list.items).toHaveLength(3);
     expect(before.survey.revisions).toHaveLength(2);
-    expect((await authFetch(`${base}/v1/sizing`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ system: buildingBody().system, loads: surveyBody().loads }) })).status).toBe(200);
+    expect(
+      (
+        await authFetch(`${base}/v1/sizing`, {
+          method: "POST",
+          headers: { "content-type": "application/json" },
+          body: JSON.stringify({ system: buildingBody().system, loads: surveyBody().loads }),
+        })
+      ).status,
+    ).toBe(200);
   }, 60_000);
 
   it("seeds the demo on the first start only", async () => {

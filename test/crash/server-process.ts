@@ -39,7 +39,16 @@ export interface ServerProcess {
 export function spawnServer(databasePath: string, port: number, env: Record<string, string> = {}): Omit<ServerProcess, "base"> & { port: number } {
   const child = spawn(process.execPath, ["--import", "tsx", "src/server.ts"], {
     cwd: root,
-    env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", DATABASE_PATH: databasePath, DEMO_DATA: "off", LOG_LEVEL: "warn", PFC_BOOTSTRAP_KEY: TEST_KEY, ...env },
+    env: {
+      ...process.env,
+      PORT: String(port),
+      HOST: "127.0.0.1",
+      DATABASE_PATH: databasePath,
+      DEMO_DATA: "off",
+      LOG_LEVEL: "warn",
+      PFC_BOOTSTRAP_KEY: TEST_KEY,
+      ...env,
+    },
     stdio: ["ignore", "ignore", "pipe"],
   });
   let err = "";

@@ -20,7 +20,13 @@ describe("graceful shutdown", () => {
     // A slow client: the headers and half the body now, SIGTERM, then the rest a moment later.
     const answer = new Promise<{ status: number; body: string }>((resolve, reject) => {
       const req = request(
-        { host: url.hostname, port: url.port, path: url.pathname, method: "POST", headers: { "content-type": "application/json", "content-length": body.length, authorization: `Bearer ${TEST_KEY}` } },
+        {
+          host: url.hostname,
+          port: url.port,
+          path: url.pathname,
+          method: "POST",
+          headers: { "content-type": "application/json", "content-length": body.length, authorization: `Bearer ${TEST_KEY}` },
+        },
         (res) => {
           let text = "";
           res.on("data", (d: Buffer) => (text += d.toString()));

@@ -22,12 +22,18 @@ const get = async (url: string) => {
 
 describe("survey page files", () => {
   it("serves every file of files.json without a key, typed, with a self-only CSP; the worker caches exactly that list", async () => {
-    const list = JSON.parse(readFileSync(new URL("../../src/form/files.json", import.meta.url), "utf8")) as { page: string; worker: string; files: string[] };
+    const list = JSON.parse(readFileSync(new URL("../../src/form/files.json", import.meta.url), "utf8")) as {
+      page: string;
+      worker: string;
+      files: string[];
+    };
     const urls = ["/", ...list.files.map((f) => `/form/${f}`)];
     for (const url of [...urls, "/sw.js"]) {
       const res = await get(url);
       expect(res.status, url).toBe(200);
-      expect(res.header("content-type"), url).toMatch(url === "/" ? /text\/html/ : url.endsWith(".css") ? /text\/css/ : url.endsWith(".svg") ? /image\/svg\+xml/ : /text\/javascript/);
+      expect(res.header("content-type"), url).toMatch(
+        url === "/" ? /text\/html/ : url.endsWith(".css") ? /text\/css/ : url.endsWith(".svg") ? /image\/svg\+xml/ : /text\/javascript/,
+      );
       const csp = res.header("content-security-policy");
       for (const d of ["script-src 'self'", "style-src 'self'", "connect-src 'self'"]) expect(csp, url).toContain(d);
       expect(csp, url).not.toContain("unsafe");

@@ -26,7 +26,10 @@ let profile = "";
 let shots = "";
 let page: Page;
 const problems: string[] = [];
-const SIZES = [{ width: 800, height: 1280 }, { width: 1280, height: 800 }];
+const SIZES = [
+  { width: 800, height: 1280 },
+  { width: 1280, height: 800 },
+];
 
 beforeAll(async () => {
   const made = await makeStoreApp();
@@ -76,7 +79,7 @@ async function shoot(selector: string, name: string, inView = false) {
 
 // A healthy 50 kvar step rated 400 V behind a 7 % reactor, read at 410 V on a 50 Hz system, by hand:
 // Q = 50 × (410/400)² / (1 − 0.07) = 56.488 kvar; I = Q / (√3 × 410 V) = 56 488 / 710.14 = 79.54 A.
-const EXPECTED_A = (50 * (410 / 400) ** 2 / 0.93) * 1000 / (Math.sqrt(3) * 410);
+const EXPECTED_A = (((50 * (410 / 400) ** 2) / 0.93) * 1000) / (Math.sqrt(3) * 410);
 
 describe.skipIf(!hasChromium)("installed banks on the survey page", () => {
   let buildingId = "";
@@ -114,7 +117,16 @@ describe.skipIf(!hasChromium)("installed banks on the survey page", () => {
     buildingId = await page.inputValue("#building");
     const stored = await api.get(`/v1/buildings/${buildingId}`);
     expect(stored.body.installedBanks).toEqual([
-      { label: "Main bank", location: "service", control: "automatic", ratedVoltageV: 400, connection: "delta", reactorPct: 7, steps: Array(5).fill({ kvar: 50 }), installedOn: "2019-05-14" },
+      {
+        label: "Main bank",
+        location: "service",
+        control: "automatic",
+        ratedVoltageV: 400,
+        connection: "delta",
+        reactorPct: 7,
+        steps: Array(5).fill({ kvar: 50 }),
+        installedOn: "2019-05-14",
+      },
       { label: "Chiller feeder bank", location: "group", group: "MCC-2", control: "fixed", ratedVoltageV: 415, steps: [{ kvar: 50 }] },
     ]);
     expect(await page.locator("#building-info").textContent()).toContain("installed banks: Main bank, Chiller feeder bank");

@@ -21,7 +21,12 @@ const checks = (await import(`${formDir}checks.js`)) as {
   num: (raw: string) => number | null;
   stepsOf: (raw: string) => { kvar: number }[] | string | null;
   steps: (raw: string) => string;
-  expectedStepA: (kvar: number, bank: { ratedVoltageV: number; ratedFrequencyHz?: number; reactorPct?: number }, voltageV: number, system: { frequencyHz: number; phases: number }) => number;
+  expectedStepA: (
+    kvar: number,
+    bank: { ratedVoltageV: number; ratedFrequencyHz?: number; reactorPct?: number },
+    voltageV: number,
+    system: { frequencyHz: number; phases: number },
+  ) => number;
 };
 const drafts = (await import(`${formDir}drafts.js`)) as { newKey: () => string };
 
@@ -34,7 +39,14 @@ const reading: fc.Arbitrary<Measurement> = fc.oneof(
   fc.record({ method: fc.constant("kw_kvar" as const), kW: figure, kvar: fc.double({ min: -5000, max: 5000, noNaN: true }) }),
   fc.record({ method: fc.constant("v_i_kw" as const), volts: fc.double({ min: 100, max: 1000, noNaN: true }), amps: figure, kW: figure, sense }),
   fc.record({ method: fc.constant("v_i_pf" as const), volts: fc.double({ min: 100, max: 1000, noNaN: true }), amps: figure, pf: pfArb, sense }),
-  fc.record({ method: fc.constant("kw_pf" as const), kW: figure, pf: pfArb, sense, pfType: fc.constant("true" as const), currentTHDPct: fc.double({ min: 0, max: 120, noNaN: true }) }),
+  fc.record({
+    method: fc.constant("kw_pf" as const),
+    kW: figure,
+    pf: pfArb,
+    sense,
+    pfType: fc.constant("true" as const),
+    currentTHDPct: fc.double({ min: 0, max: 120, noNaN: true }),
+  }),
 );
 
 describe("the page's power triangle against the service's engine", () => {
@@ -104,8 +116,14 @@ describe("what the page reads from typed text", () => {
   });
 
   it("reads a harmonic spectrum as order:percent pairs and checks it as the service does", () => {
-    expect(checks.spectrumOf("5:30, 7:12")).toEqual([{ order: 5, pct: 30 }, { order: 7, pct: 12 }]);
-    expect(checks.spectrumOf("5=30;7=12")).toEqual([{ order: 5, pct: 30 }, { order: 7, pct: 12 }]);
+    expect(checks.spectrumOf("5:30, 7:12")).toEqual([
+      { order: 5, pct: 30 },
+      { order: 7, pct: 12 },
+    ]);
+    expect(checks.spectrumOf("5=30;7=12")).toEqual([
+      { order: 5, pct: 30 },
+      { order: 7, pct: 12 },
+    ]);
     expect(checks.spectrumOf("fifth")).toMatch(/order:percent/);
     expect(checks.spectrum("5:30, 5:10")).toBe("each harmonic order may appear only once");
     expect(checks.spectrum("1:30")).toBe("order must be 2 to 50");

@@ -133,7 +133,11 @@ describe.skipIf(!hasChromium)("survey page on a plain-HTTP LAN origin", () => {
     expect(stored.status).toBe(200);
     expect(stored.body.system).toEqual(SYSTEM);
     expect(stored.body.transformer).toEqual({ kVA: 630, impedancePct: 6 });
-    expect(stored.body.economics).toMatchObject({ currency: "EUR", tariff: { form: "kva_demand", chargePerKVA: 4.5 }, cost: { perKvar: 28, fixed: 600 } });
+    expect(stored.body.economics).toMatchObject({
+      currency: "EUR",
+      tariff: { form: "kva_demand", chargePerKVA: 4.5 },
+      cost: { perKvar: 28, fixed: 600 },
+    });
     expect(await page.locator("#building-info").textContent()).toContain("transformer 630 kVA at 6 %");
   });
 
@@ -176,7 +180,10 @@ describe.skipIf(!hasChromium)("survey page on a plain-HTTP LAN origin", () => {
 
     // Every fold open, so every control is measured.
     await page.evaluate(`document.querySelectorAll("details").forEach((d) => (d.open = true))`);
-    for (const size of [{ width: 800, height: 1280 }, { width: 1280, height: 800 }]) {
+    for (const size of [
+      { width: 800, height: 1280 },
+      { width: 1280, height: 800 },
+    ]) {
       await page.setViewportSize(size);
       const small = await page.evaluate<string[]>(
         `[...document.querySelectorAll("button, input, select, summary, label.tick")].filter((e) => e.offsetParent !== null && !(e.tagName === "INPUT" && e.type === "checkbox")).map((e) => [e.id || e.textContent.trim(), e.getBoundingClientRect()]).filter(([, r]) => r.height < 48 || r.width < 48).map(([n, r]) => n + " " + r.width + "x" + r.height)`,
@@ -276,14 +283,24 @@ describe.skipIf(!hasChromium)("survey page on a plain-HTTP LAN origin", () => {
     expect(survey.inputs.loads.map((l: { measurement: { method: string } }) => l.measurement.method)).toEqual(["kw_pf", "v_i_pf", "kw_kva"]);
     expect(survey.result.site.sumOfLoads.kW).toBeCloseTo(hand.kW, 6);
     expect(survey.result.resonance).toBeDefined(); // the building's transformer gives the resonance screen
-    expect(survey.inputs.serviceEntrance).toEqual({ label: "Main switchboard", measurement: { method: "kw_kvar", kW: 80, kvar: 50, pfType: "displacement" } });
+    expect(survey.inputs.serviceEntrance).toEqual({
+      label: "Main switchboard",
+      measurement: { method: "kw_kvar", kW: 80, kvar: 50, pfType: "displacement" },
+    });
     expect(survey.inputs.lightLoad).toEqual({ measurement: { method: "kw_pf", kW: 20, pf: 0.9, sense: "lagging", pfType: "displacement" } });
     expect(survey.inputs.bankDesign).toEqual({ ctRatio: 200 });
     expect(survey.result.site.basis).toBe("service_entrance");
     expect(survey.result.correction.kvarRequired).toBeCloseTo(23.7053, 3);
     expect(survey.inputs.loads[0]).toMatchObject({
-      starting: "star_delta", separateCapacitorContactor: true, noLoadAmps: 14, group: "MCC-1", continuousDuty: true,
-      harmonics: [{ order: 5, pct: 30 }, { order: 7, pct: 12 }],
+      starting: "star_delta",
+      separateCapacitorContactor: true,
+      noLoadAmps: 14,
+      group: "MCC-1",
+      continuousDuty: true,
+      harmonics: [
+        { order: 5, pct: 30 },
+        { order: 7, pct: 12 },
+      ],
     });
 
     const bank = survey.result.recommendedBank;
@@ -294,7 +311,8 @@ describe.skipIf(!hasChromium)("survey page on a plain-HTTP LAN origin", () => {
     const eco = survey.result.economics;
     expect(eco.installedCost).toBeGreaterThan(0);
     expect((await page.locator("#r-cost").textContent())?.replace(/\D/g, "")).toBe(String(Math.round(eco.installedCost)));
-    if (eco.simplePaybackYears !== null) expect(await page.locator("#r-payback").textContent()).toContain(`${eco.simplePaybackYears.toFixed(1)} years`);
+    if (eco.simplePaybackYears !== null)
+      expect(await page.locator("#r-payback").textContent()).toContain(`${eco.simplePaybackYears.toFixed(1)} years`);
 
     const [download] = await Promise.all([page.waitForEvent("download"), page.click("#r-report")]);
     expect(readFileSync(await download.path(), "utf8")).toContain("<html");
@@ -426,7 +444,10 @@ describe.skipIf(!hasChromium)("survey page on a plain-HTTP LAN origin", () => {
     })()`);
     await page.reload({ waitUntil: "load" });
     await ready(page);
-    const apiAnswer = await api.post("/v1/sizing", { system: SYSTEM, loads: [apiLoads[0], { ...apiLoads[1], measurement: { ...apiLoads[1]!.measurement, pf: 1.5 } }] });
+    const apiAnswer = await api.post("/v1/sizing", {
+      system: SYSTEM,
+      loads: [apiLoads[0], { ...apiLoads[1], measurement: { ...apiLoads[1]!.measurement, pf: 1.5 } }],
+    });
     const apiError = apiAnswer.body.errors.find((e: { path: string }) => e.path === "loads.1.measurement.pf");
     expect(apiError).toBeDefined();
     await expect.poll(() => page.locator("#l1-pf-msg").textContent()).toBe(apiError.message);

@@ -33,14 +33,35 @@ const certPath = join(dir, "cert.pem");
 const keyPath = join(dir, "key.pem");
 if (hasOpenssl) {
   // A self-signed certificate for the LAN name (and 127.0.0.1), valid two days: what the README tells a site to make.
-  execFileSync("openssl", [
-    "req", "-x509", "-newkey", "ec", "-pkeyopt", "ec_paramgen_curve:prime256v1", "-nodes", "-days", "2",
-    "-keyout", keyPath, "-out", certPath, "-subj", `/CN=${SITE_HOST}`, "-addext", `subjectAltName=DNS:${SITE_HOST},IP:127.0.0.1`,
-  ], { stdio: "ignore" });
+  execFileSync(
+    "openssl",
+    [
+      "req",
+      "-x509",
+      "-newkey",
+      "ec",
+      "-pkeyopt",
+      "ec_paramgen_curve:prime256v1",
+      "-nodes",
+      "-days",
+      "2",
+      "-keyout",
+      keyPath,
+      "-out",
+      certPath,
+      "-subj",
+      `/CN=${SITE_HOST}`,
+      "-addext",
+      `subjectAltName=DNS:${SITE_HOST},IP:127.0.0.1`,
+    ],
+    { stdio: "ignore" },
+  );
 }
 /** base64 SHA-256 of the certificate's public key (SPKI), the form Chromium's pin list takes. */
 const spkiPin = () =>
-  createHash("sha256").update(new X509Certificate(readFileSync(certPath)).publicKey.export({ type: "spki", format: "der" })).digest("base64");
+  createHash("sha256")
+    .update(new X509Certificate(readFileSync(certPath)).publicKey.export({ type: "spki", format: "der" }))
+    .digest("base64");
 
 /** GET over HTTPS trusting only our certificate: status, or the error's code. */
 function httpsStatus(port: number, path: string): Promise<number | string> {
@@ -105,7 +126,10 @@ describe.skipIf(!hasOpenssl || !hasChromium)("survey page over HTTPS: opens with
     const addr = app.server.address();
     if (addr === null || typeof addr === "string") throw new Error("no port");
     site = `https://${SITE_HOST}:${addr.port}`;
-    ({ context, profile } = await launchFreshChromium({ width: 800, height: 1280 }, [MAP_SITE_HOST, `--ignore-certificate-errors-spki-list=${spkiPin()}`]));
+    ({ context, profile } = await launchFreshChromium({ width: 800, height: 1280 }, [
+      MAP_SITE_HOST,
+      `--ignore-certificate-errors-spki-list=${spkiPin()}`,
+    ]));
     page = context.pages()[0] ?? (await context.newPage());
     page.on("console", (m) => {
       if (m.type() === "error" || m.type() === "warning") problems.push(`${m.type()}: ${m.text()}`);

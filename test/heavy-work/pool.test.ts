@@ -19,7 +19,10 @@ afterEach(async () => {
 
 describe("the heavy-work pool", () => {
   it("loads the worker from the sources through tsx here, and from dist/ when compiled", () => {
-    expect(workerEntry("file:///app/src/heavy-work/pool.ts")).toEqual({ filename: "file:///app/src/heavy-work/worker.ts", execArgv: ["--import", "tsx"] });
+    expect(workerEntry("file:///app/src/heavy-work/pool.ts")).toEqual({
+      filename: "file:///app/src/heavy-work/worker.ts",
+      execArgv: ["--import", "tsx"],
+    });
     expect(workerEntry("file:///app/dist/heavy-work/pool.js")).toEqual({ filename: "file:///app/dist/heavy-work/worker.js", execArgv: [] });
   });
 

@@ -11,7 +11,14 @@ import { newBootstrapKey, registerAdminKey } from "./auth.js";
  */
 export async function makeTestApp(overrides: Partial<Config> = {}): Promise<FastifyInstance> {
   const key = overrides.PFC_BOOTSTRAP_KEY ?? newBootstrapKey();
-  const config = defaultConfig({ DATABASE_PATH: ":memory:", DEMO_DATA: "off", RATE_LIMIT_PER_MINUTE: 10_000_000, EVENT_LOOP_MAX_DELAY_MS: 0, ...overrides, PFC_BOOTSTRAP_KEY: key });
+  const config = defaultConfig({
+    DATABASE_PATH: ":memory:",
+    DEMO_DATA: "off",
+    RATE_LIMIT_PER_MINUTE: 10_000_000,
+    EVENT_LOOP_MAX_DELAY_MS: 0,
+    ...overrides,
+    PFC_BOOTSTRAP_KEY: key,
+  });
   const app = await buildApp({ config, logger: false });
   await app.ready();
   await registerAdminKey(app, key);

@@ -17,7 +17,9 @@ export async function registerAdminKey(app: FastifyInstance, key: string): Promi
   const parsed = parseKey(key);
   if (!parsed) throw new Error("not a key");
   const found = await app.store.keys.findByPrefix(parsed.prefix);
-  const id = found ? found.id : (await issueKey(app.store, { orgId: DEFAULT_ORG_ID, role: "admin", label: "test", createdBy: "test", audit: false }, key)).record.id;
+  const id = found
+    ? found.id
+    : (await issueKey(app.store, { orgId: DEFAULT_ORG_ID, role: "admin", label: "test", createdBy: "test", audit: false }, key)).record.id;
   idsOfKeys.set(key, id);
   keys.set(app, key);
 }

@@ -43,13 +43,17 @@ export interface StoreApp {
  * too high to matter (tests of the limit set their own), and no load shedding on event-loop lag (a loaded test
  * machine lags at start-up; test/api/pressure.test.ts turns it on); close `app` in afterAll.
  */
-export async function makeStoreApp(
-  overrides: Partial<Config> = {},
-  options: Omit<AppOptions, "config" | "logger"> = {},
-): Promise<StoreApp> {
+export async function makeStoreApp(overrides: Partial<Config> = {}, options: Omit<AppOptions, "config" | "logger"> = {}): Promise<StoreApp> {
   const path = overrides.DATABASE_PATH ?? tempDatabasePath();
   const key = overrides.PFC_BOOTSTRAP_KEY ?? newBootstrapKey();
-  const config = defaultConfig({ DEMO_DATA: "off", RATE_LIMIT_PER_MINUTE: 10_000_000, EVENT_LOOP_MAX_DELAY_MS: 0, ...overrides, DATABASE_PATH: path, PFC_BOOTSTRAP_KEY: key });
+  const config = defaultConfig({
+    DEMO_DATA: "off",
+    RATE_LIMIT_PER_MINUTE: 10_000_000,
+    EVENT_LOOP_MAX_DELAY_MS: 0,
+    ...overrides,
+    DATABASE_PATH: path,
+    PFC_BOOTSTRAP_KEY: key,
+  });
   const { migrationsDir, now, ...rest } = options;
   const store = rest.store ?? (await openTestStore({ path, ...(migrationsDir ? { migrationsDir } : {}), ...(now ? { now } : {}) }));
   const app = await buildApp({ config, logger: false, ...rest, store, ...(now ? { now } : {}) });

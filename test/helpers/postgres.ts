@@ -8,7 +8,8 @@ import { afterAll, describe, it } from "vitest";
  */
 export const TEST_DATABASE_URL = process.env.TEST_DATABASE_URL;
 
-const HOW_TO = 'PostgreSQL tests skipped: no TEST_DATABASE_URL. Run them with: eval "$(scripts/test-services.sh start)"; npx vitest run; scripts/test-services.sh stop';
+const HOW_TO =
+  'PostgreSQL tests skipped: no TEST_DATABASE_URL. Run them with: eval "$(scripts/test-services.sh start)"; npx vitest run; scripts/test-services.sh stop';
 
 /**
  * `describe` for tests that need PostgreSQL. Without TEST_DATABASE_URL they skip locally (saying how to run them)

@@ -94,4 +94,3 @@ export function validBody(r: AppRoute, tag = "test"): { payload: unknown; conten
   };
   return { payload: (byRoute[label(r)] ?? exampleSizingBody)(), contentType: "application/json" };
 }
-

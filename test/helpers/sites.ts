@@ -19,7 +19,9 @@ export function plantWithInstalledAutomaticBank(): SizingInput {
     loads: [{ label: "Plant", kind: "other", measurement: { method: "kw_kvar", kW: 900, kvar: 700 } }],
     serviceEntrance: { measurement: { method: "kw_kvar", kW: 900, kvar: 700 } },
     intervalDemand: { kW, kvar, intervalMinutes: 60 },
-    installedBanks: [{ label: "Old bank", location: "service", control: "automatic", ratedVoltageV: 480, steps: [50, 50, 50, 50, 50].map((k) => ({ kvar: k })) }],
+    installedBanks: [
+      { label: "Old bank", location: "service", control: "automatic", ratedVoltageV: 480, steps: [50, 50, 50, 50, 50].map((k) => ({ kvar: k })) },
+    ],
     bankReadings: [{ bank: "Old bank", inServiceSteps: [] }],
   } as SizingInput;
 }

@@ -56,12 +56,20 @@ export async function databaseEnvFor(path: string): Promise<Record<string, strin
  */
 export async function sqlRows<R = Record<string, unknown>>(store: Store, sql: string, params: unknown[] = []): Promise<R[]> {
   const url = postgresUrls.get(store);
-  if (!url) return sqliteOf(store).db.prepare(sql).all(...params) as R[];
+  if (!url)
+    return sqliteOf(store)
+      .db.prepare(sql)
+      .all(...params) as R[];
   let n = 0;
   const client = new pg.Client({ connectionString: url });
   await client.connect();
   try {
-    return (await client.query(sql.replace(/\?/g, () => `$${++n}`), params)).rows as R[];
+    return (
+      await client.query(
+        sql.replace(/\?/g, () => `$${++n}`),
+        params,
+      )
+    ).rows as R[];
   } finally {
     await client.end();
   }
@@ -100,7 +108,11 @@ export async function countRows(store: Store, table: string): Promise<number> {
  * with `write(fn)` one IMMEDIATE transaction. For the repository tests (test/store/), which check SQL.
  */
 export async function openSqliteRepos(o: TestStoreOptions) {
-  const store = await openSqliteStore({ path: o.path, ...(o.migrationsDir ? { migrationsDir: o.migrationsDir } : {}), ...(o.now ? { now: o.now } : {}) });
+  const store = await openSqliteStore({
+    path: o.path,
+    ...(o.migrationsDir ? { migrationsDir: o.migrationsDir } : {}),
+    ...(o.now ? { now: o.now } : {}),
+  });
   const { db } = store;
   return {
     db,

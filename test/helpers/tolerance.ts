@@ -72,8 +72,5 @@ export function expectClose(actual: unknown, expected: number, tol: Tolerance, l
   const ok = typeof actual === "number" && isClose(actual, expected, tol);
   const shown = typeof actual === "number" ? actual : JSON.stringify(actual);
   const diff = typeof actual === "number" ? Math.abs(actual - expected) : NaN;
-  expect(
-    ok,
-    `${label}: got ${shown}, expected ${expected} (|diff| ${diff}, tolerance abs ${tol.abs ?? 0} / rel ${tol.rel ?? 0})`,
-  ).toBe(true);
+  expect(ok, `${label}: got ${shown}, expected ${expected} (|diff| ${diff}, tolerance abs ${tol.abs ?? 0} / rel ${tol.rel ?? 0})`).toBe(true);
 }

@@ -59,7 +59,10 @@ describePostgres("two instances on one PostgreSQL", (baseUrl) => {
       expect([viaA.status, viaB.status], `survey ${i}`).toEqual([200, 200]);
       expect(await viaA.json()).toEqual(await viaB.json());
     }
-    const [listA, listB] = await Promise.all([get(a, `/v1/buildings/${buildingId}/surveys?limit=100`), get(b, `/v1/buildings/${buildingId}/surveys?limit=100`)]);
+    const [listA, listB] = await Promise.all([
+      get(a, `/v1/buildings/${buildingId}/surveys?limit=100`),
+      get(b, `/v1/buildings/${buildingId}/surveys?limit=100`),
+    ]);
     expect(await listA.json()).toEqual(await listB.json());
   });
 
@@ -69,10 +72,16 @@ describePostgres("two instances on one PostgreSQL", (baseUrl) => {
       const before = await surveyCount();
       const idem = { "idempotency-key": `twin-${round}-${Date.now()}` };
       const body = surveyBody({ surveyor: `Twin round ${round}` });
-      const [ra, rb] = await Promise.all([post(a, `/v1/buildings/${buildingId}/surveys`, body, idem), post(b, `/v1/buildings/${buildingId}/surveys`, body, idem)]);
+      const [ra, rb] = await Promise.all([
+        post(a, `/v1/buildings/${buildingId}/surveys`, body, idem),
+        post(b, `/v1/buildings/${buildingId}/surveys`, body, idem),
+      ]);
       const statuses = [ra.status, rb.status].sort();
       // Either the second saw the first finished (a replay: both 201, one Location), or still in flight (409 + Retry-After).
-      expect([[201, 201], [201, 409]]).toContainEqual(statuses);
+      expect([
+        [201, 201],
+        [201, 409],
+      ]).toContainEqual(statuses);
       seen.push(statuses.join("+"));
       const ok = [ra, rb].filter((r) => r.status === 201);
       expect(new Set(ok.map((r) => r.headers.get("location"))).size).toBe(1);
@@ -126,7 +135,9 @@ describePostgres("two instances on one PostgreSQL", (baseUrl) => {
            OR NOT EXISTS (SELECT 1 FROM audit_log l WHERE l.org_id = s.org_id AND l.resource_id = s.id)`,
     );
     expect(broken.rows).toEqual([]);
-    console.log(`kill -9 under load: ${acknowledged.length} surveys acknowledged (201), all stored whole; ${acknowledged.length} checked in the database`);
+    console.log(
+      `kill -9 under load: ${acknowledged.length} surveys acknowledged (201), all stored whole; ${acknowledged.length} checked in the database`,
+    );
     // The survivor serves every acknowledged survey.
     for (const id of acknowledged.slice(-10)) expect((await get(a, `/v1/surveys/${id}`)).status).toBe(200);
   });

@@ -70,7 +70,10 @@ describe("report in headless Chromium", () => {
     console.log(`report screenshots in ${shots}`);
     expect(statSync(shot).size).toBeGreaterThan(10_000);
 
-    for (const [format, widthPt] of [["A4", 595.3], ["Letter", 612]] as const) {
+    for (const [format, widthPt] of [
+      ["A4", 595.3],
+      ["Letter", 612],
+    ] as const) {
       const pdf = await page.pdf({ format, printBackground: true });
       writeFileSync(join(shots, `report-${format}.pdf`), pdf);
       const doc = await getDocument({ data: new Uint8Array(pdf), isEvalSupported: false, disableFontFace: true, verbosity: 0 }).promise;

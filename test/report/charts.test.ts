@@ -1,5 +1,13 @@
 import { describe, expect, it } from "vitest";
-import { chartToSvg, durationCurveChart, impedanceScanChart, powerTriangleChart, simplify, type Chart, type Shape } from "../../src/report/charts/index.js";
+import {
+  chartToSvg,
+  durationCurveChart,
+  impedanceScanChart,
+  powerTriangleChart,
+  simplify,
+  type Chart,
+  type Shape,
+} from "../../src/report/charts/index.js";
 import { logBounds } from "../../src/report/charts/scan.js";
 import { descendants, parseXml, type XmlElement } from "./xml.js";
 
@@ -20,7 +28,7 @@ const tri = (kW: number, pf: number, sign = 1) => ({ kW, kvar: sign * kW * Math.
 describe("XML strictness check (the test tool itself)", () => {
   it.each([
     ["<svg><line></svg>", "unbalanced"],
-    ['<svg a=1/>', "unquoted attribute"],
+    ["<svg a=1/>", "unquoted attribute"],
     ["<svg>a & b</svg>", "bare ampersand"],
     ['<svg a="1" a="2"/>', "duplicate attribute"],
     ["<svg/><svg/>", "two roots"],
@@ -43,7 +51,10 @@ describe("power triangle chart", () => {
   const chart = powerTriangleChart({ before, after, bankKvar: before.kvar - after.kvar });
 
   it("draws kvar/kW to scale in both triangles, at one scale", () => {
-    for (const [state, t] of [["before", before], ["after", after]] as const) {
+    for (const [state, t] of [
+      ["before", before],
+      ["after", after],
+    ] as const) {
       const ratio = len(lineOf(chart, "kvar-leg", state)) / len(lineOf(chart, "kw-leg", state));
       expect(ratio).toBeCloseTo(t.kvar / t.kW, 9);
     }
@@ -55,7 +66,10 @@ describe("power triangle chart", () => {
   });
 
   it("closes each triangle: the hypotenuse runs from the kW leg's start to the kvar leg's end, S/P = 1/PF", () => {
-    for (const [state, t] of [["before", before], ["after", after]] as const) {
+    for (const [state, t] of [
+      ["before", before],
+      ["after", after],
+    ] as const) {
       const p = lineOf(chart, "kw-leg", state);
       const q = lineOf(chart, "kvar-leg", state);
       const s = lineOf(chart, "kva-leg", state);
@@ -88,7 +102,8 @@ describe("power triangle chart", () => {
     expect(root?.attrs.role).toBe("img");
     expect(root?.attrs.viewBox).toMatch(/^0 0 760 \d+(\.\d+)?$/);
     expect(root?.children[0]?.name).toBe("title");
-    const legs = (role: string) => descendants(root as XmlElement, (e) => e.attrs["data-role"] === role && e.attrs["data-state"] === "before")[0] as XmlElement;
+    const legs = (role: string) =>
+      descendants(root as XmlElement, (e) => e.attrs["data-role"] === role && e.attrs["data-state"] === "before")[0] as XmlElement;
     const l = (e: XmlElement) => Math.hypot(num(e, "x2") - num(e, "x1"), num(e, "y2") - num(e, "y1"));
     expect(Math.abs(l(legs("kvar-leg")) / l(legs("kw-leg")) - 0.75)).toBeLessThan(1e-6);
   });
@@ -154,8 +169,18 @@ describe("impedance scan chart", () => {
 
 describe("simplify", () => {
   it("drops collinear points and keeps corners", () => {
-    const pts = [[0, 0], [1, 1], [2, 2], [3, 3], [4, 0]] as const;
-    expect(simplify(pts, 0.1)).toEqual([[0, 0], [3, 3], [4, 0]]);
+    const pts = [
+      [0, 0],
+      [1, 1],
+      [2, 2],
+      [3, 3],
+      [4, 0],
+    ] as const;
+    expect(simplify(pts, 0.1)).toEqual([
+      [0, 0],
+      [3, 3],
+      [4, 0],
+    ]);
   });
 });
 
@@ -166,7 +191,10 @@ describe("duration curve chart", () => {
   const chart = durationCurveChart({
     need: { exceedancePct, kvar },
     demand: { exceedancePct, kvar: demand },
-    levels: [{ label: "fixed", kvar: 100 }, { label: "fixed + step 1", kvar: 150 }],
+    levels: [
+      { label: "fixed", kvar: 100 },
+      { label: "fixed + step 1", kvar: 150 },
+    ],
     targetPF: 0.95,
     coveredPct: 99.9,
   });
@@ -205,7 +233,14 @@ describe("duration curve chart", () => {
 
 describe("SVG text escaping", () => {
   it("escapes markup in titles and labels", () => {
-    const c: Chart = { id: "x", title: 'a <b> & "c"', description: "<script>", width: 10, height: 10, shapes: [{ kind: "text", x: 1, y: 1, text: "<tag> & more", size: 5, anchor: "start" }] };
+    const c: Chart = {
+      id: "x",
+      title: 'a <b> & "c"',
+      description: "<script>",
+      width: 10,
+      height: 10,
+      shapes: [{ kind: "text", x: 1, y: 1, text: "<tag> & more", size: 5, anchor: "start" }],
+    };
     const svg = chartToSvg(c);
     expect(svg).not.toContain("<script>");
     expect(svg).not.toContain("<tag>");

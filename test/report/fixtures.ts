@@ -24,7 +24,12 @@ export function hallInput(): SizingInput {
     loads: [
       { label: "Filler carousel drive", kind: "drive", measurement: { method: "kw_pf", kW: 55, pf: 0.96, sense: "lagging" } },
       { label: "Air compressor C1", kind: "motor", measurement: { method: "v_i_pf", volts: 480, amps: 118, pf: 0.82, sense: "lagging" } },
-      { label: "Conveyor motors <hall 2> & \"east\"", kind: "motor", quantity: 12, measurement: { method: "kw_pf", kW: 4.1, pf: 0.72, sense: "lagging" } },
+      {
+        label: 'Conveyor motors <hall 2> & "east"',
+        kind: "motor",
+        quantity: 12,
+        measurement: { method: "kw_pf", kW: 4.1, pf: 0.72, sense: "lagging" },
+      },
       { label: "Glycol chiller", kind: "hvac", measurement: { method: "kw_kva", kW: 148, kVA: 188 } },
       { label: "Labeller and capper", kind: "motor", measurement: { method: "v_i_kw", volts: 480, amps: 41, kW: 22 } },
       { label: "Hall lighting", kind: "lighting", measurement: { method: "kw_kvar", kW: 38, kvar: 15 } },
@@ -63,7 +68,13 @@ export function designFor(input: SizingInput, interval: IntervalSummary): BankDe
   const curve = interval.durationCurve;
   // The duration curve's kvar against the mean kW scaled by the same rank: enough demand samples for the step search.
   const samples = curve.kvar.map((q) => ({ kW: q / 0.7, kvar: q }));
-  const o = designBank({ system: input.system, targetPF: 0.95, demand: { kind: "intervals", samples, intervalMinutes: 15 }, ctRatio: 200, ...(input.transformer ? { transformerKVA: input.transformer.kVA } : {}) });
+  const o = designBank({
+    system: input.system,
+    targetPF: 0.95,
+    demand: { kind: "intervals", samples, intervalMinutes: 15 },
+    ctRatio: 200,
+    ...(input.transformer ? { transformerKVA: input.transformer.kVA } : {}),
+  });
   if (!o.ok) throw new Error(`design fixture failed: ${JSON.stringify(o.issues)}`);
   return o.design;
 }
@@ -72,7 +83,15 @@ export function placementFor(result: SizingResult): PlacementPlan {
   return planPlacement({
     targetPF: result.correction.targetPF,
     siteRequiredKvar: result.correction.kvarRequired,
-    loads: result.loads.map((l) => ({ label: l.label, kind: l.kind === "other" || l.kind === undefined ? "other" : l.kind, kW: l.kW, kvar: l.kvar, quantity: l.quantity, voltageV: result.system.voltageV, phases: l.phases })),
+    loads: result.loads.map((l) => ({
+      label: l.label,
+      kind: l.kind === "other" || l.kind === undefined ? "other" : l.kind,
+      kW: l.kW,
+      kvar: l.kvar,
+      quantity: l.quantity,
+      voltageV: result.system.voltageV,
+      phases: l.phases,
+    })),
   });
 }
 
@@ -81,7 +100,13 @@ export function economicsFor(result: SizingResult): EconomicsResult {
   return economics({
     currency: "EUR",
     tariff: { form: "kva_demand", chargePerKVA: 7.25 },
-    periods: [{ label: "typical month", before: { peakKW, peakKVA: result.correction.kVABefore, peakPF: result.site.displacementPF, kWh: 180_000, kvarh: 120_000 }, after: { peakKW, peakKVA: result.correction.kVAAfter, peakPF: result.correction.pfAfter, kWh: 180_000, kvarh: 40_000 } }],
+    periods: [
+      {
+        label: "typical month",
+        before: { peakKW, peakKVA: result.correction.kVABefore, peakPF: result.site.displacementPF, kWh: 180_000, kvarh: 120_000 },
+        after: { peakKW, peakKVA: result.correction.kVAAfter, peakPF: result.correction.pfAfter, kWh: 180_000, kvarh: 40_000 },
+      },
+    ],
     periodsPerYear: 12,
     cost: { perKvar: 32, perStep: 150, fixed: 2500 },
     bank: { installedKvar: result.recommendedBank?.effectiveKvar ?? 0, steps: result.recommendedBank?.steps.length ?? 0 },
@@ -97,8 +122,24 @@ export function fullReportInput(): ReportInput {
   const result = sized(inputs);
   const interval = intervalSummaryFor(0.95);
   return {
-    building: { name: "Fernhollow works — Hall 2 <test>", address: "Unit 4, Example Estate", system: inputs.system, transformer: inputs.transformer ?? null, utility: inputs.utility ?? null, buildingVersion: 3 },
-    survey: { id: "srv_TEST123", revision: 2, surveyedAt: "2024-03-19T10:15:00-05:00", surveyor: "T. Example & Co", notes: "Readings at each MCC feeder.", engineVersion: result.engineVersion, createdAt: "2024-03-20T08:00:00.000Z", reason: "C3 added" },
+    building: {
+      name: "Fernhollow works — Hall 2 <test>",
+      address: "Unit 4, Example Estate",
+      system: inputs.system,
+      transformer: inputs.transformer ?? null,
+      utility: inputs.utility ?? null,
+      buildingVersion: 3,
+    },
+    survey: {
+      id: "srv_TEST123",
+      revision: 2,
+      surveyedAt: "2024-03-19T10:15:00-05:00",
+      surveyor: "T. Example & Co",
+      notes: "Readings at each MCC feeder.",
+      engineVersion: result.engineVersion,
+      createdAt: "2024-03-20T08:00:00.000Z",
+      reason: "C3 added",
+    },
     inputs,
     result,
     economics: economicsFor(result),

@@ -94,7 +94,12 @@ describe("report HTML: figures from the result", () => {
     const site = rowsOf(doc.querySelectorAll("#site table.data")[0] as HTMLElement);
     expect(site[0]).toEqual(["Real power", f1(result.site.kW), f1(result.site.kW), "kW"]);
     expect(site[1]).toEqual(["Reactive power", f1(result.site.kvar), f1(result.correction.kvarAfter), "kvar"]);
-    expect(site[3]).toEqual(["Displacement PF", `${result.site.displacementPF.toFixed(3)} ${result.site.sense}`, `${result.correction.pfAfter.toFixed(3)} ${result.correction.pfAfterSense}`, "-"]);
+    expect(site[3]).toEqual([
+      "Displacement PF",
+      `${result.site.displacementPF.toFixed(3)} ${result.site.sense}`,
+      `${result.correction.pfAfter.toFixed(3)} ${result.correction.pfAfterSense}`,
+      "-",
+    ]);
     expect(site[4]?.[1]).toBe(f1(result.correction.lineCurrentBeforeA));
     expect(text).toContain(`${f1(result.correction.kvarRequired)} kvar`);
     expect(text).toContain(`${f1(result.correction.kVAReleased)} kVA`);
@@ -142,8 +147,15 @@ describe("report HTML: figures from the result", () => {
   it("lists every warning code, the cautions' titles, economics and the design", () => {
     const codes = rowsOf(doc.querySelector("#warnings table.data") as HTMLElement).map((r) => r[1]);
     for (const w of result.warnings) expect(codes).toContain(w.code);
-    expect(doc.querySelectorAll("#cautions .callout h4").map((h) => h.text).sort()).toEqual([...CAUTION_TOPICS].sort());
-    expect(text).toContain(`${(input.economics?.savingPerYear ?? 0).toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 })} EUR`);
+    expect(
+      doc
+        .querySelectorAll("#cautions .callout h4")
+        .map((h) => h.text)
+        .sort(),
+    ).toEqual([...CAUTION_TOPICS].sort());
+    expect(text).toContain(
+      `${(input.economics?.savingPerYear ?? 0).toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 })} EUR`,
+    );
     expect(text).toContain(`${input.design?.controller?.responseA.toFixed(3)} A`);
   });
 });
@@ -174,11 +186,13 @@ describe("report HTML: charts drawn to the data", () => {
     const study = result.harmonics?.banks.find((b) => b.name === "recommended");
     expect(stages).toHaveLength(result.recommendedBank?.stages.length ?? -1);
     const area = roleIn(svg, "plot-area")[0];
-    const hOf = (x: number) => n(area, "data-h0") + ((x - n(area, "data-x0")) / (n(area, "data-x1") - n(area, "data-x0"))) * (n(area, "data-h1") - n(area, "data-h0"));
+    const hOf = (x: number) =>
+      n(area, "data-h0") + ((x - n(area, "data-x0")) / (n(area, "data-x1") - n(area, "data-x0"))) * (n(area, "data-h1") - n(area, "data-h0"));
     const markers = roleIn(svg, "harmonic-marker");
     expect(markers.map((m) => Number(m.attrs["data-order"]))).toEqual(result.harmonics?.presentOrders.filter((h) => h <= 50));
     for (const m of markers) expect(hOf(n(m, "x1"))).toBeCloseTo(Number(m.attrs["data-order"]), 3);
-    const xOf = (h: number) => n(area, "data-x0") + ((h - n(area, "data-h0")) / (n(area, "data-h1") - n(area, "data-h0"))) * (n(area, "data-x1") - n(area, "data-x0"));
+    const xOf = (h: number) =>
+      n(area, "data-x0") + ((h - n(area, "data-h0")) / (n(area, "data-h1") - n(area, "data-h0"))) * (n(area, "data-x1") - n(area, "data-x0"));
     stages.forEach((p, i) => {
       const pts = (p.attrs.points ?? "").split(" ").map((xy) => xy.split(",").map(Number) as [number, number]);
       const top = pts.reduce((a, b) => (b[1] < a[1] ? b : a));
@@ -198,7 +212,11 @@ describe("report HTML: charts drawn to the data", () => {
     const svg = svgOf("duration-curve");
     let sum = 0;
     const expected = (input.design?.steps ?? []).map((s) => (sum += s.effectiveKvar));
-    expect(roleIn(svg, "step-level").map((l) => Number(l.attrs["data-kvar"])).sort((a, b) => a - b)).toEqual(expected.sort((a, b) => a - b));
+    expect(
+      roleIn(svg, "step-level")
+        .map((l) => Number(l.attrs["data-kvar"]))
+        .sort((a, b) => a - b),
+    ).toEqual(expected.sort((a, b) => a - b));
   });
 });
 
@@ -206,7 +224,17 @@ describe("report HTML: charts drawn to the data", () => {
 function withoutEngineDesign(r: ReturnType<typeof sized>): ReturnType<typeof sized> {
   const rec = r.recommendedBank as unknown as Record<string, unknown> | null;
   if (!rec) return r;
-  const { physicalSteps: _a, fixedKvar: _b, switchedKvar: _c, stepPlan: _d, controller: _e, protection: _f, discharge: _g, notes: _h, ...plain } = rec;
+  const {
+    physicalSteps: _a,
+    fixedKvar: _b,
+    switchedKvar: _c,
+    stepPlan: _d,
+    controller: _e,
+    protection: _f,
+    discharge: _g,
+    notes: _h,
+    ...plain
+  } = rec;
   const { placement: _p, ...rest } = r as unknown as Record<string, unknown>;
   return { ...rest, recommendedBank: plain } as unknown as ReturnType<typeof sized>;
 }
@@ -232,7 +260,12 @@ describe("report HTML: missing data is said, not dropped", () => {
   });
 
   it("adds every mandatory caution when the result carries none", () => {
-    expect(plain.querySelectorAll("#cautions .callout h4").map((h) => h.text).sort()).toEqual([...CAUTION_TOPICS].sort());
+    expect(
+      plain
+        .querySelectorAll("#cautions .callout h4")
+        .map((h) => h.text)
+        .sort(),
+    ).toEqual([...CAUTION_TOPICS].sort());
     expect(t).toContain("supports and does not replace the design of a qualified person");
   });
 

@@ -1,6 +1,15 @@
 import { describe, expect, it } from "vitest";
 import type { Caution } from "../../src/core/cautions/safety-cautions.js";
-import { buildReportModel, fmt, reportCautions, reportForSizing, REQUIRED_CAUTIONS, SECTION_ORDER, type Block, type ReportModel } from "../../src/report/index.js";
+import {
+  buildReportModel,
+  fmt,
+  reportCautions,
+  reportForSizing,
+  REQUIRED_CAUTIONS,
+  SECTION_ORDER,
+  type Block,
+  type ReportModel,
+} from "../../src/report/index.js";
 import type { Chart } from "../../src/report/charts/index.js";
 import { fullReportInput, hallInput, plainInput, sized } from "./fixtures.js";
 
@@ -25,7 +34,10 @@ describe("report model", () => {
   });
 
   it("keeps the result's own cautions and adds only the missing mandatory topics", () => {
-    const own: Caution[] = [{ code: "stored_charge", title: "Own wording on stored charge", text: "x" }, { code: "site_specific", title: "Crane overhead", text: "y" }];
+    const own: Caution[] = [
+      { code: "stored_charge", title: "Own wording on stored charge", text: "x" },
+      { code: "site_specific", title: "Crane overhead", text: "y" },
+    ];
     const merged = reportCautions(own);
     expect(merged.slice(0, 2)).toEqual(own);
     expect(merged.map((c) => c.code).sort()).toEqual([...new Set([...REQUIRED_CAUTIONS.map((c) => c.code), "site_specific"])].sort());
@@ -60,7 +72,11 @@ describe("scan charts without a harmonic study", () => {
 
   it("uses supplied series instead of computing them", () => {
     const orders = [1, 2, 3, 4, 5];
-    const m = buildReportModel({ inputs: input, result, scanSeries: [{ bank: "recommended", stages: [{ stageNumber: 1, orders, impedanceOhm: [0.01, 0.02, 0.5, 0.02, 0.01] }] }] });
+    const m = buildReportModel({
+      inputs: input,
+      result,
+      scanSeries: [{ bank: "recommended", stages: [{ stageNumber: 1, orders, impedanceOhm: [0.01, 0.02, 0.5, 0.02, 0.01] }] }],
+    });
     const chart = charts(m).find((c) => c.id === "scan-recommended") as Chart;
     const lines = chart.shapes.filter((s) => s.role === "scan-stage");
     expect(lines).toHaveLength(1);

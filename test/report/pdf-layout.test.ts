@@ -45,7 +45,9 @@ describe("PDF page layout: headings", () => {
 
   it("keeps a heading, a subheading and a table head with the first rows, and repeats the header after a break", () => {
     // 60 rows, kept like lines: the first with the second, the last but one with the last.
-    const rows = Array.from({ length: 60 }, (_, k) => box("row", 15, { repeatHeightPt: 14, ...(k === 0 || k === 58 ? { keepWithNext: "always" as const } : {}) }));
+    const rows = Array.from({ length: 60 }, (_, k) =>
+      box("row", 15, { repeatHeightPt: 14, ...(k === 0 || k === 58 ? { keepWithNext: "always" as const } : {}) }),
+    );
     const boxes = [
       box("paragraph", BODY - 70, { gapAfterPt: 5 }),
       heading(),
@@ -69,7 +71,10 @@ describe("PDF page layout: headings", () => {
   });
 
   it("moves a short table whole, but splits it rather than leave more than a third of a page blank", () => {
-    const table = (n: number) => [box("table-head", 14, { keepWithNext: "always" as const }), ...Array.from({ length: n }, (_, k) => box("row", 20, { repeatHeightPt: 14, ...(k < n - 1 ? { keepWithNext: "prefer" as const } : {}) }))];
+    const table = (n: number) => [
+      box("table-head", 14, { keepWithNext: "always" as const }),
+      ...Array.from({ length: n }, (_, k) => box("row", 20, { repeatHeightPt: 14, ...(k < n - 1 ? { keepWithNext: "prefer" as const } : {}) })),
+    ];
     // 150 pt left, a 14 + 10 × 20 = 214 pt table: moves (150 pt < a third of 700 pt).
     const moved = [box("paragraph", BODY - 150), ...table(10)];
     expect(pageOf(paginate(moved, FRAME)).get(1)).toBe(1);
@@ -93,7 +98,13 @@ describe("PDF page layout: headings", () => {
     });
     fc.assert(
       fc.property(fc.array(arbBox, { maxLength: 60 }), (raw) => {
-        const boxes: LayoutBox[] = raw.map((b) => ({ kind: b.kind, heightPt: b.heightPt, gapAfterPt: b.gapAfterPt, ...(b.keepWithNext ? { keepWithNext: b.keepWithNext } : {}), ...(b.repeatHeightPt !== undefined ? { repeatHeightPt: b.repeatHeightPt } : {}) }));
+        const boxes: LayoutBox[] = raw.map((b) => ({
+          kind: b.kind,
+          heightPt: b.heightPt,
+          gapAfterPt: b.gapAfterPt,
+          ...(b.keepWithNext ? { keepWithNext: b.keepWithNext } : {}),
+          ...(b.repeatHeightPt !== undefined ? { repeatHeightPt: b.repeatHeightPt } : {}),
+        }));
         // A chain of "always" boxes taller than a page (with its gaps and a repeated header) cannot fit any page:
         // leave those out.
         const chainTooTall = boxes.some((first, i) => {

@@ -13,7 +13,10 @@ const FOOTER_TOP_PT = (15 / 25.4) * 72 + 14;
 function padded(n: number, where: "first" | "last"): ReportModel {
   const pi = plainInput();
   const model = buildReportModel({ inputs: pi, result: sized(pi) });
-  const filler = Array.from({ length: n }, (_, k) => ({ kind: "paragraph" as const, text: `Site note ${k + 1}: reading repeated at the main switchboard.` }));
+  const filler = Array.from({ length: n }, (_, k) => ({
+    kind: "paragraph" as const,
+    text: `Site note ${k + 1}: reading repeated at the main switchboard.`,
+  }));
   const section = where === "first" ? model.sections[0] : model.sections[model.sections.length - 1];
   if (!section) throw new Error("the report has no sections");
   section.blocks = where === "first" ? [...filler, ...section.blocks] : [...section.blocks, ...filler];
@@ -58,7 +61,11 @@ describe("report PDF pages", () => {
       const lowest = body.reduce((a, b) => (b.y < a.y ? b : a));
       expect(headings.has(lowest.str), `page ${i + 1} ends with "${lowest.str}"`).toBe(false);
     });
-    stats.layout.slice(0, -1).forEach((p, i) => expect(["heading", "subheading", "table-head", "key-values-title"], `page ${i + 1}`).not.toContain(p.kinds[p.kinds.length - 1]));
+    stats.layout
+      .slice(0, -1)
+      .forEach((p, i) =>
+        expect(["heading", "subheading", "table-head", "key-values-title"], `page ${i + 1}`).not.toContain(p.kinds[p.kinds.length - 1]),
+      );
   });
 
   it("does not leave the last page almost empty", async () => {
@@ -105,7 +112,11 @@ describe("report PDF pages", () => {
     const { items } = await readPdf(pdf);
     expect(items.length).toBe(stats.pages);
     const body = items.map((page) => page.filter((it) => it.str.trim() !== "" && it.y > FOOTER_TOP_PT));
-    const text = body.flat().map((it) => it.str).join(" ").replace(/\s+/g, " ");
+    const text = body
+      .flat()
+      .map((it) => it.str)
+      .join(" ")
+      .replace(/\s+/g, " ");
     // Every word comes back in order (the over-long word cut into pieces of one line each).
     expect(text.replace(/photo-ref:x+( x+)*/, "WORD")).toContain(notes.replace(longWord, "WORD").replace(/\s+/g, " "));
     // The notes' lines: one text item per line, each line below the one before (no line drawn twice or over another).
@@ -115,7 +126,11 @@ describe("report PDF pages", () => {
     for (const lines of pagesWithNotes) lines.slice(1).forEach((l, k) => expect((lines[k] as { y: number }).y - l.y).toBeGreaterThanOrEqual(9));
     // Nothing but the footer below the text area.
     items.forEach((page, i) =>
-      page.filter((it) => it.str.trim() !== "" && it.y <= FOOTER_TOP_PT).forEach((it) => expect(it.str.startsWith("Power-factor correction report") || it.str === `page ${i + 1} of ${items.length}`, it.str).toBe(true)),
+      page
+        .filter((it) => it.str.trim() !== "" && it.y <= FOOTER_TOP_PT)
+        .forEach((it) =>
+          expect(it.str.startsWith("Power-factor correction report") || it.str === `page ${i + 1} of ${items.length}`, it.str).toBe(true),
+        ),
     );
   });
 });

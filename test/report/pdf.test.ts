@@ -16,7 +16,17 @@ describe("report PDF", () => {
     const { pages, size } = await readPdf(buf);
     expect(size.map(Math.round)).toEqual([595, 842]); // A4 in points
     const all = pages.join(" ");
-    for (const h of ["Building and survey", "Readings and power triangle per load", "Site before and after correction", "Capacitor bank", "Resonance and harmonics", "Economics", "Warnings", "Safety cautions", "Methods and standards"])
+    for (const h of [
+      "Building and survey",
+      "Readings and power triangle per load",
+      "Site before and after correction",
+      "Capacitor bank",
+      "Resonance and harmonics",
+      "Economics",
+      "Warnings",
+      "Safety cautions",
+      "Methods and standards",
+    ])
       expect(all).toContain(h);
     expect(all).toContain(`from PF ${result.site.displacementPF.toFixed(3)} lagging, ${result.correction.kVABefore.toFixed(1)} kVA`);
     expect(all).toContain(`${result.correction.kvarRequired.toFixed(1)} kvar`);
@@ -45,7 +55,10 @@ describe("report PDF", () => {
     expect(raw).not.toMatch(/\/Subtype\s*\/Image/);
     // Each polyline point after the first is one lineTo; the scan lines alone have hundreds.
     const lineTos = raw.match(/[\d.-]+ [\d.-]+ l\n/g)?.length ?? 0;
-    const polylinePoints = charts.reduce((n, b) => n + (b.kind === "chart" ? b.chart.shapes.reduce((m, s) => m + (s.kind === "polyline" ? s.points.length - 1 : 0), 0) : 0), 0);
+    const polylinePoints = charts.reduce(
+      (n, b) => n + (b.kind === "chart" ? b.chart.shapes.reduce((m, s) => m + (s.kind === "polyline" ? s.points.length - 1 : 0), 0) : 0),
+      0,
+    );
     expect(polylinePoints).toBeGreaterThan(500);
     expect(lineTos).toBeGreaterThanOrEqual(polylinePoints);
     expect(raw).toMatch(/\[[\d. ]+\] 0 d/); // dash patterns set for the stage lines
@@ -58,7 +71,16 @@ describe("report PDF", () => {
     const { pages, size } = await readPdf(buf);
     expect(size.map(Math.round)).toEqual([612, 792]);
     const all = pages.join(" ");
-    for (const t of ["Stored charge and discharge time", "Lockout/tagout and verification", "Never on a drive's output", "Motor-terminal capacitors and self-excitation", "Switching transients", "Generator operation", "Ventilation and ambient temperature", "Local codes and licensed practice"])
+    for (const t of [
+      "Stored charge and discharge time",
+      "Lockout/tagout and verification",
+      "Never on a drive's output",
+      "Motor-terminal capacitors and self-excitation",
+      "Switching transients",
+      "Generator operation",
+      "Ventilation and ambient temperature",
+      "Local codes and licensed practice",
+    ])
       expect(all).toContain(`CAUTION: ${t}`);
     expect(all).toContain("Resonance was not screened");
     expect(all).toContain("Economics not evaluated");
@@ -68,7 +90,8 @@ describe("report PDF", () => {
 describe("PDF text mapping", () => {
   it("keeps what the embedded font draws and marks the rest", () => {
     // Symbols of the report, Latin Extended, Greek and Cyrillic: DejaVu Sans has them all (its coverage table).
-    for (const t of ["φ √3 I² ≤ ≥ Σ PF₁ − ∥ µF 35.2° 4 × 50 ± – · é", "Łódź Ţesătorie Țară Şiş İğdır Příliš", "Ωμέγα Щёлково"]) expect(pdfSafe(t)).toBe(t);
+    for (const t of ["φ √3 I² ≤ ≥ Σ PF₁ − ∥ µF 35.2° 4 × 50 ± – · é", "Łódź Ţesătorie Țară Şiş İğdır Příliš", "Ωμέγα Щёлково"])
+      expect(pdfSafe(t)).toBe(t);
     // Not in DejaVu Sans: a Han character, an emoji (one "?" for its two UTF-16 units), a control character.
     expect(pdfSafe("漢 🔥 a\u0007b")).toBe("? ? a?b");
     expect(pdfSafe("a\tb\r\nc")).toBe("a b \nc");

@@ -27,7 +27,12 @@ export async function readPdf(buf: Uint8Array): Promise<ReadPdf> {
     const list: PdfTextItem[] = [];
     for (const it of content.items) if ("str" in it) list.push({ str: it.str, x: it.transform[4] as number, y: it.transform[5] as number });
     items.push(list);
-    pages.push(list.map((it) => it.str).join(" ").replace(/\s+/g, " "));
+    pages.push(
+      list
+        .map((it) => it.str)
+        .join(" ")
+        .replace(/\s+/g, " "),
+    );
   }
   const size = (await doc.getPage(1)).view.slice(2);
   const info = (await doc.getMetadata()).info as { Title?: string };

@@ -32,7 +32,8 @@ const survey = {
 async function pdfText(buf: Buffer): Promise<{ text: string; width: number }> {
   const doc = await getDocument({ data: new Uint8Array(buf), isEvalSupported: false, disableFontFace: true, verbosity: 0 }).promise;
   let text = "";
-  for (let i = 1; i <= doc.numPages; i++) text += (await (await doc.getPage(i)).getTextContent()).items.map((it) => ("str" in it ? it.str : "")).join(" ") + " ";
+  for (let i = 1; i <= doc.numPages; i++)
+    text += (await (await doc.getPage(i)).getTextContent()).items.map((it) => ("str" in it ? it.str : "")).join(" ") + " ";
   const width = (await doc.getPage(1)).view[2] as number;
   await doc.destroy();
   return { text: text.replace(/\s+/g, " "), width };
@@ -46,7 +47,11 @@ beforeAll(async () => {
   expect(s.statusCode).toBe(201);
   surveyId = s.json().id;
   result = s.json().result;
-  const r2 = await inject(app, { method: "POST", url: `/v1/surveys/${surveyId}/revisions`, payload: { ...survey, reason: "second compressor", loads: [...survey.loads, { ...survey.loads[1], label: "Compressor 2" }] } });
+  const r2 = await inject(app, {
+    method: "POST",
+    url: `/v1/surveys/${surveyId}/revisions`,
+    payload: { ...survey, reason: "second compressor", loads: [...survey.loads, { ...survey.loads[1], label: "Compressor 2" }] },
+  });
   expect(r2.statusCode).toBe(201);
 });
 afterAll(() => app.close());
@@ -64,7 +69,11 @@ describe("GET /v1/surveys/{id}/report", () => {
     expect(text).toContain(`survey ${surveyId}, revision 2`);
     expect(text).toContain("second compressor");
     expect(text).toContain("R. Tester");
-    expect(doc.querySelectorAll("#readings table.data tbody tr").map((tr) => tr.querySelector("td")?.text)).toEqual(["Drive line", "Compressor", "Compressor 2"]);
+    expect(doc.querySelectorAll("#readings table.data tbody tr").map((tr) => tr.querySelector("td")?.text)).toEqual([
+      "Drive line",
+      "Compressor",
+      "Compressor 2",
+    ]);
   });
 
   it("answers an earlier revision when asked, and 404 problems for unknown surveys and revisions", async () => {

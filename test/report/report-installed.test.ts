@@ -14,10 +14,24 @@ const bank = { label: "Wall bank", location: "service", control: "automatic", ra
 
 beforeAll(async () => {
   ({ app } = await makeStoreApp());
-  const b = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Report bank hall", installedBanks: [bank] }) })).json();
+  const b = (
+    await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Report bank hall", installedBanks: [bank] }) })
+  ).json();
   // step 2 declines: 35.7 → 33.9 → 31.0 A against 36.0844 A expected (25 kvar at 400 V)
   for (const [i, a] of [35.7, 33.9, 31.0].entries()) {
-    const body = surveyBody({ surveyedAt: `2024-0${1 + 3 * i}-10`, bankReadings: [{ bank: "Wall bank", inServiceSteps: [1, 2], stepCurrents: [{ step: 1, amps: [36, 36, 36] }, { step: 2, amps: [a, a, a] }] }] });
+    const body = surveyBody({
+      surveyedAt: `2024-0${1 + 3 * i}-10`,
+      bankReadings: [
+        {
+          bank: "Wall bank",
+          inServiceSteps: [1, 2],
+          stepCurrents: [
+            { step: 1, amps: [36, 36, 36] },
+            { step: 2, amps: [a, a, a] },
+          ],
+        },
+      ],
+    });
     ids.push((await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/surveys`, payload: body })).json().id);
   }
 });
@@ -49,7 +63,12 @@ describe("report of a survey with installed banks", () => {
 
 describe("capacitance chart geometry", () => {
   it("puts each point at its percentage and draws the 95 % and 50 % lines", () => {
-    const chart = capacitanceChart({ surveys: ["2024-01-10", "2024-04-10"], lines: [{ label: "A step 1", pct: [98, 86] }], degradedBelowPct: 95, failedBelowPct: 50 });
+    const chart = capacitanceChart({
+      surveys: ["2024-01-10", "2024-04-10"],
+      lines: [{ label: "A step 1", pct: [98, 86] }],
+      degradedBelowPct: 95,
+      failedBelowPct: 50,
+    });
     const area = chart.shapes.find((s) => s.role === "plot-area") as unknown as { y: number; h: number; data: { y0: string; y1: string } };
     const y0 = Number(area.data.y0);
     const y1 = Number(area.data.y1);

@@ -18,9 +18,15 @@ const january = csvOfSeries(syntheticYear(96, (k) => (k < 32 ? { kW: 200, kvar: 
 beforeAll(async () => {
   ({ app } = await makeStoreApp());
   const b = (await inject(app, { method: "POST", url: "/v1/buildings", payload: buildingBody({ name: "Report interval hall" }) })).json();
-  const survey = async (body: unknown) => (await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/surveys`, payload: body as object })).json().id as string;
+  const survey = async (body: unknown) =>
+    (await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/surveys`, payload: body as object })).json().id as string;
   withoutIntervals = await survey(surveyBody());
-  const a = await inject(app, { method: "POST", url: `/v1/buildings/${b.id}/interval-analyses?timeZone=UTC`, headers: { "content-type": "text/csv" }, payload: january });
+  const a = await inject(app, {
+    method: "POST",
+    url: `/v1/buildings/${b.id}/interval-analyses?timeZone=UTC`,
+    headers: { "content-type": "text/csv" },
+    payload: january,
+  });
   expect(a.statusCode).toBe(201);
   analysisId = a.json().id;
   withIntervals = await survey(surveyBody());

@@ -42,7 +42,9 @@ describe("page 1 verdict", () => {
     const rec = r.recommendedBank!;
     expect(v.install[0]).toContain(`of ${f1(rec.fixedKvar + rec.switchedKvar)} kvar`);
     expect(v.install[0]).toContain("plain (no reactors)");
-    expect(v.after).toBe(`PF ${r.correction.pfAfter.toFixed(3)} lagging and ${f1(r.correction.kVAAfter)} kVA, from PF ${r.site.displacementPF.toFixed(3)} lagging, ${f1(r.correction.kVABefore)} kVA (${f1(r.correction.kVAReleased)} kVA released).`);
+    expect(v.after).toBe(
+      `PF ${r.correction.pfAfter.toFixed(3)} lagging and ${f1(r.correction.kVAAfter)} kVA, from PF ${r.site.displacementPF.toFixed(3)} lagging, ${f1(r.correction.kVABefore)} kVA (${f1(r.correction.kVAReleased)} kVA released).`,
+    );
     const e = r.economics!;
     const money = (x: number) => x.toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 });
     expect(v.money?.cost).toBe(`${money(e.installedCost!)} EUR`);
@@ -64,7 +66,10 @@ describe("page 1 verdict", () => {
   });
 
   it("leading site: nothing to install, the excess to take out, the PF after leading", () => {
-    const r = run({ system: { voltageV: 400, frequencyHz: 50, phases: 3 }, loads: [{ label: "Old bank", kind: "other", measurement: { method: "kw_kvar", kW: 50, kvar: -80 } }] });
+    const r = run({
+      system: { voltageV: 400, frequencyHz: 50, phases: 3 },
+      loads: [{ label: "Old bank", kind: "other", measurement: { method: "kw_kvar", kW: 50, kvar: -80 } }],
+    });
     const v = verdictOf(r);
     expect(v.install).toEqual([]);
     expect(v.instead).toMatch(/site leads, and about 63\.6 kvar/);

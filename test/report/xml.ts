@@ -24,7 +24,17 @@ function checkText(s: string, where: string, problems: string[]): void {
 
 const decode = (s: string) =>
   s.replace(/&(amp|lt|gt|quot|apos|#\d+|#x[0-9A-Fa-f]+);/g, (_, e: string) =>
-    e === "amp" ? "&" : e === "lt" ? "<" : e === "gt" ? ">" : e === "quot" ? '"' : e === "apos" ? "'" : String.fromCodePoint(e[1] === "x" ? parseInt(e.slice(2), 16) : parseInt(e.slice(1), 10)),
+    e === "amp"
+      ? "&"
+      : e === "lt"
+        ? "<"
+        : e === "gt"
+          ? ">"
+          : e === "quot"
+            ? '"'
+            : e === "apos"
+              ? "'"
+              : String.fromCodePoint(e[1] === "x" ? parseInt(e.slice(2), 16) : parseInt(e.slice(1), 10)),
   );
 
 export function parseXml(xml: string): { root: XmlElement | null; problems: string[] } {

@@ -36,8 +36,24 @@ function revision(surveyId: string, n: number, surveyedAt: string, over: Partial
     inputs: { ...(surveyBody() as unknown as SurveyInputs), surveyedAt },
     result,
     engineVersion: "test-engine",
-    building: { buildingVersion: 1, system: data.system, transformer: data.transformer, utility: data.utility, economics: null, intervalAnalysisId: null },
-    summary: { kW: 100 + n, kvar: 60, kVA: 116.6, displacementPF: 0.857, kvarRequired: 27.1, warningCount: n, installedKvarInService: null, installedKvarDelivered: null },
+    building: {
+      buildingVersion: 1,
+      system: data.system,
+      transformer: data.transformer,
+      utility: data.utility,
+      economics: null,
+      intervalAnalysisId: null,
+    },
+    summary: {
+      kW: 100 + n,
+      kvar: 60,
+      kVA: 116.6,
+      displacementPF: 0.857,
+      kvarRequired: 27.1,
+      warningCount: n,
+      installedKvarInService: null,
+      installedKvarDelivered: null,
+    },
     surveyedAtUtc: new Date(surveyedAt).toISOString(),
     ...over,
   };
@@ -68,11 +84,21 @@ describeEachStore("store contract", (open) => {
     expect(await store.transaction((tx) => tx.buildings.update(ORG, "bld_c", 2, next, "contract", later))).toBeUndefined();
     const b = await store.transaction((tx) => tx.buildings.update(ORG, "bld_c", 1, next, "contract", later));
     expect(b).toMatchObject({ version: 2, utility: { faultMVA: 90 }, createdAt: at, updatedAt: later });
-    expect((await store.buildings.history(ORG, "bld_c")).map((v) => [v.version, v.recordedAt])).toEqual([[1, at], [2, later]]);
+    expect((await store.buildings.history(ORG, "bld_c")).map((v) => [v.version, v.recordedAt])).toEqual([
+      [1, at],
+      [2, later],
+    ]);
   });
 
   it("lists buildings by name ignoring ASCII case, then id, in keyset pages; % and _ are literal in a search", async () => {
-    const names = [["b1", "beta hall"], ["b2", "Alpha hall"], ["b3", "alpha hall"], ["b4", "100% hall"], ["b5", "a_b"], ["b6", "axb"]] as const;
+    const names = [
+      ["b1", "beta hall"],
+      ["b2", "Alpha hall"],
+      ["b3", "alpha hall"],
+      ["b4", "100% hall"],
+      ["b5", "a_b"],
+      ["b6", "axb"],
+    ] as const;
     for (const [id, name] of names) await withBuilding(id, ORG, { ...data, name });
     await withBuilding("b_other", OTHER, { ...data, name: "alpha other" });
     // SQLite NOCASE: "100% hall" < "a_b" < "alpha hall" (b2, b3 by id) < "axb" < "beta hall".
@@ -140,7 +166,11 @@ describeEachStore("store contract", (open) => {
     if (!last) throw new Error("short page");
     const page2 = await store.surveys.listByBuilding(ORG, "bld_c", { limit: 2, before: { t: last.surveyedAtUtc, id: last.id } });
     expect(page2.map((s) => s.id)).toEqual(["srv_2", "srv_1"]);
-    const ranged = await store.surveys.listByBuilding(ORG, "bld_c", { limit: 10, fromUtc: "2024-02-01T00:00:00.000Z", toUtc: "2024-03-01T00:00:00.000Z" });
+    const ranged = await store.surveys.listByBuilding(ORG, "bld_c", {
+      limit: 10,
+      fromUtc: "2024-02-01T00:00:00.000Z",
+      toUtc: "2024-03-01T00:00:00.000Z",
+    });
     expect(ranged.map((s) => s.id)).toEqual(["srv_3", "srv_2", "srv_1"]);
     const trend = await store.surveys.trend(ORG, "bld_c", { limit: 3, fromUtc: "2024-01-15T00:00:00.000Z" });
     expect(trend.map((s) => s.id)).toEqual(["srv_1", "srv_2", "srv_3"]);
@@ -182,7 +212,15 @@ describeEachStore("store contract", (open) => {
     await expect(
       store.transaction(async (tx) => {
         await tx.buildings.create(ORG, "bld_gone", data, "contract", at);
-        await tx.audit.record({ orgId: ORG, actor: "contract", action: "create", resourceType: "building", resourceId: "bld_gone", requestId: null, at });
+        await tx.audit.record({
+          orgId: ORG,
+          actor: "contract",
+          action: "create",
+          resourceType: "building",
+          resourceId: "bld_gone",
+          requestId: null,
+          at,
+        });
         throw new Error("the work failed");
       }),
     ).rejects.toThrow("the work failed");
@@ -243,7 +281,16 @@ describeEachStore("store contract", (open) => {
   }
 
   it("keeps keys and organisations", async () => {
-    const key = { id: "key_1", orgId: ORG, prefix: "pfx1", secretSha256: "a".repeat(64), role: "admin" as const, label: null, createdAt: at, createdBy: "contract" };
+    const key = {
+      id: "key_1",
+      orgId: ORG,
+      prefix: "pfx1",
+      secretSha256: "a".repeat(64),
+      role: "admin" as const,
+      label: null,
+      createdAt: at,
+      createdBy: "contract",
+    };
     await store.transaction((tx) => tx.keys.create(key));
     expect(await store.keys.findByPrefix("pfx1")).toEqual({ ...key, revokedAt: null, lastUsedAt: null });
     expect(await store.keys.get(OTHER, "key_1")).toBeUndefined();
@@ -260,7 +307,8 @@ describeEachStore("store contract", (open) => {
 
   it("pages the audit log newest first, per organisation", async () => {
     await store.transaction(async (tx) => {
-      for (const org of [ORG, OTHER, ORG, ORG]) await tx.audit.record({ orgId: org, actor: "contract", action: "create", resourceType: "building", resourceId: org, requestId: "req", at });
+      for (const org of [ORG, OTHER, ORG, ORG])
+        await tx.audit.record({ orgId: org, actor: "contract", action: "create", resourceType: "building", resourceId: org, requestId: "req", at });
     });
     const page = await store.audit.list(ORG, { limit: 2 });
     expect(page).toHaveLength(2);
@@ -284,9 +332,27 @@ describeEachStore("store contract", (open) => {
     } as unknown as IntervalSummary;
     const made = [];
     for (const id of ["iva_1", "iva_2"]) {
-      made.push(await store.transaction((tx) => tx.intervalAnalyses.create(ORG, { id, buildingId: "bld_c", createdAt: at, actor: "contract", requestId: null, summary })));
+      made.push(
+        await store.transaction((tx) =>
+          tx.intervalAnalyses.create(ORG, { id, buildingId: "bld_c", createdAt: at, actor: "contract", requestId: null, summary }),
+        ),
+      );
     }
-    expect(made[0]).toEqual({ id: "iva_1", buildingId: "bld_c", createdAt: at, actor: "contract", requestId: null, targetPF: 0.95, intervalCount: 96, intervalMinutes: 15, firstTimestamp: "2024-01-01T00:00", lastTimestamp: "2024-01-01T23:45", hold99PctKvar: 42.5, minKvar: 3.25, summary });
+    expect(made[0]).toEqual({
+      id: "iva_1",
+      buildingId: "bld_c",
+      createdAt: at,
+      actor: "contract",
+      requestId: null,
+      targetPF: 0.95,
+      intervalCount: 96,
+      intervalMinutes: 15,
+      firstTimestamp: "2024-01-01T00:00",
+      lastTimestamp: "2024-01-01T23:45",
+      hold99PctKvar: 42.5,
+      minKvar: 3.25,
+      summary,
+    });
     expect((await store.intervalAnalyses.newestOf(ORG, "bld_c"))?.id).toBe("iva_2");
     const list = await store.intervalAnalyses.listByBuilding(ORG, "bld_c", { limit: 1 });
     expect(list.map((e) => e.id)).toEqual(["iva_2"]);

@@ -11,12 +11,12 @@ function parseCsv(text: string): string[][] {
   for (let i = 0; i < text.length; i++) {
     const c = text[i];
     if (quoted) {
-      if (c === '"' && text[i + 1] === '"') (field += '"'), i++;
+      if (c === '"' && text[i + 1] === '"') ((field += '"'), i++);
       else if (c === '"') quoted = false;
       else field += c;
     } else if (c === '"') quoted = true;
-    else if (c === ",") row.push(field), (field = "");
-    else if (c === "\r" && text[i + 1] === "\n") row.push(field), rows.push(row), (row = []), (field = ""), i++;
+    else if (c === ",") (row.push(field), (field = ""));
+    else if (c === "\r" && text[i + 1] === "\n") (row.push(field), rows.push(row), (row = []), (field = ""), i++);
     else field += c;
   }
   return rows;
@@ -40,12 +40,21 @@ describe("CSV writer", () => {
   });
 
   it("ends every record with CRLF, the last included", () => {
-    expect(toCsv([["a", "b"], ["1", "2"]])).toBe("a,b\r\n1,2\r\n");
+    expect(
+      toCsv([
+        ["a", "b"],
+        ["1", "2"],
+      ]),
+    ).toBe("a,b\r\n1,2\r\n");
     expect(toCsv([])).toBe("");
   });
 
   it("round-trips awkward text through a reader", () => {
-    const rows = [["h1", "h2", "h3"], ['Pump, "north"\r\nbay', "", "plain"], ["é ünïcode", ",", '""']];
+    const rows = [
+      ["h1", "h2", "h3"],
+      ['Pump, "north"\r\nbay', "", "plain"],
+      ["é ünïcode", ",", '""'],
+    ];
     expect(parseCsv(toCsv(rows))).toEqual(rows);
   });
 
@@ -91,17 +100,20 @@ describe("CSV writer", () => {
     // not on ': the apostrophe is the guard's own mark (a user's ' still counts as a cell start, see above)
     const splitters: (string | RegExp)[] = [",", ";", "\t", '"', /\r\n|\r|\n/];
     fc.assert(
-      fc.property(fc.array(risky, { maxLength: 12 }).map((cs) => cs.join("")), (text) => {
-        const safe = spreadsheetSafe(text);
-        expect(safe.replace(/'/g, "")).toBe(text.replace(/'/g, ""));
-        expect(OWASP_LIST.includes(safe.charAt(0)), JSON.stringify(safe)).toBe(false);
-        for (const sep of splitters) {
-          for (const piece of safe.split(sep)) {
-            const first = piece.replace(/^[ \t\r\n]+/, "").charAt(0);
-            expect(FORMULA.includes(first), `${JSON.stringify(text)} → ${JSON.stringify(safe)} split on ${String(sep)}`).toBe(false);
+      fc.property(
+        fc.array(risky, { maxLength: 12 }).map((cs) => cs.join("")),
+        (text) => {
+          const safe = spreadsheetSafe(text);
+          expect(safe.replace(/'/g, "")).toBe(text.replace(/'/g, ""));
+          expect(OWASP_LIST.includes(safe.charAt(0)), JSON.stringify(safe)).toBe(false);
+          for (const sep of splitters) {
+            for (const piece of safe.split(sep)) {
+              const first = piece.replace(/^[ \t\r\n]+/, "").charAt(0);
+              expect(FORMULA.includes(first), `${JSON.stringify(text)} → ${JSON.stringify(safe)} split on ${String(sep)}`).toBe(false);
+            }
           }
-        }
-      }),
+        },
+      ),
       { numRuns: 2000 },
     );
   });

@@ -7,7 +7,15 @@ import { tempDatabasePath } from "../helpers/db.js";
 
 const ORG = DEFAULT_ORG_ID;
 const at = "2025-06-01T10:00:00.000Z";
-const data = (name: string): BuildingData => ({ name, address: null, notes: null, system: { voltageV: 400, frequencyHz: 50, phases: 3 }, transformer: null, utility: null, economics: null });
+const data = (name: string): BuildingData => ({
+  name,
+  address: null,
+  notes: null,
+  system: { voltageV: 400, frequencyHz: 50, phases: 3 },
+  transformer: null,
+  utility: null,
+  economics: null,
+});
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 let store: SqliteStore;
@@ -42,7 +50,15 @@ describe("SQLite group commit", () => {
       Array.from({ length: 10 }, (_, i) =>
         store.transaction(async (tx) => {
           await tx.buildings.create(ORG, `bld_${i}`, data(`hall ${i}`), "test", at);
-          await tx.audit.record({ orgId: ORG, actor: "test", action: "building.create", resourceType: "building", resourceId: `bld_${i}`, requestId: null, at });
+          await tx.audit.record({
+            orgId: ORG,
+            actor: "test",
+            action: "building.create",
+            resourceType: "building",
+            resourceId: `bld_${i}`,
+            requestId: null,
+            at,
+          });
           if (i === 4) throw new Error("caller 4 fails after writing");
           return i;
         }),
@@ -140,7 +156,8 @@ describe("SQLite group commit", () => {
   });
 
   it("commits Idempotency-Key claims made at once in one group, each committed before it is answered", async () => {
-    const claim = (key: string) => store.idempotency.claim(ORG, key, { requestHash: `h-${key}`, createdAt: at }, "1970-01-01T00:00:00.000Z", "1970-01-01T00:00:00.000Z");
+    const claim = (key: string) =>
+      store.idempotency.claim(ORG, key, { requestHash: `h-${key}`, createdAt: at }, "1970-01-01T00:00:00.000Z", "1970-01-01T00:00:00.000Z");
     const outcomes = await Promise.all(["k1", "k2", "k3"].map(claim));
     expect(outcomes).toEqual([{ kind: "claimed" }, { kind: "claimed" }, { kind: "claimed" }]);
     expect(execs.filter((s) => s === "COMMIT")).toHaveLength(1);
@@ -167,7 +184,9 @@ describe("SQLite group commit", () => {
     other.pragma("busy_timeout = 0");
     other.exec("BEGIN IMMEDIATE"); // another process holds the write lock
     store.db.pragma("busy_timeout = 50");
-    const blocked = await Promise.allSettled([1, 2].map((i) => store.transaction((tx) => tx.buildings.create(ORG, `bld_b${i}`, data(`b${i}`), "test", at))));
+    const blocked = await Promise.allSettled(
+      [1, 2].map((i) => store.transaction((tx) => tx.buildings.create(ORG, `bld_b${i}`, data(`b${i}`), "test", at))),
+    );
     expect(blocked.map((o) => o.status)).toEqual(["rejected", "rejected"]);
     other.exec("ROLLBACK");
     other.close();

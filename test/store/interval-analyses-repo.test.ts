@@ -19,9 +19,21 @@ import { inject, newBootstrapKey, registerAdminKey } from "../helpers/auth.js";
 
 const ORG = DEFAULT_ORG_ID;
 const at = "2025-06-01T10:00:00.000Z";
-const data: BuildingData = { name: "Repo interval hall", address: null, notes: null, system: { voltageV: 400, frequencyHz: 50, phases: 3 }, transformer: null, utility: null };
+const data: BuildingData = {
+  name: "Repo interval hall",
+  address: null,
+  notes: null,
+  system: { voltageV: 400, frequencyHz: 50, phases: 3 },
+  transformer: null,
+  utility: null,
+};
 /** Three days of hourly data: 100 kW / 60 kvar at night (00–06 h), 300 kW / 240 kvar by day (invented). */
-const summary = summarise(analyseIntervals(syntheticYear(24, (k) => (k < 6 ? { kW: 100, kvar: 60 } : { kW: 300, kvar: 240 }), 3), 0.95));
+const summary = summarise(
+  analyseIntervals(
+    syntheticYear(24, (k) => (k < 6 ? { kW: 100, kvar: 60 } : { kW: 300, kvar: 240 }), 3),
+    0.95,
+  ),
+);
 
 let store: Store;
 beforeEach(async () => {
@@ -83,21 +95,36 @@ describe("migration 002 on a database written by 001", () => {
     const old = openDatabase(path);
     migrate(old, dir);
     // rows as version 1 wrote them: the snapshot without economics or intervalAnalysisId
-    old.prepare(
-      `INSERT INTO buildings (id, org_id, name, voltage_v, frequency_hz, phases, version, created_at, updated_at)
+    old
+      .prepare(
+        `INSERT INTO buildings (id, org_id, name, voltage_v, frequency_hz, phases, version, created_at, updated_at)
        VALUES ('bld_old', ?, 'Old hall', 400, 50, 3, 1, ?, ?)`,
-    ).run(ORG, at, at);
+      )
+      .run(ORG, at, at);
     old.prepare("INSERT INTO building_versions VALUES (?, 'bld_old', 1, ?, ?, 'local')").run(ORG, JSON.stringify(data), at);
     const building = { id: "bld_old", version: 1, createdAt: at, updatedAt: at, ...data, economics: null };
     const rev = computeRevision(building, surveyBody() as unknown as SurveyInputs, { surveyId: "srv_old", n: 1, reason: null, actor: "local", at });
     const { economics: _e, intervalAnalysisId: _i, ...v1Snapshot } = rev.building;
     const m = rev.summary;
-    old.prepare(
-      `INSERT INTO surveys VALUES ('srv_old', ?, 'bld_old', ?, 1, ?, ?, 'Test surveyor', ?, ?, ?, ?, ?, ?)`,
-    ).run(ORG, at, rev.inputs.surveyedAt, rev.surveyedAtUtc, m.kW, m.kvar, m.kVA, m.displacementPF, m.kvarRequired, m.warningCount);
-    old.prepare(
-      `INSERT INTO survey_revisions VALUES (?, 'srv_old', 1, NULL, ?, 'local', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-    ).run(ORG, at, JSON.stringify(rev.inputs), JSON.stringify(rev.result), rev.engineVersion, JSON.stringify(v1Snapshot), m.kW, m.kvar, m.kVA, m.displacementPF, m.kvarRequired, m.warningCount);
+    old
+      .prepare(`INSERT INTO surveys VALUES ('srv_old', ?, 'bld_old', ?, 1, ?, ?, 'Test surveyor', ?, ?, ?, ?, ?, ?)`)
+      .run(ORG, at, rev.inputs.surveyedAt, rev.surveyedAtUtc, m.kW, m.kvar, m.kVA, m.displacementPF, m.kvarRequired, m.warningCount);
+    old
+      .prepare(`INSERT INTO survey_revisions VALUES (?, 'srv_old', 1, NULL, ?, 'local', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`)
+      .run(
+        ORG,
+        at,
+        JSON.stringify(rev.inputs),
+        JSON.stringify(rev.result),
+        rev.engineVersion,
+        JSON.stringify(v1Snapshot),
+        m.kW,
+        m.kvar,
+        m.kVA,
+        m.displacementPF,
+        m.kvarRequired,
+        m.warningCount,
+      );
     old.close();
 
     const key = newBootstrapKey();

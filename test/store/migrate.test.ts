@@ -63,7 +63,15 @@ describe("migrations", () => {
     const a = await openStore({ path: ":memory:" });
     const b = await openStore({ path: ":memory:" });
     expect(a.migration.to).toBe(latest);
-    await a.transaction((tx) => tx.buildings.create("org_default", "bld_m", { name: "m", address: null, notes: null, system: { voltageV: 400, frequencyHz: 50, phases: 3 }, transformer: null, utility: null }, "local", "2025-01-01T00:00:00.000Z"));
+    await a.transaction((tx) =>
+      tx.buildings.create(
+        "org_default",
+        "bld_m",
+        { name: "m", address: null, notes: null, system: { voltageV: 400, frequencyHz: 50, phases: 3 }, transformer: null, utility: null },
+        "local",
+        "2025-01-01T00:00:00.000Z",
+      ),
+    );
     expect((await a.buildings.get("org_default", "bld_m"))?.name).toBe("m");
     expect(await b.buildings.get("org_default", "bld_m")).toBeUndefined();
     await a.close();

@@ -58,7 +58,12 @@ describe("buildings repository", () => {
 
   it("searches names treating % and _ literally", async () => {
     store.write(() => {
-      for (const [id, name] of [["b1", "100% hall"], ["b2", "1000 hall"], ["b3", "a_b"], ["b4", "axb"]] as const) {
+      for (const [id, name] of [
+        ["b1", "100% hall"],
+        ["b2", "1000 hall"],
+        ["b3", "a_b"],
+        ["b4", "axb"],
+      ] as const) {
         store.buildings.create(ORG, id, { ...data, name }, "local", at);
       }
     });
@@ -84,9 +89,21 @@ describe("surveys repository", () => {
     expect(r?.inputs).toEqual(inputs);
     const expected = size({ ...inputs, system: data.system, transformer: data.transformer! });
     expect(expected.ok && r?.result).toEqual(expected.ok ? expected.result : null);
-    expect(r?.building).toEqual({ buildingVersion: 1, system: data.system, transformer: data.transformer, utility: null, economics: null, intervalAnalysisId: null });
+    expect(r?.building).toEqual({
+      buildingVersion: 1,
+      system: data.system,
+      transformer: data.transformer,
+      utility: null,
+      economics: null,
+      intervalAnalysisId: null,
+    });
     const head = store.surveys.head(ORG, id);
-    expect(head).toMatchObject({ revision: 1, surveyedAtUtc: "2024-05-02T08:00:00.000Z", kW: r?.result.site.kW, kvarRequired: r?.result.correction.kvarRequired });
+    expect(head).toMatchObject({
+      revision: 1,
+      surveyedAtUtc: "2024-05-02T08:00:00.000Z",
+      kW: r?.result.site.kW,
+      kvarRequired: r?.result.correction.kvarRequired,
+    });
     expect(r?.inputs).not.toHaveProperty("result");
   });
 
@@ -128,7 +145,15 @@ describe("store transactions and idempotency records", () => {
     expect(() =>
       store.write(() => {
         store.buildings.create(ORG, "bld_gone", data, "local", at);
-        store.audit.record({ orgId: ORG, actor: "local", action: "building.create", resourceType: "building", resourceId: "bld_gone", requestId: "r1", at });
+        store.audit.record({
+          orgId: ORG,
+          actor: "local",
+          action: "building.create",
+          resourceType: "building",
+          resourceId: "bld_gone",
+          requestId: "r1",
+          at,
+        });
         throw new Error("boom");
       }),
     ).toThrow("boom");
@@ -149,7 +174,10 @@ describe("store transactions and idempotency records", () => {
     expect(() => store.idempotency.complete(ORG, "k", { requestHash: "h1", ...answer })).toThrow(/lost/);
     store.idempotency.complete(ORG, "k", { requestHash: "h3", ...answer });
     store.idempotency.release(ORG, "k", "h3"); // a completed record is not released
-    expect(claim("k", "h4", "2025-01-01T00:05:00.000Z", "2025-01-01T00:04:00.000Z")).toEqual({ kind: "done", record: { requestHash: "h3", ...answer } });
+    expect(claim("k", "h4", "2025-01-01T00:05:00.000Z", "2025-01-01T00:04:00.000Z")).toEqual({
+      kind: "done",
+      record: { requestHash: "h3", ...answer },
+    });
     // a record older than the keep time is replaced by a new claim
     expect(claim("k", "h5", "2025-01-04T00:00:00.000Z", never, "2025-01-02T00:00:00.000Z")).toEqual({ kind: "claimed" });
     // a released claim can be claimed again at once

@@ -65,12 +65,15 @@ export const DEFAULT_MIN_RESPONSE_A = 0.05;
 function validate(input: DesignBankInput): InputIssue[] {
   const issues: InputIssue[] = [];
   const pf = input.targetPF ?? DEFAULT_TARGET_PF;
-  if (!(pf >= TARGET_PF_MIN && pf <= TARGET_PF_MAX)) issues.push({ path: ["targetPF"], message: `target PF must be between ${TARGET_PF_MIN} and ${TARGET_PF_MAX}` });
+  if (!(pf >= TARGET_PF_MIN && pf <= TARGET_PF_MAX))
+    issues.push({ path: ["targetPF"], message: `target PF must be between ${TARGET_PF_MIN} and ${TARGET_PF_MAX}` });
   if (!(input.system.voltageV > 0)) issues.push({ path: ["system", "voltageV"], message: "voltage must be positive" });
-  if (input.ctRatio !== undefined && !(input.ctRatio > 0)) issues.push({ path: ["ctRatio"], message: "CT ratio must be positive (primary/secondary, e.g. 200 for 1000/5)" });
+  if (input.ctRatio !== undefined && !(input.ctRatio > 0))
+    issues.push({ path: ["ctRatio"], message: "CT ratio must be positive (primary/secondary, e.g. 200 for 1000/5)" });
   const p = input.reactorPct ?? 0;
   if (!(p >= 0 && p < 50)) issues.push({ path: ["reactorPct"], message: "reactor percent must be in [0, 50)" });
-  if (input.ratedVoltageV !== undefined && !(input.ratedVoltageV > 0)) issues.push({ path: ["ratedVoltageV"], message: "rated voltage must be positive" });
+  if (input.ratedVoltageV !== undefined && !(input.ratedVoltageV > 0))
+    issues.push({ path: ["ratedVoltageV"], message: "rated voltage must be positive" });
   return issues;
 }
 
@@ -91,15 +94,36 @@ export function designBank(input: DesignBankInput): DesignOutcome {
   const perNameplate = effectiveKvarWithReactor(kvarAtVoltage(1, system.voltageV, ratedVoltageV), p);
   // Nameplate for a delivered kvar, Q_eff/factor, rounded off the float noise: it is a standard size (or a multiple).
   const nameplate = (eff: number) => Math.round((eff / perNameplate) * 1e6) / 1e6;
-  const plan = planSteps({ demand: arrays, targetPF, unitSizesKvar: units, deliveredPerNameplate: perNameplate, transformerKVA: input.transformerKVA, ...(input.steps ? { options: input.steps } : {}) });
+  const plan = planSteps({
+    demand: arrays,
+    targetPF,
+    unitSizesKvar: units,
+    deliveredPerNameplate: perNameplate,
+    transformerKVA: input.transformerKVA,
+    ...(input.steps ? { options: input.steps } : {}),
+  });
   const warnings: Warning[] = [...plan.warnings];
-  const fixedText = plan.fixed.fixedKvar > 0 && perNameplate !== 1 ? `${nameplate(plan.fixed.fixedKvar)} kvar ${ratedVoltageV} V nameplate, ${kv(plan.fixed.fixedKvar)} kvar delivered` : `${kv(plan.fixed.fixedKvar)} kvar`;
-  const notes: string[] = [`fixed part: ${fixedText}, held under ${plan.fixed.capKvar.toFixed(1)} kvar (${plan.fixed.basis}) so the site does not lead at light load`, ...plan.notes];
+  const fixedText =
+    plan.fixed.fixedKvar > 0 && perNameplate !== 1
+      ? `${nameplate(plan.fixed.fixedKvar)} kvar ${ratedVoltageV} V nameplate, ${kv(plan.fixed.fixedKvar)} kvar delivered`
+      : `${kv(plan.fixed.fixedKvar)} kvar`;
+  const notes: string[] = [
+    `fixed part: ${fixedText}, held under ${plan.fixed.capKvar.toFixed(1)} kvar (${plan.fixed.basis}) so the site does not lead at light load`,
+    ...plan.notes,
+  ];
   if (perNameplate !== 1) {
-    notes.push(`steps are standard sizes at the ${ratedVoltageV} V rating${p > 0 ? ` behind a ${input.reactorPct} % reactor` : ""}; each delivers ${perNameplate.toFixed(4)} × its nameplate at ${system.voltageV} V: (${system.voltageV}/${ratedVoltageV})²${p > 0 ? `/(1 − ${p})` : ""} (IEEE Std 18 rating basis)`);
+    notes.push(
+      `steps are standard sizes at the ${ratedVoltageV} V rating${p > 0 ? ` behind a ${input.reactorPct} % reactor` : ""}; each delivers ${perNameplate.toFixed(4)} × its nameplate at ${system.voltageV} V: (${system.voltageV}/${ratedVoltageV})²${p > 0 ? `/(1 − ${p})` : ""} (IEEE Std 18 rating basis)`,
+    );
   }
   if (p > 0 && ratedVoltageV < system.voltageV / (1 - p)) {
-    warnings.push(warning("detuned_rated_voltage_needed", `with a ${input.reactorPct} % reactor the capacitors see ${(system.voltageV / (1 - p)).toFixed(0)} V; give ratedVoltageV at or above it`, "ratedVoltageV"));
+    warnings.push(
+      warning(
+        "detuned_rated_voltage_needed",
+        `with a ${input.reactorPct} % reactor the capacitors see ${(system.voltageV / (1 - p)).toFixed(0)} V; give ratedVoltageV at or above it`,
+        "ratedVoltageV",
+      ),
+    );
   }
 
   const steps: DesignedStep[] = [];
@@ -125,11 +149,26 @@ export function designBank(input: DesignBankInput): DesignOutcome {
     if (input.ctRatio !== undefined) {
       const responseA = controllerResponseA(smallest, system.voltageV, input.ctRatio, system.phases);
       controller = { ctRatio: input.ctRatio, smallestStepKvar: smallest, responseA };
-      notes.push(`controller C/k = ${kv(smallest)}·1000/(${system.phases === 3 ? "√3·" : ""}${system.voltageV}·${input.ctRatio}) = ${responseA.toFixed(3)} A; the CT must carry the loads' and the bank's current (on the supply side of both)`);
+      notes.push(
+        `controller C/k = ${kv(smallest)}·1000/(${system.phases === 3 ? "√3·" : ""}${system.voltageV}·${input.ctRatio}) = ${responseA.toFixed(3)} A; the CT must carry the loads' and the bank's current (on the supply side of both)`,
+      );
       const minA = input.minResponseA ?? DEFAULT_MIN_RESPONSE_A;
-      if (responseA < minA) warnings.push(warning("controller_response_too_small", `C/k ${responseA.toFixed(3)} A is below ${minA} A, which many controllers cannot resolve (common practice, no source): use a smaller CT ratio or a larger smallest step`, "ctRatio"));
+      if (responseA < minA)
+        warnings.push(
+          warning(
+            "controller_response_too_small",
+            `C/k ${responseA.toFixed(3)} A is below ${minA} A, which many controllers cannot resolve (common practice, no source): use a smaller CT ratio or a larger smallest step`,
+            "ctRatio",
+          ),
+        );
     } else {
-      warnings.push(warning("ct_ratio_needed", "give the controller CT's ratio (primary/secondary, e.g. 1000/5 → 200) to set its response threshold C/k", "ctRatio"));
+      warnings.push(
+        warning(
+          "ct_ratio_needed",
+          "give the controller CT's ratio (primary/secondary, e.g. 1000/5 → 200) to set its response threshold C/k",
+          "ctRatio",
+        ),
+      );
     }
   }
 
@@ -138,17 +177,38 @@ export function designBank(input: DesignBankInput): DesignOutcome {
   if (bank) {
     // Circuit current: the larger of the nameplate current and the current drawn at the bus (detuned steps draw more).
     const currentOf = (s: { effectiveKvar: number; nameplateKvar: number }) =>
-      Math.max(capacitorCurrentA(s.nameplateKvar, ratedVoltageV, system.phases), capacitorCurrentA(effectiveKvarWithReactor(kvarAtVoltage(s.nameplateKvar, system.voltageV, ratedVoltageV), p), system.voltageV, system.phases));
+      Math.max(
+        capacitorCurrentA(s.nameplateKvar, ratedVoltageV, system.phases),
+        capacitorCurrentA(
+          effectiveKvarWithReactor(kvarAtVoltage(s.nameplateKvar, system.voltageV, ratedVoltageV), p),
+          system.voltageV,
+          system.phases,
+        ),
+      );
     const stepProt = steps.map((s, i) => {
-      const r = circuitProtection(`${s.role} step ${i + 1} (${kvarText(s.nameplateKvar, s.effectiveKvar)})`, s.effectiveKvar, currentOf(s), input.protection, `steps.${i}`);
+      const r = circuitProtection(
+        `${s.role} step ${i + 1} (${kvarText(s.nameplateKvar, s.effectiveKvar)})`,
+        s.effectiveKvar,
+        currentOf(s),
+        input.protection,
+        `steps.${i}`,
+      );
       warnings.push(...r.warnings);
       return r.protection;
     });
     const wholeNameplate = fixedNameplateKvar + switchedNameplateKvar;
-    const whole = circuitProtection(`whole bank (${kvarText(wholeNameplate, totalKvar)})`, totalKvar, currentOf({ effectiveKvar: totalKvar, nameplateKvar: wholeNameplate }), input.protection, "bank");
+    const whole = circuitProtection(
+      `whole bank (${kvarText(wholeNameplate, totalKvar)})`,
+      totalKvar,
+      currentOf({ effectiveKvar: totalKvar, nameplateKvar: wholeNameplate }),
+      input.protection,
+      "bank",
+    );
     warnings.push(...whole.warnings);
     protection = { steps: stepProt, bank: whole.protection };
-    notes.push("conductors and disconnect at ≥ 135 % of rated current (NFPA 70 460.8(A), (C)); the conductor must also be protected by the chosen device (NFPA 70 240.4)");
+    notes.push(
+      "conductors and disconnect at ≥ 135 % of rated current (NFPA 70 460.8(A), (C)); the conductor must also be protected by the chosen device (NFPA 70 240.4)",
+    );
     for (const np of [...new Set(steps.map((s) => s.nameplateKvar))]) {
       const r = dischargeDesign(np, ratedVoltageV, system.frequencyHz, system.phases, input.discharge, "discharge");
       if (discharge.length === 0) warnings.push(...r.warnings);
@@ -157,12 +217,34 @@ export function designBank(input: DesignBankInput): DesignOutcome {
     }
     if (discharge.length > 0) {
       const worst = Math.max(...discharge.map((d) => d.timeTo10PctS));
-      notes.push(`set the controller's reclosing delay to at least ${worst.toFixed(0)} s (discharge to 10 % of rated voltage with the largest permitted resistors)`);
-    } else notes.push(`at ${ratedVoltageV} V the capacitors' peak voltage is within every residual-voltage limit: the discharge rules set no resistor`);
+      notes.push(
+        `set the controller's reclosing delay to at least ${worst.toFixed(0)} s (discharge to 10 % of rated voltage with the largest permitted resistors)`,
+      );
+    } else
+      notes.push(`at ${ratedVoltageV} V the capacitors' peak voltage is within every residual-voltage limit: the discharge rules set no resistor`);
   }
 
   const reason = reasonText(plan, targetPF, fixedKvar);
-  return { ok: true, design: { bank, screenBank, steps, fixedKvar, switchedKvar, totalKvar, fixedNameplateKvar, switchedNameplateKvar, stepPlan: plan, controller, protection, discharge, reason, notes, warnings } };
+  return {
+    ok: true,
+    design: {
+      bank,
+      screenBank,
+      steps,
+      fixedKvar,
+      switchedKvar,
+      totalKvar,
+      fixedNameplateKvar,
+      switchedNameplateKvar,
+      stepPlan: plan,
+      controller,
+      protection,
+      discharge,
+      reason,
+      notes,
+      warnings,
+    },
+  };
 }
 
 /** A kvar figure as a reader wants it: whole standard sizes as they are, delivered figures to two decimals. */
@@ -171,13 +253,23 @@ function kv(kvar: number): string {
 }
 
 function kvarText(nameplateKvar: number, effectiveKvar: number): string {
-  return Math.abs(nameplateKvar - effectiveKvar) < 1e-6 ? `${kv(effectiveKvar)} kvar` : `${kv(nameplateKvar)} kvar nameplate, ${kv(effectiveKvar)} kvar delivered`;
+  return Math.abs(nameplateKvar - effectiveKvar) < 1e-6
+    ? `${kv(effectiveKvar)} kvar`
+    : `${kv(nameplateKvar)} kvar nameplate, ${kv(effectiveKvar)} kvar delivered`;
 }
 
 function reasonText(plan: StepPlan, targetPF: number, fixedKvar: number): string {
-  const src = plan.source === "intervals" ? `${plan.samples} intervals` : plan.source === "survey_and_light_load" ? "the survey and light-load readings" : "the survey reading";
+  const src =
+    plan.source === "intervals"
+      ? `${plan.samples} intervals`
+      : plan.source === "survey_and_light_load"
+        ? "the survey and light-load readings"
+        : "the survey reading";
   if (plan.needAtCoverageKvar <= 1e-9) return `no correction needed: ${src} already meet PF ${targetPF}`;
-  const cov = plan.source === "intervals" ? `the ${(plan.coverage * 100).toFixed(0)}th-percentile need of ${plan.needAtCoverageKvar.toFixed(1)} kvar` : `the need of ${plan.needAtCoverageKvar.toFixed(1)} kvar`;
+  const cov =
+    plan.source === "intervals"
+      ? `the ${(plan.coverage * 100).toFixed(0)}th-percentile need of ${plan.needAtCoverageKvar.toFixed(1)} kvar`
+      : `the need of ${plan.needAtCoverageKvar.toFixed(1)} kvar`;
   const fixed = fixedKvar > 0 ? `fixed ${kv(fixedKvar)} kvar (at most the ${plan.fixed.capKvar.toFixed(1)} kvar light-load limit)` : "no fixed part";
   const sw = plan.switched
     ? `automatic ${plan.switched.ratio} program of ${plan.switched.stepCount} steps (${plan.switched.stepsKvar.map(kv).join(", ")} kvar = ${kv(plan.switched.totalKvar)} kvar)`

@@ -50,7 +50,10 @@ export function combinedProgram(
   }
   const metShare = n > 0 ? met / n : 0;
   return {
-    steps: [...installedStepsKvar.filter((k) => k > 0).map((kvar) => ({ source: "installed" as const, kvar })), ...newStepsKvar.map((kvar) => ({ source: "new" as const, kvar }))],
+    steps: [
+      ...installedStepsKvar.filter((k) => k > 0).map((kvar) => ({ source: "installed" as const, kvar })),
+      ...newStepsKvar.map((kvar) => ({ source: "new" as const, kvar })),
+    ],
     fixedKvar,
     metShare,
     newAloneMetShare,

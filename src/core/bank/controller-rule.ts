@@ -51,7 +51,12 @@ export function ruleSettings(targetPF: number, smallestStepKvar: number, opts: C
   const leadingLimitPF = opts.leadingLimitPF ?? DEFAULT_LEADING_LIMIT_PF;
   const share = opts.responseThreshold ?? DEFAULT_RESPONSE_THRESHOLD;
   if (!(share >= 0 && share <= 1)) throw new RangeError("responseThreshold must be within 0–1");
-  return { tanTarget: tanPhi(targetPF), tanLead: tanPhi(leadingLimitPF), thresholdKvar: smallestStepKvar > 0 ? share * smallestStepKvar : 0, leadingLimitPF };
+  return {
+    tanTarget: tanPhi(targetPF),
+    tanLead: tanPhi(leadingLimitPF),
+    thresholdKvar: smallestStepKvar > 0 ? share * smallestStepKvar : 0,
+    leadingLimitPF,
+  };
 }
 
 /**
@@ -83,7 +88,10 @@ export function meetsRule(leftKvar: number, kW: number, s: RuleSettings): boolea
 /** The levels 0, b, 2b … K·b of the multiples programs (every multiple is reachable: see step-ranking.ts). */
 export class MultipleLevels implements LevelSet {
   readonly count: number;
-  constructor(readonly baseKvar: number, maxMultiple: number) {
+  constructor(
+    readonly baseKvar: number,
+    maxMultiple: number,
+  ) {
     this.count = maxMultiple + 1;
   }
   kvarAt(level: number): number {
@@ -106,7 +114,8 @@ export class SortedLevels implements LevelSet {
     return this.sums[level] as number;
   }
   firstAtLeast(kvarFloor: number): number {
-    let lo = 0, hi = this.sums.length;
+    let lo = 0,
+      hi = this.sums.length;
     while (lo < hi) {
       const mid = (lo + hi) >> 1;
       if ((this.sums[mid] as number) < kvarFloor) lo = mid + 1;

@@ -36,11 +36,7 @@ function isColumns(s: readonly DemandPoint[] | DemandColumns): s is DemandColumn
  * Copy the demand into typed arrays, less `localCorrectionKvar` (capacitors already placed at terminals or groups,
  * subtracted from every sample: exact while their loads run, and on the safe side — less fixed kvar — when they stop).
  */
-export function demandArrays(
-  demand: ReactiveDemand,
-  localCorrectionKvar = 0,
-  path = "demand",
-): { arrays?: DemandArrays; issues: InputIssue[] } {
+export function demandArrays(demand: ReactiveDemand, localCorrectionKvar = 0, path = "demand"): { arrays?: DemandArrays; issues: InputIssue[] } {
   const issues: InputIssue[] = [];
   let kW: Float64Array;
   let kvar: Float64Array;
@@ -73,7 +69,10 @@ export function demandArrays(
   }
   for (let i = 0; i < kW.length; i++) {
     if (!Number.isFinite(kW[i] as number) || !Number.isFinite(kvar[i] as number)) {
-      issues.push({ path: [path, demand.kind === "intervals" ? "samples" : i === 0 ? "survey" : "lightLoad", ...(demand.kind === "intervals" ? [i] : [])], message: "kW and kvar must be finite numbers" });
+      issues.push({
+        path: [path, demand.kind === "intervals" ? "samples" : i === 0 ? "survey" : "lightLoad", ...(demand.kind === "intervals" ? [i] : [])],
+        message: "kW and kvar must be finite numbers",
+      });
       break;
     }
     kvar[i] = (kvar[i] as number) - localCorrectionKvar;

@@ -41,11 +41,29 @@ export function dischargeRequirements(voltageV: number, standards: readonly Disc
   const lv = voltageV <= 1000;
   const all: DischargeRequirement[] = [
     lv
-      ? { standard: "nfpa70", citation: "NFPA 70 460.6(A)", timeS: 60, residualV: 50, basis: "50 V or less within 1 min, capacitors 1000 V and below" }
-      : { standard: "nfpa70", citation: "NFPA 70 460.28(A)", timeS: 300, residualV: 50, basis: "50 V or less within 5 min over 1000 V (from memory: check the edition in force)" },
+      ? {
+          standard: "nfpa70",
+          citation: "NFPA 70 460.6(A)",
+          timeS: 60,
+          residualV: 50,
+          basis: "50 V or less within 1 min, capacitors 1000 V and below",
+        }
+      : {
+          standard: "nfpa70",
+          citation: "NFPA 70 460.28(A)",
+          timeS: 300,
+          residualV: 50,
+          basis: "50 V or less within 5 min over 1000 V (from memory: check the edition in force)",
+        },
     lv
       ? { standard: "iec", citation: "IEC 60831-1", timeS: 180, residualV: 75, basis: "75 V or less within 3 min, capacitors up to 1000 V" }
-      : { standard: "iec", citation: "IEC 60871-1", timeS: 600, residualV: 75, basis: "75 V or less within 10 min over 1000 V (from memory: check the edition in force)" },
+      : {
+          standard: "iec",
+          citation: "IEC 60871-1",
+          timeS: 600,
+          residualV: 75,
+          basis: "75 V or less within 10 min over 1000 V (from memory: check the edition in force)",
+        },
   ];
   return all.filter((r) => standards.includes(r.standard));
 }
@@ -108,12 +126,15 @@ export function dischargeDesign(
   const capConn: CapacitorConnection = phases === 1 ? "single_phase" : (options.capacitorConnection ?? "delta");
   let resConn = options.resistorConnection ?? "across_each_capacitor";
   if (!VALID[capConn].includes(resConn)) {
-    warnings.push(warning("discharge_connection_invalid", `${resConn} does not apply to a ${capConn} bank; resistors across each capacitor are assumed`, path));
+    warnings.push(
+      warning("discharge_connection_invalid", `${resConn} does not apply to a ${capConn} bank; resistors across each capacitor are assumed`, path),
+    );
     resConn = "across_each_capacitor";
   }
   const k = DISCHARGE_K[resConn];
   const cpp = capacitancePerPhase(kvar, ratedVoltageV, frequencyHz);
-  const capacitanceF = (capConn === "single_phase" ? capacitanceSinglePhaseUF(kvar, ratedVoltageV, frequencyHz) : capConn === "delta" ? cpp.deltaUF : cpp.wyeUF) * 1e-6;
+  const capacitanceF =
+    (capConn === "single_phase" ? capacitanceSinglePhaseUF(kvar, ratedVoltageV, frequencyHz) : capConn === "delta" ? cpp.deltaUF : cpp.wyeUF) * 1e-6;
   const elementVoltageV = capConn === "wye" ? ratedVoltageV / SQRT3 : ratedVoltageV;
   // A limit at or above the capacitor's peak voltage √2·U_N is met without a resistor: it sets no maximum, and is
   // left out (its maximum would be infinite). With none left the caller has no resistor to size (Infinity below).
@@ -124,7 +145,8 @@ export function dischargeDesign(
   for (const r of requirements) if (governing === undefined || r.maxResistanceOhm < governing.maxResistanceOhm) governing = r;
   const maxResistanceOhm = governing?.maxResistanceOhm ?? Number.POSITIVE_INFINITY;
   const resistorCount = resConn === "two_across_delta" ? 2 : capConn === "single_phase" ? 1 : 3;
-  const resistorVoltageV = resConn === "star_across_delta" ? ratedVoltageV / SQRT3 : resConn === "across_each_capacitor" ? elementVoltageV : ratedVoltageV;
+  const resistorVoltageV =
+    resConn === "star_across_delta" ? ratedVoltageV / SQRT3 : resConn === "across_each_capacitor" ? elementVoltageV : ratedVoltageV;
   const perW = (resistorVoltageV * resistorVoltageV) / maxResistanceOhm;
   return {
     discharge: {

@@ -114,17 +114,29 @@ export function stepStatus(phaseAmps: readonly number[], expectedA: number, capa
   const dead = phaseAmps.findIndex((a) => (a / expectedA) * 100 < PHASE_DEAD_BELOW_PCT);
   if (dead >= 0) {
     const which = phaseAmps.length > 1 ? `phase ${"ABC"[dead]} reads ${phaseAmps[dead]!.toFixed(1)} A` : `it reads ${phaseAmps[0]!.toFixed(1)} A`;
-    return { status: "failed", finding: `${which}, under ${PHASE_DEAD_BELOW_PCT} % of the expected ${expectedA.toFixed(1)} A: a blown fuse, an open contactor pole or a failed unit` };
+    return {
+      status: "failed",
+      finding: `${which}, under ${PHASE_DEAD_BELOW_PCT} % of the expected ${expectedA.toFixed(1)} A: a blown fuse, an open contactor pole or a failed unit`,
+    };
   }
   if (capacitancePct < FAILED_BELOW_PCT) {
-    return { status: "failed", finding: `capacitance ${capacitancePct.toFixed(0)} % of rated, under ${FAILED_BELOW_PCT} % (common practice): replace the step's units` };
+    return {
+      status: "failed",
+      finding: `capacitance ${capacitancePct.toFixed(0)} % of rated, under ${FAILED_BELOW_PCT} % (common practice): replace the step's units`,
+    };
   }
   const u = unbalancePct(phaseAmps);
   if (u > UNBALANCED_ABOVE_PCT) {
-    return { status: "unbalanced", finding: `phases differ by up to ${u.toFixed(1)} % from their mean, above ${UNBALANCED_ABOVE_PCT} % (common practice): a failed unit or fuse in one phase` };
+    return {
+      status: "unbalanced",
+      finding: `phases differ by up to ${u.toFixed(1)} % from their mean, above ${UNBALANCED_ABOVE_PCT} % (common practice): a failed unit or fuse in one phase`,
+    };
   }
   if (capacitancePct < DEGRADED_BELOW_PCT) {
-    return { status: "degraded", finding: `capacitance ${capacitancePct.toFixed(1)} % of rated, below the ${DEGRADED_BELOW_PCT} % lower tolerance (IEC 60831-1): the units are losing capacitance` };
+    return {
+      status: "degraded",
+      finding: `capacitance ${capacitancePct.toFixed(1)} % of rated, below the ${DEGRADED_BELOW_PCT} % lower tolerance (IEC 60831-1): the units are losing capacitance`,
+    };
   }
   return { status: "healthy", finding: `capacitance ${capacitancePct.toFixed(1)} % of rated, within tolerance` };
 }
@@ -140,17 +152,26 @@ export function installedBankIssues(banks: readonly InstalledBankInput[], banksP
   const issues: InputIssue[] = [];
   const labels = new Set<string>();
   banks.forEach((b, i) => {
-    if (labels.has(b.label)) issues.push({ path: [...banksPath, i, "label"], message: `bank label "${b.label}" is used twice: labels are how readings refer to a bank` });
+    if (labels.has(b.label))
+      issues.push({ path: [...banksPath, i, "label"], message: `bank label "${b.label}" is used twice: labels are how readings refer to a bank` });
     labels.add(b.label);
-    if (b.location === "group" && !b.group) issues.push({ path: [...banksPath, i, "group"], message: "a group bank needs the group (MCC or feeder) it corrects" });
-    if (b.location === "motor" && !b.loadLabel) issues.push({ path: [...banksPath, i, "loadLabel"], message: "a motor-terminal bank needs the loadLabel of its motor" });
-    if (b.control === "fixed" && b.steps.length !== 1) issues.push({ path: [...banksPath, i, "steps"], message: "a fixed bank is one step: give its total kvar as one step" });
+    if (b.location === "group" && !b.group)
+      issues.push({ path: [...banksPath, i, "group"], message: "a group bank needs the group (MCC or feeder) it corrects" });
+    if (b.location === "motor" && !b.loadLabel)
+      issues.push({ path: [...banksPath, i, "loadLabel"], message: "a motor-terminal bank needs the loadLabel of its motor" });
+    if (b.control === "fixed" && b.steps.length !== 1)
+      issues.push({ path: [...banksPath, i, "steps"], message: "a fixed bank is one step: give its total kvar as one step" });
   });
   return issues;
 }
 
 /** Checks that need the banks beside the readings (the schema checks each field alone). */
-function readingIssues(banks: readonly InstalledBankInput[], readings: readonly BankReadingInput[], system: SystemInput, banksPath: string): InputIssue[] {
+function readingIssues(
+  banks: readonly InstalledBankInput[],
+  readings: readonly BankReadingInput[],
+  system: SystemInput,
+  banksPath: string,
+): InputIssue[] {
   const issues: InputIssue[] = installedBankIssues(banks, [banksPath]);
   const labels = new Map<string, number>();
   banks.forEach((b, i) => {
@@ -162,7 +183,13 @@ function readingIssues(banks: readonly InstalledBankInput[], readings: readonly 
     const bi = labels.get(r.bank);
     if (bi === undefined) {
       const known = [...labels.keys()];
-      issues.push({ path: at("bank"), message: known.length > 0 ? `no installed bank is labelled "${r.bank}" (known: ${known.join(", ")})` : `no installed bank is labelled "${r.bank}": the building has no installed banks` });
+      issues.push({
+        path: at("bank"),
+        message:
+          known.length > 0
+            ? `no installed bank is labelled "${r.bank}" (known: ${known.join(", ")})`
+            : `no installed bank is labelled "${r.bank}": the building has no installed banks`,
+      });
       return;
     }
     if (seen.has(r.bank)) issues.push({ path: at("bank"), message: `bank "${r.bank}" is read twice: give one reading per bank` });
@@ -171,7 +198,8 @@ function readingIssues(banks: readonly InstalledBankInput[], readings: readonly 
     const n = bank.steps.length;
     const inService = new Set<number>();
     r.inServiceSteps.forEach((s, j) => {
-      if (s > n) issues.push({ path: at("inServiceSteps", j), message: `step ${s} is outside bank "${r.bank}", which has ${n} step${n > 1 ? "s" : ""}` });
+      if (s > n)
+        issues.push({ path: at("inServiceSteps", j), message: `step ${s} is outside bank "${r.bank}", which has ${n} step${n > 1 ? "s" : ""}` });
       else if (inService.has(s)) issues.push({ path: at("inServiceSteps", j), message: `step ${s} is listed twice` });
       inService.add(s);
     });
@@ -179,7 +207,10 @@ function readingIssues(banks: readonly InstalledBankInput[], readings: readonly 
     const v = r.voltageV ?? system.voltageV;
     (r.stepCurrents ?? []).forEach((c, j) => {
       if (c.step > n) {
-        issues.push({ path: at("stepCurrents", j, "step"), message: `step ${c.step} is outside bank "${r.bank}", which has ${n} step${n > 1 ? "s" : ""}` });
+        issues.push({
+          path: at("stepCurrents", j, "step"),
+          message: `step ${c.step} is outside bank "${r.bank}", which has ${n} step${n > 1 ? "s" : ""}`,
+        });
         return;
       }
       if (measured.has(c.step)) issues.push({ path: at("stepCurrents", j, "step"), message: `step ${c.step} is measured twice` });
@@ -221,7 +252,13 @@ export function evaluateInstalledBanks(
     const p = (bank.reactorPct ?? 0) / 100;
     const voltageV = reading?.voltageV ?? system.voltageV;
     if (reading?.voltageV !== undefined && Math.abs(reading.voltageV / system.voltageV - 1) > 0.1) {
-      warnings.push(warning("bank_voltage_far_from_system", `bank "${bank.label}" was read at ${reading.voltageV} V, more than 10 % from the ${system.voltageV} V system: check the meter's connection (line-to-line on three phases)`, `bankReadings.${readings.indexOf(reading)}.voltageV`));
+      warnings.push(
+        warning(
+          "bank_voltage_far_from_system",
+          `bank "${bank.label}" was read at ${reading.voltageV} V, more than 10 % from the ${system.voltageV} V system: check the meter's connection (line-to-line on three phases)`,
+          `bankReadings.${readings.indexOf(reading)}.voltageV`,
+        ),
+      );
     }
     const steps = bank.steps.map((s, i): InstalledStepResult => {
       const step = i + 1;
@@ -258,7 +295,13 @@ export function evaluateInstalledBanks(
       steps.filter(only).reduce((t, s) => t + f(s), 0);
     const measuredSteps = steps.filter((s) => s.measuredKvar !== undefined);
     if (!reading) {
-      warnings.push(warning("bank_not_read", `no reading says which steps of bank "${bank.label}" were energised: taken as out of service during the readings (give bankReadings)`, `${banksPath}.${bi}`));
+      warnings.push(
+        warning(
+          "bank_not_read",
+          `no reading says which steps of bank "${bank.label}" were energised: taken as out of service during the readings (give bankReadings)`,
+          `${banksPath}.${bi}`,
+        ),
+      );
     }
     return {
       label: bank.label,
@@ -269,9 +312,22 @@ export function evaluateInstalledBanks(
       reactorPct: bank.reactorPct ?? 0,
       nameplateKvar: sum((s) => s.nameplateKvar),
       ratedKvarAtSystem: sum((s) => s.ratedKvarAtSystem),
-      inServiceKvar: sum((s) => s.ratedKvarAtSystem, (s) => s.inService),
-      ...(measuredSteps.length > 0 ? { measuredKvar: sum((s) => s.measuredKvar ?? 0, (s) => s.measuredKvar !== undefined) } : {}),
-      deliveredKvar: sum((s) => s.measuredKvar ?? s.expectedKvar, (s) => s.inService),
+      inServiceKvar: sum(
+        (s) => s.ratedKvarAtSystem,
+        (s) => s.inService,
+      ),
+      ...(measuredSteps.length > 0
+        ? {
+            measuredKvar: sum(
+              (s) => s.measuredKvar ?? 0,
+              (s) => s.measuredKvar !== undefined,
+            ),
+          }
+        : {}),
+      deliveredKvar: sum(
+        (s) => s.measuredKvar ?? s.expectedKvar,
+        (s) => s.inService,
+      ),
       voltageV,
       voltageMeasured: reading?.voltageV !== undefined,
       read: reading !== undefined,

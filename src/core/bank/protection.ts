@@ -7,8 +7,8 @@ export { dischargeDesign, DISCHARGE_K, type DischargeConnection, type DischargeD
 
 /** Standard ampere ratings of fuses and inverse-time circuit breakers (NFPA 70 240.6(A)). */
 export const STANDARD_AMPERE_RATINGS_A = [
-  15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200, 225, 250, 300, 350, 400, 450, 500,
-  600, 700, 800, 1000, 1200, 1600, 2000, 2500, 3000, 4000, 5000, 6000,
+  15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200, 225, 250, 300, 350, 400, 450, 500, 600, 700, 800, 1000, 1200, 1600,
+  2000, 2500, 3000, 4000, 5000, 6000,
 ] as const;
 
 /** Additional standard ratings for fuses only (NFPA 70 240.6(A)). */
@@ -86,13 +86,25 @@ export function circuitProtection(
   const device = options.device ?? "fuse";
   let factor = options.ocpdFactor ?? DEFAULT_OCPD_FACTOR[device];
   if (factor < OCPD_FACTOR_MIN) {
-    warnings.push(warning("ocpd_factor_below_minimum", `an overcurrent device at ${(factor * 100).toFixed(0)} % of rated current would trip on the capacitor's tolerance and harmonic current; 135 % is used`, path));
+    warnings.push(
+      warning(
+        "ocpd_factor_below_minimum",
+        `an overcurrent device at ${(factor * 100).toFixed(0)} % of rated current would trip on the capacitor's tolerance and harmonic current; 135 % is used`,
+        path,
+      ),
+    );
     factor = OCPD_FACTOR_MIN;
   }
   const ocpdMinA = currentA * factor;
   const ocpdRatingA = nextStandardRatingA(ocpdMinA, device);
   if (ocpdRatingA === null) {
-    warnings.push(warning("ocpd_above_standard_ratings", `${label}: ${ocpdMinA.toFixed(0)} A is above the largest standard rating (6000 A, NFPA 70 240.6(A)); split the circuit`, path));
+    warnings.push(
+      warning(
+        "ocpd_above_standard_ratings",
+        `${label}: ${ocpdMinA.toFixed(0)} A is above the largest standard rating (6000 A, NFPA 70 240.6(A)); split the circuit`,
+        path,
+      ),
+    );
   }
   return {
     protection: {

@@ -66,8 +66,7 @@ export function analyseBank(
   const warnings: Warning[] = [];
   const p = (bank.reactorPct ?? 0) / 100;
   const ratedFrequencyHz = bank.ratedFrequencyHz ?? system.frequencyHz;
-  const atBus = (kvar: number) =>
-    kvarAtFrequency(kvarAtVoltage(kvar, system.voltageV, bank.ratedVoltageV), system.frequencyHz, ratedFrequencyHz);
+  const atBus = (kvar: number) => kvarAtFrequency(kvarAtVoltage(kvar, system.voltageV, bank.ratedVoltageV), system.frequencyHz, ratedFrequencyHz);
 
   const nameplateKvar = bank.steps.reduce((s, x) => s + x.kvar, 0);
   const capacitorKvar = atBus(nameplateKvar);
@@ -173,6 +172,6 @@ function singlePhase(uF: number): { deltaUF: number; wyeUF: number } {
 }
 
 function ordinal(n: number): string {
-  const s = n % 100 >= 11 && n % 100 <= 13 ? "th" : ({ 1: "st", 2: "nd", 3: "rd" } as Record<number, string>)[n % 10] ?? "th";
+  const s = n % 100 >= 11 && n % 100 <= 13 ? "th" : (({ 1: "st", 2: "nd", 3: "rd" } as Record<number, string>)[n % 10] ?? "th");
   return `${n}${s}`;
 }

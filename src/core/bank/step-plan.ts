@@ -88,7 +88,8 @@ function better(a: Ranked, b: Ranked, tie: number, preferredBaseKvar?: number): 
     if (aPref !== bPref) return aPref;
   }
   if (a.stepCount !== b.stepCount) return a.stepCount < b.stepCount;
-  if (a.simulation.switchingOperations !== b.simulation.switchingOperations) return a.simulation.switchingOperations < b.simulation.switchingOperations;
+  if (a.simulation.switchingOperations !== b.simulation.switchingOperations)
+    return a.simulation.switchingOperations < b.simulation.switchingOperations;
   if (Math.abs(a.totalKvar - b.totalKvar) > 1e-9) return a.totalKvar < b.totalKvar;
   if (a.simulation.metCount !== b.simulation.metCount) return a.simulation.metCount > b.simulation.metCount;
   return a.baseKvar < b.baseKvar - 1e-9;
@@ -125,7 +126,13 @@ export function planSteps(input: StepsInput): StepPlan {
   const fixed = chooseFixedPart(d, needAtCoverage, units, input.transformerKVA, o.fixedShareWithoutLightLoad);
   // Only when there is a bank to design: no warning about a fixed part that is not designed.
   if (!fixed.lightLoadKnown && needAtCoverage > 0) {
-    warnings.push(warning("light_load_unknown", `without a light-load reading or interval data the fixed part is limited by a rule of thumb (${fixed.basis}); take a reading at the lightest load (nights, weekends) or log interval data so the fixed part can be sized to the minimum reactive demand`, "demand"));
+    warnings.push(
+      warning(
+        "light_load_unknown",
+        `without a light-load reading or interval data the fixed part is limited by a rule of thumb (${fixed.basis}); take a reading at the lightest load (nights, weekends) or log interval data so the fixed part can be sized to the minimum reactive demand`,
+        "demand",
+      ),
+    );
   }
   const switchedNeeded = Math.max(0, needAtCoverage - fixed.fixedKvar);
 
@@ -145,12 +152,26 @@ export function planSteps(input: StepsInput): StepPlan {
 
   const tie = (o.metTieShare ?? 0) * n;
   // The fixed-only plan first; each candidate then replaces the best so far when better (the ranking's order).
-  let best: Omit<StepCandidate, "stepsKvar"> = { ratio: "1:1:1", stepCount: 0, baseKvar: 0, totalKvar: 0, rounding: "none", simulation: simulateStepProgram("1:1:1", 0, 1, samples, rule0) };
+  let best: Omit<StepCandidate, "stepsKvar"> = {
+    ratio: "1:1:1",
+    stepCount: 0,
+    baseKvar: 0,
+    totalKvar: 0,
+    rounding: "none",
+    simulation: simulateStepProgram("1:1:1", 0, 1, samples, rule0),
+  };
   let bestMults: readonly number[] = [];
   let evaluated = 1;
   const consider = (ratio: StepRatio, stepCount: number, baseKvar: number, k: number, rounding: "up" | "down", mults: readonly number[]): void => {
     evaluated++;
-    const c = { ratio, stepCount, baseKvar, totalKvar: k * baseKvar, rounding, simulation: simulateStepProgram(ratio, stepCount, baseKvar, samples, ruleFor(baseKvar)) };
+    const c = {
+      ratio,
+      stepCount,
+      baseKvar,
+      totalKvar: k * baseKvar,
+      rounding,
+      simulation: simulateStepProgram(ratio, stepCount, baseKvar, samples, ruleFor(baseKvar)),
+    };
     if (better(c, best, tie, o.preferredBaseKvar)) {
       best = c;
       bestMults = mults;
@@ -171,7 +192,8 @@ export function planSteps(input: StepsInput): StepPlan {
         const iUp = bases.firstReaching(k, switchedNeeded);
         if (iUp < bases.length) consider(ratio, steps, bases.at(iUp), k, "up", mults);
         if (iUp - 1 >= 0 && iUp - 1 < bases.length) consider(ratio, steps, bases.at(iUp - 1), k, "down", mults);
-        if (iPref >= 0 && iPref !== iUp && iPref !== iUp - 1 && iPref < bases.length) consider(ratio, steps, bases.at(iPref), k, iPref > iUp ? "up" : "down", mults);
+        if (iPref >= 0 && iPref !== iUp && iPref !== iUp - 1 && iPref < bases.length)
+          consider(ratio, steps, bases.at(iPref), k, iPref > iUp ? "up" : "down", mults);
       }
     }
   }
@@ -179,7 +201,15 @@ export function planSteps(input: StepsInput): StepPlan {
   const switched: StepCandidate | null =
     b.stepCount === 0
       ? null
-      : { ratio: b.ratio, stepCount: b.stepCount, baseKvar: b.baseKvar, stepsKvar: bestMults.slice(0, b.stepCount).map((m) => m * b.baseKvar), totalKvar: b.totalKvar, rounding: b.rounding, simulation: b.simulation };
+      : {
+          ratio: b.ratio,
+          stepCount: b.stepCount,
+          baseKvar: b.baseKvar,
+          stepsKvar: bestMults.slice(0, b.stepCount).map((m) => m * b.baseKvar),
+          totalKvar: b.totalKvar,
+          rounding: b.rounding,
+          simulation: b.simulation,
+        };
 
   const largest = Math.max(...units);
   if (switched && switched.stepsKvar.some((s) => s > largest + 1e-9)) {

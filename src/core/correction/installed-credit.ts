@@ -122,7 +122,7 @@ function leadingRelief(site: SiteLike, allowedKvar: number, banks: readonly Inst
       const pick = on.filter((_, i) => mask & (1 << i));
       const kvar = pick.reduce((s, x) => s + x.kvar, 0);
       if (!within(kvar)) continue;
-      if (!best || pick.length < best.length || (pick.length === best.length && kvar < bestKvar)) (best = pick), (bestKvar = kvar);
+      if (!best || pick.length < best.length || (pick.length === best.length && kvar < bestKvar)) ((best = pick), (bestKvar = kvar));
     }
   }
   if (!best) {

@@ -34,7 +34,7 @@ export function priceItems(items: CostItemInput[], cost: InstalledCostInput): { 
     let reactorCost: number | null = 0;
     if (i.reactorPct > 0) {
       if (reactorPriced) reactorCost = (cost.reactorPerKvar ?? 0) * i.kvar + (cost.reactorPerStep ?? 0) * i.units;
-      else (reactorCost = null), (reactorsUnpriced ||= i.counted);
+      else ((reactorCost = null), (reactorsUnpriced ||= i.counted));
     }
     return { ...i, capacitorCost, reactorCost, cost: capacitorCost + (reactorCost ?? 0) };
   });

@@ -53,7 +53,13 @@ export const SITE_POINTS_NOTE =
   "from its peak kW and peak kVA (which may fall in different intervals). Upload the interval data again for month-by-month figures";
 
 /** Before and after billing states of each month, for the bank under the controller rule. */
-export function intervalMonths(months: MonthlyDemand[], bank: CapacitorBank, targetPF: number, intervalMinutes: number, site: SiteSamples): IntervalMonths {
+export function intervalMonths(
+  months: MonthlyDemand[],
+  bank: CapacitorBank,
+  targetPF: number,
+  intervalMinutes: number,
+  site: SiteSamples,
+): IntervalMonths {
   const c = createController(bank, targetPF);
   const leftOf = (kW: number, kvar: number) => kvar - c.fixedKvar - c.freshKvar(kW, kvar);
   const perMonth = months.every((m) => m.loadPoints !== undefined && m.peakKWKvar !== undefined);
@@ -71,11 +77,15 @@ export function intervalMonths(months: MonthlyDemand[], bank: CapacitorBank, tar
       kvarhLeading: m.kvarhLeading ?? 0,
     };
     const peakLeft = leftOf(m.peakKW, peakKvar);
-    let lagging = 0, leading = 0, peakKVA = Math.hypot(m.peakKW, peakLeft);
+    let lagging = 0,
+      leading = 0,
+      peakKVA = Math.hypot(m.peakKW, peakLeft);
     if (scale === null) {
       const lp = m.loadPoints as LoadPoints;
       for (let i = 0; i < lp.count.length; i++) {
-        const p = lp.kW[i] as number, left = leftOf(p, lp.kvar[i] as number), h = (lp.count[i] as number) * hours;
+        const p = lp.kW[i] as number,
+          left = leftOf(p, lp.kvar[i] as number),
+          h = (lp.count[i] as number) * hours;
         if (left > 0) lagging += left * h;
         else leading -= left * h;
         peakKVA = Math.max(peakKVA, Math.hypot(p, left));
@@ -85,7 +95,14 @@ export function intervalMonths(months: MonthlyDemand[], bank: CapacitorBank, tar
       leading = m.kWh * scale.leadingPerKWh;
       peakKVA = Math.min(m.peakKVA, peakKVA);
     }
-    const after: BillingState = { peakKW: m.peakKW, peakKVA, peakPF: intervalPF(m.peakKW, peakLeft), kWh: m.kWh, kvarh: lagging, kvarhLeading: leading };
+    const after: BillingState = {
+      peakKW: m.peakKW,
+      peakKVA,
+      peakPF: intervalPF(m.peakKW, peakLeft),
+      kWh: m.kWh,
+      kvarh: lagging,
+      kvarhLeading: leading,
+    };
     return { label: m.month, before, after };
   });
   return perMonth
@@ -95,9 +112,14 @@ export function intervalMonths(months: MonthlyDemand[], bank: CapacitorBank, tar
 
 /** Share of the site's lagging kvarh the bank leaves, and its leading kvarh per kWh after correction. */
 function siteShares(site: SiteSamples, leftOf: (kW: number, kvar: number) => number): { laggingKept: number; leadingPerKWh: number } {
-  let lagBefore = 0, lagAfter = 0, leadAfter = 0, kW = 0;
+  let lagBefore = 0,
+    lagAfter = 0,
+    leadAfter = 0,
+    kW = 0;
   for (let i = 0; i < site.kW.length; i++) {
-    const p = site.kW[i] as number, q = site.kvar[i] as number, left = leftOf(p, q);
+    const p = site.kW[i] as number,
+      q = site.kvar[i] as number,
+      left = leftOf(p, q);
     if (q > 0) lagBefore += q;
     if (left > 0) lagAfter += left;
     else leadAfter -= left;

@@ -2,7 +2,15 @@ import { CONTROLLER_RULE } from "../bank/controller-rule.js";
 import { createController } from "../interval/controller.js";
 import type { CapacitorBank } from "../interval/series-types.js";
 import type { CorrectionResult } from "../correction/to-target.js";
-import { economics, type InstalledCostInput, type BillingPeriod, type BillingState, type EconomicsResult, type IntervalMethod, type Tariff } from "./economics-api.js";
+import {
+  economics,
+  type InstalledCostInput,
+  type BillingPeriod,
+  type BillingState,
+  type EconomicsResult,
+  type IntervalMethod,
+  type Tariff,
+} from "./economics-api.js";
 import { intervalMonths, type MonthlyDemand } from "./interval-billing.js";
 import type { SiteResult } from "../readings/site-totals.js";
 import type { IntervalDemandInput } from "../inputs.js";
@@ -55,28 +63,60 @@ export function economicsBankOf(b: Pick<RecommendedBank, "effectiveKvar" | "phys
 export function costItemsOf(
   bank: Pick<RecommendedBank, "effectiveKvar" | "physicalSteps" | "reactorPct"> | null,
   placement: PlacementPlan | undefined,
-  detuned: { forBank: string; design: { reactorPct: number; steps: { effectiveKvar: number }[] }; purchaseSteps?: { effectiveKvar: number }[] }[] = [],
+  detuned: {
+    forBank: string;
+    design: { reactorPct: number; steps: { effectiveKvar: number }[] };
+    purchaseSteps?: { effectiveKvar: number }[];
+  }[] = [],
 ): CostItemInput[] {
   const items: CostItemInput[] = [];
   const proposal = detuned.find((p) => p.forBank === "recommended");
   if (bank) {
-    const plain: CostItemInput = { item: "central_bank", label: "central bank", kvar: bank.effectiveKvar, units: bank.physicalSteps.length, reactorPct: bank.reactorPct, counted: true };
+    const plain: CostItemInput = {
+      item: "central_bank",
+      label: "central bank",
+      kvar: bank.effectiveKvar,
+      units: bank.physicalSteps.length,
+      reactorPct: bank.reactorPct,
+      counted: true,
+    };
     if (proposal) {
       // priced as bought: the physical steps at the detuned rating (the study's stage increments when unknown)
       const buy = proposal.purchaseSteps ?? proposal.design.steps;
       const kvar = buy.reduce((s, x) => s + x.effectiveKvar, 0);
-      items.push({ item: "central_bank", label: `central bank, ${proposal.design.reactorPct} % detuned (proposed by the harmonic study)`, kvar, units: buy.length, reactorPct: proposal.design.reactorPct, counted: true });
+      items.push({
+        item: "central_bank",
+        label: `central bank, ${proposal.design.reactorPct} % detuned (proposed by the harmonic study)`,
+        kvar,
+        units: buy.length,
+        reactorPct: proposal.design.reactorPct,
+        counted: true,
+      });
       items.push({ ...plain, item: "central_bank_plain", label: "central bank without reactors (for comparison)", counted: false });
     } else items.push(plain);
   }
   for (const l of placement?.loads ?? []) {
     if (l.location !== "terminal" || !l.terminal) continue;
     const units = l.terminal.perMotorKvar > 0 ? Math.round(l.terminal.totalKvar / l.terminal.perMotorKvar) : 1;
-    items.push({ item: "motor_terminal", label: `${l.label}: ${units} × ${l.terminal.perMotorKvar} kvar at the motor terminals`, kvar: l.terminal.totalKvar, units, reactorPct: 0, counted: true });
+    items.push({
+      item: "motor_terminal",
+      label: `${l.label}: ${units} × ${l.terminal.perMotorKvar} kvar at the motor terminals`,
+      kvar: l.terminal.totalKvar,
+      units,
+      reactorPct: 0,
+      counted: true,
+    });
   }
   for (const g of placement?.locations ?? []) {
     if (!g.location.startsWith("group:") || g.kvar <= 0) continue;
-    items.push({ item: "group_bank", label: `group bank ${g.location.slice("group:".length)}`, kvar: g.kvar, units: 1, reactorPct: 0, counted: true });
+    items.push({
+      item: "group_bank",
+      label: `group bank ${g.location.slice("group:".length)}`,
+      kvar: g.kvar,
+      units: 1,
+      reactorPct: 0,
+      counted: true,
+    });
   }
   return items;
 }
@@ -89,7 +129,14 @@ export function economicsIntervalsOf(d: IntervalDemandInput | undefined): Econom
 
 function state(kW: number, kvar: number, hours: number): BillingState {
   const kVA = Math.hypot(kW, kvar);
-  return { peakKW: kW, peakKVA: kVA, peakPF: kVA > 0 ? kW / kVA : 1, kWh: kW * hours, kvarh: Math.max(0, kvar) * hours, kvarhLeading: Math.max(0, -kvar) * hours };
+  return {
+    peakKW: kW,
+    peakKVA: kVA,
+    peakPF: kVA > 0 ? kW / kVA : 1,
+    kWh: kW * hours,
+    kvarh: Math.max(0, kvar) * hours,
+    kvarhLeading: Math.max(0, -kvar) * hours,
+  };
 }
 
 /**
@@ -128,7 +175,9 @@ export function siteEconomics(
     // A leading site adds no bank: its saving is the leading excess taken out of service (correction.kvarAfter).
     const afterKvar = bank ? after : correction.action === "remove" ? correction.kvarAfter : site.kvar;
     if (!bank && correction.action === "remove") {
-      assumptions.push(`the ${correction.leadingExcessKvar.toFixed(1)} kvar of leading excess is taken out of service: no purchase, the saving is the lower demand`);
+      assumptions.push(
+        `the ${correction.leadingExcessKvar.toFixed(1)} kvar of leading excess is taken out of service: no purchase, the saving is the lower demand`,
+      );
     }
     periods = [{ label: "typical month", before: state(site.kW, site.kvar, hours), after: state(site.kW, afterKvar, hours) }];
   }

@@ -137,8 +137,12 @@ export function economics(input: EconomicsInput): EconomicsResult {
       fixed: input.cost.fixed ?? 0,
     };
     installedCost = counted.reduce((s, i) => s + i.cost, 0) + costBreakdown.fixed;
-    if (priced.reactorsUnpriced) assumptions.push("the detuned bank's reactors are not priced (no reactorPerKvar or reactorPerStep given): the installed cost and payback leave them out");
-    if (costItems.some((i) => !i.counted)) assumptions.push("the plain bank is priced for comparison only; the installed cost is that of the detuned bank the harmonic study proposes");
+    if (priced.reactorsUnpriced)
+      assumptions.push(
+        "the detuned bank's reactors are not priced (no reactorPerKvar or reactorPerStep given): the installed cost and payback leave them out",
+      );
+    if (costItems.some((i) => !i.counted))
+      assumptions.push("the plain bank is priced for comparison only; the installed cost is that of the detuned bank the harmonic study proposes");
   } else if (input.cost && input.bank) {
     costBreakdown = {
       perKvar: (input.cost.perKvar ?? 0) * input.bank.installedKvar,

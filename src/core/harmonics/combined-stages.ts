@@ -145,7 +145,10 @@ export function screenCombinedStages(
   let highest: number | null = null;
   const { visited, truncated } = forEachCombination(installed, newOptions.length, MAX_COMBINATIONS, (on, n) => {
     const stage = newOptions[n]!;
-    const branches: Branch[] = [...on, ...(n > 0 ? [stage] : [])].map((u) => ({ capacitorKvar: u.capacitorKvar, reactorFraction: u.reactorFraction }));
+    const branches: Branch[] = [...on, ...(n > 0 ? [stage] : [])].map((u) => ({
+      capacitorKvar: u.capacitorKvar,
+      reactorFraction: u.reactorFraction,
+    }));
     const orders = parallelResonanceOrders(branches, shortCircuitKVA);
     for (const h of orders) {
       lowest = lowest === null ? h : Math.min(lowest, h);

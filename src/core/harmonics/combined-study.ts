@@ -120,15 +120,33 @@ export function studyCombinedStages(ctx: StudyContext, installed: readonly Rated
     for (const u of on) {
       const g = groups.get(u.bank);
       if (g) g.nameplateKvar += u.nameplateKvar;
-      else groups.set(u.bank, { bank: u.bank, nameplateKvar: u.nameplateKvar, ratedVoltageV: u.ratedVoltageV, ratedFrequencyHz: u.ratedFrequencyHz, reactorPct: u.reactorFraction * 100 });
+      else
+        groups.set(u.bank, {
+          bank: u.bank,
+          nameplateKvar: u.nameplateKvar,
+          ratedVoltageV: u.ratedVoltageV,
+          ratedFrequencyHz: u.ratedFrequencyHz,
+          reactorPct: u.reactorFraction * 100,
+        });
     }
     const energised = [...groups.values()];
     if (n > 0 && newBank) {
-      energised.push({ bank: "new", nameplateKvar: stages[n - 1]!.nameplateKvar, ratedVoltageV: newBank.ratedVoltageV, ratedFrequencyHz: newBank.ratedFrequencyHz, reactorPct: newBank.reactorPct });
+      energised.push({
+        bank: "new",
+        nameplateKvar: stages[n - 1]!.nameplateKvar,
+        ratedVoltageV: newBank.ratedVoltageV,
+        ratedFrequencyHz: newBank.ratedFrequencyHz,
+        reactorPct: newBank.reactorPct,
+      });
     }
     // Each bank is its own branch with its own reactor (a bank's steps share p and voltage: one branch of ΣQ).
     const branches = energised.map((e) =>
-      capacitorBranch(voltageV, capacitorKvarAtSystem(e.nameplateKvar, e.ratedVoltageV, e.ratedFrequencyHz, voltageV, frequencyHz), e.reactorPct, ctx.reactorQualityFactor),
+      capacitorBranch(
+        voltageV,
+        capacitorKvarAtSystem(e.nameplateKvar, e.ratedVoltageV, e.ratedFrequencyHz, voltageV, frequencyHz),
+        e.reactorPct,
+        ctx.reactorQualityFactor,
+      ),
     );
     const distortion = busDistortion(withBranches(ctx.model, branches), ctx.currents, ctx.background);
     const check = checkIeee519(distortion, voltageV);

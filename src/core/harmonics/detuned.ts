@@ -59,7 +59,8 @@ export function chooseDetuning(presentOrders: readonly number[], thirdHarmonicSi
   const [p567, p7, p14] = DETUNING_CHOICES as [DetuningChoice, DetuningChoice, DetuningChoice];
   const lowest = presentOrders.length > 0 ? Math.min(...presentOrders) : Infinity;
   if (thirdHarmonicSignificant) return { choice: p14, reason: "3rd harmonic significant: 14 % (tuned to 2.67) keeps the resonance below the 3rd" };
-  if (lowest >= 7) return { choice: p567, reason: `lowest present order is ${lowest}: 5.67 % (tuned to 4.2) is enough and raises the capacitor voltage least` };
+  if (lowest >= 7)
+    return { choice: p567, reason: `lowest present order is ${lowest}: 5.67 % (tuned to 4.2) is enough and raises the capacitor voltage least` };
   return { choice: p7, reason: "7 % (tuned to 3.78), the default for 5th-and-above spectra" };
 }
 

@@ -46,11 +46,7 @@ function backgroundByOrder(background: readonly SpectrumLine[]): Float64Array {
  * V_h = I_h·|Z(h)| at each integer order; site background voltage is added arithmetically per order
  * (in phase with the injection: worst case), and is not itself amplified by the bank.
  */
-export function busDistortion(
-  model: BusModel,
-  currents: InjectedCurrents,
-  background: readonly SpectrumLine[] = [],
-): BusDistortion {
+export function busDistortion(model: BusModel, currents: InjectedCurrents, background: readonly SpectrumLine[] = []): BusDistortion {
   const phaseV = branchVoltageV(model.voltageV, model.phases);
   const bg = backgroundByOrder(background);
   const lines: BusHarmonicLine[] = [];

@@ -99,11 +99,15 @@ function goldenExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1): 
   let fd = sign * drivingPointImpedanceOhm(model, d);
   for (let i = 0; i < 100 && b - a > 1e-12 * b; i++) {
     if (fc > fd) {
-      b = d; d = c; fd = fc;
+      b = d;
+      d = c;
+      fd = fc;
       c = b - GOLDEN * (b - a);
       fc = sign * drivingPointImpedanceOhm(model, c);
     } else {
-      a = c; c = d; fc = fd;
+      a = c;
+      c = d;
+      fc = fd;
       d = a + GOLDEN * (b - a);
       fd = sign * drivingPointImpedanceOhm(model, d);
     }
@@ -242,7 +246,12 @@ export function impedanceExtrema(model: BusModel, fromOrder: number, toOrder: nu
     const h = refineExtremum(model, range[0], range[1], 1, guess);
     if (!isExtremum(model, h, 1, fromOrder, toOrder)) continue;
     const z = drivingPointImpedanceOhm(model, h);
-    peaks.push({ order: h, impedanceOhm: z, timesSourceImpedance: z / sourceImpedanceOhmAt(model.source, h), timesBaseImpedance: z / model.source.baseImpedanceOhm });
+    peaks.push({
+      order: h,
+      impedanceOhm: z,
+      timesSourceImpedance: z / sourceImpedanceOhmAt(model.source, h),
+      timesBaseImpedance: z / model.source.baseImpedanceOhm,
+    });
   }
   for (const ht of tunings) {
     const below = resonances.filter((r) => r < ht).pop() ?? 0;

@@ -41,7 +41,17 @@ export {
   DEFAULT_VOLTAGE_MARGIN_FACTOR,
 } from "./detuned.js";
 export { nearestStandardKvar, standardCapacitorVoltageV, STANDARD_CAPACITOR_VOLTAGES_V, STANDARD_STEP_KVAR } from "../bank/standard-sizes.js";
-export type { CapacitorBankInput, CapacitorStepInput, BankStudy, StageStudy, BusStudy, ScanSeries, Finding, FindingCode, StudyContext } from "./stage.js";
+export type {
+  CapacitorBankInput,
+  CapacitorStepInput,
+  BankStudy,
+  StageStudy,
+  BusStudy,
+  ScanSeries,
+  Finding,
+  FindingCode,
+  StudyContext,
+} from "./stage.js";
 export type { HarmonicStudyInput, HarmonicStudyOptions, HarmonicStudyResult, HarmonicStudyOutcome, DetunedProposal } from "./study.js";
 export { runHarmonicStudy, runHarmonicStudyInContext, studyContextOf } from "./study.js";
 export { validateHarmonicStudyInput } from "./validate.js";

@@ -105,7 +105,8 @@ export function injectedCurrents(
       acc[line.order] = acc[line.order]! + (method === "rss" ? ih * ih : ih);
     }
     if (basis !== null) {
-      const current = kVABasis === "rms" ? `I_1 = I_rms/√(1 + THD²) = ${totalA.toFixed(1)}/√(1 + ${(thd / 100).toFixed(3)}²)` : "I_1 from its fundamental kVA";
+      const current =
+        kVABasis === "rms" ? `I_1 = I_rms/√(1 + THD²) = ${totalA.toFixed(1)}/√(1 + ${(thd / 100).toFixed(3)}²)` : "I_1 from its fundamental kVA";
       uses.push({
         label: s.label,
         spectrumBasis: basis,

@@ -37,11 +37,7 @@ export function nearHarmonic(h: number, orders: readonly number[], bandPct = RES
 }
 
 /** Present orders n whose band holds at least one of the resonance orders. */
-export function ordersNearResonance(
-  resonanceOrders: readonly number[],
-  presentOrders: readonly number[],
-  bandPct = RESONANCE_BAND_PCT,
-): number[] {
+export function ordersNearResonance(resonanceOrders: readonly number[], presentOrders: readonly number[], bandPct = RESONANCE_BAND_PCT): number[] {
   const out: number[] = [];
   for (const n of presentOrders) {
     for (const h of resonanceOrders) {

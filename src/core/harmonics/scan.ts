@@ -39,7 +39,8 @@ export function validateScanOptions(options: ScanOptions | undefined, path = "sc
   const o = { ...DEFAULT_SCAN, ...stripUndefined(options) };
   const issues: Issue[] = [];
   if (!Number.isFinite(o.fromOrder) || o.fromOrder <= 0) issues.push({ path: `${path}.fromOrder`, message: "must be a number > 0" });
-  if (!Number.isFinite(o.toOrder) || o.toOrder <= o.fromOrder) issues.push({ path: `${path}.toOrder`, message: "must be a number greater than fromOrder" });
+  if (!Number.isFinite(o.toOrder) || o.toOrder <= o.fromOrder)
+    issues.push({ path: `${path}.toOrder`, message: "must be a number greater than fromOrder" });
   if (!Number.isFinite(o.stepOrder) || o.stepOrder <= 0) issues.push({ path: `${path}.stepOrder`, message: "must be a number > 0" });
   if (issues.length === 0 && pointCount(o.fromOrder, o.toOrder, o.stepOrder) > MAX_SCAN_POINTS)
     issues.push({ path: `${path}.stepOrder`, message: `scan would exceed ${MAX_SCAN_POINTS} points` });

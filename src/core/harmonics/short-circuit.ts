@@ -18,10 +18,7 @@ export interface ShortCircuitResult {
  * Series source impedances add in per unit: S_sc = 1 / (1/S_utility + (Z%/100)/S_tx)
  * (the MVA method of short-circuit calculation). An absent utility is an infinite source.
  */
-export function shortCircuitAtBus(
-  transformer: TransformerInput | undefined,
-  utility: UtilityInput | undefined,
-): ShortCircuitResult | null {
+export function shortCircuitAtBus(transformer: TransformerInput | undefined, utility: UtilityInput | undefined): ShortCircuitResult | null {
   const utilityKVA = utility ? utility.faultMVA * 1000 : null;
   const txKVA = transformer ? transformerShortCircuitKVA(transformer.kVA, transformer.impedancePct) : null;
   if (utilityKVA === null && txKVA === null) return null;

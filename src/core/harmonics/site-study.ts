@@ -34,7 +34,8 @@ export function harmonicSourcesOf(input: SizingInput, loads: LoadResult[]): { so
       ...(load.harmonics ? { spectrum: load.harmonics.map((c) => ({ order: c.order, pct: c.pct })) } : {}),
       isDrive: load.kind === "drive",
       ...(load.measurement.currentTHDPct !== undefined ? { currentTHDPct: load.measurement.currentTHDPct } : {}),
-      kVABasis: r.measuredKVA !== undefined || (load.measurement.pfType === "true" && load.measurement.currentTHDPct === undefined) ? "rms" : "fundamental",
+      kVABasis:
+        r.measuredKVA !== undefined || (load.measurement.pfType === "true" && load.measurement.currentTHDPct === undefined) ? "rms" : "fundamental",
     });
     loadIndex.push(i);
   });
@@ -104,7 +105,13 @@ export function studySiteHarmonics(
   if (banks.proposed) studyBanks.push(asStudyBank("proposed", banks.proposed));
   // Installed banks are studied stage by stage on their own; with new capacitors see the combined screen and study.
   for (const b of banks.installed ?? []) {
-    studyBanks.push({ name: `installed ${b.label}`, ratedVoltageV: b.ratedVoltageV, ...(b.ratedFrequencyHz ? { ratedFrequencyHz: b.ratedFrequencyHz } : {}), reactorPct: b.reactorPct ?? 0, steps: b.steps.map((s) => ({ kvar: s.kvar })) });
+    studyBanks.push({
+      name: `installed ${b.label}`,
+      ratedVoltageV: b.ratedVoltageV,
+      ...(b.ratedFrequencyHz ? { ratedFrequencyHz: b.ratedFrequencyHz } : {}),
+      reactorPct: b.reactorPct ?? 0,
+      steps: b.steps.map((s) => ({ kvar: s.kvar })),
+    });
   }
   const studyInput: HarmonicStudyInput = {
     network: {
@@ -166,7 +173,9 @@ function seriesCount(study: HarmonicStudyResult): number {
  * With series asked for, the figures first (no grid: cheap), then the series only if they fit MAX_SERIES_POINTS;
  * otherwise an issue on scan.stepOrder naming the limit and the step that would fit.
  */
-function runWithinSeriesBudget(input: HarmonicStudyInput): ReturnType<typeof runHarmonicStudy> | ReturnType<typeof runHarmonicStudyInContext> | { budgetIssue: InputIssue } {
+function runWithinSeriesBudget(
+  input: HarmonicStudyInput,
+): ReturnType<typeof runHarmonicStudy> | ReturnType<typeof runHarmonicStudyInContext> | { budgetIssue: InputIssue } {
   if (!input.options?.includeScanSeries) return runHarmonicStudyInContext(input);
   const figures = runHarmonicStudy({ ...input, options: { ...input.options, includeScanSeries: false } });
   if (!figures.ok) return figures;
@@ -240,7 +249,10 @@ function dutyWarning(bank: HarmonicStudyResult["banks"][number]): Warning[] {
     const q = worst.duty[key];
     severities.push(ieee18Severity(q.valuePct, q.limitPct) ?? "info");
     over.forEach((st) => stagesAbove.add(st.stageNumber));
-    const at = over.length === 1 ? `stage ${over[0]!.stageNumber}` : `stages ${compactList(over.map((st) => st.stageNumber))}, worst stage ${worst.stageNumber}`;
+    const at =
+      over.length === 1
+        ? `stage ${over[0]!.stageNumber}`
+        : `stages ${compactList(over.map((st) => st.stageNumber))}, worst stage ${worst.stageNumber}`;
     parts.push(`${label} ${q.valuePct.toFixed(1)} % of rating (IEEE 18 limit ${q.limitPct} %; ${at})`);
   }
   if (parts.length === 0) return [];
@@ -268,7 +280,8 @@ export function withoutScreenVoltageRepeats(screen: readonly Warning[], study: r
   // the study's warning for that bank exists and names the rms voltage.
   const studied = new Set(study.filter((w) => DUTY_CODES.has(w.code)).map((w) => w.path));
   return screen.filter(
-    (w) => !((w.code === "capacitor_above_rated_voltage" || w.code === "capacitor_overvoltage") && studied.has(w.path?.replace(/\.ratedVoltageV$/, ""))),
+    (w) =>
+      !((w.code === "capacitor_above_rated_voltage" || w.code === "capacitor_overvoltage") && studied.has(w.path?.replace(/\.ratedVoltageV$/, ""))),
   );
 }
 

@@ -76,11 +76,7 @@ export interface BankStudy {
 }
 
 export type FindingCode =
-  | "thd_v_exceeds_limit"
-  | "individual_harmonic_exceeds_limit"
-  | "capacitor_duty_exceeds_limit"
-  | "capacitor_above_rating"
-  | "resonance_near_harmonic";
+  "thd_v_exceeds_limit" | "individual_harmonic_exceeds_limit" | "capacitor_duty_exceeds_limit" | "capacitor_above_rating" | "resonance_near_harmonic";
 
 export interface Finding {
   code: FindingCode;
@@ -116,7 +112,10 @@ export function studyBus(ctx: StudyContext, model: BusModel): BusStudy {
     dips,
     distortion,
     ieee519: checkIeee519(distortion, model.voltageV),
-    resonanceWithin10PctOf: ordersNearResonance(peaks.map((p) => p.order), ctx.presentOrders),
+    resonanceWithin10PctOf: ordersNearResonance(
+      peaks.map((p) => p.order),
+      ctx.presentOrders,
+    ),
   };
   if (scan) study.series = { orders: Array.from(scan.ordersH), impedanceOhm: Array.from(scan.impedanceOhm) };
   return study;
@@ -162,7 +161,12 @@ export function busFindings(bus: BusStudy, where: string, at: Pick<Finding, "ban
   const out: Finding[] = [];
   const { thd, limits } = bus.ieee519;
   if (!thd.pass)
-    out.push({ code: "thd_v_exceeds_limit", subject: "thd", message: `${where}: THD_v ${f1(thd.valuePct)} % exceeds the IEEE 519 limit of ${f1(thd.limitPct)} %`, ...at });
+    out.push({
+      code: "thd_v_exceeds_limit",
+      subject: "thd",
+      message: `${where}: THD_v ${f1(thd.valuePct)} % exceeds the IEEE 519 limit of ${f1(thd.limitPct)} %`,
+      ...at,
+    });
   for (const line of bus.distortion.lines)
     if (line.voltagePct > limits.individualPct)
       out.push({
@@ -200,7 +204,12 @@ export function bankFindings(bank: BankStudy): Finding[] {
     for (const [key, label] of DUTY_NAMES) {
       const q: DutyQuantity = stage.duty[key];
       if (!q.pass)
-        out.push({ code: "capacitor_duty_exceeds_limit", subject: key, message: `${where}: capacitor ${label} ${f1(q.valuePct)} % of rating exceeds the IEEE 18 limit of ${q.limitPct} %`, ...at });
+        out.push({
+          code: "capacitor_duty_exceeds_limit",
+          subject: key,
+          message: `${where}: capacitor ${label} ${f1(q.valuePct)} % of rating exceeds the IEEE 18 limit of ${q.limitPct} %`,
+          ...at,
+        });
       else if (q.aboveRating)
         out.push({
           code: "capacitor_above_rating",

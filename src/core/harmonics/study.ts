@@ -85,7 +85,9 @@ export function runHarmonicStudy(input: HarmonicStudyInput): HarmonicStudyOutcom
 }
 
 /** runHarmonicStudy, also giving the context it worked in (the bus and its injection), so a caller need not rebuild it. */
-export function runHarmonicStudyInContext(input: HarmonicStudyInput): (HarmonicStudyOutcome & { ok: false }) | { ok: true; result: HarmonicStudyResult; context: StudyContext } {
+export function runHarmonicStudyInContext(
+  input: HarmonicStudyInput,
+): (HarmonicStudyOutcome & { ok: false }) | { ok: true; result: HarmonicStudyResult; context: StudyContext } {
   const issues = validateHarmonicStudyInput(input);
   if (issues.length > 0) return { ok: false, issues };
   const context = studyContextOf(input);
@@ -188,7 +190,14 @@ function propose(
             ),
           }).steps
         : undefined;
-      return { forBank: bank.name, triggeredBy, design: { ...design, rationale: [...notes, ...design.rationale] }, ...(purchase ? { purchaseSteps: purchase } : {}), study, findings };
+      return {
+        forBank: bank.name,
+        triggeredBy,
+        design: { ...design, rationale: [...notes, ...design.rationale] },
+        ...(purchase ? { purchaseSteps: purchase } : {}),
+        study,
+        findings,
+      };
     }
     notes.push(`${design.reactorPct} % still resonated near a present order; moved to ${lower.reactorPct} %`);
     design = proposeDetunedDesign({ ...base, reactorPct: lower.reactorPct });

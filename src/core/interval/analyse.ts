@@ -49,11 +49,13 @@ export function assertSeries(series: IntervalSeries): void {
   const { length: n, timestampsMs: t } = series;
   if (n < 1 || t.length < n || series.kW.length < n || series.kvar.length < n) throw new RangeError("series arrays shorter than its length");
   if (!(series.intervalMinutes > 0)) throw new RangeError("intervalMinutes must be > 0");
-  for (let i = 1; i < n; i++) if (!((t[i] as number) > (t[i - 1] as number))) throw new RangeError(`timestamps not strictly increasing at index ${i}`);
+  for (let i = 1; i < n; i++)
+    if (!((t[i] as number) > (t[i - 1] as number))) throw new RangeError(`timestamps not strictly increasing at index ${i}`);
 }
 
 /** What a histogram pass shows: each interval's needed kvar or PF. */
-const NEEDED = 2, PF = 3;
+const NEEDED = 2,
+  PF = 3;
 
 /** Values computed a block at a time, then counted or gathered in one tight loop (the block stays in cache). */
 export const BLOCK = 4096;
@@ -64,11 +66,21 @@ export const BLOCK = 4096;
  * reused, where loops written one after another in a long function called once would each be compiled on the fly
  * (on-stack replacement).
  */
-function feed(h: RankHistogram, gather: boolean, what: number, kW: Float64Array, kvar: Float64Array, n: number, tanTarget: number, block: Float64Array): void {
+function feed(
+  h: RankHistogram,
+  gather: boolean,
+  what: number,
+  kW: Float64Array,
+  kvar: Float64Array,
+  n: number,
+  tanTarget: number,
+  block: Float64Array,
+): void {
   for (let from = 0; from < n; from += BLOCK) {
     const length = Math.min(BLOCK, n - from);
     for (let j = 0; j < length; j++) {
-      const p = kW[from + j] as number, q = kvar[from + j] as number;
+      const p = kW[from + j] as number,
+        q = kvar[from + j] as number;
       block[j] = what === NEEDED ? neededKvarAt(p, q, tanTarget) : intervalPF(p, q);
     }
     if (gather) h.gatherSome(block, length);
@@ -97,11 +109,22 @@ class Pass1 {
 }
 
 /** Pass 1 over one month's intervals; returns the month's load-point grid range. */
-function pass1Month(a: Pass1, tally: MonthTally, kW: Float64Array, kvar: Float64Array, start: number, end: number, tanTarget: number): { pMax: number; qMin: number; qMax: number } {
+function pass1Month(
+  a: Pass1,
+  tally: MonthTally,
+  kW: Float64Array,
+  kvar: Float64Array,
+  start: number,
+  end: number,
+  tanTarget: number,
+): { pMax: number; qMin: number; qMax: number } {
   let { sumP, sumQ, below, leading, pMin, pMax, qMin, qMax, needMin, needMax, pfMin, pfMax } = a;
-  let mpMax = 0, mqMin = Infinity, mqMax = -Infinity;
+  let mpMax = 0,
+    mqMin = Infinity,
+    mqMax = -Infinity;
   for (let i = start; i < end; i++) {
-    const p = kW[i] as number, q = kvar[i] as number;
+    const p = kW[i] as number,
+      q = kvar[i] as number;
     const need = q - p * tanTarget;
     const held = need > 0 ? need : 0; // = neededKvarAt(p, q, tanTarget)
     if (need > 1e-9) below++; // PF below target ⇔ Q > P·tan(acos target)

@@ -91,5 +91,5 @@ let lastDateDays = 0;
 function twoDigits(b: Uint8Array, p: number): number {
   const x = (b[p] as number) - C0;
   const y = (b[p + 1] as number) - C0;
-  return (x >>> 0) > 9 || (y >>> 0) > 9 ? Number.NaN : x * 10 + y;
+  return x >>> 0 > 9 || y >>> 0 > 9 ? Number.NaN : x * 10 + y;
 }

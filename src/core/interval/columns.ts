@@ -37,7 +37,9 @@ export interface MappingIssue {
 
 /** The most frequent of comma, semicolon and tab in a header line (comma on a tie). */
 export function detectDelimiter(line: string): Delimiter {
-  let comma = 0, semi = 0, tab = 0;
+  let comma = 0,
+    semi = 0,
+    tab = 0;
   for (let i = 0; i < line.length; i++) {
     const c = line.charCodeAt(i);
     if (c === 44) comma++;
@@ -57,18 +59,22 @@ export function splitHeader(line: string, delimiter: Delimiter): string[] {
   for (let i = 0; i < line.length; i++) {
     const ch = line[i] as string;
     if (quoted) {
-      if (ch === '"' && line[i + 1] === '"') (cell += '"'), i++;
+      if (ch === '"' && line[i + 1] === '"') ((cell += '"'), i++);
       else if (ch === '"') quoted = false;
       else cell += ch;
-    } else if (ch === '"' && cell.trim() === "") (quoted = true), (cell = "");
-    else if (ch === delimiter) out.push(cell.trim()), (cell = "");
+    } else if (ch === '"' && cell.trim() === "") ((quoted = true), (cell = ""));
+    else if (ch === delimiter) (out.push(cell.trim()), (cell = ""));
     else cell += ch;
   }
   out.push(cell.trim());
   return out;
 }
 
-const tokens = (name: string): string[] => name.toLowerCase().split(/[^a-z0-9]+/).filter(Boolean);
+const tokens = (name: string): string[] =>
+  name
+    .toLowerCase()
+    .split(/[^a-z0-9]+/)
+    .filter(Boolean);
 const has = (t: string[], ...words: string[]) => words.every((w) => t.includes(w));
 
 type AutoRole = "timestamp" | "date" | "time" | "kW" | "kvar" | "pf" | "kVA" | "sense";
@@ -141,7 +147,9 @@ export function mapColumns(names: string[], overrides: ColumnOverrides): { mappi
   const pf = kvar >= 0 ? -1 : pickIf("pf", "pfColumn", "pf");
   const kVA = kvar >= 0 || pf >= 0 ? -1 : pickIf("kVA", "kVAColumn", "kva");
   const sense = choose("sense", "senseColumn", "sense");
-  let timestamp = -1, date = -1, time = -1;
+  let timestamp = -1,
+    date = -1,
+    time = -1;
   if (explicit("dateColumn") || explicit("timeColumn")) {
     date = choose("date", "dateColumn", "date");
     time = choose("time", "timeColumn", "time");
@@ -155,11 +163,18 @@ export function mapColumns(names: string[], overrides: ColumnOverrides): { mappi
   }
   if (issues.length > 0) return { issues };
   if (timestamp < 0 && (date < 0 || time < 0)) {
-    issues.push({ path: "timestampColumn", message: `no timestamp column found (looked for names like "timestamp", "time", "date" + "time") in: ${names.map((n) => `"${n}"`).join(", ")}` });
+    issues.push({
+      path: "timestampColumn",
+      message: `no timestamp column found (looked for names like "timestamp", "time", "date" + "time") in: ${names.map((n) => `"${n}"`).join(", ")}`,
+    });
   }
-  if (kW < 0) issues.push({ path: "kWColumn", message: `no kW column found (a name containing the word "kW") in: ${names.map((n) => `"${n}"`).join(", ")}` });
+  if (kW < 0)
+    issues.push({ path: "kWColumn", message: `no kW column found (a name containing the word "kW") in: ${names.map((n) => `"${n}"`).join(", ")}` });
   if (kvar < 0 && pf < 0 && kVA < 0) {
-    issues.push({ path: "kvarColumn", message: 'no kvar, PF or kVA column found (names containing "kvar", "PF"/"power factor" or "kVA"); set kvarColumn, pfColumn or kVAColumn' });
+    issues.push({
+      path: "kvarColumn",
+      message: 'no kvar, PF or kVA column found (names containing "kvar", "PF"/"power factor" or "kVA"); set kvarColumn, pfColumn or kVAColumn',
+    });
   }
   if (issues.length > 0) return { issues };
   const method: ReactiveMethod = kvar >= 0 ? "kW_kvar" : pf >= 0 ? "kW_pf" : "kW_kVA";

@@ -52,7 +52,7 @@ export function createController(bank: CapacitorBank, targetPF: number, opts: Co
     const v = sumOfMask[m] as number;
     const lastSum = sums[sums.length - 1];
     if (lastSum !== undefined && Math.abs(v - lastSum) <= EPS * Math.max(1, v)) masksOfSum[masksOfSum.length - 1]!.push(m);
-    else sums.push(v), masksOfSum.push([m]);
+    else (sums.push(v), masksOfSum.push([m]));
     levelOfMask[m] = sums.length - 1;
   }
   const levels = new SortedLevels(Float64Array.from(sums));
@@ -65,7 +65,7 @@ export function createController(bank: CapacitorBank, targetPF: number, opts: Co
       let fewest = Infinity;
       for (const m of masksOfSum[k] as number[]) {
         const changes = popcount(m ^ current);
-        if (changes < fewest) (fewest = changes), (best = m);
+        if (changes < fewest) ((fewest = changes), (best = m));
       }
       memo.set(key, best as number);
     }

@@ -196,7 +196,8 @@ export class TimestampParser {
       this.offsetMs = 0;
       return true;
     }
-    if (c === 85 && s[this.pos + 1] === 84 && s[this.pos + 2] === 67) { // "UTC"
+    if (c === 85 && s[this.pos + 1] === 84 && s[this.pos + 2] === 67) {
+      // "UTC"
       this.pos += 3;
       this.offsetMs = 0;
       return true;

@@ -61,10 +61,19 @@ export class LoadPointGrid {
  * Mean kW and kvar of the non-empty cells of a kW × kvar histogram (enough to re-estimate a controller), over the
  * intervals start…end − 1 (the whole series by default).
  */
-export function loadPointsOf(series: IntervalSeries, kWBins = LOAD_POINT_KW_BINS, kvarBins = LOAD_POINT_KVAR_BINS, start = 0, end = series.length): LoadPoints {
-  let pMax = 0, qMin = Infinity, qMax = -Infinity;
+export function loadPointsOf(
+  series: IntervalSeries,
+  kWBins = LOAD_POINT_KW_BINS,
+  kvarBins = LOAD_POINT_KVAR_BINS,
+  start = 0,
+  end = series.length,
+): LoadPoints {
+  let pMax = 0,
+    qMin = Infinity,
+    qMax = -Infinity;
   for (let i = start; i < end; i++) {
-    const p = series.kW[i] as number, q = series.kvar[i] as number;
+    const p = series.kW[i] as number,
+      q = series.kvar[i] as number;
     if (p > pMax) pMax = p;
     if (q < qMin) qMin = q;
     if (q > qMax) qMax = q;

@@ -77,7 +77,13 @@ export function monthlyDemand(series: IntervalSeries, kvar: Float64Array, runs: 
  * The months' figures from their tallies (fed with `kvar`); remembered as monthlyDemand's answer when `kvar` is
  * the series' own.
  */
-export function monthlyDemandOf(series: IntervalSeries, kvar: Float64Array | null, runs: MonthRun[], zone: Zone, tallies: MonthTally[]): MonthlyDemand[] {
+export function monthlyDemandOf(
+  series: IntervalSeries,
+  kvar: Float64Array | null,
+  runs: MonthRun[],
+  zone: Zone,
+  tallies: MonthTally[],
+): MonthlyDemand[] {
   const hours = series.intervalMinutes / 60;
   const at = (i: number) => {
     const u = series.timestampsMs[i] as number;
@@ -106,8 +112,8 @@ export class MonthTally {
 
   add(i: number, p: number, q: number): void {
     const s = Math.sqrt(p * p + q * q); // S = √(P² + Q²)
-    if (p > this.peakKW) (this.peakKW = p), (this.peakKWi = i), (this.peakKWKvar = q);
-    if (s > this.peakKVA) (this.peakKVA = s), (this.peakKVAi = i);
+    if (p > this.peakKW) ((this.peakKW = p), (this.peakKWi = i), (this.peakKWKvar = q));
+    if (s > this.peakKVA) ((this.peakKVA = s), (this.peakKVAi = i));
     this.kW += p;
     if (q > 0) this.lag += q;
     else this.lead -= q;

@@ -94,14 +94,30 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   const givenZone = options.timeZone !== undefined ? zoneFor(options.timeZone) : null;
   let zone: Zone = givenZone ?? UTC_ZONE;
   const report: ParseReport = {
-    lines: 0, dataRows: 0, acceptedRows: 0, blankLines: 0, preambleLines: 0, delimiter: options.delimiter ?? ",", header: [],
-    columns: {}, method: null, timeZone: zone.name, notes: [],
+    lines: 0,
+    dataRows: 0,
+    acceptedRows: 0,
+    blankLines: 0,
+    preambleLines: 0,
+    delimiter: options.delimiter ?? ",",
+    header: [],
+    columns: {},
+    method: null,
+    timeZone: zone.name,
+    notes: [],
     badRows: { count: 0, fraction: 0, limitFraction: options.maxBadRowFraction ?? DEFAULT_MAX_BAD_ROW_FRACTION, byReason: {}, first: [] },
-    outOfOrder: { count: 0, first: [] }, duplicates: { count: 0, first: [] }, interval: null, steps: null,
+    outOfOrder: { count: 0, first: [] },
+    duplicates: { count: 0, first: [] },
+    interval: null,
+    steps: null,
   };
   let fatal: ParseFatal | null = null;
   if (options.timeZone !== undefined && givenZone === null) {
-    fatal = { kind: "options", message: "timeZone is not an IANA zone name or an offset like +02:00", issues: [{ path: "timeZone", message: `unknown time zone "${options.timeZone}"` }] };
+    fatal = {
+      kind: "options",
+      message: "timeZone is not an IANA zone name or an offset like +02:00",
+      issues: [{ path: "timeZone", message: `unknown time zone "${options.timeZone}"` }],
+    };
   }
   let decoder: RowDecoder | null = null;
   let firstHeaderIssues: MappingIssue[] | null = null;
@@ -109,7 +125,10 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   let candidates = 0;
   // The accepted rows, column by column in typed arrays that double as they fill (no object per row).
   const arrays = options.columnArrays ?? FRESH;
-  let tsCol = arrays.take(4096), kWCol = arrays.take(4096), kvarCol = arrays.take(4096), lineCol = arrays.take(4096);
+  let tsCol = arrays.take(4096),
+    kWCol = arrays.take(4096),
+    kvarCol = arrays.take(4096),
+    lineCol = arrays.take(4096);
   let capacity = Math.min(tsCol.length, kWCol.length, kvarCol.length, lineCol.length);
   let n = 0;
   const grow = (rows: number): void => {
@@ -150,7 +169,11 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
       firstHeaderIssues ??= mapped.issues;
       firstHeaderLine ||= report.lines;
       if (candidates >= HEADER_SEARCH_LINES) {
-        fatal = { kind: "header", message: `no header line with the needed columns in the first ${HEADER_SEARCH_LINES} lines (line ${firstHeaderLine} shown)`, issues: firstHeaderIssues };
+        fatal = {
+          kind: "header",
+          message: `no header line with the needed columns in the first ${HEADER_SEARCH_LINES} lines (line ${firstHeaderLine} shown)`,
+          issues: firstHeaderIssues,
+        };
       }
       return;
     }
@@ -184,11 +207,16 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   };
 
   const tooLong = (lineNumber: number): void => {
-    fatal = { kind: "line_too_long", message: `line ${lineNumber} is longer than ${MAX_LINE_CHARS} characters`, issues: [{ path: `line.${lineNumber}`, message: "line too long" }] };
+    fatal = {
+      kind: "line_too_long",
+      message: `line ${lineNumber} is longer than ${MAX_LINE_CHARS} characters`,
+      issues: [{ path: `line.${lineNumber}`, message: "line too long" }],
+    };
   };
 
   /** Characters (UTF-16 code units, as text would count them) above the limit; bytes count only when all ASCII. */
-  const overLong = (s: Uint8Array, start: number, end: number): boolean => end - start > MAX_LINE_CHARS && utf16Length(s, start, end) > MAX_LINE_CHARS;
+  const overLong = (s: Uint8Array, start: number, end: number): boolean =>
+    end - start > MAX_LINE_CHARS && utf16Length(s, start, end) > MAX_LINE_CHARS;
 
   const line = (s: Uint8Array, start: number, end: number): void => {
     report.lines++;
@@ -200,7 +228,11 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     if (start === end) return void report.blankLines++;
     if (report.dataRows < SIZING_ROWS) charsSoFar += end - start + 1;
     if (++report.dataRows > maxRows) {
-      fatal = { kind: "too_many_rows", message: `more than ${maxRows} data rows`, issues: [{ path: "body", message: `the upload has more than ${maxRows} data rows` }] };
+      fatal = {
+        kind: "too_many_rows",
+        message: `more than ${maxRows} data rows`,
+        issues: [{ path: "body", message: `the upload has more than ${maxRows} data rows` }],
+      };
       return;
     }
     if (report.dataRows === SIZING_ROWS && options.expectedChars) reserve();
@@ -311,7 +343,11 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     }
     if (!fatal && carryLength > 0) line(carry, 0, carryLength);
     carryLength = 0;
-    const fail = (kind: FatalKind, message: string, issues: MappingIssue[]): ParseOutcome => ({ ok: false, fatal: { kind, message, issues }, report });
+    const fail = (kind: FatalKind, message: string, issues: MappingIssue[]): ParseOutcome => ({
+      ok: false,
+      fatal: { kind, message, issues },
+      report,
+    });
     if (fatal) return { ok: false, fatal, report };
     if (decoder === null) {
       if (candidates === 0) return fail("no_data", "the upload is empty", [{ path: "body", message: "no lines: send a CSV with a header line" }]);
@@ -320,17 +356,25 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     const b = report.badRows;
     report.acceptedRows = n;
     b.fraction = report.dataRows > 0 ? b.count / report.dataRows : 0;
-    if (report.dataRows === 0) return fail("no_data", "no data rows after the header", [{ path: "body", message: "the header is followed by no rows" }]);
+    if (report.dataRows === 0)
+      return fail("no_data", "no data rows after the header", [{ path: "body", message: "the header is followed by no rows" }]);
     if (b.fraction > b.limitFraction) {
       const message = `${b.count} of ${report.dataRows} rows (${(b.fraction * 100).toFixed(1)} %) are bad, above the ${(b.limitFraction * 100).toFixed(0)} % limit`;
-      return fail("too_many_bad_rows", message, b.first.map((e) => ({ path: `line.${e.line}${e.column ? `.${e.column}` : ""}`, message: e.reason })));
+      return fail(
+        "too_many_bad_rows",
+        message,
+        b.first.map((e) => ({ path: `line.${e.line}${e.column ? `.${e.column}` : ""}`, message: e.reason })),
+      );
     }
     if (givenZone === null && withoutOffset === 0 && !Number.isNaN(firstOffsetMs)) zone = fixedZone(firstOffsetMs);
     report.timeZone = zone.name;
     const monthFirst = (decoder as RowDecoder).ts.monthFirstByDefault;
-    if (monthFirst > 0) report.notes.push(`dateOrder not given: ${monthFirst} slashed dates like 03/01/2026 were read month-first (set dateOrder=dmy for day-first)`);
+    if (monthFirst > 0)
+      report.notes.push(`dateOrder not given: ${monthFirst} slashed dates like 03/01/2026 were read month-first (set dateOrder=dmy for day-first)`);
     if (givenZone !== null && withoutOffset > 0 && !/^(UTC|[+-])/.test(zone.name)) {
-      report.notes.push(`timestamps without an offset read as local time in ${zone.name}; a local hour repeated at the daylight-saving change is read in row order (first occurrence, then second)`);
+      report.notes.push(
+        `timestamps without an offset read as local time in ${zone.name}; a local hour repeated at the daylight-saving change is read in row order (first occurrence, then second)`,
+      );
     }
     if (givenZone === null) {
       report.notes.push(
@@ -342,14 +386,19 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     const raw = { timestampsMs: tsCol, kW: kWCol, kvar: kvarCol, lines: lineCol, n };
     const { rows, duplicates } = sortAndDedupe(raw, report.outOfOrder.count === 0, fmt, maxReported);
     report.duplicates = duplicates;
-    if (rows.n < 2) return fail("too_few_intervals", "fewer than two distinct timestamps", [{ path: "body", message: "at least two intervals are needed" }]);
+    if (rows.n < 2)
+      return fail("too_few_intervals", "fewer than two distinct timestamps", [{ path: "body", message: "at least two intervals are needed" }]);
     const detected = medianStepMinutes(rows.timestampsMs, rows.n);
     const minutes = options.intervalMinutes ?? detected;
     report.interval = { minutes, detectedMinutes: detected, source: options.intervalMinutes !== undefined ? "given" : "detected" };
     report.steps = checkSteps(rows, minutes, fmt, maxReported);
     const series: IntervalSeries = {
-      timestampsMs: rows.timestampsMs.subarray(0, rows.n), kW: rows.kW.subarray(0, rows.n), kvar: rows.kvar.subarray(0, rows.n),
-      length: rows.n, intervalMinutes: minutes, timeZone: zone.name,
+      timestampsMs: rows.timestampsMs.subarray(0, rows.n),
+      kW: rows.kW.subarray(0, rows.n),
+      kvar: rows.kvar.subarray(0, rows.n),
+      length: rows.n,
+      intervalMinutes: minutes,
+      timeZone: zone.name,
     };
     return { ok: true, series, report };
   }

@@ -234,7 +234,11 @@ export function durationCurveRanks(n: number): number[] {
  * The duration curve (the value reached or exceeded in e % of intervals is the (100 − e)th percentile), from
  * e = 0 (the peak) to 100 (the minimum), together with the standard percentiles, in one pass.
  */
-export function durationCurve(values: Float64Array, n: number, range?: ValueRange): { curve: { exceedancePct: number[]; kvar: number[] }; percentiles: Percentiles } {
+export function durationCurve(
+  values: Float64Array,
+  n: number,
+  range?: ValueRange,
+): { curve: { exceedancePct: number[]; kvar: number[] }; percentiles: Percentiles } {
   return durationCurveAt(valuesAtRanks(values, n, durationCurveRanks(n), range));
 }
 

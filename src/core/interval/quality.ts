@@ -119,7 +119,12 @@ export function checkSteps(rows: RawRows, intervalMinutes: number, fmt: (utcMs: 
     } else {
       report.irregularSteps.count++;
       if (report.irregularSteps.first.length < maxExamples) {
-        report.irregularSteps.first.push({ line: rows.lines[i] as number, from: fmt(t[i - 1] as number), to: fmt(t[i] as number), minutes: d / MS_PER_MINUTE });
+        report.irregularSteps.first.push({
+          line: rows.lines[i] as number,
+          from: fmt(t[i - 1] as number),
+          to: fmt(t[i] as number),
+          minutes: d / MS_PER_MINUTE,
+        });
       }
     }
   }

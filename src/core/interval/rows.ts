@@ -116,7 +116,6 @@ export class RowDecoder {
     return Number.NaN;
   }
 
-
   /** +1 lagging, −1 leading, 0 when the sense cell is absent or empty, NaN when unrecognised. */
   private senseSign(s: Uint8Array): number {
     const col = this.map.sense;
@@ -141,14 +140,24 @@ export class RowDecoder {
     const code =
       m.timestamp >= 0
         ? this.ts.parseBytes(s, this.starts[m.timestamp] as number, this.ends[m.timestamp] as number)
-        : this.ts.parseSplitBytes(s, this.starts[m.date] as number, this.ends[m.date] as number, s, this.starts[m.time] as number, this.ends[m.time] as number);
+        : this.ts.parseSplitBytes(
+            s,
+            this.starts[m.date] as number,
+            this.ends[m.date] as number,
+            s,
+            this.starts[m.time] as number,
+            this.ends[m.time] as number,
+          );
     const tsColumn = m.timestamp >= 0 ? m.timestamp : m.date;
     if (code !== 0) return this.fail(tsColumn, `bad timestamp: ${TS_REASONS[code]}`);
     this.offsetMs = this.ts.offsetMs;
     this.hadOffset = !Number.isNaN(this.offsetMs);
     this.utcMs = this.hadOffset ? this.ts.wallMs - this.ts.offsetMs : this.opts.zone.wallToUtc(this.ts.wallMs, afterUtcMs);
     if (Number.isNaN(this.utcMs)) {
-      return this.fail(tsColumn, `bad timestamp: this local time does not exist in ${this.opts.zone.name} (skipped by the daylight-saving change; a meter on standard time all year needs a fixed offset such as -06:00)`);
+      return this.fail(
+        tsColumn,
+        `bad timestamp: this local time does not exist in ${this.opts.zone.name} (skipped by the daylight-saving change; a meter on standard time all year needs a fixed offset such as -06:00)`,
+      );
     }
     const kW = this.number(s, m.kW);
     if (Number.isNaN(kW)) return this.fail(m.kW, this.numberError);

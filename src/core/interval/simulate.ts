@@ -76,7 +76,8 @@ function simulateMonth(r: Run, tally: MonthTally, kW: Float64Array, kvar: Float6
   const { controller, masks, ops, onCount, tanTarget, tanLead } = r;
   let { mask, qMin, qMax, pfMin, pfMax, belowBefore, belowAfter, leadBefore, leadAfter, beyond } = r;
   for (let i = start; i < end; i++) {
-    const p = kW[i] as number, q = kvar[i] as number;
+    const p = kW[i] as number,
+      q = kvar[i] as number;
     const next = controller.decide(p, q, mask);
     if (next !== mask) {
       for (let changed = next ^ mask, s = 0; changed; s++, changed >>>= 1) if (changed & 1) ops[s]!++;
@@ -102,7 +103,16 @@ function simulateMonth(r: Run, tally: MonthTally, kW: Float64Array, kvar: Float6
 }
 
 /** One RankHistogram pass over the corrected kvar (pf false) or PF (pf true), recomputed from the kept combinations. */
-function feedCorrected(h: RankHistogram, gather: boolean, pf: boolean, r: Run, kW: Float64Array, kvar: Float64Array, n: number, block: Float64Array): void {
+function feedCorrected(
+  h: RankHistogram,
+  gather: boolean,
+  pf: boolean,
+  r: Run,
+  kW: Float64Array,
+  kvar: Float64Array,
+  n: number,
+  block: Float64Array,
+): void {
   const { controller, masks } = r;
   for (let from = 0; from < n; from += BLOCK) {
     const length = Math.min(BLOCK, n - from);
@@ -121,7 +131,12 @@ function feedCorrected(h: RankHistogram, gather: boolean, pf: boolean, r: Run, k
  * all steps off; each change of a step's state is one switching operation. The step combination of each interval
  * is kept (two bytes an interval); the corrected kvar and PF are recomputed from it for their percentiles.
  */
-export function simulateController(series: IntervalSeries, bank: CapacitorBank, targetPF: number, opts: ControllerOptions = {}): ControllerSimulation {
+export function simulateController(
+  series: IntervalSeries,
+  bank: CapacitorBank,
+  targetPF: number,
+  opts: ControllerOptions = {},
+): ControllerSimulation {
   assertSeries(series);
   if (!(targetPF > 0 && targetPF <= 1)) throw new RangeError("targetPF must be in (0, 1]");
   const leadingLimitPF = opts.leadingLimitPF ?? DEFAULT_LEADING_LIMIT_PF;
@@ -195,8 +210,14 @@ export function simulateController(series: IntervalSeries, bank: CapacitorBank, 
     },
     monthly,
     total: {
-      billingPFBefore: billingPF(kWh, monthly.reduce((s, m) => s + m.kvarhNetBefore, 0)),
-      billingPFAfter: billingPF(kWh, monthly.reduce((s, m) => s + m.kvarhNetAfter, 0)),
+      billingPFBefore: billingPF(
+        kWh,
+        monthly.reduce((s, m) => s + m.kvarhNetBefore, 0),
+      ),
+      billingPFAfter: billingPF(
+        kWh,
+        monthly.reduce((s, m) => s + m.kvarhNetAfter, 0),
+      ),
     },
   };
 }

@@ -17,8 +17,10 @@ export const SUMMARY_MAX_MONTHS = 36;
  * (minimum reactive demand, kvar and needed-kvar percentiles, duration curve, monthly peaks) and for a rough
  * controller estimate from the (kW, kvar) load points. kW/kvar/kVA rounded to 0.001, PF to 1e-6, energy to 0.1.
  */
-export interface IntervalSummary
-  extends Pick<IntervalAnalysis, "targetPF" | "intervalMinutes" | "intervalCount" | "firstTimestamp" | "lastTimestamp" | "coveredDays" | "timeZone" | "kW"> {
+export interface IntervalSummary extends Pick<
+  IntervalAnalysis,
+  "targetPF" | "intervalMinutes" | "intervalCount" | "firstTimestamp" | "lastTimestamp" | "coveredDays" | "timeZone" | "kW"
+> {
   summaryVersion: typeof SUMMARY_VERSION | 1;
   kvar: { mean: number; percentiles: Percentiles };
   minimumReactiveDemand: { minKvar: number; p1Kvar: number; p5Kvar: number };
@@ -64,7 +66,11 @@ export function summarise(a: IntervalAnalysis): IntervalSummary {
     timeZone: a.timeZone,
     kW: { max: r3(a.kW.max), mean: r3(a.kW.mean), percentiles: mapP(a.kW.percentiles, r3) },
     kvar: { mean: r3(a.kvar.mean), percentiles: mapP(a.kvar.percentiles, r3) },
-    minimumReactiveDemand: { minKvar: r3(a.minimumReactiveDemand.minKvar), p1Kvar: r3(a.minimumReactiveDemand.p1Kvar), p5Kvar: r3(a.minimumReactiveDemand.p5Kvar) },
+    minimumReactiveDemand: {
+      minKvar: r3(a.minimumReactiveDemand.minKvar),
+      p1Kvar: r3(a.minimumReactiveDemand.p1Kvar),
+      p5Kvar: r3(a.minimumReactiveDemand.p5Kvar),
+    },
     neededKvar: {
       percentiles: mapP(a.neededKvar.percentiles, r3),
       hold95PctKvar: r3(a.neededKvar.hold95PctKvar),
@@ -116,7 +122,12 @@ export interface RoughControllerEstimate {
  * leading limit), and, for ranges, the least and the most kvar its dead band would hold. Time order is lost (no
  * switching counts, no way to know where in the band the controller sits) and so is the spread within a cell.
  */
-export function roughControllerEstimate(s: IntervalSummary, bank: CapacitorBank, targetPF: number, opts: ControllerOptions = {}): RoughControllerEstimate {
+export function roughControllerEstimate(
+  s: IntervalSummary,
+  bank: CapacitorBank,
+  targetPF: number,
+  opts: ControllerOptions = {},
+): RoughControllerEstimate {
   const c = createController(bank, targetPF, opts);
   const tanTarget = tanPhi(targetPF);
   const tanLead = tanPhi(opts.leadingLimitPF ?? DEFAULT_LEADING_LIMIT_PF);
@@ -124,7 +135,9 @@ export function roughControllerEstimate(s: IntervalSummary, bank: CapacitorBank,
   const lp = s.loadPoints;
   const acc = { total: 0, p: 0, q: 0, below: [0, 0, 0], lead: [0, 0, 0], beyond: 0, qAfter: [0, 0, 0] };
   for (let i = 0; i < lp.count.length; i++) {
-    const w = lp.count[i] as number, kW = lp.kW[i] as number, kvar = lp.kvar[i] as number;
+    const w = lp.count[i] as number,
+      kW = lp.kW[i] as number,
+      kvar = lp.kvar[i] as number;
     const residual = kvar - c.fixedKvar;
     const target = kW * tanTarget; // kvar left at the target PF
     const ceiling = residual + kW * tanLead; // most switched kvar within the leading limit

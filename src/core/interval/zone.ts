@@ -81,16 +81,36 @@ function makeZone(text: string): Zone | null {
 function ianaZone(name: string, format: Intl.DateTimeFormat): Zone {
   const exact = (utcMs: number): number => {
     const whole = Math.floor(utcMs / 1000) * 1000;
-    let y = 0, mo = 0, d = 0, h = 0, mi = 0, s = 0, bc = false;
+    let y = 0,
+      mo = 0,
+      d = 0,
+      h = 0,
+      mi = 0,
+      s = 0,
+      bc = false;
     for (const part of format.formatToParts(whole)) {
       switch (part.type) {
-        case "year": y = Number(part.value); break;
-        case "month": mo = Number(part.value); break;
-        case "day": d = Number(part.value); break;
-        case "hour": h = Number(part.value); break;
-        case "minute": mi = Number(part.value); break;
-        case "second": s = Number(part.value); break;
-        case "era": bc = part.value.startsWith("B"); break;
+        case "year":
+          y = Number(part.value);
+          break;
+        case "month":
+          mo = Number(part.value);
+          break;
+        case "day":
+          d = Number(part.value);
+          break;
+        case "hour":
+          h = Number(part.value);
+          break;
+        case "minute":
+          mi = Number(part.value);
+          break;
+        case "second":
+          s = Number(part.value);
+          break;
+        case "era":
+          bc = part.value.startsWith("B");
+          break;
       }
     }
     const wall = daysFromCivil(bc ? 1 - y : y, mo, d) * MS_PER_DAY + ((h * 60 + mi) * 60 + s) * 1000;

@@ -43,7 +43,13 @@ export function assessInstalledBanks(input: SizingInput, site: SiteResult, loads
   const labels = loads.map((l) => l.label);
   for (const [i, b] of evaluated.banks.entries()) {
     if (b.location === "motor" && b.loadLabel && !labels.includes(b.loadLabel)) {
-      warnings.push(warning("installed_bank_load_not_read", `bank "${b.label}" sits at motor "${b.loadLabel}", which this survey did not read: its kvar is taken as outside the readings`, `installedBanks.${i}.loadLabel`));
+      warnings.push(
+        warning(
+          "installed_bank_load_not_read",
+          `bank "${b.label}" sits at motor "${b.loadLabel}", which this survey did not read: its kvar is taken as outside the readings`,
+          `installedBanks.${i}.loadLabel`,
+        ),
+      );
     }
   }
   const credit = installedCredit(site, targetPF, evaluated.banks, labels);
@@ -89,12 +95,16 @@ export function assessInstalledBanks(input: SizingInput, site: SiteResult, loads
  * I_rms/I_1 = √(1 + Σ (h·V_h/V_1)²) (circuit theory; the capacitor's admittance rises with h).
  */
 export function clampOverReadPct(lines: readonly { order: number; voltagePct: number }[]): number {
-  const sum = lines.reduce((s, l) => s + (l.order * l.voltagePct / 100) ** 2, 0);
+  const sum = lines.reduce((s, l) => s + ((l.order * l.voltagePct) / 100) ** 2, 0);
   return (Math.sqrt(1 + sum) - 1) * 100;
 }
 
 /** The clamp caution, when a plain installed step was measured; with the bus's distortion lines when known. */
-export function clampCaution(banks: readonly InstalledBankResult[], lines: readonly { order: number; voltagePct: number }[] | null, thdVPct: number | null): Caution | null {
+export function clampCaution(
+  banks: readonly InstalledBankResult[],
+  lines: readonly { order: number; voltagePct: number }[] | null,
+  thdVPct: number | null,
+): Caution | null {
   const plainMeasured = banks.filter((b) => b.reactorPct === 0 && b.steps.some((s) => s.measuredCurrentA !== undefined));
   if (plainMeasured.length === 0) return null;
   const by =
@@ -135,7 +145,12 @@ export function screenWithInstalled(
   const options = newBanks.length > 0 ? newBanks : [{ name: "none", reactorPct: 0, stages: [] }];
   const screens = options.map((nb) => ({
     withNewBank: nb.name,
-    ...screenCombinedStages(units, nb.stages.map((s) => ({ ...s, reactorFraction: nb.reactorPct / 100 })), shortCircuitKVA, harmonicOrders),
+    ...screenCombinedStages(
+      units,
+      nb.stages.map((s) => ({ ...s, reactorFraction: nb.reactorPct / 100 })),
+      shortCircuitKVA,
+      harmonicOrders,
+    ),
   }));
   const warnings: Warning[] = [];
   for (const sc of screens) {
@@ -150,7 +165,13 @@ export function screenWithInstalled(
     );
   }
   if (screens.some((sc) => sc.truncated)) {
-    warnings.push(warning("combined_screen_truncated", `more switchable combinations exist than the ${MAX_COMBINATIONS} screened: the combined resonance screen is incomplete`, "installedBanks"));
+    warnings.push(
+      warning(
+        "combined_screen_truncated",
+        `more switchable combinations exist than the ${MAX_COMBINATIONS} screened: the combined resonance screen is incomplete`,
+        "installedBanks",
+      ),
+    );
   }
   const plain = banks.filter((b) => b.reactorPct === 0);
   const detuned = newBanks.find((nb) => nb.reactorPct > 0);
@@ -175,7 +196,11 @@ export type InstalledScreen = CombinedScreen & { withNewBank: string; harmonics?
  * Every installed step as a switchable unit: a fixed bank at the service is always in; a motor's or a group's
  * bank switches with its load. Nameplate ratings come from the bank's input (matched by label).
  */
-export function installedUnitsOf(banks: readonly InstalledBankResult[], inputs: readonly InstalledBankInput[], system: { voltageV: number; frequencyHz: number }): RatedSwitchUnit[] {
+export function installedUnitsOf(
+  banks: readonly InstalledBankResult[],
+  inputs: readonly InstalledBankInput[],
+  system: { voltageV: number; frequencyHz: number },
+): RatedSwitchUnit[] {
   return banks.flatMap((b) => {
     const rating = inputs.find((i) => i.label === b.label);
     return b.steps.map((s) => ({
@@ -307,7 +332,11 @@ export function newBanksOf(
       reactorPct: recommended.reactorPct,
       ratedVoltageV: recommended.ratedVoltageV,
       ratedFrequencyHz: recommended.ratedFrequencyHz,
-      stages: recommended.stages.map((s) => ({ capacitorKvar: s.cumulativeCapacitorKvar, effectiveKvar: s.cumulativeKvar, nameplateKvar: s.cumulativeNameplateKvar })),
+      stages: recommended.stages.map((s) => ({
+        capacitorKvar: s.cumulativeCapacitorKvar,
+        effectiveKvar: s.cumulativeKvar,
+        nameplateKvar: s.cumulativeNameplateKvar,
+      })),
     });
   }
   const proposal = proposals.find((p) => p.forBank === "recommended");

@@ -27,10 +27,9 @@ export function scopeOf(input: SizingInput, site: SiteResult, kvarRequired: numb
     ? "whole-site survey: the central bank is designed from the building's interval data"
     : "whole-site survey: the bank is designed from these readings";
   if (input.intervalDemand) {
-    const outside = [
-      outsideRange("kW", site.kW, input.intervalDemand.kW),
-      outsideRange("kvar", site.kvar, input.intervalDemand.kvar),
-    ].filter((s): s is string => s !== null);
+    const outside = [outsideRange("kW", site.kW, input.intervalDemand.kW), outsideRange("kvar", site.kvar, input.intervalDemand.kvar)].filter(
+      (s): s is string => s !== null,
+    );
     if (outside.length > 0) {
       warnings.push(
         warning(
@@ -51,7 +50,9 @@ function outsideRange(unit: string, value: number, samples: ArrayLike<number>): 
   const low = percentileOf(values, 1);
   const high = percentileOf(values, 100);
   const m = INTERVAL_RANGE_MARGIN;
-  if (value < low - m * Math.abs(low)) return `${value.toFixed(1)} ${unit} is more than 10 % below the interval data's 1st percentile of ${low.toFixed(1)} ${unit}`;
-  if (value > high + m * Math.abs(high)) return `${value.toFixed(1)} ${unit} is more than 10 % above the interval data's maximum of ${high.toFixed(1)} ${unit}`;
+  if (value < low - m * Math.abs(low))
+    return `${value.toFixed(1)} ${unit} is more than 10 % below the interval data's 1st percentile of ${low.toFixed(1)} ${unit}`;
+  if (value > high + m * Math.abs(high))
+    return `${value.toFixed(1)} ${unit} is more than 10 % above the interval data's maximum of ${high.toFixed(1)} ${unit}`;
   return null;
 }

@@ -5,11 +5,7 @@ import { DEFAULT_TARGET_PF, type SizingInput, type SurveyScope } from "../inputs
 import { scopeOf } from "./scope.js";
 import { designSiteCorrection, type RecommendedBank } from "../placement/site-plan.js";
 import type { PlacementPlan } from "../placement/placement-types.js";
-import {
-  harmonicOrdersPresent,
-  NONLINEAR_STUDY_SHARE,
-  voltageRisePct,
-} from "../harmonics/resonance.js";
+import { harmonicOrdersPresent, NONLINEAR_STUDY_SHARE, voltageRisePct } from "../harmonics/resonance.js";
 import { shortCircuitAtBus } from "../harmonics/short-circuit.js";
 import { costItemsOf, economicsBankOf, economicsIntervalsOf, siteEconomics } from "../economics/of-sizing.js";
 import type { EconomicsResult } from "../economics/economics-api.js";
@@ -149,7 +145,9 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
       nonlinearSharePct: share === null ? null : share * 100,
       harmonicStudyAdvised: advised,
       harmonicStudyReasons: advised
-        ? [`nonlinear (drive) load is ${((share as number) * 100).toFixed(0)} % of the transformer kVA, above ${NONLINEAR_STUDY_SHARE * 100} % (makers' rule of thumb)`]
+        ? [
+            `nonlinear (drive) load is ${((share as number) * 100).toFixed(0)} % of the transformer kVA, above ${NONLINEAR_STUDY_SHARE * 100} % (makers' rule of thumb)`,
+          ]
         : [],
       recommendedBankVoltageRisePct: recommendedBank ? voltageRisePct(recommendedBank.effectiveKvar, sc.shortCircuitKVA) : null,
       proposedBankVoltageRisePct: proposedBank ? voltageRisePct(proposedBank.effectiveKvar, sc.shortCircuitKVA) : null,
@@ -164,7 +162,18 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
     );
   }
 
-  const h = studySiteHarmonics(input, loads, sc?.shortCircuitKVA ?? null, { recommended: recommendedBank ? { ...recommendedBank, steps: designed.screenSteps } : null, proposed: proposedBank, installed: input.installedBanks ?? [] }, options.harmonics, options.forceHarmonicStudy);
+  const h = studySiteHarmonics(
+    input,
+    loads,
+    sc?.shortCircuitKVA ?? null,
+    {
+      recommended: recommendedBank ? { ...recommendedBank, steps: designed.screenSteps } : null,
+      proposed: proposedBank,
+      installed: input.installedBanks ?? [],
+    },
+    options.harmonics,
+    options.forceHarmonicStudy,
+  );
   if (h.issues.length > 0) return { ok: false, issues: h.issues };
   warnings.splice(0, warnings.length, ...withoutScreenVoltageRepeats(warnings, h.warnings), ...h.warnings);
   // The study changed the design: then it is advised whatever the nonlinear share, and the result says why.
@@ -190,9 +199,15 @@ export function size(input: SizingInput, options: SizingOptions = {}): SizingOut
   warnings.push(...screened.warnings);
   // Where the bus has a harmonic study, the same combinations are studied for THD_v and capacitor duty.
   const combined =
-    h.context && screened.screens.length > 0 ? studyWithInstalled(h.context, installed.banks, input.installedBanks ?? [], newBanks, screened.screens) : { screens: screened.screens, warnings: [] };
+    h.context && screened.screens.length > 0
+      ? studyWithInstalled(h.context, installed.banks, input.installedBanks ?? [], newBanks, screened.screens)
+      : { screens: screened.screens, warnings: [] };
   warnings.push(...combined.warnings);
-  const clamp = clampCaution(installed.banks, h.study ? h.study.withoutCapacitors.distortion.lines : null, h.study ? h.study.withoutCapacitors.distortion.thdVPct : null);
+  const clamp = clampCaution(
+    installed.banks,
+    h.study ? h.study.withoutCapacitors.distortion.lines : null,
+    h.study ? h.study.withoutCapacitors.distortion.thdVPct : null,
+  );
   return {
     ok: true,
     result: {

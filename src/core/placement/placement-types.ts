@@ -4,8 +4,10 @@ import type { LoadInput, LoadKind } from "../inputs.js";
 import type { Warning } from "../warnings.js";
 
 /** The placement fields of a load are the load input's own (starting, contactor, group, no-load amps, duty, conductors). */
-export interface PlacementLoad
-  extends Pick<LoadInput, "starting" | "separateCapacitorContactor" | "group" | "noLoadAmps" | "continuousDuty" | "motorConductorAmpacityA"> {
+export interface PlacementLoad extends Pick<
+  LoadInput,
+  "starting" | "separateCapacitorContactor" | "group" | "noLoadAmps" | "continuousDuty" | "motorConductorAmpacityA"
+> {
   label: string;
   kind: LoadKind;
   /** kW and signed kvar of the whole entry (all `quantity` units) at the measured load. */

@@ -4,13 +4,7 @@ import { capacitorCurrentA, kvarAtVoltage } from "../bank/capacitor.js";
 import { CONDUCTOR_AMPACITY_FACTOR, terminalCapacitorConductorMinA } from "../bank/protection.js";
 import { STANDARD_UNIT_KVAR } from "../bank/standard-sizes.js";
 import { mergeBySubject, warning, type Warning } from "../warnings.js";
-import {
-  largestSizeAtMost,
-  motorLineCurrentA,
-  SELF_EXCITATION_SOURCE,
-  selfExcitationLimitKvar,
-  terminalSafety,
-} from "./rules.js";
+import { largestSizeAtMost, motorLineCurrentA, SELF_EXCITATION_SOURCE, selfExcitationLimitKvar, terminalSafety } from "./rules.js";
 import type { LoadPlacement, LocationKvar, PlacementInput, PlacementLoad, PlacementLocation, PlacementPlan } from "./placement-types.js";
 
 export type * from "./placement-types.js";
@@ -52,10 +46,18 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
     const about = { subjects: [l.label] };
     if (safety.code) warnings.push(warning(safety.code, `${l.label}: ${safety.reason}`, `${prefix}.${i}`, about));
     if (!safety.safe && l.kind === "motor" && l.starting === undefined && unitKW >= minKW) {
-      warnings.push(warning("starting_method_needed", `${l.label}: state how the motor is started (starting) to know whether a terminal capacitor is safe`, `${prefix}.${i}.starting`, about));
+      warnings.push(
+        warning(
+          "starting_method_needed",
+          `${l.label}: state how the motor is started (starting) to know whether a terminal capacitor is safe`,
+          `${prefix}.${i}.starting`,
+          about,
+        ),
+      );
     }
     if (!safety.safe) return void (p.reason = safety.reason);
-    if (unitKW < minKW) return void (p.reason = `${unitKW.toFixed(1)} kW per motor is below the ${minKW} kW worth a terminal capacitor (common practice)`);
+    if (unitKW < minKW)
+      return void (p.reason = `${unitKW.toFixed(1)} kW per motor is below the ${minKW} kW worth a terminal capacitor (common practice)`);
     if (l.continuousDuty === false) return void (p.reason = "runs intermittently: a terminal capacitor would idle; corrected upstream");
     if (l.noLoadAmps === undefined) {
       const msg = `${l.label}: to size a terminal capacitor, measure the motor's no-load current uncoupled from its load at rated voltage (or take it from the maker's data) and give noLoadAmps`;
@@ -93,9 +95,10 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
     const after = motorLineCurrentA(l.kW / f.q, l.kvar / f.q, f.perMotorKvar, l.voltageV, l.phases);
     const ratedA = capacitorCurrentA(f.nameplateKvar, f.ratedVoltageV, l.phases);
     const conductorMinA = terminalCapacitorConductorMinA(ratedA, l.motorConductorAmpacityA);
-    const unitText = Math.abs(f.perMotorKvar - f.nameplateKvar) < 1e-9
-      ? `one ${f.nameplateKvar} kvar ${f.ratedVoltageV} V unit per motor`
-      : `one ${f.nameplateKvar} kvar ${f.ratedVoltageV} V unit per motor (${f.perMotorKvar.toFixed(2)} kvar at ${l.voltageV} V)`;
+    const unitText =
+      Math.abs(f.perMotorKvar - f.nameplateKvar) < 1e-9
+        ? `one ${f.nameplateKvar} kvar ${f.ratedVoltageV} V unit per motor`
+        : `one ${f.nameplateKvar} kvar ${f.ratedVoltageV} V unit per motor (${f.perMotorKvar.toFixed(2)} kvar at ${l.voltageV} V)`;
     p.location = "terminal";
     p.reason = `large (${f.unitKW.toFixed(1)} kW), continuous and safely started: ${unitText}, within ${(share * 100).toFixed(0)} % of its ${f.limitKvar.toFixed(1)} kvar self-excitation limit at ${l.voltageV} V (${SELF_EXCITATION_SOURCE}); capacitor conductors at least ${conductorMinA.toFixed(1)} A (NFPA 70 460.8(A))`;
     p.terminal = {
@@ -128,14 +131,19 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
   for (const g of groupNeeds) {
     const kvar = Math.min(g.need, required - terminalKvar - groupKvar);
     if (kvar < groupMin - EPS) {
-      notes.push(`group ${g.name}: net ${g.need.toFixed(1)} kvar still needed${kvar < g.need - EPS ? `, ${Math.max(0, kvar).toFixed(1)} kvar of it left after the banks before it` : ""}, below the ${groupMin} kvar worth a group bank (common practice): corrected centrally`);
+      notes.push(
+        `group ${g.name}: net ${g.need.toFixed(1)} kvar still needed${kvar < g.need - EPS ? `, ${Math.max(0, kvar).toFixed(1)} kvar of it left after the banks before it` : ""}, below the ${groupMin} kvar worth a group bank (common practice): corrected centrally`,
+      );
       continue;
     }
     banked.add(g.name);
     groupKvar += kvar;
     const loc: PlacementLocation = `group:${g.name}`;
     locations.push({ location: loc, kvar, loads: g.idx.filter((i) => (residual[i] as number) > EPS).map((i) => input.loads[i]?.label ?? "") });
-    if (kvar < g.need - EPS) notes.push(`group ${g.name}: bank capped at ${kvar.toFixed(1)} kvar, what the site still needs, below its loads' net ${g.need.toFixed(1)} kvar`);
+    if (kvar < g.need - EPS)
+      notes.push(
+        `group ${g.name}: bank capped at ${kvar.toFixed(1)} kvar, what the site still needs, below its loads' net ${g.need.toFixed(1)} kvar`,
+      );
   }
 
   // 3. Central automatic bank for the rest; a remainder below the smallest unit is not worth a bank.
@@ -157,7 +165,8 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
     const inBank = l.group !== undefined && banked.has(l.group);
     const upstream = inBank ? `group:${l.group}` : centralKvar > 0 ? "central" : null;
     if (p.location === "terminal") {
-      if (r > EPS) p.reason += `; the remaining ${r.toFixed(1)} kvar is corrected ${upstream === null ? "nowhere (the site needs no more)" : upstream === "central" ? "at the central bank" : `at its group bank ${l.group}`}`;
+      if (r > EPS)
+        p.reason += `; the remaining ${r.toFixed(1)} kvar is corrected ${upstream === null ? "nowhere (the site needs no more)" : upstream === "central" ? "at the central bank" : `at its group bank ${l.group}`}`;
       if (r > EPS && upstream === "central") {
         centralLoads.push(l.label);
         centralLoadNeed += r;
@@ -184,7 +193,9 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
     }
   });
   if (centralKvar > 0 && centralLoadNeed > centralKvar + 0.05) {
-    notes.push(`the central bank's ${centralKvar.toFixed(1)} kvar is less than the ${centralLoadNeed.toFixed(1)} kvar its loads need: loads above the target PF (drives, leading lighting) and the site basis offset the difference`);
+    notes.push(
+      `the central bank's ${centralKvar.toFixed(1)} kvar is less than the ${centralLoadNeed.toFixed(1)} kvar its loads need: loads above the target PF (drives, leading lighting) and the site basis offset the difference`,
+    );
   }
   const terminalLoads = out.filter((p) => p.location === "terminal").map((p) => p.label);
   if (terminalKvar > 0) locations.unshift({ location: "terminal", kvar: terminalKvar, loads: terminalLoads });
@@ -198,19 +209,36 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
   if (required <= EPS) {
     balanceNote = "nothing placed: the site as a whole needs no added kvar to reach the target";
   } else if (Math.abs(basisGap) > 0.05) {
-    balanceNote += basisGap > 0
-      ? `; the site basis needs ${basisGap.toFixed(1)} kvar more than its loads add up to (unmetered loads or readings at different times), ${centralKvar > 0 ? "taken at the central bank" : "left uncorrected (below the smallest unit)"}`
-      : `; the loads add up to ${(-basisGap).toFixed(1)} kvar more need than the site basis (diversity or readings at different times), so upstream banks are held to the site's figure`;
+    balanceNote +=
+      basisGap > 0
+        ? `; the site basis needs ${basisGap.toFixed(1)} kvar more than its loads add up to (unmetered loads or readings at different times), ${centralKvar > 0 ? "taken at the central bank" : "left uncorrected (below the smallest unit)"}`
+        : `; the loads add up to ${(-basisGap).toFixed(1)} kvar more need than the site basis (diversity or readings at different times), so upstream banks are held to the site's figure`;
   }
-  const unbalanced = input.systemPhases === 3
-    ? out.filter((p, i) => input.loads[i]?.phases === 1 && (p.location === "central" || p.location.startsWith("group:")))
-    : [];
+  const unbalanced =
+    input.systemPhases === 3
+      ? out.filter((p, i) => input.loads[i]?.phases === 1 && (p.location === "central" || p.location.startsWith("group:")))
+      : [];
   if (unbalanced.length > 0) {
     const list = unbalanced.map((p) => `${p.label} (${Math.max(0, p.needKvar).toFixed(1)} kvar)`).join(", ");
     // A balanced bank puts a third of its kvar on each phase; the single-phase need sits on one or two (common practice, no source).
-    warnings.push(warning("single_phase_on_three_phase_bank", `single-phase loads corrected by a balanced three-phase bank: ${list}; the bank spreads its kvar over three phases while their need sits on one or two, so the phases are corrected unevenly — if they are large, correct them at their terminals or spread them across the phases`, prefix));
+    warnings.push(
+      warning(
+        "single_phase_on_three_phase_bank",
+        `single-phase loads corrected by a balanced three-phase bank: ${list}; the bank spreads its kvar over three phases while their need sits on one or two, so the phases are corrected unevenly — if they are large, correct them at their terminals or spread them across the phases`,
+        prefix,
+      ),
+    );
   }
-  return { loads: out, locations, totalKvar, siteRequiredKvar: required, differenceKvar, balanceNote, notes, warnings: mergeBySubject(warnings, prefix) };
+  return {
+    loads: out,
+    locations,
+    totalKvar,
+    siteRequiredKvar: required,
+    differenceKvar,
+    balanceNote,
+    notes,
+    warnings: mergeBySubject(warnings, prefix),
+  };
 }
 
 function conductorNoteText(ratedA: number, motorConductorAmpacityA: number | undefined): string {

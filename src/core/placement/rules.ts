@@ -25,8 +25,7 @@ const NEVER_AT_TERMINALS: Partial<Record<StartingMethod, string>> = {
     "jogging reconnects a still-turning motor many times; the capacitor keeps it excited, so each reclosure is out of phase: high transient torque and current",
   plugging:
     "plugging reverses a turning motor; the capacitor keeps it excited, so the reversal closes onto the motor's own voltage out of phase: transient torque and overvoltage",
-  reversing:
-    "reversing reconnects a motor that the capacitor still excites, out of phase with the supply: transient torque and overvoltage",
+  reversing: "reversing reconnects a motor that the capacitor still excites, out of phase with the supply: transient torque and overvoltage",
   multi_speed:
     "a multi-speed motor's windings have different no-load currents and are switched under the capacitor: no single capacitor suits them and the switching can self-excite",
 };
@@ -36,10 +35,8 @@ const NEVER_AT_TERMINALS: Partial<Record<StartingMethod, string>> = {
  * closed only once the motor runs at full voltage and opened with the motor (makers' application practice).
  */
 const ONLY_WITH_OWN_CONTACTOR: Partial<Record<StartingMethod, string>> = {
-  star_delta:
-    "the open transition of a star-delta starter leaves the motor with the capacitor: self-excitation, then reclosure out of phase",
-  soft_starter:
-    "a soft starter's thyristors and a capacitor at its output damage each other (inrush on every firing, resonance with the ramp)",
+  star_delta: "the open transition of a star-delta starter leaves the motor with the capacitor: self-excitation, then reclosure out of phase",
+  soft_starter: "a soft starter's thyristors and a capacitor at its output damage each other (inrush on every firing, resonance with the ramp)",
   reduced_voltage:
     "on the motor side of an autotransformer or reactor starter the capacitor resonates with the starter's inductance and sees overvoltage at transition",
 };

@@ -53,7 +53,11 @@ export interface InstalledForDesign {
   automaticStepsKvar?: number[];
 }
 
-function demandOf(input: SizingInput, site: SiteResult, installed?: InstalledForDesign): { demand?: ReactiveDemand; issues: InputIssue[]; warnings: Warning[] } {
+function demandOf(
+  input: SizingInput,
+  site: SiteResult,
+  installed?: InstalledForDesign,
+): { demand?: ReactiveDemand; issues: InputIssue[]; warnings: Warning[] } {
   if (input.intervalDemand) {
     const { kW, kvar, intervalMinutes } = input.intervalDemand;
     return { demand: { kind: "intervals", samples: { kW, kvar }, ...(intervalMinutes ? { intervalMinutes } : {}) }, issues: [], warnings: [] };
@@ -67,7 +71,11 @@ function demandOf(input: SizingInput, site: SiteResult, installed?: InstalledFor
   if (check.issues.length > 0) return { issues: check.issues, warnings: check.warnings };
   const light = triangleOf(input.lightLoad.measurement, input.system.phases, at);
   if (!light.triangle) return { issues: light.issues, warnings: [...check.warnings, ...light.warnings] };
-  return { demand: { kind: "readings", survey, lightLoad: { kW: light.triangle.kW, kvar: light.triangle.kvar } }, issues: [], warnings: [...check.warnings, ...light.warnings] };
+  return {
+    demand: { kind: "readings", survey, lightLoad: { kW: light.triangle.kW, kvar: light.triangle.kvar } },
+    issues: [],
+    warnings: [...check.warnings, ...light.warnings],
+  };
 }
 
 /**
@@ -129,7 +137,9 @@ export function designSiteCorrection(
     ...(o.ratedVoltageV !== undefined ? { ratedVoltageV: o.ratedVoltageV } : {}),
     ...(o.reactorPct !== undefined ? { reactorPct: o.reactorPct } : {}),
     ...(o.coverage !== undefined || preferredBaseKvar !== undefined
-      ? { steps: { ...(o.coverage !== undefined ? { coverage: o.coverage } : {}), ...(preferredBaseKvar !== undefined ? { preferredBaseKvar } : {}) } }
+      ? {
+          steps: { ...(o.coverage !== undefined ? { coverage: o.coverage } : {}), ...(preferredBaseKvar !== undefined ? { preferredBaseKvar } : {}) },
+        }
       : {}),
     protection: { ...(o.protectionDevice ? { device: o.protectionDevice } : {}), ...(o.ocpdFactor ? { ocpdFactor: o.ocpdFactor } : {}) },
     discharge: {
@@ -137,7 +147,8 @@ export function designSiteCorrection(
       ...(o.dischargeResistorConnection ? { resistorConnection: o.dischargeResistorConnection } : {}),
     },
   });
-  if (!outcome.ok) return { placement, recommendedBank: null, screenSteps: [], issues: outcome.issues.map((i) => ({ ...i, path: prefixed(i.path) })), warnings };
+  if (!outcome.ok)
+    return { placement, recommendedBank: null, screenSteps: [], issues: outcome.issues.map((i) => ({ ...i, path: prefixed(i.path) })), warnings };
   const design = outcome.design;
   warnings.push(...design.warnings);
   if (!design.bank || !design.screenBank) return { placement, recommendedBank: null, screenSteps: [], issues: [], warnings };
@@ -167,7 +178,15 @@ export function designSiteCorrection(
     const arrays = demandArrays(d.demand, localKvar).arrays;
     const autoTotal = autoSteps.reduce((s, k) => s + k, 0);
     const combined = arrays
-      ? combinedProgram(arrays, correction.targetPF, autoSteps, Math.max(0, installed.installedKvar - autoTotal), design.fixedKvar, design.steps.filter((s) => s.role !== "fixed").map((s) => s.effectiveKvar), design.stepPlan.metShare)
+      ? combinedProgram(
+          arrays,
+          correction.targetPF,
+          autoSteps,
+          Math.max(0, installed.installedKvar - autoTotal),
+          design.fixedKvar,
+          design.steps.filter((s) => s.role !== "fixed").map((s) => s.effectiveKvar),
+          design.stepPlan.metShare,
+        )
       : null;
     if (combined) recommendedBank.combinedProgram = combined;
   }
@@ -187,6 +206,6 @@ function mostCommon(kvar: readonly number[]): number | undefined {
   for (const k of kvar) counts.set(Math.round(k * 1e6) / 1e6, (counts.get(Math.round(k * 1e6) / 1e6) ?? 0) + 1);
   let best: number | undefined;
   let n = 0;
-  for (const [k, c] of counts) if (c > n) (best = k), (n = c);
+  for (const [k, c] of counts) if (c > n) ((best = k), (n = c));
   return best;
 }

@@ -57,10 +57,22 @@ export function checkAgainstTransformer(site: ApparentPowerItem, loads: Apparent
   const over = loads.filter((l) => l.kVA > transformerKVA);
   if (over.length > 0) {
     const list = over.map((l) => `${l.label} ${l.kVA.toFixed(1)} kVA`).join(", ");
-    warnings.push(warning("load_above_transformer", `${over.length === 1 ? "a load draws" : `${over.length} loads draw`} more than the ${transformerKVA} kVA transformer (${list}): check the readings (units, quantity) or the transformer rating`, "transformer.kVA"));
+    warnings.push(
+      warning(
+        "load_above_transformer",
+        `${over.length === 1 ? "a load draws" : `${over.length} loads draw`} more than the ${transformerKVA} kVA transformer (${list}): check the readings (units, quantity) or the transformer rating`,
+        "transformer.kVA",
+      ),
+    );
   }
   if (site.kVA > transformerKVA) {
-    warnings.push(warning("site_above_transformer", `${site.label} ${site.kVA.toFixed(1)} kVA is above the ${transformerKVA} kVA transformer rating: check the readings or the transformer rating — the transformer would be overloaded`, "transformer.kVA"));
+    warnings.push(
+      warning(
+        "site_above_transformer",
+        `${site.label} ${site.kVA.toFixed(1)} kVA is above the ${transformerKVA} kVA transformer rating: check the readings or the transformer rating — the transformer would be overloaded`,
+        "transformer.kVA",
+      ),
+    );
   }
   return warnings;
 }

@@ -47,12 +47,7 @@ export function readingVolts(m: LoadInput["measurement"]): number | undefined {
   return m.method === "v_i_kw" || m.method === "v_i_pf" ? m.volts : undefined;
 }
 
-export function evaluateSite(
-  system: SystemInput,
-  loads: LoadInput[],
-  serviceEntrance?: ServiceEntranceInput,
-  transformerKVA?: number,
-): SiteOutcome {
+export function evaluateSite(system: SystemInput, loads: LoadInput[], serviceEntrance?: ServiceEntranceInput, transformerKVA?: number): SiteOutcome {
   const issues: InputIssue[] = [];
   const warnings: Warning[] = [];
   const results: LoadResult[] = [];
@@ -134,7 +129,13 @@ export function evaluateSite(
   }
   if (transformerKVA !== undefined) {
     const siteItem = { label: main ? "the service entrance's" : "the loads' total", kVA: main ? (main.measuredKVA ?? main.kVA) : site.kVA };
-    warnings.push(...checkAgainstTransformer(siteItem, results.map((l) => ({ label: l.label, kVA: l.measuredKVA ?? l.kVA })), transformerKVA));
+    warnings.push(
+      ...checkAgainstTransformer(
+        siteItem,
+        results.map((l) => ({ label: l.label, kVA: l.measuredKVA ?? l.kVA })),
+        transformerKVA,
+      ),
+    );
   }
   return { loads: results, site, issues, warnings };
 }

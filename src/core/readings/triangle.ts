@@ -1,11 +1,4 @@
-import {
-  apparentKVA,
-  kVAFromVoltsAmps,
-  senseOfKvar,
-  tanPhi,
-  type Phases,
-  type Sense,
-} from "../conventions.js";
+import { apparentKVA, kVAFromVoltsAmps, senseOfKvar, tanPhi, type Phases, type Sense } from "../conventions.js";
 import type { Measurement } from "../inputs.js";
 import { warning, type InputIssue, type Warning } from "../warnings.js";
 

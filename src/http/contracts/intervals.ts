@@ -12,7 +12,9 @@ const MIB = INTERVAL_MAX_BYTES / 1048576;
 const optionShape = Object.fromEntries(
   Object.entries(INTERVAL_OPTION_DOCS).map(([name, o]) => [name, (o.type === "number" ? z.number() : z.string()).optional().describe(o.description)]),
 );
-const optionFields = Object.fromEntries(Object.entries(INTERVAL_OPTION_DOCS).map(([name, o]) => [name, z.string().optional().describe(o.description)]));
+const optionFields = Object.fromEntries(
+  Object.entries(INTERVAL_OPTION_DOCS).map(([name, o]) => [name, z.string().optional().describe(o.description)]),
+);
 
 /** The upload: the CSV as the body, or a form with the option fields first and the CSV in the field "file". */
 const upload = {
@@ -55,7 +57,10 @@ export const storeIntervalAnalysis: RouteContract = {
   querystring: z.object(optionShape),
   headers: idempotencyHeaders,
   body: upload,
-  response: { "201": json("the stored analysis's id and the full analysis", intervalAnalysisCreatedSchema), ...problems(withKey, 400, 404, 413, 415, 422) },
+  response: {
+    "201": json("the stored analysis's id and the full analysis", intervalAnalysisCreatedSchema),
+    ...problems(withKey, 400, 404, 413, 415, 422),
+  },
 };
 
 export const listIntervalAnalyses: RouteContract = {

@@ -35,7 +35,10 @@ export const listSurveys: RouteContract = {
   security: withKey,
   params: idParams,
   querystring: z.object({ ...rangeQuery, ...pagingQuery }),
-  response: { "200": json("summaries of the latest revisions, by surveyedAt then id, newest first", surveyPageSchema), ...problems(withKey, 400, 404) },
+  response: {
+    "200": json("summaries of the latest revisions, by surveyedAt then id, newest first", surveyPageSchema),
+    ...problems(withKey, 400, 404),
+  },
 };
 
 export const buildingTrend: RouteContract = {
@@ -82,7 +85,10 @@ export const reviseSurvey: RouteContract = {
   response: { "201": json("the new revision's number and result", surveyCreatedSchema), ...problems(withKey, 400, 404, 413, 415, 422) },
 };
 
-const revisionNumber = z.string().regex(/^[1-9]\d{0,8}$/).describe("a revision number: a whole number from 1");
+const revisionNumber = z
+  .string()
+  .regex(/^[1-9]\d{0,8}$/)
+  .describe("a revision number: a whole number from 1");
 
 export const getSurveyRevision: RouteContract = {
   operationId: "getSurveyRevision",
@@ -100,7 +106,10 @@ export const surveyLoadsCsv: RouteContract = {
   security: withKey,
   params: idParams,
   response: {
-    "200": { description: "RFC 4180 CSV, one row per load: measured then computed values; units in the header", content: { "text/csv": { schema: z.string() } } },
+    "200": {
+      description: "RFC 4180 CSV, one row per load: measured then computed values; units in the header",
+      content: { "text/csv": { schema: z.string() } },
+    },
     ...problems(withKey, 404),
   },
 };
@@ -110,7 +119,8 @@ const reportQuery = z.object({ revision: revisionNumber.optional().describe("the
 export const surveyReport: RouteContract = {
   operationId: "surveyReport",
   summary: "A stored survey's report as a self-contained HTML page",
-  description: "Built from what was stored (the revision and the building as it was then); nothing is recomputed. paper is accepted for symmetry with the PDF and does not change the page.",
+  description:
+    "Built from what was stored (the revision and the building as it was then); nothing is recomputed. paper is accepted for symmetry with the PDF and does not change the page.",
   tags: ["surveys", "reports"],
   security: withKey,
   params: idParams,

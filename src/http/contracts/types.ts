@@ -62,7 +62,10 @@ export function problems(security: SecurityRequirement[], ...statuses: number[])
   const all = new Set([...statuses, ...(security.length ? [401, 403] : []), 429]);
   const out: Record<string, ResponseContract> = {};
   for (const status of [...all].sort((a, b) => a - b)) {
-    out[String(status)] = { description: PROBLEM_WHEN[status] ?? "problem details", content: { "application/problem+json": { schema: problemSchema } } };
+    out[String(status)] = {
+      description: PROBLEM_WHEN[status] ?? "problem details",
+      content: { "application/problem+json": { schema: problemSchema } },
+    };
   }
   return out;
 }

@@ -42,7 +42,8 @@ export async function feedStream(stream: AsyncIterable<Buffer | string>, parser:
  */
 function release(chunk: Buffer): void {
   const buffer = chunk.buffer as ArrayBuffer & { detached?: boolean; transfer?: (length: number) => ArrayBuffer }; // ES2024
-  if (buffer instanceof ArrayBuffer && chunk.byteOffset === 0 && chunk.byteLength === buffer.byteLength && buffer.detached === false) buffer.transfer?.(0);
+  if (buffer instanceof ArrayBuffer && chunk.byteOffset === 0 && chunk.byteLength === buffer.byteLength && buffer.detached === false)
+    buffer.transfer?.(0);
 }
 
 const FATAL: Record<FatalKind, { status: number; slug: ProblemSlug; title: string }> = {

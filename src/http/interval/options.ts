@@ -18,7 +18,10 @@ export const INTERVAL_OPTION_DOCS = {
   senseColumn: { type: "string", description: "column with lagging/leading (lag/lead, L/C, ind/cap)" },
   sense: { type: "string", description: "lagging | leading: sense of PF or kVA rows without a sense column" },
   dateOrder: { type: "string", description: "mdy | dmy for dates like 03/01/2026 (default mdy; a first part above 12 is an error)" },
-  timeZone: { type: "string", description: "IANA zone (America/Chicago) or offset (+02:00) of timestamps without one, and of calendar months; default UTC" },
+  timeZone: {
+    type: "string",
+    description: "IANA zone (America/Chicago) or offset (+02:00) of timestamps without one, and of calendar months; default UTC",
+  },
   delimiter: { type: "string", description: "comma | semicolon | tab (default: detected from the header)" },
   intervalMinutes: { type: "number", description: "interval length override, minutes (default: the median step)" },
   fixedKvar: { type: "number", description: "bank to simulate: fixed kvar always connected" },
@@ -32,7 +35,10 @@ export type OptionName = keyof typeof INTERVAL_OPTION_DOCS;
 export const OPTION_NAMES = Object.keys(INTERVAL_OPTION_DOCS) as OptionName[];
 
 const num = (min: number, max: number, what: string) =>
-  z.coerce.number({ error: `${what} must be a number` }).refine(Number.isFinite, `${what} must be a finite number`).pipe(z.number().min(min, `${what} must be at least ${min}`).max(max, `${what} must be at most ${max}`));
+  z.coerce
+    .number({ error: `${what} must be a number` })
+    .refine(Number.isFinite, `${what} must be a finite number`)
+    .pipe(z.number().min(min, `${what} must be at least ${min}`).max(max, `${what} must be at most ${max}`));
 const column = z.string().trim().min(1, "give a header name or a 1-based column number").max(200);
 
 const schema = z.object({
@@ -47,14 +53,22 @@ const schema = z.object({
   senseColumn: column.optional(),
   sense: z.enum(["lagging", "leading"], { error: "sense must be lagging or leading" }).optional(),
   dateOrder: z.enum(["mdy", "dmy"], { error: "dateOrder must be mdy or dmy" }).optional(),
-  timeZone: z.string().trim().max(64).refine((v) => zoneFor(v) !== null, "not an IANA time-zone name (e.g. America/Chicago) or an offset like +02:00").optional(),
+  timeZone: z
+    .string()
+    .trim()
+    .max(64)
+    .refine((v) => zoneFor(v) !== null, "not an IANA time-zone name (e.g. America/Chicago) or an offset like +02:00")
+    .optional(),
   delimiter: z.enum(["comma", "semicolon", "tab"], { error: "delimiter must be comma, semicolon or tab" }).optional(),
   intervalMinutes: num(1 / 60, 1440, "intervalMinutes").optional(),
   fixedKvar: num(0, 1e6, "fixedKvar").optional(),
   bankSteps: z
     .string()
     .trim()
-    .refine((v) => v.split(",").every((s) => /^\s*\d+(\.\d+)?\s*$/.test(s) && Number(s) > 0), "bankSteps must be comma-separated kvar values > 0, e.g. 50,50,100")
+    .refine(
+      (v) => v.split(",").every((s) => /^\s*\d+(\.\d+)?\s*$/.test(s) && Number(s) > 0),
+      "bankSteps must be comma-separated kvar values > 0, e.g. 50,50,100",
+    )
     .refine((v) => v.split(",").length <= MAX_STEPS, `at most ${MAX_STEPS} steps`)
     .optional(),
   leadingLimitPF: num(0.8, 1, "leadingLimitPF").optional(),
@@ -89,13 +103,26 @@ export function parseIntervalOptions(query: Record<string, unknown>, form: Recor
   if (errors.length > 0 || !parsed.success) throw new ProblemError(validationProblem(errors));
   const o = parsed.data;
   if ((o.ctRatio === undefined) !== (o.voltageV === undefined)) {
-    throw new ProblemError(validationProblem([{ path: o.ctRatio === undefined ? "ctRatio" : "voltageV", message: "ctRatio and voltageV go together (both are needed for the C/k setting)" }]));
+    throw new ProblemError(
+      validationProblem([
+        { path: o.ctRatio === undefined ? "ctRatio" : "voltageV", message: "ctRatio and voltageV go together (both are needed for the C/k setting)" },
+      ]),
+    );
   }
   const steps = o.bankSteps === undefined || o.bankSteps === "" ? [] : o.bankSteps.split(",").map(Number);
   const parse: ParseOptions = {
-    timestampColumn: o.timestampColumn, dateColumn: o.dateColumn, timeColumn: o.timeColumn, kWColumn: o.kWColumn,
-    kvarColumn: o.kvarColumn, pfColumn: o.pfColumn, kVAColumn: o.kVAColumn, senseColumn: o.senseColumn,
-    sense: o.sense, dateOrder: o.dateOrder, timeZone: o.timeZone, intervalMinutes: o.intervalMinutes,
+    timestampColumn: o.timestampColumn,
+    dateColumn: o.dateColumn,
+    timeColumn: o.timeColumn,
+    kWColumn: o.kWColumn,
+    kvarColumn: o.kvarColumn,
+    pfColumn: o.pfColumn,
+    kVAColumn: o.kVAColumn,
+    senseColumn: o.senseColumn,
+    sense: o.sense,
+    dateOrder: o.dateOrder,
+    timeZone: o.timeZone,
+    intervalMinutes: o.intervalMinutes,
     delimiter: o.delimiter ? DELIMITERS[o.delimiter] : undefined,
   };
   for (const k of Object.keys(parse) as (keyof ParseOptions)[]) if (parse[k] === undefined) delete parse[k];

@@ -15,13 +15,29 @@ function warningsOf(r: ParseReport, a: IntervalAnalysis, timeZoneGiven: boolean)
   const w: Warning[] = [];
   const steps = r.steps;
   if (r.badRows.count > 0) w.push({ code: "bad_rows_skipped", message: `${r.badRows.count} bad rows were left out (see quality.badRows)` });
-  if (r.duplicates.count > 0) w.push({ code: "duplicate_timestamps", message: `${r.duplicates.count} rows repeat an earlier timestamp; the first row of each timestamp was kept` });
-  if (r.outOfOrder.count > 0) w.push({ code: "out_of_order", message: `${r.outOfOrder.count} rows are earlier than the row before them; the series was sorted by time` });
-  if (steps && steps.gaps.count > 0) w.push({ code: "gaps", message: `${steps.gaps.missingIntervals} intervals are missing in ${steps.gaps.count} gaps; figures cover the intervals present` });
-  if (steps && steps.irregularSteps.count > 0) w.push({ code: "irregular_steps", message: `${steps.irregularSteps.count} steps between rows are not a whole number of ${a.intervalMinutes}-minute intervals` });
+  if (r.duplicates.count > 0)
+    w.push({
+      code: "duplicate_timestamps",
+      message: `${r.duplicates.count} rows repeat an earlier timestamp; the first row of each timestamp was kept`,
+    });
+  if (r.outOfOrder.count > 0)
+    w.push({ code: "out_of_order", message: `${r.outOfOrder.count} rows are earlier than the row before them; the series was sorted by time` });
+  if (steps && steps.gaps.count > 0)
+    w.push({
+      code: "gaps",
+      message: `${steps.gaps.missingIntervals} intervals are missing in ${steps.gaps.count} gaps; figures cover the intervals present`,
+    });
+  if (steps && steps.irregularSteps.count > 0)
+    w.push({
+      code: "irregular_steps",
+      message: `${steps.irregularSteps.count} steps between rows are not a whole number of ${a.intervalMinutes}-minute intervals`,
+    });
   if (!timeZoneGiven) w.push({ code: "time_zone_assumed", message: `no timeZone given: months are counted in ${a.timeZone}` });
   if (r.interval && r.interval.source === "given" && Math.abs(r.interval.minutes - r.interval.detectedMinutes) > 1e-9) {
-    w.push({ code: "interval_override", message: `intervalMinutes ${r.interval.minutes} given; the median step is ${r.interval.detectedMinutes} min` });
+    w.push({
+      code: "interval_override",
+      message: `intervalMinutes ${r.interval.minutes} given; the median step is ${r.interval.detectedMinutes} min`,
+    });
   }
   return w;
 }

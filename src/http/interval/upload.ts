@@ -59,8 +59,18 @@ function readProblem(err: unknown): ProblemError {
 type Read = { outcome: ParseOutcome; bytes: number };
 
 /** Stream phase: feed the upload to the parser; errors here are the client's. */
-async function readCsv(stream: AsyncIterable<Buffer | string>, o: IntervalRequestOptions, hash: Hash | undefined, declaredBytes?: number): Promise<Read> {
-  const parser = createIntervalParser({ ...o.parse, maxRows: INTERVAL_MAX_ROWS, columnArrays: columnPool, ...(declaredBytes ? { expectedChars: declaredBytes } : {}) });
+async function readCsv(
+  stream: AsyncIterable<Buffer | string>,
+  o: IntervalRequestOptions,
+  hash: Hash | undefined,
+  declaredBytes?: number,
+): Promise<Read> {
+  const parser = createIntervalParser({
+    ...o.parse,
+    maxRows: INTERVAL_MAX_ROWS,
+    columnArrays: columnPool,
+    ...(declaredBytes ? { expectedChars: declaredBytes } : {}),
+  });
   try {
     const bytes = await feedStream(stream, parser, INTERVAL_MAX_BYTES, hash);
     return { outcome: parser.end(), bytes };
@@ -90,11 +100,13 @@ async function analyseMultipart(request: FastifyRequest, hash: Hash | undefined)
     const parts = request.parts({ limits: { fileSize: INTERVAL_MAX_BYTES, files: 1, fields: MAX_FORM_FIELDS, fieldSize: 1000 } });
     for await (const part of parts) {
       if (part.type === "field") {
-        if (read !== null) throw new ProblemError(validationProblem([{ path: part.fieldname, message: "form fields must come before the file field" }]));
+        if (read !== null)
+          throw new ProblemError(validationProblem([{ path: part.fieldname, message: "form fields must come before the file field" }]));
         form[part.fieldname] = String(part.value);
         continue;
       }
-      if (part.fieldname !== "file") throw new ProblemError(validationProblem([{ path: part.fieldname, message: 'the CSV goes in the form field "file"' }]));
+      if (part.fieldname !== "file")
+        throw new ProblemError(validationProblem([{ path: part.fieldname, message: 'the CSV goes in the form field "file"' }]));
       options = parseIntervalOptions(request.query as Record<string, unknown>, form);
       read = await readCsv(part.file, options, hash);
       if (part.file.truncated) throw tooLarge(`the file exceeds ${INTERVAL_MAX_BYTES} bytes`);
@@ -102,7 +114,8 @@ async function analyseMultipart(request: FastifyRequest, hash: Hash | undefined)
   } catch (err) {
     throw readProblem(err);
   }
-  if (read === null || options === null) throw new ProblemError(validationProblem([{ path: "file", message: 'no file: upload the CSV in the form field "file"' }]));
+  if (read === null || options === null)
+    throw new ProblemError(validationProblem([{ path: "file", message: 'no file: upload the CSV in the form field "file"' }]));
   return { answer: await analyse(request, read, options), form };
 }
 
@@ -120,15 +133,23 @@ export async function analyseUpload(request: FastifyRequest, o: { digest?: boole
   }
   if (!CSV_TYPES.includes(type)) {
     throw new ProblemError(
-      problem(415, "unsupported-media-type", "Unsupported media type", `send the CSV as text/csv or as multipart/form-data with a "file" field (got ${type || "no content type"})`),
+      problem(
+        415,
+        "unsupported-media-type",
+        "Unsupported media type",
+        `send the CSV as text/csv or as multipart/form-data with a "file" field (got ${type || "no content type"})`,
+      ),
     );
   }
   const options = parseIntervalOptions(request.query as Record<string, unknown>);
   const declared = Number(request.headers["content-length"]);
-  if (declared > INTERVAL_MAX_BYTES) throw tooLarge(`the upload is ${declared} bytes; the limit is ${INTERVAL_MAX_BYTES} bytes (${INTERVAL_MAX_BYTES / 1048576} MiB)`);
+  if (declared > INTERVAL_MAX_BYTES)
+    throw tooLarge(`the upload is ${declared} bytes; the limit is ${INTERVAL_MAX_BYTES} bytes (${INTERVAL_MAX_BYTES / 1048576} MiB)`);
   const body = request.body as AsyncIterable<Buffer> | null | undefined;
   if (!body || typeof (body as Partial<Readable>)[Symbol.asyncIterator] !== "function") {
-    throw new ProblemError(problem(422, "csv-no-data", "The upload has no data", "the body is empty", [{ path: "body", message: "send the CSV as the body" }]));
+    throw new ProblemError(
+      problem(422, "csv-no-data", "The upload has no data", "the body is empty", [{ path: "body", message: "send the CSV as the body" }]),
+    );
   }
   const answer = await analyse(request, await readCsv(body, options, hash, declared > 0 ? declared : undefined), options);
   return { answer, ...digestOf({}) };

@@ -30,7 +30,12 @@ export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store
       installedBanks: body.installedBanks ?? [],
     };
     return idempotentWrite(store, request, reply, (seal) =>
-      createBuilding(store, whoOf(request), data, finishWith(seal, (b) => ({ status: 201, body: buildingView(b), location: `/v1/buildings/${b.id}` }))),
+      createBuilding(
+        store,
+        whoOf(request),
+        data,
+        finishWith(seal, (b) => ({ status: 201, body: buildingView(b), location: `/v1/buildings/${b.id}` })),
+      ),
     );
   });
 
@@ -56,7 +61,13 @@ export async function buildingsRoutes(app: FastifyInstance, opts: { store: Store
     const { id } = parseOr400(idParams, request.params);
     const patch = parseOr400(buildingPatchSchema, request.body);
     return idempotentWrite(store, request, reply, (seal) =>
-      updateBuilding(store, whoOf(request), id, patch, finishWith(seal, (b) => ({ status: 200, body: buildingView(b) }))),
+      updateBuilding(
+        store,
+        whoOf(request),
+        id,
+        patch,
+        finishWith(seal, (b) => ({ status: 200, body: buildingView(b) })),
+      ),
     );
   });
 

@@ -19,7 +19,10 @@ export async function harmonicsRoutes(app: FastifyInstance): Promise<void> {
     // On a worker thread: a dense scan of a large bank, and its JSON, take long enough to hold other requests up.
     const out = await app.heavyWork.run("harmonicScan", {
       input: sizing,
-      options: { forceHarmonicStudy: true, harmonics: { includeScanSeries: true, ...(scan ? { scan } : {}), ...(combination ? { combination } : {}) } },
+      options: {
+        forceHarmonicStudy: true,
+        harmonics: { includeScanSeries: true, ...(scan ? { scan } : {}), ...(combination ? { combination } : {}) },
+      },
     });
     if (!ArrayBuffer.isView(out)) throw engineIssuesTo400(out.issues);
     return reply.type("application/json; charset=utf-8").send(Buffer.from(out.buffer, out.byteOffset, out.byteLength));

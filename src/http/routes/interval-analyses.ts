@@ -13,7 +13,11 @@ import { storedIntervalRoutes } from "./stored-intervals.js";
 export async function intervalAnalysesRoutes(app: FastifyInstance, opts: { store: Store }): Promise<void> {
   await installUploadParsers(app);
 
-  app.post("/v1/interval-analyses", { bodyLimit: INTERVAL_MAX_BYTES, schema: contracts.analyseIntervals }, async (request) => (await analyseUpload(request)).answer);
+  app.post(
+    "/v1/interval-analyses",
+    { bodyLimit: INTERVAL_MAX_BYTES, schema: contracts.analyseIntervals },
+    async (request) => (await analyseUpload(request)).answer,
+  );
 
   storedIntervalRoutes(app, opts.store);
 }

@@ -13,7 +13,14 @@ const idParams = z.object({ id: z.string() });
 
 /** Never the hash: the id, public prefix, role and times. */
 const keyView = (k: ApiKeyRecord): z.infer<typeof keySchema> => ({
-  id: k.id, prefix: k.prefix, role: k.role, label: k.label, createdAt: k.createdAt, createdBy: k.createdBy, lastUsedAt: k.lastUsedAt, revokedAt: k.revokedAt,
+  id: k.id,
+  prefix: k.prefix,
+  role: k.role,
+  label: k.label,
+  createdAt: k.createdAt,
+  createdBy: k.createdBy,
+  lastUsedAt: k.lastUsedAt,
+  revokedAt: k.revokedAt,
 });
 
 /** Keys of the caller's organisation (admin only; see access.ts). New organisations are made with `npm run keys`. */
@@ -25,7 +32,10 @@ export async function keysRoutes(app: FastifyInstance, opts: { store: Store }): 
     const { orgId, actorId } = request.actor;
     const issued = await issueKey(store, { orgId, role: body.role, label: body.label ?? null, createdBy: actorId, requestId: request.id });
     reply.header("cache-control", "no-store");
-    return reply.code(201).header("location", `/v1/keys/${issued.record.id}`).send({ ...keyView(issued.record), key: issued.key });
+    return reply
+      .code(201)
+      .header("location", `/v1/keys/${issued.record.id}`)
+      .send({ ...keyView(issued.record), key: issued.key });
   });
 
   app.get("/v1/keys", { schema: contracts.listKeys }, async (request) => ({ items: (await store.keys.list(request.actor.orgId)).map(keyView) }));

@@ -44,9 +44,14 @@ present, names each field by its path. When you report a problem, quote the answ
 
 export function problemIndexPage(): string {
   const items = (Object.keys(PROBLEM_TYPES) as ProblemSlug[])
-    .map((slug) => `<li><a href="${PROBLEM_BASE}${slug}">${escapeHtml(PROBLEM_TYPES[slug].title)}</a> (${escapeHtml(PROBLEM_TYPES[slug].status)})</li>`)
+    .map(
+      (slug) => `<li><a href="${PROBLEM_BASE}${slug}">${escapeHtml(PROBLEM_TYPES[slug].title)}</a> (${escapeHtml(PROBLEM_TYPES[slug].status)})</li>`,
+    )
     .join("\n");
-  return page("Problem types", `<h1>Problem types</h1>\n<p>Every error answer of the API is a problem (RFC 9457) whose <code>type</code> is one of these pages.</p>\n<ul>\n${items}\n</ul>`);
+  return page(
+    "Problem types",
+    `<h1>Problem types</h1>\n<p>Every error answer of the API is a problem (RFC 9457) whose <code>type</code> is one of these pages.</p>\n<ul>\n${items}\n</ul>`,
+  );
 }
 
 const sendPage = (reply: FastifyReply, html: string) =>

@@ -15,7 +15,10 @@ import { surveyReportData } from "../../application/survey-reads.js";
 const idParams = z.object({ id: z.string() });
 const paper = z.enum(["a4", "letter"], { error: "paper must be a4 or letter" }).optional();
 const surveyQuery = z.strictObject({
-  revision: z.string().regex(/^[1-9]\d{0,8}$/, "revision must be a revision number: a whole number from 1").optional(),
+  revision: z
+    .string()
+    .regex(/^[1-9]\d{0,8}$/, "revision must be a revision number: a whole number from 1")
+    .optional(),
   paper,
 });
 const sizingQuery = z.strictObject({ format: z.enum(["html", "pdf"], { error: "format must be html or pdf" }).optional(), paper });

@@ -20,26 +20,36 @@ const analysisCursor = z.object({ k: z.literal("ia"), s: z.number().int().positi
 
 /** Interval analyses stored with a building: upload (analysed as POST /v1/interval-analyses does), read, list. */
 export function storedIntervalRoutes(app: FastifyInstance, store: Store): void {
-  app.post("/v1/buildings/:id/interval-analyses", { bodyLimit: INTERVAL_MAX_BYTES, schema: contracts.storeIntervalAnalysis }, async (request, reply) => {
-    const { id: buildingId } = parseOr400(idParams, request.params);
-    // Header and building first: neither needs the upload, which may be 64 MiB.
-    const key = idempotencyKeyOf(request);
-    await findBuilding(store, request.actor.orgId, buildingId);
-    const { answer, digest } = await analyseUpload(request, { digest: key !== undefined });
-    // The body was a stream: a replay is recognised by the upload's digest (media type, form fields, SHA-256 of the bytes).
-    return idempotentWrite(
-      store,
-      request,
-      reply,
-      (seal) =>
-        attachIntervalAnalysis(store, whoOf(request), buildingId, answer.summary, finishWith(seal, (a) => ({
-          status: 201,
-          body: { id: a.id, buildingId, createdAt: a.createdAt, ...answer },
-          location: `/v1/interval-analyses/${a.id}`,
-        }))),
-      digest ?? null,
-    );
-  });
+  app.post(
+    "/v1/buildings/:id/interval-analyses",
+    { bodyLimit: INTERVAL_MAX_BYTES, schema: contracts.storeIntervalAnalysis },
+    async (request, reply) => {
+      const { id: buildingId } = parseOr400(idParams, request.params);
+      // Header and building first: neither needs the upload, which may be 64 MiB.
+      const key = idempotencyKeyOf(request);
+      await findBuilding(store, request.actor.orgId, buildingId);
+      const { answer, digest } = await analyseUpload(request, { digest: key !== undefined });
+      // The body was a stream: a replay is recognised by the upload's digest (media type, form fields, SHA-256 of the bytes).
+      return idempotentWrite(
+        store,
+        request,
+        reply,
+        (seal) =>
+          attachIntervalAnalysis(
+            store,
+            whoOf(request),
+            buildingId,
+            answer.summary,
+            finishWith(seal, (a) => ({
+              status: 201,
+              body: { id: a.id, buildingId, createdAt: a.createdAt, ...answer },
+              location: `/v1/interval-analyses/${a.id}`,
+            })),
+          ),
+        digest ?? null,
+      );
+    },
+  );
 
   app.get("/v1/interval-analyses/:id", { schema: contracts.getIntervalAnalysis }, async (request) => {
     const { id } = parseOr400(idParams, request.params);

@@ -30,7 +30,13 @@ export async function surveysRoutes(app: FastifyInstance, opts: { store: Store }
     const { id: buildingId } = parseOr400(idParams, request.params);
     const inputs = parseOr400(surveyInputsSchema, request.body);
     return idempotentWrite(store, request, reply, (seal) =>
-      recordSurvey(store, whoOf(request), buildingId, inputs, finishWith(seal, (s) => created(s, buildingId, `/v1/surveys/${s.surveyId}`))),
+      recordSurvey(
+        store,
+        whoOf(request),
+        buildingId,
+        inputs,
+        finishWith(seal, (s) => created(s, buildingId, `/v1/surveys/${s.surveyId}`)),
+      ),
     );
   });
 
@@ -38,7 +44,14 @@ export async function surveysRoutes(app: FastifyInstance, opts: { store: Store }
     const { id: surveyId } = parseOr400(idParams, request.params);
     const { reason, ...inputs } = parseOr400(revisionInputsSchema, request.body);
     return idempotentWrite(store, request, reply, (seal) =>
-      reviseSurvey(store, whoOf(request), surveyId, reason, inputs, finishWith(seal, (s) => created(s, s.buildingId, `/v1/surveys/${surveyId}/revisions/${s.revision.n}`))),
+      reviseSurvey(
+        store,
+        whoOf(request),
+        surveyId,
+        reason,
+        inputs,
+        finishWith(seal, (s) => created(s, s.buildingId, `/v1/surveys/${surveyId}/revisions/${s.revision.n}`)),
+      ),
     );
   });
 }

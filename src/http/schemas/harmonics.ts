@@ -16,5 +16,8 @@ export const scanOptionsSchema = z
 
 export const harmonicScanRequestSchema = sizingRequestSchema.extend({
   scan: scanOptionsSchema.optional(),
-  combination: z.enum(["arithmetic", "rss"]).optional().describe("how same-order currents of several sources add; default arithmetic (in phase, worst case)"),
+  combination: z
+    .enum(["arithmetic", "rss"])
+    .optional()
+    .describe("how same-order currents of several sources add; default arithmetic (in phase, worst case)"),
 });

@@ -9,8 +9,14 @@ export const keyCreateSchema = z.strictObject({
 });
 
 export const keySchema = z.object({
-  id: z.string(), prefix: z.string(), role: z.enum(ROLES), label: z.string().nullable(),
-  createdAt: z.string(), createdBy: z.string(), lastUsedAt: z.string().nullable(), revokedAt: z.string().nullable(),
+  id: z.string(),
+  prefix: z.string(),
+  role: z.enum(ROLES),
+  label: z.string().nullable(),
+  createdAt: z.string(),
+  createdBy: z.string(),
+  lastUsedAt: z.string().nullable(),
+  revokedAt: z.string().nullable(),
 });
 export const keyCreatedSchema = keySchema.extend({ key: z.string().describe("the API key: shown this once, stored only as a hash") });
 export const keyListSchema = z.object({ items: z.array(keySchema) });

@@ -14,7 +14,9 @@ const triangle = {
 export const warningSchema = z.object({
   code: z.string(),
   message: z.string(),
-  severity: z.enum(["info", "warning", "error"]).describe("info: worth knowing; warning: look before ordering; error: a standard's limit broken by the design"),
+  severity: z
+    .enum(["info", "warning", "error"])
+    .describe("info: worth knowing; warning: look before ordering; error: a standard's limit broken by the design"),
   path: z.string().optional(),
   subjects: z.array(z.string()).optional().describe("the stages or loads this one concern covers"),
 });
@@ -57,13 +59,24 @@ export const correctionSchema = z.object({
   lineCurrentBeforeA: z.number(),
   lineCurrentAfterA: z.number(),
   lossReductionPct: z.number(),
-  kvarInstalledInService: z.number().optional().describe("with installed banks: kvar the energised steps delivered during the readings (measured where given, else rated)"),
+  kvarInstalledInService: z
+    .number()
+    .optional()
+    .describe("with installed banks: kvar the energised steps delivered during the readings (measured where given, else rated)"),
   kvarIncludedInReadings: z.number().optional().describe("installed kvar the readings already include, added back to find the uncorrected site"),
   kvarRequiredTotal: z.number().optional().describe("what the uncorrected site needs to reach the target"),
   kvarInstalledRated: z.number().optional().describe("rated kvar of every installed step at the system voltage and frequency"),
   kvarAdditional: z.number().optional().describe("what remains after the installed banks are restored to health and fully used"),
   repairFirst: z
-    .array(z.object({ bank: z.string(), step: z.number().int(), status: z.enum(["failed", "degraded", "unbalanced"]), restoresKvar: z.number(), finding: z.string() }))
+    .array(
+      z.object({
+        bank: z.string(),
+        step: z.number().int(),
+        status: z.enum(["failed", "degraded", "unbalanced"]),
+        restoresKvar: z.number(),
+        finding: z.string(),
+      }),
+    )
     .optional()
     .describe("steps whose repair gives kvar before any new capacitor is bought, largest first"),
   kvarRestoredByRepair: z.number().optional(),
@@ -181,9 +194,7 @@ export const recommendedBankSchema = bankAnalysisSchema.extend({
   stepPlan: z.object({ source: z.string(), samples: z.number(), coverage: z.number(), metShare: z.number() }).loose(),
   controller: z.object({ ctRatio: z.number(), smallestStepKvar: z.number(), responseA: z.number() }).nullable(),
   protection: z.object({ steps: z.array(protectionSchema), bank: protectionSchema }).nullable(),
-  discharge: z.array(
-    z.object({ kvar: z.number(), ratedVoltageV: z.number(), maxResistanceOhm: z.number(), governingCitation: z.string() }).loose(),
-  ),
+  discharge: z.array(z.object({ kvar: z.number(), ratedVoltageV: z.number(), maxResistanceOhm: z.number(), governingCitation: z.string() }).loose()),
   notes: z.array(z.string()),
 });
 
@@ -254,10 +265,18 @@ export const economicsResultSchema = z.object({
   periods: z.array(
     z.object({
       label: z.string(),
-      figures: z.object({
-        kWh: z.number(), peakKW: z.number(), peakKVABefore: z.number(), peakKVAAfter: z.number(),
-        kvarhLaggingBefore: z.number(), kvarhLaggingAfter: z.number(), kvarhLeadingBefore: z.number(), kvarhLeadingAfter: z.number(),
-      }).describe("the period's demand and energy before and after correction; leading kvarh shown apart"),
+      figures: z
+        .object({
+          kWh: z.number(),
+          peakKW: z.number(),
+          peakKVABefore: z.number(),
+          peakKVAAfter: z.number(),
+          kvarhLaggingBefore: z.number(),
+          kvarhLaggingAfter: z.number(),
+          kvarhLeadingBefore: z.number(),
+          kvarhLeadingAfter: z.number(),
+        })
+        .describe("the period's demand and energy before and after correction; leading kvarh shown apart"),
       before: billedCharge,
       after: billedCharge,
       tariffSaving: z.number(),
@@ -270,13 +289,21 @@ export const economicsResultSchema = z.object({
   savingPerYear: z.number(),
   installedCost: z.number().nullable(),
   costBreakdown: z.object({ perKvar: z.number(), perStep: z.number(), fixed: z.number() }).nullable(),
-  costItems: z.array(
-    z.object({
-      item: z.enum(["central_bank", "central_bank_plain", "motor_terminal", "group_bank"]),
-      label: z.string(), kvar: z.number(), units: z.number(), reactorPct: z.number(), counted: z.boolean(),
-      capacitorCost: z.number(), reactorCost: z.number().nullable().describe("null: a detuned bank's reactors, not priced"), cost: z.number(),
-    }),
-  ).describe("what is proposed, one line each; counted = false: an option shown for comparison, not in the installed cost"),
+  costItems: z
+    .array(
+      z.object({
+        item: z.enum(["central_bank", "central_bank_plain", "motor_terminal", "group_bank"]),
+        label: z.string(),
+        kvar: z.number(),
+        units: z.number(),
+        reactorPct: z.number(),
+        counted: z.boolean(),
+        capacitorCost: z.number(),
+        reactorCost: z.number().nullable().describe("null: a detuned bank's reactors, not priced"),
+        cost: z.number(),
+      }),
+    )
+    .describe("what is proposed, one line each; counted = false: an option shown for comparison, not in the installed cost"),
   simplePaybackYears: z.number().nullable(),
   assumptions: z.array(z.string()),
 });
@@ -305,7 +332,9 @@ const combinedHarmonicsSchema = z.object({
   stagesStudied: z.number().int(),
   truncated: z.boolean(),
   worstThdV: combinedStageStudySchema.nullable(),
-  flagged: z.array(combinedStageStudySchema).describe("combinations breaking an IEEE 519 limit or with a capacitor above 100 % of a rating, worst THD_v first (at most 50)"),
+  flagged: z
+    .array(combinedStageStudySchema)
+    .describe("combinations breaking an IEEE 519 limit or with a capacitor above 100 % of a rating, worst THD_v first (at most 50)"),
 });
 
 export const sizingResultSchema = z.object({
@@ -383,13 +412,22 @@ const ieee519 = z.object({
   individual: limitCheck.extend({ order: z.number().nullable() }),
   pass: z.boolean(),
 });
-const finding = z.object({ code: z.string(), message: z.string(), subject: z.string(), bankName: z.string().optional(), stageNumber: z.number().optional() });
+const finding = z.object({
+  code: z.string(),
+  message: z.string(),
+  subject: z.string(),
+  bankName: z.string().optional(),
+  stageNumber: z.number().optional(),
+});
 
 function busStudy(line: z.ZodType) {
   return {
     peaks: z.array(peak),
     dips: z.array(z.object({ order: z.number(), impedanceOhm: z.number() })),
-    series: z.object({ orders: z.array(z.number()), impedanceOhm: z.array(z.number()) }).optional().describe("only from /v1/harmonics/scan"),
+    series: z
+      .object({ orders: z.array(z.number()), impedanceOhm: z.array(z.number()) })
+      .optional()
+      .describe("only from /v1/harmonics/scan"),
     distortion: z.object({ lines: z.array(line), thdVPct: z.number(), worstIndividual: z.object({ order: z.number(), pct: z.number() }).nullable() }),
     ieee519,
     resonanceWithin10PctOf: z.array(z.number()),
@@ -419,9 +457,21 @@ function studySchema(compact: boolean) {
     estimatedResonanceOrder: z.number(),
     duty,
   });
-  const bank = z.object({ name: z.string(), ratedVoltageV: z.number(), ratedFrequencyHz: z.number(), reactorPct: z.number(), stages: z.array(stage) });
+  const bank = z.object({
+    name: z.string(),
+    ratedVoltageV: z.number(),
+    ratedFrequencyHz: z.number(),
+    reactorPct: z.number(),
+    stages: z.array(stage),
+  });
   return z.object({
-    source: z.object({ baseImpedanceOhm: z.number(), resistanceOhm: z.number(), reactanceOhm: z.number(), xOverR: z.number(), xOverRBasis: z.string() }),
+    source: z.object({
+      baseImpedanceOhm: z.number(),
+      resistanceOhm: z.number(),
+      reactanceOhm: z.number(),
+      xOverR: z.number(),
+      xOverRBasis: z.string(),
+    }),
     loadResistanceOhm: z.number().nullable(),
     presentOrders: z.array(z.number()),
     sources: z

@@ -1,12 +1,5 @@
 import { z } from "zod";
-import {
-  MAX_LOADS,
-  TARGET_PF_MAX,
-  TARGET_PF_MIN,
-  VOLTS_MAX,
-  VOLTS_MIN,
-  type SizingInput,
-} from "../../core/inputs.js";
+import { MAX_LOADS, TARGET_PF_MAX, TARGET_PF_MIN, VOLTS_MAX, VOLTS_MIN, type SizingInput } from "../../core/inputs.js";
 import { installedBankIssues } from "../../core/bank/installed.js";
 
 /** Request schemas. They produce the engine's input types; results have their own schemas in ./results.ts. */
@@ -51,7 +44,16 @@ export const measurementSchema = z.discriminatedUnion(
   "method",
   [
     z.strictObject({ method: z.literal("kw_kva"), kW: positive("kW"), kVA: positive("kVA"), sense: sense.optional(), ...common }),
-    z.strictObject({ method: z.literal("kw_kvar"), kW: positive("kW"), kvar: z.number({ error: "kvar must be a number" }).min(-MAX_FIGURE, `kvar must be within ±${MAX_FIGURE}`).max(MAX_FIGURE, `kvar must be within ±${MAX_FIGURE}`).describe("signed: > 0 lagging, < 0 leading"), ...common }),
+    z.strictObject({
+      method: z.literal("kw_kvar"),
+      kW: positive("kW"),
+      kvar: z
+        .number({ error: "kvar must be a number" })
+        .min(-MAX_FIGURE, `kvar must be within ±${MAX_FIGURE}`)
+        .max(MAX_FIGURE, `kvar must be within ±${MAX_FIGURE}`)
+        .describe("signed: > 0 lagging, < 0 leading"),
+      ...common,
+    }),
     z.strictObject({ method: z.literal("kw_pf"), kW: positive("kW"), pf, sense, ...common }),
     z.strictObject({ method: z.literal("v_i_kw"), volts, amps: positive("amps"), kW: positive("kW"), sense: sense.optional(), ...common }),
     z.strictObject({ method: z.literal("v_i_pf"), volts, amps: positive("amps"), pf, sense, ...common }),
@@ -86,9 +88,19 @@ export const loadSchema = z.strictObject({
     .describe("how a motor is started: decides whether capacitors may go at its terminals"),
   separateCapacitorContactor: z.boolean().optional().describe("a terminal capacitor would have its own contactor"),
   group: z.string().trim().min(1).max(100).optional().describe("MCC or feeder the load is fed from"),
-  noLoadAmps: z.number().min(MIN_FIGURE, `noLoadAmps must be at least ${MIN_FIGURE}`).max(MAX_FIGURE).optional().describe("no-load (uncoupled) line current of one motor, A"),
+  noLoadAmps: z
+    .number()
+    .min(MIN_FIGURE, `noLoadAmps must be at least ${MIN_FIGURE}`)
+    .max(MAX_FIGURE)
+    .optional()
+    .describe("no-load (uncoupled) line current of one motor, A"),
   continuousDuty: z.boolean().optional(),
-  motorConductorAmpacityA: z.number().min(MIN_FIGURE, `motorConductorAmpacityA must be at least ${MIN_FIGURE}`).max(MAX_FIGURE).optional().describe("ampacity of the motor-circuit conductors, A: a terminal capacitor's conductors need at least one third of it (NFPA 70 460.8(A))"),
+  motorConductorAmpacityA: z
+    .number()
+    .min(MIN_FIGURE, `motorConductorAmpacityA must be at least ${MIN_FIGURE}`)
+    .max(MAX_FIGURE)
+    .optional()
+    .describe("ampacity of the motor-circuit conductors, A: a terminal capacitor's conductors need at least one third of it (NFPA 70 460.8(A))"),
 });
 
 export const systemSchema = z.strictObject({
@@ -121,14 +133,22 @@ export const MAX_INSTALLED_STEPS = 64;
 export const bankSchema = z.strictObject({
   ratedVoltageV: volts,
   ratedFrequencyHz: z.union([z.literal(50), z.literal(60)]).optional(),
-  steps: z.array(z.strictObject({ kvar: stepKvar })).min(1, "a bank needs at least one step").max(64, "a bank has at most 64 steps"),
+  steps: z
+    .array(z.strictObject({ kvar: stepKvar }))
+    .min(1, "a bank needs at least one step")
+    .max(64, "a bank has at most 64 steps"),
   reactorPct: reactorPct.optional(),
 });
 
 const isoDate = z.iso.date({ error: "installedOn must be an ISO 8601 date such as 2021-06-30" });
 
 export const installedBankSchema = z.strictObject({
-  label: z.string().trim().min(1, "label must not be empty").max(100, "label must be at most 100 characters").describe("unique within the building; bank readings refer to it"),
+  label: z
+    .string()
+    .trim()
+    .min(1, "label must not be empty")
+    .max(100, "label must be at most 100 characters")
+    .describe("unique within the building; bank readings refer to it"),
   location: z.enum(["service", "group", "motor"], { error: "location must be service, group or motor" }),
   group: z.string().trim().min(1).max(100).optional().describe("the MCC or feeder of a group bank"),
   loadLabel: z.string().trim().min(1).max(200).optional().describe("the motor (load label) of a terminal unit"),
@@ -137,7 +157,11 @@ export const installedBankSchema = z.strictObject({
   ratedFrequencyHz: z.union([z.literal(50), z.literal(60)], { error: "ratedFrequencyHz must be 50 or 60" }).optional(),
   connection: z.enum(["delta", "wye"]).optional(),
   reactorPct: reactorPct.optional().describe("series (detuning) reactor; 0 or absent: plain"),
-  steps: z.array(z.strictObject({ kvar: stepKvar })).min(1, "a bank needs at least one step").max(32, "an installed bank has at most 32 steps").describe("nameplate kvar per step at the rated voltage and frequency; a fixed bank is one step"),
+  steps: z
+    .array(z.strictObject({ kvar: stepKvar }))
+    .min(1, "a bank needs at least one step")
+    .max(32, "an installed bank has at most 32 steps")
+    .describe("nameplate kvar per step at the rated voltage and frequency; a fixed bank is one step"),
   installedOn: isoDate.optional(),
 });
 
@@ -146,7 +170,8 @@ export const installedBanksSchema = z
   .max(50, "at most 50 installed banks")
   .superRefine((banks, ctx) => {
     const steps = banks.reduce((n, b) => n + b.steps.length, 0);
-    if (steps > MAX_INSTALLED_STEPS) ctx.addIssue({ code: "custom", path: [], message: `the installed banks have ${steps} steps in all: at most ${MAX_INSTALLED_STEPS}` });
+    if (steps > MAX_INSTALLED_STEPS)
+      ctx.addIssue({ code: "custom", path: [], message: `the installed banks have ${steps} steps in all: at most ${MAX_INSTALLED_STEPS}` });
     for (const i of installedBankIssues(banks, [])) ctx.addIssue({ code: "custom", path: i.path, message: i.message });
   });
 
@@ -161,7 +186,9 @@ export const bankReadingSchema = z.strictObject({
     .array(
       z.strictObject({
         step: stepNumber,
-        amps: z.union([z.tuple([amps, amps, amps]), amps], { error: "amps must be one figure, or three (one per phase)" }).describe("per phase [a, b, c], or one figure; 0 in a phase is a finding"),
+        amps: z
+          .union([z.tuple([amps, amps, amps]), amps], { error: "amps must be one figure, or three (one per phase)" })
+          .describe("per phase [a, b, c], or one figure; 0 in a phase is a finding"),
       }),
     )
     .max(32)
@@ -202,7 +229,11 @@ export const bankDesignSchema = z.strictObject({
   dischargeResistorConnection: z.enum(["across_each_capacitor", "star_across_delta", "two_across_delta", "delta_across_wye"]).optional(),
 });
 
-const money = (what: string) => z.number({ error: `${what} must be a number` }).min(0, `${what} must not be negative`).max(1e9);
+const money = (what: string) =>
+  z
+    .number({ error: `${what} must be a number` })
+    .min(0, `${what} must not be negative`)
+    .max(1e9);
 
 export const tariffSchema = z.discriminatedUnion(
   "form",
@@ -215,7 +246,9 @@ export const tariffSchema = z.discriminatedUnion(
       pfBasis: z
         .enum(["average", "at_peak"], { error: "pfBasis must be average or at_peak" })
         .optional()
-        .describe("the PF compared with basePF: average = the period's kWh / √(kWh² + lagging kvarh²); at_peak = the PF of the interval with the peak kW (default average)"),
+        .describe(
+          "the PF compared with basePF: average = the period's kWh / √(kWh² + lagging kvarh²); at_peak = the PF of the interval with the peak kW (default average)",
+        ),
     }),
     z.strictObject({
       form: z.literal("kvarh_excess"),
@@ -230,7 +263,11 @@ export const tariffSchema = z.discriminatedUnion(
 export const economicsSchema = z.strictObject({
   currency: z.string().regex(/^[A-Z]{3}$/, "currency must be an ISO 4217 code such as USD or EUR"),
   tariff: tariffSchema,
-  operatingHoursPerMonth: z.number().min(MIN_FIGURE, `operatingHoursPerMonth must be at least ${MIN_FIGURE}`).max(744, "a month has at most 744 hours").optional(),
+  operatingHoursPerMonth: z
+    .number()
+    .min(MIN_FIGURE, `operatingHoursPerMonth must be at least ${MIN_FIGURE}`)
+    .max(744, "a month has at most 744 hours")
+    .optional(),
   losses: z
     .strictObject({
       lossesPct: z.number().min(0).max(20, "lossesPct must be 0 to 20 %"),
@@ -242,7 +279,9 @@ export const economicsSchema = z.strictObject({
       perKvar: money("perKvar").optional(),
       perStep: money("perStep").optional(),
       fixed: money("fixed").optional(),
-      reactorPerKvar: money("reactorPerKvar").optional().describe("detuning reactors, per kvar of a detuned bank; with reactorPerStep absent too, reactors are not priced"),
+      reactorPerKvar: money("reactorPerKvar")
+        .optional()
+        .describe("detuning reactors, per kvar of a detuned bank; with reactorPerStep absent too, reactors are not priced"),
       reactorPerStep: money("reactorPerStep").optional().describe("detuning reactors, per step of a detuned bank"),
     })
     .optional(),
@@ -250,7 +289,9 @@ export const economicsSchema = z.strictObject({
 
 export const scopeSchema = z
   .enum(["whole_site", "partial"], { error: 'scope must be "whole_site" or "partial"' })
-  .describe("what the readings cover; default whole_site when a serviceEntrance reading is given, else partial. Interval demand drives the central bank only for a whole-site survey");
+  .describe(
+    "what the readings cover; default whole_site when a serviceEntrance reading is given, else partial. Interval demand drives the central bank only for a whole-site survey",
+  );
 
 export const sizingRequestSchema = z.strictObject({
   system: systemSchema,

@@ -44,7 +44,9 @@ export const surveyInputsSchema = z.strictObject({
   backgroundVoltageDistortion: backgroundDistortionSchema.optional(),
   lightLoad: serviceEntranceSchema.optional(),
   bankDesign: bankDesignSchema.optional(),
-  bankReadings: bankReadingsSchema.optional().describe("the building's installed banks as found: steps energised during the readings, measured currents"),
+  bankReadings: bankReadingsSchema
+    .optional()
+    .describe("the building's installed banks as found: steps energised during the readings, measured currents"),
   intervalAnalysisId: z
     .string({ error: "intervalAnalysisId must be a string or null" })
     .trim()
@@ -140,7 +142,10 @@ export const trendSchema = z.object({
       kvar: z.number(),
       displacementPF: z.number(),
       kvarRequired: z.number(),
-      installedKvarInService: z.number().nullable().describe("rated kvar (at the system voltage) of the installed steps energised during the readings; null: no installed banks"),
+      installedKvarInService: z
+        .number()
+        .nullable()
+        .describe("rated kvar (at the system voltage) of the installed steps energised during the readings; null: no installed banks"),
       kvarDelivered: z.number().nullable().describe("kvar those steps delivered, from the measured currents where given; null: no installed banks"),
     }),
   ),
@@ -153,7 +158,9 @@ export const bankHealthSchema = z.object({
   series: z.array(
     z.object({
       bank: z.string(),
-      startedBecause: z.enum(["first_seen", "replaced", "renamed"]).describe("a bank redefined (replaced) or relabelled (renamed) in the building history starts a new series"),
+      startedBecause: z
+        .enum(["first_seen", "replaced", "renamed"])
+        .describe("a bank redefined (replaced) or relabelled (renamed) in the building history starts a new series"),
       note: z.string().nullable(),
       definition: installedBankViewSchema,
       steps: z.array(

@@ -32,7 +32,16 @@ export function capacitanceChart(input: CapacitanceChartInput): Chart {
   const y = linearScale(y0, y1, PLOT.bottom, PLOT.top);
   const H = PLOT.bottom + 60 + Math.max(0, input.lines.length - 6) * 14;
   const shapes: Shape[] = [
-    { kind: "rect", x: PLOT.left, y: PLOT.top, w: PLOT.right - PLOT.left, h: PLOT.bottom - PLOT.top, stroke: { color: INK, width: 1 }, role: "plot-area", data: { y0: String(y0), y1: String(y1) } },
+    {
+      kind: "rect",
+      x: PLOT.left,
+      y: PLOT.top,
+      w: PLOT.right - PLOT.left,
+      h: PLOT.bottom - PLOT.top,
+      stroke: { color: INK, width: 1 },
+      role: "plot-area",
+      data: { y0: String(y0), y1: String(y1) },
+    },
     text(PLOT.left, 20, "Capacitance of each installed step, survey by survey", 13, "start", { bold: true }),
   ];
   for (const t of ticks) {
@@ -44,8 +53,13 @@ export function capacitanceChart(input: CapacitanceChartInput): Chart {
     shapes.push(text(x(i), PLOT.bottom + 18, s, 9.5, "middle"));
   });
   shapes.push(text(18, (PLOT.top + PLOT.bottom) / 2, "capacitance, % of rated", 11, "middle", { rotate: -90 }));
-  for (const [pct, label] of [[input.degradedBelowPct, "degraded below"], [input.failedBelowPct, "failed below"]] as const) {
-    shapes.push(line(PLOT.left, y(pct), PLOT.right, y(pct), { color: "#8b0000", width: 1, dash: [5, 3] }, { role: "threshold", data: { pct: String(pct) } }));
+  for (const [pct, label] of [
+    [input.degradedBelowPct, "degraded below"],
+    [input.failedBelowPct, "failed below"],
+  ] as const) {
+    shapes.push(
+      line(PLOT.left, y(pct), PLOT.right, y(pct), { color: "#8b0000", width: 1, dash: [5, 3] }, { role: "threshold", data: { pct: String(pct) } }),
+    );
     shapes.push(text(PLOT.right - 4, y(pct) - 4, `${label} ${pct} %`, 9, "end", { color: "#8b0000" }));
   }
   input.lines.forEach((l, i) => {
@@ -54,11 +68,14 @@ export function capacitanceChart(input: CapacitanceChartInput): Chart {
     l.pct.forEach((v, k) => {
       if (v !== null) pts.push([x(k), y(v)]);
     });
-    if (pts.length > 1) shapes.push({ kind: "polyline", points: pts, stroke: style, role: "step-series", data: { step: l.label, points: String(pts.length) } });
-    for (const [px, py] of pts) shapes.push({ kind: "rect", x: px - 2.5, y: py - 2.5, w: 5, h: 5, fill: style.color, role: "step-point", data: { step: l.label } });
+    if (pts.length > 1)
+      shapes.push({ kind: "polyline", points: pts, stroke: style, role: "step-series", data: { step: l.label, points: String(pts.length) } });
+    for (const [px, py] of pts)
+      shapes.push({ kind: "rect", x: px - 2.5, y: py - 2.5, w: 5, h: 5, fill: style.color, role: "step-point", data: { step: l.label } });
     shapes.push(...legendEntry(PLOT.right + 12, PLOT.top + 10 + i * 14, style, l.label, { role: "legend" }));
   });
-  if (values.length === 0) shapes.push(text((PLOT.left + PLOT.right) / 2, (PLOT.top + PLOT.bottom) / 2, "no step currents were measured", 11, "middle", { color: MUTED }));
+  if (values.length === 0)
+    shapes.push(text((PLOT.left + PLOT.right) / 2, (PLOT.top + PLOT.bottom) / 2, "no step currents were measured", 11, "middle", { color: MUTED }));
   const last = input.lines.map((l) => ({ label: l.label, v: [...l.pct].reverse().find((v) => v !== null) ?? null })).filter((l) => l.v !== null);
   return {
     id: "installed-capacitance",

@@ -39,9 +39,20 @@ export function durationCurveChart(input: DurationChartInput): Chart {
   const x = linearScale(0, 100, PLOT.left, PLOT.right);
   const y = linearScale(y0, y1, PLOT.bottom, PLOT.top);
   const shapes: Shape[] = [
-    { kind: "rect", x: PLOT.left, y: PLOT.top, w: PLOT.right - PLOT.left, h: PLOT.bottom - PLOT.top, stroke: { color: INK, width: 1 }, role: "plot-area", data: { x0: String(PLOT.left), x1: String(PLOT.right), y0: String(PLOT.bottom), y1: String(PLOT.top), k0: String(y0), k1: String(y1) } },
+    {
+      kind: "rect",
+      x: PLOT.left,
+      y: PLOT.top,
+      w: PLOT.right - PLOT.left,
+      h: PLOT.bottom - PLOT.top,
+      stroke: { color: INK, width: 1 },
+      role: "plot-area",
+      data: { x0: String(PLOT.left), x1: String(PLOT.right), y0: String(PLOT.bottom), y1: String(PLOT.top), k0: String(y0), k1: String(y1) },
+    },
   ];
-  shapes.push(text(PLOT.left, 20, `kvar needed to reach PF ${fmt.pf(input.targetPF)}, against the bank's cumulative levels`, 13, "start", { bold: true }));
+  shapes.push(
+    text(PLOT.left, 20, `kvar needed to reach PF ${fmt.pf(input.targetPF)}, against the bank's cumulative levels`, 13, "start", { bold: true }),
+  );
   for (const t of ticks) {
     shapes.push(line(PLOT.left, y(t), PLOT.right, y(t), { color: GRID, width: 0.8 }));
     shapes.push(text(PLOT.left - 6, y(t) + 4, fmt.num(t, 0), 10, "end"));
@@ -59,21 +70,49 @@ export function durationCurveChart(input: DurationChartInput): Chart {
     shapes.push({ kind: "polyline", points: pts, stroke: { color: LIGHT, width: 1.4 }, role: "demand-curve", data: { points: String(pts.length) } });
   }
   const needPts: Point[] = input.need.exceedancePct.map((e, i) => [x(e), y(input.need.kvar[i] as number)]);
-  shapes.push({ kind: "polyline", points: needPts, stroke: { color: INK, width: 2.4 }, role: "need-curve", data: { points: String(needPts.length) } });
+  shapes.push({
+    kind: "polyline",
+    points: needPts,
+    stroke: { color: INK, width: 2.4 },
+    role: "need-curve",
+    data: { points: String(needPts.length) },
+  });
   // Labels at the right, pushed apart so close levels stay readable.
   let lastLabelY = -Infinity;
-  [...input.levels].sort((a, b) => b.kvar - a.kvar).forEach((l) => {
-    shapes.push(line(PLOT.left, y(l.kvar), PLOT.right, y(l.kvar), { color: LEVEL, width: 1.2, dash: [6, 3] }, { role: "step-level", data: { kvar: String(l.kvar) } }));
-    const ly = Math.max(y(l.kvar) + 4, lastLabelY + 11);
-    lastLabelY = ly;
-    shapes.push(text(PLOT.right + 6, ly, `${l.label}: ${fmt.power(l.kvar)} kvar`, 9.5, "start", { color: LEVEL }));
-  });
+  [...input.levels]
+    .sort((a, b) => b.kvar - a.kvar)
+    .forEach((l) => {
+      shapes.push(
+        line(
+          PLOT.left,
+          y(l.kvar),
+          PLOT.right,
+          y(l.kvar),
+          { color: LEVEL, width: 1.2, dash: [6, 3] },
+          { role: "step-level", data: { kvar: String(l.kvar) } },
+        ),
+      );
+      const ly = Math.max(y(l.kvar) + 4, lastLabelY + 11);
+      lastLabelY = ly;
+      shapes.push(text(PLOT.right + 6, ly, `${l.label}: ${fmt.power(l.kvar)} kvar`, 9.5, "start", { color: LEVEL }));
+    });
   if (input.coveredPct !== undefined && input.levels.length > 0) {
     // the need exceeds the full bank in (100 − covered) % of the time: the mark stands at that exceedance
     const at = 100 - input.coveredPct;
-    shapes.push(line(x(at), PLOT.top, x(at), PLOT.bottom, { color: COVER, width: 1.2, dash: [2, 3] }, { role: "coverage", data: { coveredPct: String(input.coveredPct) } }));
+    shapes.push(
+      line(
+        x(at),
+        PLOT.top,
+        x(at),
+        PLOT.bottom,
+        { color: COVER, width: 1.2, dash: [2, 3] },
+        { role: "coverage", data: { coveredPct: String(input.coveredPct) } },
+      ),
+    );
     const label = `bank covers the need ${fmt.num(input.coveredPct, 1)} % of the time`;
-    shapes.push(text(Math.min(x(at) + 6, PLOT.right - 4), PLOT.top + 14, label, 10, x(at) + 6 > PLOT.right - 200 ? "end" : "start", { color: COVER }));
+    shapes.push(
+      text(Math.min(x(at) + 6, PLOT.right - 4), PLOT.top + 14, label, 10, x(at) + 6 > PLOT.right - 200 ? "end" : "start", { color: COVER }),
+    );
   }
   shapes.push(line(PLOT.left, PLOT.bottom + 56, PLOT.left + 24, PLOT.bottom + 56, { color: INK, width: 2.4 }));
   shapes.push(text(PLOT.left + 30, PLOT.bottom + 60, "kvar needed to reach the target", 10, "start"));

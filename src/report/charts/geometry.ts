@@ -119,7 +119,7 @@ export function simplify(points: readonly Point[], tolerance = 0.3): Point[] {
     for (let i = a + 1; i < b; i++) {
       const [px, py] = points[i] as Point;
       const d = len === 0 ? Math.hypot(px - ax, py - ay) : Math.abs(dy * px - dx * py + bx * ay - by * ax) / len;
-      if (d > worstD) (worst = i), (worstD = d);
+      if (d > worstD) ((worst = i), (worstD = d));
     }
     if (worst >= 0) {
       keep[worst] = 1;
@@ -129,7 +129,14 @@ export function simplify(points: readonly Point[], tolerance = 0.3): Point[] {
   return points.filter((_, i) => keep[i] === 1);
 }
 
-export function text(x: number, y: number, s: string, size = 11, anchor: "start" | "middle" | "end" = "start", extra: Partial<Extract<Shape, { kind: "text" }>> = {}): Shape {
+export function text(
+  x: number,
+  y: number,
+  s: string,
+  size = 11,
+  anchor: "start" | "middle" | "end" = "start",
+  extra: Partial<Extract<Shape, { kind: "text" }>> = {},
+): Shape {
   return { kind: "text", x, y, text: s, size, anchor, ...extra };
 }
 

@@ -1,6 +1,21 @@
 /** |Z(h)| against harmonic order, one line per stage, with the site's harmonic orders marked. */
 import { fmt } from "../format.js";
-import { GRID, INK, legendEntry, line, linearScale, logScale, MUTED, niceTicks, seriesStyle, simplify, text, type Chart, type Point, type Shape } from "./geometry.js";
+import {
+  GRID,
+  INK,
+  legendEntry,
+  line,
+  linearScale,
+  logScale,
+  MUTED,
+  niceTicks,
+  seriesStyle,
+  simplify,
+  text,
+  type Chart,
+  type Point,
+  type Shape,
+} from "./geometry.js";
 
 export interface ScanLine {
   label: string;
@@ -59,14 +74,33 @@ export function impedanceScanChart(input: ScanChartInput): Chart {
       zMin = Math.min(zMin, z);
       zMax = Math.max(zMax, z);
     });
-  if (!(zMax > 0)) (zMin = 0.001), (zMax = 1);
+  if (!(zMax > 0)) ((zMin = 0.001), (zMax = 1));
   const [d0, d1] = logBounds(zMin, zMax);
   const x = linearScale(h0, h1, PLOT.left, PLOT.right);
   const y = logScale(d0, d1, PLOT.bottom, PLOT.top);
   const legendRows = input.lines.length;
   const height = Math.max(PLOT.bottom + 50, PLOT.top + 24 + legendRows * 18);
   const shapes: Shape[] = [
-    { kind: "rect", x: PLOT.left, y: PLOT.top, w: PLOT.right - PLOT.left, h: PLOT.bottom - PLOT.top, stroke: { color: INK, width: 1 }, role: "plot-area", data: { x0: String(PLOT.left), x1: String(PLOT.right), h0: String(h0), h1: String(h1), y0: String(PLOT.bottom), y1: String(PLOT.top), z0: String(y.domain[0]), z1: String(y.domain[1]), "y-axis": "log10" } },
+    {
+      kind: "rect",
+      x: PLOT.left,
+      y: PLOT.top,
+      w: PLOT.right - PLOT.left,
+      h: PLOT.bottom - PLOT.top,
+      stroke: { color: INK, width: 1 },
+      role: "plot-area",
+      data: {
+        x0: String(PLOT.left),
+        x1: String(PLOT.right),
+        h0: String(h0),
+        h1: String(h1),
+        y0: String(PLOT.bottom),
+        y1: String(PLOT.top),
+        z0: String(y.domain[0]),
+        z1: String(y.domain[1]),
+        "y-axis": "log10",
+      },
+    },
   ];
   shapes.push(text(PLOT.left, 18, input.title, 13, "start", { bold: true }));
   for (let e = Math.floor(Math.log10(d0)); e <= Math.ceil(Math.log10(d1)); e++) {
@@ -85,7 +119,16 @@ export function impedanceScanChart(input: ScanChartInput): Chart {
   shapes.push(text(16, (PLOT.top + PLOT.bottom) / 2, "|Z| at the bus, ohm (log)", 11, "middle", { rotate: -90 }));
   const markers = [...new Set(input.markerOrders)].filter((h) => h >= h0 && h <= h1).sort((a, b) => a - b);
   for (const h of markers) {
-    shapes.push(line(x(h), PLOT.top, x(h), PLOT.bottom, { color: "#8b0000", width: 0.9, dash: [3, 3] }, { role: "harmonic-marker", data: { order: String(h) } }));
+    shapes.push(
+      line(
+        x(h),
+        PLOT.top,
+        x(h),
+        PLOT.bottom,
+        { color: "#8b0000", width: 0.9, dash: [3, 3] },
+        { role: "harmonic-marker", data: { order: String(h) } },
+      ),
+    );
     shapes.push(text(x(h), PLOT.top - 6, String(h), 9, "middle", { color: "#8b0000" }));
   }
   let stageIndex = 0;

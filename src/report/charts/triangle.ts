@@ -82,10 +82,20 @@ function panel(t: TriangleData, state: "before" | "after", x0: number, s: number
   shapes.push(text(mx + nx * 16 * flip - 8, my + ny * 16 * flip, `S ${fmt.power(t.kVA)} kVA`, 11, "end", { color: "#0b3d91" }));
   const r = Math.min(46, Math.max(18, 0.3 * t.kW * s));
   if (Math.abs(phi) > 1e-6) {
-    shapes.push({ kind: "polyline", points: arc(ox, oy, r, phi), stroke: { color: INK, width: 1.5 }, role: "phi-arc", data: { state, degrees: String((phi * 180) / Math.PI) } });
+    shapes.push({
+      kind: "polyline",
+      points: arc(ox, oy, r, phi),
+      stroke: { color: INK, width: 1.5 },
+      role: "phi-arc",
+      data: { state, degrees: String((phi * 180) / Math.PI) },
+    });
   }
   const lr = r + 14;
-  shapes.push(text(ox + lr * Math.cos(phi / 2), oy - lr * Math.sin(phi / 2) + 4, `φ ${fmt.degrees((phi * 180) / Math.PI)}°`, 11, "start", { role: "phi-label" }));
+  shapes.push(
+    text(ox + lr * Math.cos(phi / 2), oy - lr * Math.sin(phi / 2) + 4, `φ ${fmt.degrees((phi * 180) / Math.PI)}°`, 11, "start", {
+      role: "phi-label",
+    }),
+  );
   if (state === "after" && bankKvar > 1e-9) {
     const by = qy - bankKvar * s;
     shapes.push(line(px, qy, px, by, BANK, { role: "bank-kvar", data: { value: String(bankKvar) } }));
@@ -101,7 +111,14 @@ export function powerTriangleChart(input: TriangleChartInput): Chart {
     line(PANEL_W, 10, PANEL_W, H - 30, { color: GRID, width: 1 }),
     ...panel(input.before, "before", 0, s, topKvar, 0),
     ...panel(input.after, "after", PANEL_W, s, topKvar, input.bankKvar),
-    text(W / 2, H - 10, "Same scale in both triangles. P real power (kW), Q reactive power (kvar, up = lagging), S apparent power (kVA).", 10, "middle", { color: MUTED }),
+    text(
+      W / 2,
+      H - 10,
+      "Same scale in both triangles. P real power (kW), Q reactive power (kvar, up = lagging), S apparent power (kVA).",
+      10,
+      "middle",
+      { color: MUTED },
+    ),
   ];
   return {
     id: "power-triangle",

@@ -22,8 +22,15 @@ function analysisBlocks(name: string, b: BankAnalysis, rec?: RecommendedBank): B
     ...(rec ? [{ key: "Arrangement", value: String(rec.arrangement).replace(/_/g, " ") }] : []),
     { key: "Steps (nameplate)", value: stepsText(b.steps) },
     { key: "Capacitor rating", value: `${fmt.volts(b.ratedVoltageV)} V, ${b.ratedFrequencyHz} Hz` },
-    { key: "Series reactor", value: b.reactorPct > 0 ? `${fmt.num(b.reactorPct, 2)} % (tuned to h = ${fmt.order(b.tuningOrder)}, ${fmt.hz(b.tuningHz)} Hz)` : "none (plain bank)" },
-    { key: "Nameplate / at system voltage / delivered", value: `${fmt.power(b.nameplateKvar)} / ${fmt.power(b.capacitorKvar)} / ${fmt.power(b.effectiveKvar)} kvar` },
+    {
+      key: "Series reactor",
+      value:
+        b.reactorPct > 0 ? `${fmt.num(b.reactorPct, 2)} % (tuned to h = ${fmt.order(b.tuningOrder)}, ${fmt.hz(b.tuningHz)} Hz)` : "none (plain bank)",
+    },
+    {
+      key: "Nameplate / at system voltage / delivered",
+      value: `${fmt.power(b.nameplateKvar)} / ${fmt.power(b.capacitorKvar)} / ${fmt.power(b.effectiveKvar)} kvar`,
+    },
     { key: "Capacitor terminal voltage", value: `${fmt.volts(b.capacitorVoltageV)} V (${fmt.pct(b.capacitorVoltagePctOfRated)} % of rated)` },
     { key: "Rated line current of the whole bank", value: `${fmt.amps(b.ratedCurrentA)} A` },
     { key: "Capacitance per phase (delta / wye)", value: `${fmt.uF(b.capacitancePerPhase.deltaUF)} / ${fmt.uF(b.capacitancePerPhase.wyeUF)} µF` },
@@ -38,7 +45,13 @@ function analysisBlocks(name: string, b: BankAnalysis, rec?: RecommendedBank): B
       title: `${name}: stages (cumulative kvar as steps switch in)`,
       header: ["Stage", "Nameplate (kvar)", "At system V (kvar)", "Delivered (kvar)", "Voltage rise (%)"],
       align: ["right", "right", "right", "right", "right"],
-      rows: b.stages.map((s) => [String(s.stage), fmt.power(s.cumulativeNameplateKvar), fmt.power(s.cumulativeCapacitorKvar), fmt.power(s.cumulativeKvar), fmt.pct2(s.voltageRisePct)]),
+      rows: b.stages.map((s) => [
+        String(s.stage),
+        fmt.power(s.cumulativeNameplateKvar),
+        fmt.power(s.cumulativeCapacitorKvar),
+        fmt.power(s.cumulativeKvar),
+        fmt.pct2(s.voltageRisePct),
+      ]),
     },
   ];
 }
@@ -51,9 +64,25 @@ function minimumFigures(b: BankAnalysis, label: string): Block[] {
     {
       kind: "table",
       title: `${label}: minimum circuit figures from the rated current`,
-      header: ["Circuit", "Rated current (A)", "Conductor ampacity at least (A)", "Disconnect at least (A)", "Fuse at least (A)", "Next standard fuse (A)"],
+      header: [
+        "Circuit",
+        "Rated current (A)",
+        "Conductor ampacity at least (A)",
+        "Disconnect at least (A)",
+        "Fuse at least (A)",
+        "Next standard fuse (A)",
+      ],
       align: ["left", "right", "right", "right", "right", "right"],
-      rows: [[p.label, fmt.amps(p.ratedCurrentA), fmt.amps(p.conductorMinAmpacityA), fmt.amps(p.disconnectMinA), fmt.amps(p.ocpdMinA), p.ocpdRatingA === null ? "above 6000" : String(p.ocpdRatingA)]],
+      rows: [
+        [
+          p.label,
+          fmt.amps(p.ratedCurrentA),
+          fmt.amps(p.conductorMinAmpacityA),
+          fmt.amps(p.disconnectMinA),
+          fmt.amps(p.ocpdMinA),
+          p.ocpdRatingA === null ? "above 6000" : String(p.ocpdRatingA),
+        ],
+      ],
       note: "Conductors and disconnect at 135 % of rated current (NFPA 70 460.8(A), (C)); fuse at 165 % (makers' practice) rounded up to a standard rating (NFPA 70 240.6(A)). Each step's own circuit needs the same check.",
     },
     { kind: "list", items: req.map((r) => `Discharge: ${r.basis} (${r.citation}).`) },
@@ -95,13 +124,18 @@ export function noBankText(result: SizingResult): string {
   const c = result.correction;
   const relief = c.leadingRelief;
   if (c.leadingExcessKvar > 0 && relief && relief.takeOutOfService.length > 0) {
-    const steps = relief.takeOutOfService.map((s) => `${s.bank} step ${s.step} (${fmt.power(s.kvar)} kvar${s.control === "fixed" ? ", a fixed unit: disconnect it" : ""})`).join(", ");
+    const steps = relief.takeOutOfService
+      .map((s) => `${s.bank} step ${s.step} (${fmt.power(s.kvar)} kvar${s.control === "fixed" ? ", a fixed unit: disconnect it" : ""})`)
+      .join(", ");
     return `No bank is recommended: the site leads; take ${steps} out of service (${fmt.power(relief.kvarRemoved)} kvar), giving PF ${fmt.pf(relief.pfAfter)} ${relief.senseAfter}${relief.reachesTarget ? "" : " — still beyond the target: more capacitors must come out"}.`;
   }
-  if (c.leadingExcessKvar > 0) return `No bank is recommended: the site leads, and about ${fmt.power(c.leadingExcessKvar)} kvar of capacitors should be taken out of service instead.`;
-  if (c.kvarAdditional !== undefined && c.kvarAdditional <= 0 && c.kvarRequired > 0) return "No new bank is needed: the installed banks, once repaired and fully used, cover the need.";
+  if (c.leadingExcessKvar > 0)
+    return `No bank is recommended: the site leads, and about ${fmt.power(c.leadingExcessKvar)} kvar of capacitors should be taken out of service instead.`;
+  if (c.kvarAdditional !== undefined && c.kvarAdditional <= 0 && c.kvarRequired > 0)
+    return "No new bank is needed: the installed banks, once repaired and fully used, cover the need.";
   if (c.kvarRequired <= 0) return "No bank is recommended: the site needs no capacitors to reach the target at the surveyed load.";
   const placed = result.placement?.totalKvar ?? 0;
-  if (placed > 0) return `No central bank is recommended: the ${fmt.power(placed)} kvar the site needs is placed at the motor terminals and group banks above.`;
+  if (placed > 0)
+    return `No central bank is recommended: the ${fmt.power(placed)} kvar the site needs is placed at the motor terminals and group banks above.`;
   return `No central bank is recommended: the ${fmt.power(c.kvarRequired)} kvar needed is below the smallest standard unit or the design could not be made from the readings.`;
 }

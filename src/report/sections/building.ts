@@ -38,9 +38,14 @@ export function buildingSection(input: ReportInput): Section {
       { key: "Target displacement PF", value: fmt.pf(result.correction.targetPF) },
       {
         key: "Supply transformer",
-        value: tx ? `${fmt.kva0(tx.kVA)} kVA, impedance ${fmt.pct2(tx.impedancePct)} %${tx.xOverR !== undefined ? `, X/R ${fmt.num(tx.xOverR, 1)}` : ""}` : "not given",
+        value: tx
+          ? `${fmt.kva0(tx.kVA)} kVA, impedance ${fmt.pct2(tx.impedancePct)} %${tx.xOverR !== undefined ? `, X/R ${fmt.num(tx.xOverR, 1)}` : ""}`
+          : "not given",
       },
-      { key: "Utility fault level", value: ut ? `${fmt.num(ut.faultMVA, 0)} MVA` : "not given (infinite source assumed when a transformer is given)" },
+      {
+        key: "Utility fault level",
+        value: ut ? `${fmt.num(ut.faultMVA, 0)} MVA` : "not given (infinite source assumed when a transformer is given)",
+      },
     ],
   });
   return { id: "building", heading: "Building and survey", blocks };

@@ -64,7 +64,12 @@ export function cautionsSection(input: ReportInput): Section {
     heading: "Safety cautions",
     blocks: [
       { kind: "paragraph", tone: "alert", text: "Read these before any work on or near the bank. They apply whatever the figures above say." },
-      ...reportCautions(input.result.cautions).map((c) => ({ kind: "callout" as const, title: c.title, text: c.text, ...(c.reference ? { reference: c.reference } : {}) })),
+      ...reportCautions(input.result.cautions).map((c) => ({
+        kind: "callout" as const,
+        title: c.title,
+        text: c.text,
+        ...(c.reference ? { reference: c.reference } : {}),
+      })),
     ],
   };
 }

@@ -84,7 +84,13 @@ export function placementBlocks(plan: PlacementPlan): Block[] {
       kind: "table",
       header: ["Load", "Corrected at", "Need to target (kvar)", "Terminal capacitor (kvar)", "Reason"],
       align: ["left", "left", "right", "right", "left"],
-      rows: plan.loads.map((l) => [l.label, l.location, fmt.power(l.needKvar), l.terminal ? `${fmt.power(l.terminal.totalKvar)} (limit ${fmt.power(l.terminal.selfExcitationLimitKvar)} per motor)` : "-", l.reason]),
+      rows: plan.loads.map((l) => [
+        l.label,
+        l.location,
+        fmt.power(l.needKvar),
+        l.terminal ? `${fmt.power(l.terminal.totalKvar)} (limit ${fmt.power(l.terminal.selfExcitationLimitKvar)} per motor)` : "-",
+        l.reason,
+      ]),
     },
     {
       kind: "table",
@@ -112,8 +118,13 @@ export function designBlocks(d: DesignView): Block[] {
     {
       kind: "keyValues",
       items: [
-        { key: "Fixed / switched / total", value: `${fmt.power(d.fixedKvar)} / ${fmt.power(d.switchedKvar)} / ${fmt.power(d.fixedKvar + d.switchedKvar)} kvar` },
-        ...(d.ratedVoltageV !== null ? [{ key: "Capacitor rating", value: `${fmt.volts(d.ratedVoltageV)} V, reactor ${fmt.num(d.reactorPct, 2)} %` }] : []),
+        {
+          key: "Fixed / switched / total",
+          value: `${fmt.power(d.fixedKvar)} / ${fmt.power(d.switchedKvar)} / ${fmt.power(d.fixedKvar + d.switchedKvar)} kvar`,
+        },
+        ...(d.ratedVoltageV !== null
+          ? [{ key: "Capacitor rating", value: `${fmt.volts(d.ratedVoltageV)} V, reactor ${fmt.num(d.reactorPct, 2)} %` }]
+          : []),
         {
           key: "Controller response C/k",
           value: d.controller
@@ -149,7 +160,16 @@ export function designBlocks(d: DesignView): Block[] {
     blocks.push({
       kind: "table",
       title: "Discharge resistors",
-      header: ["Step (kvar nameplate)", "Rated V", "Resistors", "C per element (µF)", "R at most (ohm)", "Governing rule", "Dissipation (W)", "To 10 % (s)"],
+      header: [
+        "Step (kvar nameplate)",
+        "Rated V",
+        "Resistors",
+        "C per element (µF)",
+        "R at most (ohm)",
+        "Governing rule",
+        "Dissipation (W)",
+        "To 10 % (s)",
+      ],
       align: ["right", "right", "left", "right", "right", "left", "right", "right"],
       rows: d.discharge.map((x) => [
         fmt.power(x.kvar),

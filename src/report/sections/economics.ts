@@ -24,20 +24,36 @@ function economicsBlocks(e: EconomicsResult): Block[] {
       items: [
         { key: "Tariff", value: tariffText(e.tariff, c) },
         { key: "Basis", value: e.basis === "interval_data" ? "interval data" : "survey demand" },
-        ...(e.intervalMethod ? [{ key: "Interval method", value: e.intervalMethod.estimate ? `estimate: ${e.intervalMethod.method.replace(/_/g, " ")}` : e.intervalMethod.method.replace(/_/g, " ") }] : []),
+        ...(e.intervalMethod
+          ? [
+              {
+                key: "Interval method",
+                value: e.intervalMethod.estimate
+                  ? `estimate: ${e.intervalMethod.method.replace(/_/g, " ")}`
+                  : e.intervalMethod.method.replace(/_/g, " "),
+              },
+            ]
+          : []),
         { key: "Saving per month", value: fmt.money(e.savingPerMonth, c) },
         { key: "Saving per year", value: fmt.money(e.savingPerYear, c) },
         { key: "Installed cost", value: e.installedCost === null ? "not given" : fmt.money(e.installedCost, c) },
-        { key: "Simple payback", value: e.simplePaybackYears === null ? "n/a (no cost given, or no saving)" : `${fmt.years(e.simplePaybackYears)} years` },
+        {
+          key: "Simple payback",
+          value: e.simplePaybackYears === null ? "n/a (no cost given, or no saving)" : `${fmt.years(e.simplePaybackYears)} years`,
+        },
       ],
     },
   ];
   if (e.costBreakdown) {
-    blocks.push({ kind: "keyValues", title: "Cost breakdown", items: [
-      { key: "Per kvar", value: fmt.money(e.costBreakdown.perKvar, c) },
-      { key: "Per step", value: fmt.money(e.costBreakdown.perStep, c) },
-      { key: "Fixed", value: fmt.money(e.costBreakdown.fixed, c) },
-    ] });
+    blocks.push({
+      kind: "keyValues",
+      title: "Cost breakdown",
+      items: [
+        { key: "Per kvar", value: fmt.money(e.costBreakdown.perKvar, c) },
+        { key: "Per step", value: fmt.money(e.costBreakdown.perStep, c) },
+        { key: "Fixed", value: fmt.money(e.costBreakdown.fixed, c) },
+      ],
+    });
   }
   if (e.costItems.length > 0) {
     blocks.push({

@@ -23,8 +23,10 @@ export function bankLabel(name: string): string {
 }
 const near = (n: number | null) => (n === null ? "-" : `${ordinal(n)} (within 10 %)`);
 const peakOf = (s: StageStudy | undefined) => (s && s.peaks.length > 0 ? s.peaks.map((p) => fmt.order(p.order)).join(", ") : "-");
-const worst = (s: StageStudy) => `${fmt.pct2(s.ieee519.individual.valuePct)}${s.ieee519.individual.order !== null ? ` (h ${s.ieee519.individual.order})` : ""}`;
-const duty = (s: StageStudy) => `${fmt.pct(s.duty.rmsVoltage.valuePct)} / ${fmt.pct(s.duty.peakVoltage.valuePct)} / ${fmt.pct(s.duty.rmsCurrent.valuePct)} / ${fmt.pct(s.duty.reactivePower.valuePct)}`;
+const worst = (s: StageStudy) =>
+  `${fmt.pct2(s.ieee519.individual.valuePct)}${s.ieee519.individual.order !== null ? ` (h ${s.ieee519.individual.order})` : ""}`;
+const duty = (s: StageStudy) =>
+  `${fmt.pct(s.duty.rmsVoltage.valuePct)} / ${fmt.pct(s.duty.peakVoltage.valuePct)} / ${fmt.pct(s.duty.rmsCurrent.valuePct)} / ${fmt.pct(s.duty.reactivePower.valuePct)}`;
 
 function resonanceTable(name: string, b: BankAnalysis, study: BankStudy | undefined, hz: number): Block {
   return {
@@ -52,10 +54,30 @@ function studyTable(title: string, study: BankStudy): Block {
   return {
     kind: "table",
     title,
-    header: ["Stage", "Delivered (kvar)", "THD_v (%)", "Worst individual (%)", "IEEE 519", "Capacitor rms V / peak V / I / kvar (% of rating)", "IEEE 18 duty"],
+    header: [
+      "Stage",
+      "Delivered (kvar)",
+      "THD_v (%)",
+      "Worst individual (%)",
+      "IEEE 519",
+      "Capacitor rms V / peak V / I / kvar (% of rating)",
+      "IEEE 18 duty",
+    ],
     align: ["right", "right", "right", "right", "left", "right", "left"],
-    rows: study.stages.map((s) => [String(s.stageNumber), fmt.power(s.effectiveKvar), fmt.pct2(s.ieee519.thd.valuePct), worst(s), fmt.passFail(s.ieee519.pass), duty(s), fmt.passFail(s.duty.pass)]),
-    ...(lim ? { note: `IEEE 519-2014 Table 1 at ${lim.busVoltageClass}: THD_v at most ${fmt.pct(lim.thdPct)} %, individual at most ${fmt.pct(lim.individualPct)} %. IEEE 18 limits: rms voltage 110 %, peak voltage 120 %, current 135 %, kvar 135 %.` } : {}),
+    rows: study.stages.map((s) => [
+      String(s.stageNumber),
+      fmt.power(s.effectiveKvar),
+      fmt.pct2(s.ieee519.thd.valuePct),
+      worst(s),
+      fmt.passFail(s.ieee519.pass),
+      duty(s),
+      fmt.passFail(s.duty.pass),
+    ]),
+    ...(lim
+      ? {
+          note: `IEEE 519-2014 Table 1 at ${lim.busVoltageClass}: THD_v at most ${fmt.pct(lim.thdPct)} %, individual at most ${fmt.pct(lim.individualPct)} %. IEEE 18 limits: rms voltage 110 %, peak voltage 120 %, current 135 %, kvar 135 %.`,
+        }
+      : {}),
   };
 }
 
@@ -82,7 +104,10 @@ function proposalBlocks(p: DetunedProposal, original: BankStudy | undefined): Bl
       items: [
         { key: "Triggered by", value: p.triggeredBy.join(", ") },
         { key: "Reactor", value: `${fmt.num(d.reactorPct, 2)} % (tuned to h = ${fmt.order(d.tuningOrder)})` },
-        { key: "Capacitor rating", value: `${fmt.volts(d.ratedVoltageV)} V (fundamental on the capacitor ${fmt.volts(d.capacitorFundamentalVoltageV)} V)` },
+        {
+          key: "Capacitor rating",
+          value: `${fmt.volts(d.ratedVoltageV)} V (fundamental on the capacitor ${fmt.volts(d.capacitorFundamentalVoltageV)} V)`,
+        },
         { key: "Steps (nameplate)", value: stepsText(d.steps.map((s) => ({ kvar: s.nameplateKvar }))) },
         { key: "Findings after detuning", value: p.findings.length === 0 ? "none" : groupedFindings(p.findings) },
       ],
@@ -91,7 +116,17 @@ function proposalBlocks(p: DetunedProposal, original: BankStudy | undefined): Bl
     {
       kind: "table",
       title: `${cap(bankLabel(p.forBank))} as given and detuned, side by side`,
-      header: ["Stage", "As given: kvar", "As given: peak h", "As given: THD_v (%)", "As given: duty", "Detuned: kvar", "Detuned: peak h", "Detuned: THD_v (%)", "Detuned: duty"],
+      header: [
+        "Stage",
+        "As given: kvar",
+        "As given: peak h",
+        "As given: THD_v (%)",
+        "As given: duty",
+        "Detuned: kvar",
+        "Detuned: peak h",
+        "Detuned: THD_v (%)",
+        "Detuned: duty",
+      ],
       align: ["right", "right", "right", "right", "left", "right", "right", "right", "left"],
       rows,
     },
@@ -106,22 +141,41 @@ export function harmonicsSection(input: ReportInput): Section {
   const blocks: Block[] = [];
   if (!r) {
     const orders = h?.presentOrders.length ? ` The site's harmonic orders are ${h.presentOrders.join(", ")}.` : "";
-    blocks.push({ kind: "paragraph", tone: "alert", text: `Resonance was not screened: the transformer (kVA and impedance) and the utility fault level were not given, so the source strength S_sc at the bus is unknown.${orders}` });
+    blocks.push({
+      kind: "paragraph",
+      tone: "alert",
+      text: `Resonance was not screened: the transformer (kVA and impedance) and the utility fault level were not given, so the source strength S_sc at the bus is unknown.${orders}`,
+    });
     return { id: "harmonics", heading: "Resonance and harmonics", blocks };
   }
   blocks.push({
     kind: "keyValues",
     items: [
       { key: "Short-circuit strength at the bus S_sc", value: `${fmt.kva0(r.shortCircuitKVA)} kVA` },
-      { key: "Transformer alone / utility", value: `${r.transformerShortCircuitKVA === null ? "n/a" : fmt.kva0(r.transformerShortCircuitKVA)} kVA / ${r.utilityShortCircuitKVA === null ? "infinite" : `${fmt.kva0(r.utilityShortCircuitKVA)} kVA`}` },
-      { key: "Harmonic orders of the site's sources", value: r.harmonicOrdersPresent.length > 0 ? r.harmonicOrdersPresent.join(", ") : "none declared" },
-      { key: "Nonlinear (drive) load", value: `${fmt.power(r.nonlinearKVA)} kVA${r.nonlinearSharePct === null ? "" : ` (${fmt.pct(r.nonlinearSharePct)} % of the transformer)`}` },
+      {
+        key: "Transformer alone / utility",
+        value: `${r.transformerShortCircuitKVA === null ? "n/a" : fmt.kva0(r.transformerShortCircuitKVA)} kVA / ${r.utilityShortCircuitKVA === null ? "infinite" : `${fmt.kva0(r.utilityShortCircuitKVA)} kVA`}`,
+      },
+      {
+        key: "Harmonic orders of the site's sources",
+        value: r.harmonicOrdersPresent.length > 0 ? r.harmonicOrdersPresent.join(", ") : "none declared",
+      },
+      {
+        key: "Nonlinear (drive) load",
+        value: `${fmt.power(r.nonlinearKVA)} kVA${r.nonlinearSharePct === null ? "" : ` (${fmt.pct(r.nonlinearSharePct)} % of the transformer)`}`,
+      },
       {
         key: "Harmonic study advised",
         // Revisions stored before the reasons were kept have none: the flag alone is shown.
-        value: r.harmonicStudyAdvised && (r.harmonicStudyReasons ?? []).length > 0 ? `yes: ${r.harmonicStudyReasons.join("; ")}` : fmt.yesNo(r.harmonicStudyAdvised),
+        value:
+          r.harmonicStudyAdvised && (r.harmonicStudyReasons ?? []).length > 0
+            ? `yes: ${r.harmonicStudyReasons.join("; ")}`
+            : fmt.yesNo(r.harmonicStudyAdvised),
       },
-      { key: "Voltage rise, whole bank (recommended / proposed)", value: `${fmt.pct2(r.recommendedBankVoltageRisePct)} / ${fmt.pct2(r.proposedBankVoltageRisePct)} %` },
+      {
+        key: "Voltage rise, whole bank (recommended / proposed)",
+        value: `${fmt.pct2(r.recommendedBankVoltageRisePct)} / ${fmt.pct2(r.proposedBankVoltageRisePct)} %`,
+      },
     ],
   });
   const studyOf = (name: string) => h?.banks.find((b) => b.name === name);
@@ -130,19 +184,37 @@ export function harmonicsSection(input: ReportInput): Section {
   if (!result.recommendedBank && !result.proposedBank) blocks.push({ kind: "paragraph", text: "No bank to screen." });
   if (h) {
     const w = h.withoutCapacitors.ieee519;
-    blocks.push({ kind: "paragraph", text: `Bus without capacitors: THD_v ${fmt.pct2(w.thd.valuePct)} % (limit ${fmt.pct(w.thd.limitPct)} %), worst individual ${fmt.pct2(w.individual.valuePct)} %${w.individual.order !== null ? ` at h ${w.individual.order}` : ""} (limit ${fmt.pct(w.limits.individualPct)} %): ${fmt.passFail(w.pass)}.` });
+    blocks.push({
+      kind: "paragraph",
+      text: `Bus without capacitors: THD_v ${fmt.pct2(w.thd.valuePct)} % (limit ${fmt.pct(w.thd.limitPct)} %), worst individual ${fmt.pct2(w.individual.valuePct)} %${w.individual.order !== null ? ` at h ${w.individual.order}` : ""} (limit ${fmt.pct(w.limits.individualPct)} %): ${fmt.passFail(w.pass)}.`,
+    });
     for (const b of h.banks) blocks.push(studyTable(`${cap(bankLabel(b.name))}: distortion and capacitor duty per stage`, b));
     for (const p of h.proposals) blocks.push(...proposalBlocks(p, studyOf(p.forBank)));
   } else {
-    blocks.push({ kind: "paragraph", text: "No harmonic study was run: the site has no declared harmonic sources, drives or measured spectra. The screen above uses the estimate h = √(S_sc/Q)." });
+    blocks.push({
+      kind: "paragraph",
+      text: "No harmonic study was run: the site has no declared harmonic sources, drives or measured spectra. The screen above uses the estimate h = √(S_sc/Q).",
+    });
   }
   const scans = scanSeriesFor(input);
   if (scans) {
     for (const b of scans.banks) {
-      const chart = impedanceScanChart({ id: `scan-${slug(b.bank)}`, title: `Impedance scan: ${bankLabel(b.bank)}, one line per stage`, lines: b.lines, markerOrders: scans.markerOrders });
+      const chart = impedanceScanChart({
+        id: `scan-${slug(b.bank)}`,
+        title: `Impedance scan: ${bankLabel(b.bank)}, one line per stage`,
+        lines: b.lines,
+        markerOrders: scans.markerOrders,
+      });
       blocks.push({ kind: "chart", chart });
     }
-    blocks.push({ kind: "paragraph", tone: "note", text: scans.basis === "computed" ? "Scan series recomputed for this report from the stored network figures (source S_sc and X/R, linear load as damping, reactor X/R 50)." : "Scan series as supplied with the study." });
+    blocks.push({
+      kind: "paragraph",
+      tone: "note",
+      text:
+        scans.basis === "computed"
+          ? "Scan series recomputed for this report from the stored network figures (source S_sc and X/R, linear load as damping, reactor X/R 50)."
+          : "Scan series as supplied with the study.",
+    });
   }
   if (h && h.assumptions.length > 0) blocks.push({ kind: "subheading", text: "Study assumptions" }, { kind: "list", items: h.assumptions });
   return { id: "harmonics", heading: "Resonance and harmonics", blocks };

@@ -38,10 +38,20 @@ function chartOf(input: ReportInput): Block | null {
     );
   } else {
     surveys = [{ id: input.survey?.id ?? "this", at: input.survey?.surveyedAt ?? "this reading" }];
-    lines = (result.installedBanks ?? []).flatMap((b) => b.steps.map((st) => ({ label: `${b.label} step ${st.step}`, pct: [st.capacitancePct ?? null] })));
+    lines = (result.installedBanks ?? []).flatMap((b) =>
+      b.steps.map((st) => ({ label: `${b.label} step ${st.step}`, pct: [st.capacitancePct ?? null] })),
+    );
   }
   if (!lines.some((l) => l.pct.some((v) => v !== null))) return null;
-  return { kind: "chart", chart: capacitanceChart({ surveys: surveys.map((s) => dateTime(s.at).slice(0, 10)), lines, degradedBelowPct: DEGRADED_BELOW_PCT, failedBelowPct: FAILED_BELOW_PCT }) };
+  return {
+    kind: "chart",
+    chart: capacitanceChart({
+      surveys: surveys.map((s) => dateTime(s.at).slice(0, 10)),
+      lines,
+      degradedBelowPct: DEGRADED_BELOW_PCT,
+      failedBelowPct: FAILED_BELOW_PCT,
+    }),
+  };
 }
 
 export function installedSection(input: ReportInput): Section {
@@ -49,16 +59,29 @@ export function installedSection(input: ReportInput): Section {
   const banks = result.installedBanks;
   const c = result.correction;
   if (!banks || banks.length === 0) {
-    return { id: "installed", heading: "Installed banks", blocks: [{ kind: "paragraph", text: "No installed capacitor banks were entered for this site." }] };
+    return {
+      id: "installed",
+      heading: "Installed banks",
+      blocks: [{ kind: "paragraph", text: "No installed capacitor banks were entered for this site." }],
+    };
   }
   const blocks: Block[] = [];
   for (const b of banks) {
-    blocks.push({ kind: "subheading", text: `${b.label} (${b.control}, at the ${b.location}${b.group ? ` ${b.group}` : ""}${b.loadLabel ? ` ${b.loadLabel}` : ""})` });
+    blocks.push({
+      kind: "subheading",
+      text: `${b.label} (${b.control}, at the ${b.location}${b.group ? ` ${b.group}` : ""}${b.loadLabel ? ` ${b.loadLabel}` : ""})`,
+    });
     blocks.push({
       kind: "keyValues",
       items: [
-        { key: "Nameplate / rated at system voltage", value: `${fmt.power(b.nameplateKvar)} / ${fmt.power(b.ratedKvarAtSystem)} kvar${b.reactorPct > 0 ? ` (${fmt.num(b.reactorPct, 1)} % reactors)` : " (plain)"}` },
-        { key: "In service during the readings / delivered", value: b.read ? `${fmt.power(b.inServiceKvar)} / ${fmt.power(b.deliveredKvar)} kvar` : "not read: taken as out of service" },
+        {
+          key: "Nameplate / rated at system voltage",
+          value: `${fmt.power(b.nameplateKvar)} / ${fmt.power(b.ratedKvarAtSystem)} kvar${b.reactorPct > 0 ? ` (${fmt.num(b.reactorPct, 1)} % reactors)` : " (plain)"}`,
+        },
+        {
+          key: "In service during the readings / delivered",
+          value: b.read ? `${fmt.power(b.inServiceKvar)} / ${fmt.power(b.deliveredKvar)} kvar` : "not read: taken as out of service",
+        },
         { key: "Currents worked at", value: `${fmt.volts(b.voltageV)} V (${b.voltageMeasured ? "measured at the bank" : "the system voltage"})` },
       ],
     });
@@ -85,7 +108,10 @@ export function installedSection(input: ReportInput): Section {
       kind: "keyValues",
       title: "Credit for the installed banks",
       items: [
-        { key: "Delivered during the readings", value: `${fmt.power(c.kvarInstalledInService)} kvar (${fmt.power(c.kvarIncludedInReadings)} kvar of it inside the readings, added back)` },
+        {
+          key: "Delivered during the readings",
+          value: `${fmt.power(c.kvarInstalledInService)} kvar (${fmt.power(c.kvarIncludedInReadings)} kvar of it inside the readings, added back)`,
+        },
         { key: "Required by the uncorrected site", value: `${fmt.power(c.kvarRequiredTotal)} kvar to PF ${fmt.pf(c.targetPF)}` },
         { key: "Installed, restored and fully used", value: `${fmt.power(c.kvarInstalledRated)} kvar` },
         { key: "Restored by repair", value: `${fmt.power(c.kvarRestoredByRepair)} kvar` },
@@ -96,29 +122,45 @@ export function installedSection(input: ReportInput): Section {
   }
   if (c.repairFirst && c.repairFirst.length > 0) {
     blocks.push({ kind: "paragraph", tone: "alert", text: "Repair these before buying new capacitors:" });
-    blocks.push({ kind: "list", items: c.repairFirst.map((r) => `${r.bank} step ${r.step}: ${r.status}, restores ${fmt.power(r.restoresKvar)} kvar — ${r.finding}`) });
+    blocks.push({
+      kind: "list",
+      items: c.repairFirst.map((r) => `${r.bank} step ${r.step}: ${r.status}, restores ${fmt.power(r.restoresKvar)} kvar — ${r.finding}`),
+    });
   }
   if (c.leadingRelief) {
     const r = c.leadingRelief;
-    blocks.push({ kind: "paragraph", tone: "alert", text: `The site leads: take out ${r.takeOutOfService.map((s) => (s.control === "fixed" ? `fixed bank ${s.bank}` : `${s.bank} step ${s.step}`)).join(", ")} (${fmt.power(r.kvarRemoved)} kvar); PF after ${fmt.pf(r.pfAfter)} ${r.senseAfter}.` });
+    blocks.push({
+      kind: "paragraph",
+      tone: "alert",
+      text: `The site leads: take out ${r.takeOutOfService.map((s) => (s.control === "fixed" ? `fixed bank ${s.bank}` : `${s.bank} step ${s.step}`)).join(", ")} (${fmt.power(r.kvarRemoved)} kvar); PF after ${fmt.pf(r.pfAfter)} ${r.senseAfter}.`,
+    });
   }
   for (const sc of result.combinedStages ?? []) {
     const text =
       sc.hazards.length === 0
         ? `Combined resonance screen${sc.withNewBank === "none" ? "" : ` with the ${sc.withNewBank} bank`}: ${sc.stagesScreened} switchable combinations, none within 10 % of a present harmonic.`
-        : `Combined resonance screen${sc.withNewBank === "none" ? "" : ` with the ${sc.withNewBank} bank`}: ${sc.hazards.length} of ${sc.stagesScreened} combinations resonate near a present harmonic, e.g. ${sc.hazards.slice(0, 3).map((h) => `${h.installed.join(" + ")}${h.newStage > 0 ? ` + new stage ${h.newStage}` : ""} at ${h.resonanceOrders.map((o) => fmt.order(o)).join(", ")}`).join("; ")}.`;
+        : `Combined resonance screen${sc.withNewBank === "none" ? "" : ` with the ${sc.withNewBank} bank`}: ${sc.hazards.length} of ${sc.stagesScreened} combinations resonate near a present harmonic, e.g. ${sc.hazards
+            .slice(0, 3)
+            .map(
+              (h) =>
+                `${h.installed.join(" + ")}${h.newStage > 0 ? ` + new stage ${h.newStage}` : ""} at ${h.resonanceOrders.map((o) => fmt.order(o)).join(", ")}`,
+            )
+            .join("; ")}.`;
     blocks.push({ kind: "paragraph", tone: sc.hazards.length > 0 ? "alert" : "normal", text });
     const h = sc.harmonics;
     if (h && h.worstThdV) {
       const w = h.worstThdV;
-      const name = (x: { installed: string[]; newStage: number }) => `${x.installed.join(" + ")}${x.newStage > 0 ? ` + new stage ${x.newStage}` : ""}`;
+      const name = (x: { installed: string[]; newStage: number }) =>
+        `${x.installed.join(" + ")}${x.newStage > 0 ? ` + new stage ${x.newStage}` : ""}`;
       blocks.push({
         kind: "paragraph",
         tone: h.flagged.length > 0 ? "alert" : "normal",
         text:
           `Combined harmonic study${sc.withNewBank === "none" ? "" : ` with the ${sc.withNewBank} bank`}: ${h.stagesStudied} combinations studied${h.truncated ? " (truncated)" : ""}; ` +
           `the worst THD_v is ${fmt.pct2(w.thdVPct)} % (${name(w)}, limit ${fmt.num(w.ieee519.thdLimitPct, 1)} %)` +
-          (h.flagged.length > 0 ? `; ${h.flagged.length} combination(s) break an IEEE 519 limit or load a capacitor above its rating, e.g. ${h.flagged.slice(0, 3).map(name).join("; ")}.` : "; every combination within IEEE 519 and the capacitors' ratings."),
+          (h.flagged.length > 0
+            ? `; ${h.flagged.length} combination(s) break an IEEE 519 limit or load a capacitor above its rating, e.g. ${h.flagged.slice(0, 3).map(name).join("; ")}.`
+            : "; every combination within IEEE 519 and the capacitors' ratings."),
       });
     }
   }

@@ -30,18 +30,34 @@ export function stepLevels(input: ReportInput): StepLevel[] {
 export function intervalSection(input: ReportInput): Section {
   const s = input.interval;
   if (!s) {
-    return { id: "interval", heading: "Reactive demand over time", blocks: [{ kind: "paragraph", text: "No interval data was analysed for this report: the bank is sized from the survey readings alone." }] };
+    return {
+      id: "interval",
+      heading: "Reactive demand over time",
+      blocks: [{ kind: "paragraph", text: "No interval data was analysed for this report: the bank is sized from the survey readings alone." }],
+    };
   }
   const p = (o: Record<string, number>, k: string) => fmt.power(o[k]);
   const blocks: Block[] = [
     {
       kind: "keyValues",
       items: [
-        { key: "Period", value: `${dateTime(s.firstTimestamp)} to ${dateTime(s.lastTimestamp)} (${fmt.num(s.coveredDays, 1)} days, ${s.intervalCount} intervals of ${s.intervalMinutes} min, ${s.timeZone})` },
+        {
+          key: "Period",
+          value: `${dateTime(s.firstTimestamp)} to ${dateTime(s.lastTimestamp)} (${fmt.num(s.coveredDays, 1)} days, ${s.intervalCount} intervals of ${s.intervalMinutes} min, ${s.timeZone})`,
+        },
         { key: "Peak kW / mean kW", value: `${fmt.power(s.kW.max)} / ${fmt.power(s.kW.mean)} kW` },
-        { key: "Reactive demand P5 / P50 / P95", value: `${p(s.kvar.percentiles, "P5")} / ${p(s.kvar.percentiles, "P50")} / ${p(s.kvar.percentiles, "P95")} kvar` },
-        { key: "Minimum reactive demand (fixed-part limit)", value: `${fmt.power(s.minimumReactiveDemand.minKvar)} kvar (P1 ${fmt.power(s.minimumReactiveDemand.p1Kvar)})` },
-        { key: "kvar to hold the target 95 % / 99 % / 100 % of the time", value: `${fmt.power(s.neededKvar.hold95PctKvar)} / ${fmt.power(s.neededKvar.hold99PctKvar)} / ${fmt.power(s.neededKvar.hold100PctKvar)} kvar` },
+        {
+          key: "Reactive demand P5 / P50 / P95",
+          value: `${p(s.kvar.percentiles, "P5")} / ${p(s.kvar.percentiles, "P50")} / ${p(s.kvar.percentiles, "P95")} kvar`,
+        },
+        {
+          key: "Minimum reactive demand (fixed-part limit)",
+          value: `${fmt.power(s.minimumReactiveDemand.minKvar)} kvar (P1 ${fmt.power(s.minimumReactiveDemand.p1Kvar)})`,
+        },
+        {
+          key: "kvar to hold the target 95 % / 99 % / 100 % of the time",
+          value: `${fmt.power(s.neededKvar.hold95PctKvar)} / ${fmt.power(s.neededKvar.hold99PctKvar)} / ${fmt.power(s.neededKvar.hold100PctKvar)} kvar`,
+        },
         { key: "Intervals below the target PF / leading", value: `${s.pf.intervalsBelowTarget} / ${s.pf.intervalsLeading}` },
         { key: "Billing PF over the period", value: fmt.pf(s.total.billingPF) },
       ],
@@ -53,7 +69,14 @@ export function intervalSection(input: ReportInput): Section {
       title: "Monthly demand",
       header: ["Month", "Peak kW", "Peak kVA", "kWh", "kvarh lagging", "Billing PF"],
       align: ["left", "right", "right", "right", "right", "right"],
-      rows: s.monthly.map((m) => [m.month, fmt.power(m.peakKW), fmt.power(m.peakKVA), fmt.num(m.kWh, 0), fmt.num(m.kvarhLagging, 0), fmt.pf(m.billingPF)]),
+      rows: s.monthly.map((m) => [
+        m.month,
+        fmt.power(m.peakKW),
+        fmt.power(m.peakKVA),
+        fmt.num(m.kWh, 0),
+        fmt.num(m.kvarhLagging, 0),
+        fmt.pf(m.billingPF),
+      ]),
     });
   }
   if (s.durationCurve.kvar.length > 1 && s.loadPoints.count.length > 0) {

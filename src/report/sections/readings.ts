@@ -72,7 +72,15 @@ export function readingsSection(input: ReportInput): Section {
       note: "kW, kvar and kVA are for all units of an entry (quantity × one unit); kvar > 0 is lagging. PF is the displacement PF of the fundamental; line current at the volts read, or at the system voltage for a reading without volts.",
     });
     const s = result.site.sumOfLoads;
-    blocks.push({ kind: "keyValues", items: [{ key: "Sum of the loads", value: `${fmt.power(s.kW)} kW, ${fmt.power(s.kvar)} kvar, ${fmt.power(s.kVA)} kVA, PF ${fmt.pf(s.displacementPF)}` }] });
+    blocks.push({
+      kind: "keyValues",
+      items: [
+        {
+          key: "Sum of the loads",
+          value: `${fmt.power(s.kW)} kW, ${fmt.power(s.kvar)} kvar, ${fmt.power(s.kVA)} kVA, PF ${fmt.pf(s.displacementPF)}`,
+        },
+      ],
+    });
   }
   const se = input.inputs.serviceEntrance;
   if (se) {

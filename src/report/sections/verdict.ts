@@ -59,7 +59,8 @@ export function verdictOf(result: SizingResult): Verdict {
   }
   for (const loc of result.placement?.locations ?? []) {
     if (loc.location === "terminal") install.push(`Motor-terminal capacitors, ${fmt.power(loc.kvar)} kvar in all, on ${loc.loads.join(", ")}.`);
-    else if (loc.location.startsWith("group:")) install.push(`Group bank of ${fmt.power(loc.kvar)} kvar at ${loc.location.slice(6)} (${loc.loads.join(", ")}).`);
+    else if (loc.location.startsWith("group:"))
+      install.push(`Group bank of ${fmt.power(loc.kvar)} kvar at ${loc.location.slice(6)} (${loc.loads.join(", ")}).`);
   }
   const c = result.correction;
   const instead = install.length > 0 ? null : noBankText(result);
@@ -96,21 +97,28 @@ function risksOf(result: SizingResult): string[] {
       `Resonance: ${near.length === rec?.stages.length ? "every stage" : `${near.length} of ${rec?.stages.length} stages`} of a plain bank would resonate near the ${orders.map(ordinal).join(" and ")} harmonic the site makes${detuned ? " — hence the detuned design" : ""}.`,
     );
   } else if (detuned) {
-    risks.push(`Harmonics: the plain bank fails the harmonic study (${detuned.triggeredBy.join(", ").replace(/_/g, " ")}) — hence the detuned design.`);
+    risks.push(
+      `Harmonics: the plain bank fails the harmonic study (${detuned.triggeredBy.join(", ").replace(/_/g, " ")}) — hence the detuned design.`,
+    );
   }
   const failing = (result.correction.repairFirst ?? []).filter((r) => r.status === "failed" || r.status === "degraded");
   if (failing.length > 0) {
     risks.push(`Failing bank: ${failing.map((r) => `${r.bank} step ${r.step} (${r.status})`).join(", ")} — repair before buying new capacitors.`);
   }
   if (result.correction.action === "remove") {
-    risks.push(`Leading operation: the site leads now (PF ${fmt.pf(result.site.displacementPF)}); leading PF raises the voltage and can upset generators and motor controls.`);
+    risks.push(
+      `Leading operation: the site leads now (PF ${fmt.pf(result.site.displacementPF)}); leading PF raises the voltage and can upset generators and motor controls.`,
+    );
   } else if (result.warnings.some((w) => w.code === "light_load_unknown") && rec && rec.fixedKvar > 0) {
-    risks.push("Leading at light load: no light-load reading was given, so the fixed part is held small; take a night or weekend reading before ordering.");
+    risks.push(
+      "Leading at light load: no light-load reading was given, so the fixed part is held small; take a night or weekend reading before ordering.",
+    );
   }
   return risks.slice(0, 2);
 }
 
-const ordinal = (n: number) => `${n}${n % 10 === 1 && n % 100 !== 11 ? "st" : n % 10 === 2 && n % 100 !== 12 ? "nd" : n % 10 === 3 && n % 100 !== 13 ? "rd" : "th"}`;
+const ordinal = (n: number) =>
+  `${n}${n % 10 === 1 && n % 100 !== 11 ? "st" : n % 10 === 2 && n % 100 !== 12 ? "nd" : n % 10 === 3 && n % 100 !== 13 ? "rd" : "th"}`;
 
 export function verdictSection(input: ReportInput): Section {
   const v = verdictOf(input.result);

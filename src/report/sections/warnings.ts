@@ -20,10 +20,14 @@ export function allWarnings(input: ReportInput): (Warning & { from: string })[] 
 
 export function warningsSection(input: ReportInput): Section {
   const ws = allWarnings(input);
-  if (ws.length === 0) return { id: "warnings", heading: "Warnings", blocks: [{ kind: "paragraph", text: "No warnings: the readings and banks raised no findings." }] };
+  if (ws.length === 0)
+    return { id: "warnings", heading: "Warnings", blocks: [{ kind: "paragraph", text: "No warnings: the readings and banks raised no findings." }] };
   const counts = new Map<string, number>();
   for (const w of ws) counts.set(w.severity ?? "warning", (counts.get(w.severity ?? "warning") ?? 0) + 1);
-  const summary = (["error", "warning", "info"] as const).filter((s) => counts.has(s)).map((s) => `${{ error: "errors", warning: "warnings", info: "information" }[s]} ${counts.get(s)}`).join(", ");
+  const summary = (["error", "warning", "info"] as const)
+    .filter((s) => counts.has(s))
+    .map((s) => `${{ error: "errors", warning: "warnings", info: "information" }[s]} ${counts.get(s)}`)
+    .join(", ");
   return {
     id: "warnings",
     heading: "Warnings",

@@ -34,10 +34,14 @@ export function postgresBuildings(sql: Sql): BuildingsRepository {
     return row && buildingFromRow(row);
   };
   const insertVersion = (orgId: string, id: string, version: number, data: BuildingData, at: string, actor: string) =>
-    sql.query(
-      `INSERT INTO building_versions (org_id, building_id, version, data_json, recorded_at, actor) VALUES ($1, $2, $3, $4, $5, $6)`,
-      [orgId, id, version, jsonb(data), at, actor],
-    );
+    sql.query(`INSERT INTO building_versions (org_id, building_id, version, data_json, recorded_at, actor) VALUES ($1, $2, $3, $4, $5, $6)`, [
+      orgId,
+      id,
+      version,
+      jsonb(data),
+      at,
+      actor,
+    ]);
   return {
     get,
     async create(orgId, id, data, actor, at) {

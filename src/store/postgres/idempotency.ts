@@ -19,7 +19,13 @@ const CLAIM_ATTEMPTS = 5;
  * one request in; the others read what holds the key — a finished response, or a claim still in flight.
  */
 export function postgresIdempotency(sql: Sql): IdempotencyRepository {
-  async function claimOnce(orgId: string, key: string, c: IdempotencyClaim, expiredBeforeIso: string, staleClaimBeforeIso: string): Promise<ClaimOutcome | undefined> {
+  async function claimOnce(
+    orgId: string,
+    key: string,
+    c: IdempotencyClaim,
+    expiredBeforeIso: string,
+    staleClaimBeforeIso: string,
+  ): Promise<ClaimOutcome | undefined> {
     const mine = await one(
       sql,
       `INSERT INTO idempotency_keys AS k (org_id, key, request_hash, status, location, response_json, created_at)
@@ -38,8 +44,15 @@ export function postgresIdempotency(sql: Sql): IdempotencyRepository {
       [orgId, key],
     );
     if (!held) return undefined;
-    if (held.status === null || held.responseJson === null) return { kind: "in_flight", claim: { requestHash: held.requestHash, createdAt: held.createdAt } };
-    const record: IdempotencyRecord = { requestHash: held.requestHash, status: held.status, location: held.location, responseJson: held.responseJson, createdAt: held.createdAt };
+    if (held.status === null || held.responseJson === null)
+      return { kind: "in_flight", claim: { requestHash: held.requestHash, createdAt: held.createdAt } };
+    const record: IdempotencyRecord = {
+      requestHash: held.requestHash,
+      status: held.status,
+      location: held.location,
+      responseJson: held.responseJson,
+      createdAt: held.createdAt,
+    };
     return { kind: "done", record };
   }
 
@@ -62,7 +75,11 @@ export function postgresIdempotency(sql: Sql): IdempotencyRepository {
       );
     },
     async release(orgId, key, requestHash) {
-      await sql.query("DELETE FROM idempotency_keys WHERE org_id = $1 AND key = $2 AND request_hash = $3 AND status IS NULL", [orgId, key, requestHash]);
+      await sql.query("DELETE FROM idempotency_keys WHERE org_id = $1 AND key = $2 AND request_hash = $3 AND status IS NULL", [
+        orgId,
+        key,
+        requestHash,
+      ]);
     },
     async purgeBefore(cutoffIso) {
       return (await sql.query("DELETE FROM idempotency_keys WHERE created_at < $1::timestamptz", [cutoffIso])).rowCount ?? 0;

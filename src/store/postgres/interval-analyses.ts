@@ -21,13 +21,31 @@ export function postgresIntervalAnalyses(sql: Sql): IntervalAnalysesRepository {
            interval_minutes, first_timestamp, last_timestamp, hold99_kvar, min_kvar, summary_json)
          VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14)
          RETURNING ${RECORD}`,
-        [a.id, orgId, a.buildingId, a.createdAt, a.actor, a.requestId, s.targetPF, s.intervalCount, s.intervalMinutes, s.firstTimestamp, s.lastTimestamp, s.neededKvar.hold99PctKvar, s.minimumReactiveDemand.minKvar, jsonb(s)],
+        [
+          a.id,
+          orgId,
+          a.buildingId,
+          a.createdAt,
+          a.actor,
+          a.requestId,
+          s.targetPF,
+          s.intervalCount,
+          s.intervalMinutes,
+          s.firstTimestamp,
+          s.lastTimestamp,
+          s.neededKvar.hold99PctKvar,
+          s.minimumReactiveDemand.minKvar,
+          jsonb(s),
+        ],
       );
       if (!row) throw new Error(`interval analysis ${a.id} was not stored`);
       return row;
     },
     newestOf: (orgId, buildingId) =>
-      one<IntervalAnalysisRecord>(sql, `SELECT ${RECORD} FROM interval_analyses WHERE org_id = $1 AND building_id = $2 ORDER BY seq DESC LIMIT 1`, [orgId, buildingId]),
+      one<IntervalAnalysisRecord>(sql, `SELECT ${RECORD} FROM interval_analyses WHERE org_id = $1 AND building_id = $2 ORDER BY seq DESC LIMIT 1`, [
+        orgId,
+        buildingId,
+      ]),
     listByBuilding: (orgId, buildingId, q) =>
       all<IntervalAnalysisListEntry>(
         sql,

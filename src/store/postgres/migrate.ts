@@ -28,7 +28,10 @@ async function appliedOf(client: pg.ClientBase): Promise<AppliedRow[]> {
 }
 
 /** The newest applied version and the newest this build knows, without taking the lock (for /ready). */
-export async function schemaVersions(client: pg.ClientBase | pg.Pool, dir: string = POSTGRES_MIGRATIONS_DIR): Promise<{ applied: number; known: number }> {
+export async function schemaVersions(
+  client: pg.ClientBase | pg.Pool,
+  dir: string = POSTGRES_MIGRATIONS_DIR,
+): Promise<{ applied: number; known: number }> {
   const known = loadMigrations(dir).length;
   const exists = await client.query<{ t: string | null }>("SELECT to_regclass('schema_migrations')::text AS t");
   if (!exists.rows[0]?.t) return { applied: 0, known };
@@ -41,7 +44,11 @@ export async function schemaVersions(client: pg.ClientBase | pg.Pool, dir: strin
  * (PostgreSQL's DDL is transactional), so a failure leaves the database as it was. Refuses a database newer than
  * this build, or one whose applied migrations were edited since (checksums), as the SQLite store does.
  */
-export async function migratePostgres(pool: pg.Pool, dir: string = POSTGRES_MIGRATIONS_DIR, now: () => Date = () => new Date()): Promise<MigrationReport> {
+export async function migratePostgres(
+  pool: pg.Pool,
+  dir: string = POSTGRES_MIGRATIONS_DIR,
+  now: () => Date = () => new Date(),
+): Promise<MigrationReport> {
   const known = loadMigrations(dir);
   const client = await pool.connect();
   let current: string | undefined;

@@ -22,7 +22,22 @@ function revisionOf(r: RevisionRow): RevisionRecord {
 /** $1 org, $2 survey id, $3 n, then the summary and when/who: shared by the head's insert and move. */
 function headValues(orgId: string, r: NewRevision): unknown[] {
   const s = r.summary;
-  return [orgId, r.surveyId, r.n, r.inputs.surveyedAt, r.surveyedAtUtc, r.inputs.surveyor, s.kW, s.kvar, s.kVA, s.displacementPF, s.kvarRequired, s.warningCount, s.installedKvarInService, s.installedKvarDelivered];
+  return [
+    orgId,
+    r.surveyId,
+    r.n,
+    r.inputs.surveyedAt,
+    r.surveyedAtUtc,
+    r.inputs.surveyor,
+    s.kW,
+    s.kvar,
+    s.kVA,
+    s.displacementPF,
+    s.kvarRequired,
+    s.warningCount,
+    s.installedKvarInService,
+    s.installedKvarDelivered,
+  ];
 }
 
 /** Surveys (a head row with the latest revision's summary) and their immutable revisions. */
@@ -34,7 +49,26 @@ export function postgresSurveys(sql: Sql): SurveysRepository {
          engine_version, building_snapshot_json, kw, kvar, kva, displacement_pf, kvar_required, warning_count,
          installed_kvar_in_service, installed_kvar_delivered)
        VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17, $18)`,
-      [orgId, r.surveyId, r.n, r.reason, r.createdAt, r.actor, jsonb(r.inputs), r.resultUtf8 ? Buffer.from(r.resultUtf8.buffer, r.resultUtf8.byteOffset, r.resultUtf8.byteLength).toString("utf8") : jsonb(r.result), r.engineVersion, jsonb(r.building), s.kW, s.kvar, s.kVA, s.displacementPF, s.kvarRequired, s.warningCount, s.installedKvarInService, s.installedKvarDelivered],
+      [
+        orgId,
+        r.surveyId,
+        r.n,
+        r.reason,
+        r.createdAt,
+        r.actor,
+        jsonb(r.inputs),
+        r.resultUtf8 ? Buffer.from(r.resultUtf8.buffer, r.resultUtf8.byteOffset, r.resultUtf8.byteLength).toString("utf8") : jsonb(r.result),
+        r.engineVersion,
+        jsonb(r.building),
+        s.kW,
+        s.kvar,
+        s.kVA,
+        s.displacementPF,
+        s.kvarRequired,
+        s.warningCount,
+        s.installedKvarInService,
+        s.installedKvarDelivered,
+      ],
     );
   };
   const range = (q: SurveyRange) => [q.fromUtc ?? null, q.toUtc ?? null];
@@ -88,7 +122,12 @@ export function postgresSurveys(sql: Sql): SurveysRepository {
         [orgId, buildingId, ...range(q), q.before?.t ?? null, q.before?.id ?? null, q.limit],
       ),
     trend: (orgId, buildingId, q) =>
-      all<SurveyHead>(sql, `SELECT ${HEAD} FROM surveys WHERE ${RANGE} ORDER BY surveyed_at_utc, id LIMIT $5`, [orgId, buildingId, ...range(q), q.limit]),
+      all<SurveyHead>(sql, `SELECT ${HEAD} FROM surveys WHERE ${RANGE} ORDER BY surveyed_at_utc, id LIMIT $5`, [
+        orgId,
+        buildingId,
+        ...range(q),
+        q.limit,
+      ]),
     withInstalledBanks: (orgId, buildingId, limit) =>
       all<SurveyResultRow>(
         sql,

@@ -13,12 +13,14 @@ export function surveyResultsRepo(db: Db) {
   return {
     /** Only surveys that had installed banks (the column is null otherwise, so no JSON is parsed for the rest). */
     withInstalledBanks(orgId: string, buildingId: string, limit: number): SurveyResultRow[] {
-      return (rows.all(orgId, buildingId, limit) as { id: string; surveyed_at: string; result_json: string; building_snapshot_json: string }[]).map((r) => ({
-        surveyId: r.id,
-        surveyedAt: r.surveyed_at,
-        result: JSON.parse(r.result_json) as SizingResult,
-        building: JSON.parse(r.building_snapshot_json) as BuildingSnapshot,
-      }));
+      return (rows.all(orgId, buildingId, limit) as { id: string; surveyed_at: string; result_json: string; building_snapshot_json: string }[]).map(
+        (r) => ({
+          surveyId: r.id,
+          surveyedAt: r.surveyed_at,
+          result: JSON.parse(r.result_json) as SizingResult,
+          building: JSON.parse(r.building_snapshot_json) as BuildingSnapshot,
+        }),
+      );
     },
   };
 }

@@ -37,7 +37,13 @@ export function idempotencyRepo(db: Db) {
     const row = find.get(orgId, key) as Row | undefined;
     if (row && row.createdAt >= expiredBeforeIso) {
       if (row.status !== null && row.responseJson !== null) {
-        const record: IdempotencyRecord = { requestHash: row.requestHash, status: row.status, location: row.location, responseJson: row.responseJson, createdAt: row.createdAt };
+        const record: IdempotencyRecord = {
+          requestHash: row.requestHash,
+          status: row.status,
+          location: row.location,
+          responseJson: row.responseJson,
+          createdAt: row.createdAt,
+        };
         return { kind: "done", record };
       }
       if (row.createdAt >= staleClaimBeforeIso) return { kind: "in_flight", claim: { requestHash: row.requestHash, createdAt: row.createdAt } };

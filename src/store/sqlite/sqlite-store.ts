@@ -121,7 +121,11 @@ export async function openSqliteStore(options: SqliteStoreOptions): Promise<Sqli
         await committer.idle();
         const v = (appliedVersion.get() as { v: number }).v;
         const current = v === latestKnown;
-        return { databaseReachable: true, migrationsCurrent: current, ...(current ? {} : { detail: `schema at version ${v}, this build knows ${latestKnown}` }) };
+        return {
+          databaseReachable: true,
+          migrationsCurrent: current,
+          ...(current ? {} : { detail: `schema at version ${v}, this build knows ${latestKnown}` }),
+        };
       } catch (err) {
         return { databaseReachable: false, migrationsCurrent: false, detail: (err as Error).message };
       }

@@ -131,9 +131,7 @@ export function surveysRepo(db: Db) {
     `SELECT r.*, s.building_id FROM survey_revisions r JOIN surveys s ON s.org_id = r.org_id AND s.id = r.survey_id
      WHERE r.org_id = ? AND r.survey_id = ? AND r.n = ?`,
   );
-  const revisionList = db.prepare(
-    "SELECT n, created_at AS createdAt, reason FROM survey_revisions WHERE org_id = ? AND survey_id = ? ORDER BY n",
-  );
+  const revisionList = db.prepare("SELECT n, created_at AS createdAt, reason FROM survey_revisions WHERE org_id = ? AND survey_id = ? ORDER BY n");
   const RANGE = `org_id = @org_id AND building_id = @building_id
        AND (@from IS NULL OR surveyed_at_utc >= @from) AND (@to IS NULL OR surveyed_at_utc <= @to)`;
   const newestFirst = db.prepare(

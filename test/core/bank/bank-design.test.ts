@@ -32,7 +32,12 @@ describe("designBank", () => {
     // 30 kvar 36.08 A ×1.65 = 59.54 → 60 A; 25 kvar 30.07 A → 49.62 → 50 A; 50 kvar 60.14 → 99.23 → 100 A;
     // 100 kvar 120.28 → 198.46 → 200 A; bank 205 kvar 246.58 A → 406.85 → 450 A (NFPA 70 240.6(A) ratings)
     const d = design(readings);
-    expect(d.steps.map((s) => [s.role, s.effectiveKvar])).toEqual([["fixed", 30], ["switched", 25], ["switched", 50], ["switched", 100]]);
+    expect(d.steps.map((s) => [s.role, s.effectiveKvar])).toEqual([
+      ["fixed", 30],
+      ["switched", 25],
+      ["switched", 50],
+      ["switched", 100],
+    ]);
     expect(d.bank?.steps).toEqual([{ kvar: 30 }, { kvar: 25 }, { kvar: 50 }, { kvar: 100 }]);
     expect(d.totalKvar).toBe(205);
     expect(d.protection?.steps.map((p) => p.ocpdRatingA)).toEqual([60, 50, 100, 200]);
@@ -60,7 +65,12 @@ describe("designBank", () => {
     // → 1:2:4 of 25/50/100 kvar nameplate = 22.471/44.942/89.884 kvar delivered (157.30 kvar ≥ 124.43)
     const f = (480 / 525) ** 2 / 0.93;
     const d = design({ ...readings, reactorPct: 7, ratedVoltageV: 525 });
-    expect(d.steps.map((s) => [s.role, s.nameplateKvar])).toEqual([["fixed", 30], ["switched", 25], ["switched", 50], ["switched", 100]]);
+    expect(d.steps.map((s) => [s.role, s.nameplateKvar])).toEqual([
+      ["fixed", 30],
+      ["switched", 25],
+      ["switched", 50],
+      ["switched", 100],
+    ]);
     d.steps.forEach((s) => expectClose(s.effectiveKvar, s.nameplateKvar * f, TOL.power, `delivered ${s.nameplateKvar} kvar`));
     expectClose(d.steps[1]?.effectiveKvar, 22.4709, TOL.powerQuoted, "25 kvar step delivered (hand: 25·0.898837)");
     expect([d.fixedNameplateKvar, d.switchedNameplateKvar]).toEqual([30, 175]);
@@ -77,7 +87,13 @@ describe("designBank", () => {
     // before this rule the design bought 48.4 / 18.15 / 72.6 kvar nameplates (40, 15, 60 kvar × (440/400)²): not sold
     const f = (400 / 440) ** 2;
     const sys400 = { voltageV: 400, frequencyHz: 50, phases: 3 } as const;
-    const d = design({ system: sys400, targetPF: 0.95, demand: { kind: "readings", survey: { kW: 350, kvar: 280 }, lightLoad: { kW: 90, kvar: 55 } }, ctRatio: 200, ratedVoltageV: 440 });
+    const d = design({
+      system: sys400,
+      targetPF: 0.95,
+      demand: { kind: "readings", survey: { kW: 350, kvar: 280 }, lightLoad: { kW: 90, kvar: 55 } },
+      ctRatio: 200,
+      ratedVoltageV: 440,
+    });
     const standard = new Set<number>(STANDARD_UNIT_KVAR);
     expect(d.steps.length).toBeGreaterThan(1);
     for (const s of d.steps) {
@@ -139,7 +155,11 @@ describe("designBank", () => {
       const kW = (workday ? 600 : 150) * (0.85 + 0.3 * rnd());
       return { kW, kvar: kW * Math.tan(Math.acos(0.76 + 0.1 * rnd())) };
     });
-    const input: DesignBankInput = { system: { voltageV: 400, frequencyHz: 50, phases: 3 }, demand: { kind: "intervals", samples, intervalMinutes: 15 }, ctRatio: 200 };
+    const input: DesignBankInput = {
+      system: { voltageV: 400, frequencyHz: 50, phases: 3 },
+      demand: { kind: "intervals", samples, intervalMinutes: 15 },
+      ctRatio: 200,
+    };
     const before = structuredClone(input);
     const d = design(input);
     expect(input).toEqual(before);

@@ -38,12 +38,7 @@ describe("series RLC impedance |Z| = √(R² + (X_L − X_C)²)", () => {
   it("at series resonance f₀ = 1/(2π√(LC)) = 71.176 Hz (hand: 1/(2π·√5e-6)) |Z| = R", () => {
     const f0 = 1 / (2 * Math.PI * Math.sqrt(0.05 * 100e-6));
     expectClose(f0, 71.1763, TOL_4DP, "f₀");
-    expectClose(
-      seriesRlcImpedanceOhm(10, inductiveReactanceOhm(0.05, f0), capacitiveReactanceOhm(100e-6, f0)),
-      10,
-      TOL.ohm,
-      "|Z| at resonance",
-    );
+    expectClose(seriesRlcImpedanceOhm(10, inductiveReactanceOhm(0.05, f0), capacitiveReactanceOhm(100e-6, f0)), 10, TOL.ohm, "|Z| at resonance");
   });
 
   it("a 3-4-5 triangle: R = 3, X_L = 9, X_C = 5 → |Z| = 5 Ω (hand)", () => {

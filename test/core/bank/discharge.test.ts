@@ -103,14 +103,61 @@ describe("largest discharge resistor R ≤ t/(k·C·ln(√2·U_N/U_R))", () => {
 
 /** Circuits of each connection: nodes 0–2 the lines (3 the capacitor or resistor star point). */
 function circuit(conn: DischargeConnection, cF: number, rOhm: number): { nodes: number; caps: Element[]; res: Element[]; wye: boolean } {
-  const delta: Element[] = [ { a: 0, b: 1, value: cF }, { a: 1, b: 2, value: cF }, { a: 2, b: 0, value: cF } ];
-  const wye: Element[] = [ { a: 0, b: 3, value: cF }, { a: 1, b: 3, value: cF }, { a: 2, b: 3, value: cF } ];
+  const delta: Element[] = [
+    { a: 0, b: 1, value: cF },
+    { a: 1, b: 2, value: cF },
+    { a: 2, b: 0, value: cF },
+  ];
+  const wye: Element[] = [
+    { a: 0, b: 3, value: cF },
+    { a: 1, b: 3, value: cF },
+    { a: 2, b: 3, value: cF },
+  ];
   const onEdges = (edges: [number, number][]) => edges.map(([a, b]) => ({ a, b, value: rOhm }));
   switch (conn) {
-    case "across_each_capacitor": return { nodes: 3, caps: delta, res: onEdges([[0, 1], [1, 2], [2, 0]]), wye: false };
-    case "star_across_delta": return { nodes: 4, caps: delta, res: onEdges([[0, 3], [1, 3], [2, 3]]), wye: false };
-    case "two_across_delta": return { nodes: 3, caps: delta, res: onEdges([[0, 1], [1, 2]]), wye: false };
-    case "delta_across_wye": return { nodes: 4, caps: wye, res: onEdges([[0, 1], [1, 2], [2, 0]]), wye: true };
+    case "across_each_capacitor":
+      return {
+        nodes: 3,
+        caps: delta,
+        res: onEdges([
+          [0, 1],
+          [1, 2],
+          [2, 0],
+        ]),
+        wye: false,
+      };
+    case "star_across_delta":
+      return {
+        nodes: 4,
+        caps: delta,
+        res: onEdges([
+          [0, 3],
+          [1, 3],
+          [2, 3],
+        ]),
+        wye: false,
+      };
+    case "two_across_delta":
+      return {
+        nodes: 3,
+        caps: delta,
+        res: onEdges([
+          [0, 1],
+          [1, 2],
+        ]),
+        wye: false,
+      };
+    case "delta_across_wye":
+      return {
+        nodes: 4,
+        caps: wye,
+        res: onEdges([
+          [0, 1],
+          [1, 2],
+          [2, 0],
+        ]),
+        wye: true,
+      };
   }
 }
 
@@ -143,13 +190,20 @@ describe("the factor k against an RK4 simulation of the disconnected bank (indep
     const r = maxDischargeResistanceOhm(60, DISCHARGE_K[conn], cF, uN, 50);
     const c = circuit(conn, cF, r);
     fc.assert(
-      fc.property(fc.tuple(fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true })), ([x, y, z]) => {
-        // wye: element voltages summing to zero (no charge on the floating star point); delta: any node voltages
-        const v = c.wye ? [x, y, -(x + y), 0] : [x, y, z, 0].slice(0, c.nodes);
-        fc.pre(Math.max(...c.caps.map((e) => Math.abs((v[e.a] ?? 0) - (v[e.b] ?? 0)))) > 1e-3);
-        const t = timeToResidual(c.nodes, c.caps, c.res, scaleTo(v, c.caps), 50, 60 / 4000, 600);
-        return t <= 60 * (1 + DTOL.oracleTimeS.rel);
-      }),
+      fc.property(
+        fc.tuple(
+          fc.double({ min: -1, max: 1, noNaN: true }),
+          fc.double({ min: -1, max: 1, noNaN: true }),
+          fc.double({ min: -1, max: 1, noNaN: true }),
+        ),
+        ([x, y, z]) => {
+          // wye: element voltages summing to zero (no charge on the floating star point); delta: any node voltages
+          const v = c.wye ? [x, y, -(x + y), 0] : [x, y, z, 0].slice(0, c.nodes);
+          fc.pre(Math.max(...c.caps.map((e) => Math.abs((v[e.a] ?? 0) - (v[e.b] ?? 0)))) > 1e-3);
+          const t = timeToResidual(c.nodes, c.caps, c.res, scaleTo(v, c.caps), 50, 60 / 4000, 600);
+          return t <= 60 * (1 + DTOL.oracleTimeS.rel);
+        },
+      ),
       { numRuns: 25, seed: 20240601 },
     );
   });

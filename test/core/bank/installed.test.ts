@@ -1,11 +1,5 @@
 import { describe, expect, it } from "vitest";
-import {
-  capacitanceShare,
-  evaluateInstalledBanks,
-  expectedStep,
-  stepStatus,
-  unbalancePct,
-} from "../../../src/core/bank/installed.js";
+import { capacitanceShare, evaluateInstalledBanks, expectedStep, stepStatus, unbalancePct } from "../../../src/core/bank/installed.js";
 import type { InstalledBankInput, SystemInput } from "../../../src/core/inputs.js";
 import { expectClose, TOL } from "../../helpers/tolerance.js";
 
@@ -78,7 +72,20 @@ describe("capacitance, unbalance and status", () => {
 
 describe("evaluateInstalledBanks", () => {
   it("works every step: a degraded step 2 at 54 A reads 54/60.1407 = 89.788 %, delivering 44.894 kvar", () => {
-    const out = evaluateInstalledBanks([bankA], [{ bank: "MSB bank", inServiceSteps: [1, 2], stepCurrents: [{ step: 2, amps: [54, 54, 54] }, { step: 3, amps: [60, 0, 60] }] }], sys480);
+    const out = evaluateInstalledBanks(
+      [bankA],
+      [
+        {
+          bank: "MSB bank",
+          inServiceSteps: [1, 2],
+          stepCurrents: [
+            { step: 2, amps: [54, 54, 54] },
+            { step: 3, amps: [60, 0, 60] },
+          ],
+        },
+      ],
+      sys480,
+    );
     expect(out.issues).toEqual([]);
     const b = out.banks[0]!;
     expectClose(b.nameplateKvar, 200, TOL.power, "nameplate");
@@ -108,14 +115,31 @@ describe("evaluateInstalledBanks", () => {
       [bankA],
       [
         { bank: "Nope", inServiceSteps: [] },
-        { bank: "MSB bank", inServiceSteps: [1, 5], stepCurrents: [{ step: 1, amps: 60 }, { step: 2, amps: [60, 60, 181] }, { step: 9, amps: 1 }] },
+        {
+          bank: "MSB bank",
+          inServiceSteps: [1, 5],
+          stepCurrents: [
+            { step: 1, amps: 60 },
+            { step: 2, amps: [60, 60, 181] },
+            { step: 9, amps: 1 },
+          ],
+        },
       ],
       sys480,
     );
     const paths = bad.issues.map((i) => i.path.join("."));
-    expect(paths).toEqual(["bankReadings.0.bank", "bankReadings.1.inServiceSteps.1", "bankReadings.1.stepCurrents.1.amps.2", "bankReadings.1.stepCurrents.2.step"]);
+    expect(paths).toEqual([
+      "bankReadings.0.bank",
+      "bankReadings.1.inServiceSteps.1",
+      "bankReadings.1.stepCurrents.1.amps.2",
+      "bankReadings.1.stepCurrents.2.step",
+    ]);
     // 3 × 60.1407 = 180.42 A: 181 A is out, 180 A would stand
-    const one = evaluateInstalledBanks([{ ...bankA, ratedVoltageV: 240, steps: [{ kvar: 10 }] }], [{ bank: "MSB bank", inServiceSteps: [1], stepCurrents: [{ step: 1, amps: [40, 40, 40] }] }], { voltageV: 240, frequencyHz: 60, phases: 1 });
+    const one = evaluateInstalledBanks(
+      [{ ...bankA, ratedVoltageV: 240, steps: [{ kvar: 10 }] }],
+      [{ bank: "MSB bank", inServiceSteps: [1], stepCurrents: [{ step: 1, amps: [40, 40, 40] }] }],
+      { voltageV: 240, frequencyHz: 60, phases: 1 },
+    );
     expect(one.issues.map((i) => i.path.join("."))).toEqual(["bankReadings.0.stepCurrents.0.amps"]);
     const dup = evaluateInstalledBanks([bankA, { ...bankA }], [], sys480);
     expect(dup.issues.map((i) => i.path.join("."))).toEqual(["installedBanks.1.label"]);

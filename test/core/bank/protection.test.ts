@@ -1,10 +1,5 @@
 import { describe, expect, it } from "vitest";
-import {
-  capacitorRatedCurrentA,
-  circuitProtection,
-  nextStandardRatingA,
-  STANDARD_AMPERE_RATINGS_A,
-} from "../../../src/core/bank/protection.js";
+import { capacitorRatedCurrentA, circuitProtection, nextStandardRatingA, STANDARD_AMPERE_RATINGS_A } from "../../../src/core/bank/protection.js";
 import { expectClose, TOL } from "../../helpers/tolerance.js";
 
 describe("standard ampere ratings (NFPA 70 240.6(A))", () => {
@@ -34,13 +29,83 @@ describe("standard ampere ratings (NFPA 70 240.6(A))", () => {
 describe("capacitor circuit protection (NFPA 70 460.8)", () => {
   it.each([
     // hand calculation: I = Q·1000/(√3·V); conductor and disconnect 1.35·I (460.8(A), (C)); device factor·I up to 240.6(A)
-    { kvar: 25, v: 400, ph: 3, dev: "fuse", f: undefined, i: 36.08439182435161, ocpdMin: 59.539246510180156, rating: 60, src: "25000/(1.7321·400) = 36.084 A; ×1.65 = 59.54 → 60 A" },
-    { kvar: 25, v: 400, ph: 3, dev: "breaker", f: undefined, i: 36.08439182435161, ocpdMin: 54.12658773652742, rating: 60, src: "×1.5 = 54.13 → 60 A" },
-    { kvar: 100, v: 480, ph: 3, dev: "fuse", f: undefined, i: 120.28130608117205, ocpdMin: 198.46415503393388, rating: 200, src: "100000/(1.7321·480) = 120.28 A; ×1.65 = 198.46 → 200 A" },
-    { kvar: 50, v: 480, ph: 3, dev: "fuse", f: 1.35, i: 60.140653040586024, ocpdMin: 81.18988160479114, rating: 90, src: "60.14 A ×1.35 = 81.19 → 90 A" },
-    { kvar: 50, v: 480, ph: 3, dev: "breaker", f: undefined, i: 60.140653040586024, ocpdMin: 90.21097956087904, rating: 100, src: "60.14 A ×1.5 = 90.21 → 100 A" },
-    { kvar: 5, v: 240, ph: 1, dev: "fuse", f: undefined, i: 20.833333333333332, ocpdMin: 34.37499999999999, rating: 35, src: "5000/240 = 20.83 A; ×1.65 = 34.38 → 35 A" },
-    { kvar: 0.5, v: 480, ph: 3, dev: "fuse", f: undefined, i: 0.6014065304058602, ocpdMin: 0.9923207751696693, rating: 1, src: "0.601 A ×1.65 = 0.99 → 1 A (fuse-only rating)" },
+    {
+      kvar: 25,
+      v: 400,
+      ph: 3,
+      dev: "fuse",
+      f: undefined,
+      i: 36.08439182435161,
+      ocpdMin: 59.539246510180156,
+      rating: 60,
+      src: "25000/(1.7321·400) = 36.084 A; ×1.65 = 59.54 → 60 A",
+    },
+    {
+      kvar: 25,
+      v: 400,
+      ph: 3,
+      dev: "breaker",
+      f: undefined,
+      i: 36.08439182435161,
+      ocpdMin: 54.12658773652742,
+      rating: 60,
+      src: "×1.5 = 54.13 → 60 A",
+    },
+    {
+      kvar: 100,
+      v: 480,
+      ph: 3,
+      dev: "fuse",
+      f: undefined,
+      i: 120.28130608117205,
+      ocpdMin: 198.46415503393388,
+      rating: 200,
+      src: "100000/(1.7321·480) = 120.28 A; ×1.65 = 198.46 → 200 A",
+    },
+    {
+      kvar: 50,
+      v: 480,
+      ph: 3,
+      dev: "fuse",
+      f: 1.35,
+      i: 60.140653040586024,
+      ocpdMin: 81.18988160479114,
+      rating: 90,
+      src: "60.14 A ×1.35 = 81.19 → 90 A",
+    },
+    {
+      kvar: 50,
+      v: 480,
+      ph: 3,
+      dev: "breaker",
+      f: undefined,
+      i: 60.140653040586024,
+      ocpdMin: 90.21097956087904,
+      rating: 100,
+      src: "60.14 A ×1.5 = 90.21 → 100 A",
+    },
+    {
+      kvar: 5,
+      v: 240,
+      ph: 1,
+      dev: "fuse",
+      f: undefined,
+      i: 20.833333333333332,
+      ocpdMin: 34.37499999999999,
+      rating: 35,
+      src: "5000/240 = 20.83 A; ×1.65 = 34.38 → 35 A",
+    },
+    {
+      kvar: 0.5,
+      v: 480,
+      ph: 3,
+      dev: "fuse",
+      f: undefined,
+      i: 0.6014065304058602,
+      ocpdMin: 0.9923207751696693,
+      rating: 1,
+      src: "0.601 A ×1.65 = 0.99 → 1 A (fuse-only rating)",
+    },
   ] as const)("$kvar kvar $v V $ph φ $dev: $src", ({ kvar, v, ph, dev, f, i, ocpdMin, rating }) => {
     const current = capacitorRatedCurrentA(kvar, v, ph);
     expectClose(current, i, TOL.currentA, "rated current");

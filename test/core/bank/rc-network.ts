@@ -41,7 +41,10 @@ export function timeToResidual(
   const idx = new Map(capNodes.map((n, i) => [n, i]));
   const cm = capNodes.map(() => capNodes.map(() => 0));
   for (const c of caps) {
-    for (const [x, y] of [[c.a, c.b], [c.b, c.a]] as const) {
+    for (const [x, y] of [
+      [c.a, c.b],
+      [c.b, c.a],
+    ] as const) {
       const i = idx.get(x);
       if (i === undefined) continue;
       cm[i]![i]! += c.value;

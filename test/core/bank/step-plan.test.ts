@@ -28,11 +28,59 @@ describe("nearest-rank percentile", () => {
 describe("fixed part", () => {
   it.each([
     // common practice: fixed ≤ the minimum reactive demand, largest standard unit under it
-    { demand: { kind: "intervals", samples: [{ kW: 100, kvar: 35.2 }, { kW: 300, kvar: 200 }] }, need: 120, tx: undefined, want: 30, src: "min Q 35.2 → 30 kvar" },
-    { demand: { kind: "readings", survey: { kW: 300, kvar: 250 }, lightLoad: { kW: 60, kvar: 12 } }, need: 150, tx: undefined, want: 10, src: "light-load 12 kvar → 10 kvar" },
-    { demand: { kind: "intervals", samples: [{ kW: 100, kvar: 80 }, { kW: 300, kvar: 200 }] }, need: 18, tx: undefined, want: 15, src: "need 18 kvar caps it below min Q → 15 kvar" },
-    { demand: { kind: "intervals", samples: [{ kW: 100, kvar: -5 }, { kW: 300, kvar: 200 }] }, need: 120, tx: undefined, want: 0, src: "the site sometimes leads → no fixed part" },
-    { demand: { kind: "readings", survey: { kW: 300, kvar: 250 } }, need: 151, tx: 500, want: 25, src: "no light load: 5 % of 500 kVA = 25 kvar (rule of thumb)" },
+    {
+      demand: {
+        kind: "intervals",
+        samples: [
+          { kW: 100, kvar: 35.2 },
+          { kW: 300, kvar: 200 },
+        ],
+      },
+      need: 120,
+      tx: undefined,
+      want: 30,
+      src: "min Q 35.2 → 30 kvar",
+    },
+    {
+      demand: { kind: "readings", survey: { kW: 300, kvar: 250 }, lightLoad: { kW: 60, kvar: 12 } },
+      need: 150,
+      tx: undefined,
+      want: 10,
+      src: "light-load 12 kvar → 10 kvar",
+    },
+    {
+      demand: {
+        kind: "intervals",
+        samples: [
+          { kW: 100, kvar: 80 },
+          { kW: 300, kvar: 200 },
+        ],
+      },
+      need: 18,
+      tx: undefined,
+      want: 15,
+      src: "need 18 kvar caps it below min Q → 15 kvar",
+    },
+    {
+      demand: {
+        kind: "intervals",
+        samples: [
+          { kW: 100, kvar: -5 },
+          { kW: 300, kvar: 200 },
+        ],
+      },
+      need: 120,
+      tx: undefined,
+      want: 0,
+      src: "the site sometimes leads → no fixed part",
+    },
+    {
+      demand: { kind: "readings", survey: { kW: 300, kvar: 250 } },
+      need: 151,
+      tx: 500,
+      want: 25,
+      src: "no light load: 5 % of 500 kVA = 25 kvar (rule of thumb)",
+    },
     { demand: { kind: "readings", survey: { kW: 300, kvar: 250 } }, need: 151, tx: undefined, want: 0, src: "no light load, no transformer → 0" },
   ] as const)("$src", ({ demand, need, tx, want }) => {
     const f = chooseFixedPart(arraysOf(demand as ReactiveDemand), need, STANDARD_UNIT_KVAR, tx);
@@ -60,7 +108,10 @@ describe("step search", () => {
     // fixed ≤ min Q 80 → 75 kvar; switched need 168.53 − 75 = 93.53 kvar. Three-step programs rounding up:
     // 1:1:1 3×40 = 120; 1:2:2 20+40+40 = 100; 1:2:4 15+30+60 = 105 — each meets all 20 samples with 3 toggles per
     // change (19 changes = 57 operations); the least installed kvar is 1:2:2 at 100 kvar.
-    const plan = planSteps({ demand: arraysOf({ kind: "intervals", samples: alternate({ kW: 100, kvar: 80 }, { kW: 400, kvar: 300 }, 20) }), targetPF: 0.95 });
+    const plan = planSteps({
+      demand: arraysOf({ kind: "intervals", samples: alternate({ kW: 100, kvar: 80 }, { kW: 400, kvar: 300 }, 20) }),
+      targetPF: 0.95,
+    });
     expect(plan.fixed.fixedKvar).toBe(75);
     expectClose(plan.needAtCoverageKvar, 300 - 400 * 0.3286841051788632, TOL.power, "need at coverage");
     expectClose(plan.switchedNeededKvar, 300 - 400 * 0.3286841051788632 - 75, TOL.power, "switched need");
@@ -75,7 +126,17 @@ describe("step search", () => {
     // Need at coverage 168.53 kvar. (50, 40) needs 23.57 with 40 kvar of room: 1:1:1 3×60 and 1:2:2 50/100/100 have a
     // smallest step above 40 → not met; 1:2:4 25/50/100 (175) serves it with 25 and the heavy sample with all 7 × 25.
     // Operations: 0 → 1 multiple (1 toggle), 1 → 7 ({1} → {1,2,4}: 2 toggles) = 3.
-    const plan = planSteps({ demand: arraysOf({ kind: "intervals", samples: [{ kW: 10, kvar: 2 }, { kW: 50, kvar: 40 }, { kW: 400, kvar: 300 }] }), targetPF: 0.95 });
+    const plan = planSteps({
+      demand: arraysOf({
+        kind: "intervals",
+        samples: [
+          { kW: 10, kvar: 2 },
+          { kW: 50, kvar: 40 },
+          { kW: 400, kvar: 300 },
+        ],
+      }),
+      targetPF: 0.95,
+    });
     expect(plan.fixed.fixedKvar).toBe(0);
     expect(plan.switched?.ratio).toBe("1:2:4");
     expect(plan.switched?.stepsKvar).toEqual([25, 50, 100]);
@@ -87,7 +148,18 @@ describe("step search", () => {
     // hand calculation, same three samples, metTieShare 1/3 (one sample's worth): best met 3, so plans meeting 2 tie.
     // Three-step plans: 1:2:4 25/50/100 (3 toggles), 1:1:1 3×60 (0, 0, 3: 3 toggles), 1:2:2 50/100/100 (0, 0, k = 4 = {2,2}:
     // 2 toggles), 1:2:2 30/60/60 (1 + 2 = 3), 1:2:4 15/30/60 (1 + 2 = 3) → 1:2:2 50/100/100 with 2 operations
-    const plan = planSteps({ demand: arraysOf({ kind: "intervals", samples: [{ kW: 10, kvar: 2 }, { kW: 50, kvar: 40 }, { kW: 400, kvar: 300 }] }), targetPF: 0.95, options: { metTieShare: 1 / 3 } });
+    const plan = planSteps({
+      demand: arraysOf({
+        kind: "intervals",
+        samples: [
+          { kW: 10, kvar: 2 },
+          { kW: 50, kvar: 40 },
+          { kW: 400, kvar: 300 },
+        ],
+      }),
+      targetPF: 0.95,
+      options: { metTieShare: 1 / 3 },
+    });
     expect(plan.switched?.stepsKvar).toEqual([50, 100, 100]);
     expect(plan.switchingOperations).toBe(2);
   });
@@ -107,7 +179,10 @@ describe("step search", () => {
     // hand calculation: fixed ≤ light-load 30 kvar → 30; survey then needs 220 − 98.605 = 121.39 with 220 of room.
     // Three steps rounding up: 1:1:1 3×50 (k = 3: 3 toggles), 1:2:2 25/50/50 (k = 5 = 1+2+2: 3 toggles),
     // 1:2:4 25/50/100 (k = 5 = 1+4: 2 toggles) → fewest operations wins before least kvar: 25/50/100
-    const plan = planSteps({ demand: arraysOf({ kind: "readings", survey: { kW: 300, kvar: 250 }, lightLoad: { kW: 60, kvar: 30 } }), targetPF: 0.95 });
+    const plan = planSteps({
+      demand: arraysOf({ kind: "readings", survey: { kW: 300, kvar: 250 }, lightLoad: { kW: 60, kvar: 30 } }),
+      targetPF: 0.95,
+    });
     expect(plan.fixed.fixedKvar).toBe(30);
     expect(plan.switched?.stepsKvar).toEqual([25, 50, 100]);
     expect(plan.switchingOperations).toBe(2);
@@ -124,15 +199,21 @@ describe("step search", () => {
 
   it("properties: fixed never above the minimum demand; the plan meets at least as many samples as the fixed part alone", () => {
     fc.assert(
-      fc.property(fc.array(fc.tuple(fc.double({ min: 1, max: 800, noNaN: true }), fc.double({ min: 0.6, max: 1, noNaN: true })), { minLength: 1, maxLength: 60 }), (raw) => {
-        const samples = raw.map(([kW, pf]) => ({ kW, kvar: kW * Math.tan(Math.acos(pf)) }));
-        const d = arraysOf({ kind: "intervals", samples });
-        const plan = planSteps({ demand: d, targetPF: 0.95 });
-        const minQ = Math.min(...samples.map((s) => s.kvar));
-        const fixedOnly = planSteps({ demand: d, targetPF: 0.95, options: { ratios: [] } });
-        const sizesOk = (plan.switched?.stepsKvar ?? []).every((s) => (STANDARD_UNIT_KVAR as readonly number[]).includes(s) || s % 100 === 0);
-        return plan.fixed.fixedKvar <= minQ + 1e-9 && plan.metCoveredShare >= fixedOnly.metCoveredShare - 1e-12 && sizesOk;
-      }),
+      fc.property(
+        fc.array(fc.tuple(fc.double({ min: 1, max: 800, noNaN: true }), fc.double({ min: 0.6, max: 1, noNaN: true })), {
+          minLength: 1,
+          maxLength: 60,
+        }),
+        (raw) => {
+          const samples = raw.map(([kW, pf]) => ({ kW, kvar: kW * Math.tan(Math.acos(pf)) }));
+          const d = arraysOf({ kind: "intervals", samples });
+          const plan = planSteps({ demand: d, targetPF: 0.95 });
+          const minQ = Math.min(...samples.map((s) => s.kvar));
+          const fixedOnly = planSteps({ demand: d, targetPF: 0.95, options: { ratios: [] } });
+          const sizesOk = (plan.switched?.stepsKvar ?? []).every((s) => (STANDARD_UNIT_KVAR as readonly number[]).includes(s) || s % 100 === 0);
+          return plan.fixed.fixedKvar <= minQ + 1e-9 && plan.metCoveredShare >= fixedOnly.metCoveredShare - 1e-12 && sizesOk;
+        },
+      ),
       { numRuns: 100, seed: 3 },
     );
   });

@@ -1,12 +1,6 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import {
-  maxMultiple,
-  simulateStepProgram,
-  stepMultipliers,
-  switchingOperations,
-  type StepRatio,
-} from "../../../src/core/bank/step-ranking.js";
+import { maxMultiple, simulateStepProgram, stepMultipliers, switchingOperations, type StepRatio } from "../../../src/core/bank/step-ranking.js";
 import type { RuleSettings } from "../../../src/core/bank/controller-rule.js";
 
 describe("step programs", () => {
@@ -28,7 +22,11 @@ function subsets(steps: number[]): { sum: number; mask: number }[] {
   for (let m = 0; m < 1 << steps.length; m++) out.push({ sum: steps.reduce((s, x, i) => s + (m & (1 << i) ? x : 0), 0), mask: m });
   return out;
 }
-const popcount = (x: number) => x.toString(2).split("").filter((c) => c === "1").length;
+const popcount = (x: number) =>
+  x
+    .toString(2)
+    .split("")
+    .filter((c) => c === "1").length;
 
 // tan(acos 0.95) = 0.31225/0.95 = 0.328684; tan(acos 0.98) = 0.198997/0.98 = 0.203058 (hand calculation)
 const TAN_TARGET = 0.3286841051788632;
@@ -90,10 +88,17 @@ describe("controller simulation against the brute-force oracle", () => {
         fc.constantFrom<StepRatio>("1:1:1", "1:2:2", "1:2:4"),
         fc.integer({ min: 3, max: 6 }),
         fc.constantFrom(5, 12.5, 25),
-        fc.array(fc.tuple(fc.double({ min: 0, max: 300, noNaN: true }), fc.double({ min: -20, max: 400, noNaN: true })), { minLength: 1, maxLength: 30 }),
+        fc.array(fc.tuple(fc.double({ min: 0, max: 300, noNaN: true }), fc.double({ min: -20, max: 400, noNaN: true })), {
+          minLength: 1,
+          maxLength: 30,
+        }),
         (ratio, n, base, raw) => {
           const r = simulateStepProgram(ratio, n, base, samplesOf(raw), ruleFor(base));
-          const o = oracle(LITERAL_STEPS[ratio](n).map((m) => m * base), raw, 0.65 * base);
+          const o = oracle(
+            LITERAL_STEPS[ratio](n).map((m) => m * base),
+            raw,
+            0.65 * base,
+          );
           return r.metCount === o.met && r.metCoveredCount === o.met && r.switchingOperations === o.ops;
         },
       ),
@@ -103,11 +108,17 @@ describe("controller simulation against the brute-force oracle", () => {
 
   it("never switches in beyond the leading limit: k·b ≤ Q' + P·tan(acos 0.98)", () => {
     fc.assert(
-      fc.property(fc.array(fc.tuple(fc.double({ min: 0, max: 500, noNaN: true }), fc.double({ min: -50, max: 500, noNaN: true })), { minLength: 1, maxLength: 50 }), (raw) => {
-        const trace = new Int32Array(raw.length);
-        simulateStepProgram("1:2:2", 5, 10, samplesOf(raw), ruleFor(10), trace);
-        return raw.every(([p, q], i) => (trace[i] as number) * 10 <= Math.max(0, q + p * TAN_LEAD) + 1e-6);
-      }),
+      fc.property(
+        fc.array(fc.tuple(fc.double({ min: 0, max: 500, noNaN: true }), fc.double({ min: -50, max: 500, noNaN: true })), {
+          minLength: 1,
+          maxLength: 50,
+        }),
+        (raw) => {
+          const trace = new Int32Array(raw.length);
+          simulateStepProgram("1:2:2", 5, 10, samplesOf(raw), ruleFor(10), trace);
+          return raw.every(([p, q], i) => (trace[i] as number) * 10 <= Math.max(0, q + p * TAN_LEAD) + 1e-6);
+        },
+      ),
       { numRuns: 200, seed: 11 },
     );
   });
@@ -122,7 +133,16 @@ describe("controller simulation against the brute-force oracle", () => {
     // 6 (100, 10): left −70 → need < 0 → 0 steps, left 10: met (2 toggles)
     // 7 (100, 55): left 55 ≤ 58.87 → hold 0: not met
     // 8 (20, 60): band top 6.57 + 26 → need 53.43 wants 80, ceiling 60 + 4.06 = 64.06 → 40: not met (1 toggle), not covered
-    const raw: [number, number][] = [[100, 62.87], [100, 150], [100, 140], [100, 80], [100, 115], [100, 10], [100, 55], [20, 60]];
+    const raw: [number, number][] = [
+      [100, 62.87],
+      [100, 150],
+      [100, 140],
+      [100, 80],
+      [100, 115],
+      [100, 10],
+      [100, 55],
+      [20, 60],
+    ];
     const trace = new Int32Array(raw.length);
     const r = simulateStepProgram("1:1:1", 3, 40, samplesOf(raw, [1, 1, 1, 1, 1, 1, 1, 0]), ruleFor(40), trace);
     expect([...trace]).toEqual([1, 3, 3, 2, 2, 0, 0, 1]);

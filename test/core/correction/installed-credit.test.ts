@@ -59,7 +59,15 @@ describe("credit for installed banks", () => {
 
   it("clamp over-reading: 5 % of 5th → √(1 + 0.25²) − 1 = 3.078 %; 4 % 5th + 3 % 7th → √(1 + 0.04 + 0.0441) − 1 = 4.120 %", () => {
     expectClose(clampOverReadPct([{ order: 5, voltagePct: 5 }]), 3.0776, TOL.pct, "5th");
-    expectClose(clampOverReadPct([{ order: 5, voltagePct: 4 }, { order: 7, voltagePct: 3 }]), 4.1201, TOL.pct, "5th+7th");
+    expectClose(
+      clampOverReadPct([
+        { order: 5, voltagePct: 4 },
+        { order: 7, voltagePct: 3 },
+      ]),
+      4.1201,
+      TOL.pct,
+      "5th+7th",
+    );
   });
 });
 

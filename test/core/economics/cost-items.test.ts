@@ -17,10 +17,27 @@ const bank = {
   ],
 };
 const placement = {
-  loads: [{ index: 0, label: "Mixer line", location: "terminal", reason: "", needKvar: 30, terminal: { perMotorKvar: 10, totalKvar: 30, selfExcitationLimitKvar: 12, lineCurrentBeforeA: 0, lineCurrentAfterA: 0, overloadNote: "" } }],
-  locations: [{ location: "group:press-hall", kvar: 50, loads: ["Press 1"] }, { location: "central", kvar: 175, loads: [] }],
+  loads: [
+    {
+      index: 0,
+      label: "Mixer line",
+      location: "terminal",
+      reason: "",
+      needKvar: 30,
+      terminal: { perMotorKvar: 10, totalKvar: 30, selfExcitationLimitKvar: 12, lineCurrentBeforeA: 0, lineCurrentAfterA: 0, overloadNote: "" },
+    },
+  ],
+  locations: [
+    { location: "group:press-hall", kvar: 50, loads: ["Press 1"] },
+    { location: "central", kvar: 175, loads: [] },
+  ],
 } as unknown as PlacementPlan;
-const detuned = [{ forBank: "recommended", design: { reactorPct: 7, steps: [{ effectiveKvar: 45 }, { effectiveKvar: 45 }, { effectiveKvar: 45 }, { effectiveKvar: 45 }] } }];
+const detuned = [
+  {
+    forBank: "recommended",
+    design: { reactorPct: 7, steps: [{ effectiveKvar: 45 }, { effectiveKvar: 45 }, { effectiveKvar: 45 }, { effectiveKvar: 45 }] },
+  },
+];
 const cost = { perKvar: 30, perStep: 400, fixed: 1500 };
 
 describe("what is priced: the bank the answer recommends and the units placed at loads, each a line", () => {

@@ -86,22 +86,25 @@ describe("estimates from a stored summary against the full series (the controlle
     { fixedKvar: 75, stepsKvar: [150] },
   ];
 
-  it.each(banks)("per-month load points (summary v2), bank $fixedKvar + $stepsKvar: kvarh left within 15 % of the kvarh before, billed kVA within 10 %", (b) => {
-    const sim = simulateController(series, b, 0.95);
-    const est = intervalMonths(demand.months!, b, 0.95, 15, demand);
-    expect(est.method).toBe("monthly_load_points");
-    est.periods.forEach((p, k) => {
-      const exact = sim.monthly[k]!;
-      expect(p.label).toBe(exact.month);
-      // the bounds the result's note states (MONTHLY_POINTS_NOTE). Measured worst cases over these three banks:
-      // lagging kvarh left 12.1 % (the 25-kvar smallest step: the dead band holds more kvar in than a fresh
-      // decision), leading 0.3 %, billed kVA 8.6 % and PF at the peak 0.065 (the single 150-kvar step)
-      expect(Math.abs(p.after.kvarh - exact.kvarhLaggingAfter)).toBeLessThanOrEqual(0.15 * p.before.kvarh);
-      expect(Math.abs((p.after.kvarhLeading ?? 0) - exact.kvarhLeadingAfter)).toBeLessThanOrEqual(0.15 * p.before.kvarh);
-      expect(Math.abs(p.after.peakKVA - exact.peakKVAAfter)).toBeLessThanOrEqual(0.1 * exact.peakKVAAfter);
-      expect(Math.abs(p.after.peakPF - exact.pfAtPeakKWAfter)).toBeLessThanOrEqual(0.08);
-    });
-  });
+  it.each(banks)(
+    "per-month load points (summary v2), bank $fixedKvar + $stepsKvar: kvarh left within 15 % of the kvarh before, billed kVA within 10 %",
+    (b) => {
+      const sim = simulateController(series, b, 0.95);
+      const est = intervalMonths(demand.months!, b, 0.95, 15, demand);
+      expect(est.method).toBe("monthly_load_points");
+      est.periods.forEach((p, k) => {
+        const exact = sim.monthly[k]!;
+        expect(p.label).toBe(exact.month);
+        // the bounds the result's note states (MONTHLY_POINTS_NOTE). Measured worst cases over these three banks:
+        // lagging kvarh left 12.1 % (the 25-kvar smallest step: the dead band holds more kvar in than a fresh
+        // decision), leading 0.3 %, billed kVA 8.6 % and PF at the peak 0.065 (the single 150-kvar step)
+        expect(Math.abs(p.after.kvarh - exact.kvarhLaggingAfter)).toBeLessThanOrEqual(0.15 * p.before.kvarh);
+        expect(Math.abs((p.after.kvarhLeading ?? 0) - exact.kvarhLeadingAfter)).toBeLessThanOrEqual(0.15 * p.before.kvarh);
+        expect(Math.abs(p.after.peakKVA - exact.peakKVAAfter)).toBeLessThanOrEqual(0.1 * exact.peakKVAAfter);
+        expect(Math.abs(p.after.peakPF - exact.pfAtPeakKWAfter)).toBeLessThanOrEqual(0.08);
+      });
+    },
+  );
 
   it("an older summary (v1, no per-month points) falls back to the site-wide points, flagged as an estimate, within 15 %", () => {
     const old = { ...summary, summaryVersion: 1 as const, monthly: summary.monthly.map(({ peakKWKvar: _q, loadPoints: _lp, ...m }) => m) };

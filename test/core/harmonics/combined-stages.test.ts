@@ -21,7 +21,13 @@ describe("parallel resonance of mixed branches", () => {
   it("200 kvar plain beside 300 kvar at 7 %: 14x² − 1900x + 20 000 = 0 (x = h²) → h = 3.3913 and 11.1451", () => {
     // hand: 200h + 300h/(1 − 0.07h²) = 20 000/h; × h(1 − 0.07h²): 200x − 14x² + 300x = 20 000 − 1400x
     // → 14x² − 1900x + 20 000 = 0 → x = (1900 ∓ √2 490 000)/28 = (1900 ∓ 1577.973)/28 = 11.50096, 124.2133
-    const hs = parallelResonanceOrders([{ capacitorKvar: 200, reactorFraction: 0 }, { capacitorKvar: 300, reactorFraction: 0.07 }], 20_000);
+    const hs = parallelResonanceOrders(
+      [
+        { capacitorKvar: 200, reactorFraction: 0 },
+        { capacitorKvar: 300, reactorFraction: 0.07 },
+      ],
+      20_000,
+    );
     expect(hs).toHaveLength(2);
     expectClose(hs[0], 3.3913, TOL.order, "below tuning");
     expectClose(hs[1], 11.1451, TOL.order, "above tuning: near the 11th");
@@ -31,7 +37,12 @@ describe("parallel resonance of mixed branches", () => {
 describe("screen of every switchable combination", () => {
   it("two plain 100 kvar installed steps and a 300 kvar 7 % new stage: the 11.15 combination is flagged", () => {
     const unit = (i: number) => ({ label: `wall step ${i}`, capacitorKvar: 100, reactorFraction: 0, effectiveKvar: 100, fixed: false });
-    const s = screenCombinedStages([unit(1), unit(2)], [{ capacitorKvar: 300, effectiveKvar: 300 / 0.93, reactorFraction: 0.07 }], 20_000, [5, 7, 11, 13]);
+    const s = screenCombinedStages(
+      [unit(1), unit(2)],
+      [{ capacitorKvar: 300, effectiveKvar: 300 / 0.93, reactorFraction: 0.07 }],
+      20_000,
+      [5, 7, 11, 13],
+    );
     // counts of identical plain steps 0, 1, 2 × new stage none or 1, less the empty one: 5 combinations
     expect(s.stagesScreened).toBe(5);
     // one step alone: √(20 000/100) = 14.14, within 10 % of the 13th (11.7–14.3)
@@ -52,7 +63,9 @@ describe("inside the sizing", () => {
       ],
       transformer: { kVA: 1500, impedancePct: 5.75 },
       bankDesign: { reactorPct: 7, ratedVoltageV: 525 },
-      installedBanks: [{ label: "Old wall bank", location: "service", control: "automatic", ratedVoltageV: 480, steps: [{ kvar: 50 }, { kvar: 50 }] }],
+      installedBanks: [
+        { label: "Old wall bank", location: "service", control: "automatic", ratedVoltageV: 480, steps: [{ kvar: 50 }, { kvar: 50 }] },
+      ],
       bankReadings: [{ bank: "Old wall bank", inServiceSteps: [] }],
     };
     const out = size(input);

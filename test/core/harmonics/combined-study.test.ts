@@ -54,7 +54,13 @@ const wallStep: RatedSwitchUnit = {
   ratedVoltageV: 480,
   ratedFrequencyHz: 60,
 };
-const newBank = { name: "recommended", reactorPct: 7, ratedVoltageV: 480, ratedFrequencyHz: 60, stages: [{ nameplateKvar: 50, effectiveKvar: 50 / 0.93 }] };
+const newBank = {
+  name: "recommended",
+  reactorPct: 7,
+  ratedVoltageV: 480,
+  ratedFrequencyHz: 60,
+  stages: [{ nameplateKvar: 50, effectiveKvar: 50 / 0.93 }],
+};
 
 /** Independent oracle: |Z(5)| of the bus from raw parameters, complex.js admittances. */
 function oracleZ5(withDetuned: boolean): number {
@@ -118,7 +124,9 @@ describe("inside the sizing: one warning per concern", () => {
         { label: "Mixer motors", kind: "motor", measurement: { method: "kw_pf", kW: 400, pf: 0.72, sense: "lagging" } },
       ],
       transformer: { kVA: 1500, impedancePct: 5.75 },
-      installedBanks: [{ label: "Old wall bank", location: "service", control: "automatic", ratedVoltageV: 480, steps: [{ kvar: 50 }, { kvar: 50 }, { kvar: 100 }] }],
+      installedBanks: [
+        { label: "Old wall bank", location: "service", control: "automatic", ratedVoltageV: 480, steps: [{ kvar: 50 }, { kvar: 50 }, { kvar: 100 }] },
+      ],
       bankReadings: [{ bank: "Old wall bank", inServiceSteps: [] }],
     };
     const out = size(input);

@@ -10,7 +10,13 @@ describe("IEEE 18 capacitor duty", () => {
     //   peak  = 1 + 0.10 + 0.05 = 1.15 → 115 % (limit 120)
     //   rms I = √(1 + 0.5² + 0.35²) = √1.3725 = 1.171538 → 117.15 % (limit 135)
     //   kvar  = 1 + 5·0.01 + 7·0.0025 = 1.0675 → 106.75 % (limit 135)
-    const d = capacitorDuty({ ...plain480, busHarmonics: [{ order: 5, pct: 10 }, { order: 7, pct: 5 }] });
+    const d = capacitorDuty({
+      ...plain480,
+      busHarmonics: [
+        { order: 5, pct: 10 },
+        { order: 7, pct: 5 },
+      ],
+    });
     expect(d.rmsVoltage.valuePct).toBeCloseTo(100.6231, 3);
     expect(d.peakVoltage.valuePct).toBeCloseTo(115, 6);
     expect(d.rmsCurrent.valuePct).toBeCloseTo(117.1538, 3);
@@ -24,7 +30,13 @@ describe("IEEE 18 capacitor duty", () => {
     // hand calculation: peak 1 + 0.15 + 0.08 = 1.23 → 123 % > 120 (fail);
     //   rms I = √(1 + 0.75² + 0.56²) = √1.8761 = 1.369708 → 136.97 % > 135 (fail);
     //   rms V = √1.0289 = 1.014347 → 101.43 % (pass); kvar 1 + 0.1125 + 0.0448 = 1.1573 → 115.73 % (pass)
-    const d = capacitorDuty({ ...plain480, busHarmonics: [{ order: 5, pct: 15 }, { order: 7, pct: 8 }] });
+    const d = capacitorDuty({
+      ...plain480,
+      busHarmonics: [
+        { order: 5, pct: 15 },
+        { order: 7, pct: 8 },
+      ],
+    });
     expect(d.peakVoltage.valuePct).toBeCloseTo(123, 6);
     expect(d.peakVoltage.pass).toBe(false);
     expect(d.rmsCurrent.valuePct).toBeCloseTo(136.9708, 3);
@@ -49,9 +61,9 @@ describe("IEEE 18 capacitor duty", () => {
       reactorQualityFactor: 50,
       busHarmonics: [{ order: 5, pct: 2 }],
     });
-    expect(d.rmsVoltage.valuePct).toBeCloseTo(93.870, 2);
+    expect(d.rmsVoltage.valuePct).toBeCloseTo(93.87, 2);
     expect(d.peakVoltage.valuePct).toBeCloseTo(96.169, 2);
-    expect(d.rmsCurrent.valuePct).toBeCloseTo(94.560, 2);
+    expect(d.rmsCurrent.valuePct).toBeCloseTo(94.56, 2);
     expect(d.reactivePower.valuePct).toBeCloseTo(88.333, 2);
     expect(d.aboveRating).toBe(false);
     // hand calculation: rated current 125 000/(√3·550) = 131.216 A

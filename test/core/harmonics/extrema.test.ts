@@ -37,17 +37,19 @@ const branchArb = fc.record({
   reactorPct: fc.oneof(fc.constant(0), fc.double({ min: 0.5, max: 14, noNaN: true }), fc.constantFrom(5.67, 7, 14)),
   quality: fc.constantFrom(20, 50, 100),
 });
-const modelArb = fc.record({
-  shortCircuitKVA: fc.double({ min: 2000, max: 200_000, noNaN: true }),
-  xOverR: fc.double({ min: 1, max: 100, noNaN: true }),
-  linearLoadKW: fc.oneof(fc.constant(0), fc.double({ min: 10, max: 2000, noNaN: true })),
-  branches: fc.array(branchArb, { minLength: 1, maxLength: 3 }),
-}).map((m) =>
-  buildBusModel(
-    { voltageV: 480, frequencyHz: 60, shortCircuitKVA: m.shortCircuitKVA, xOverR: m.xOverR, linearLoadKW: m.linearLoadKW },
-    m.branches.map((b) => capacitorBranch(480, b.kvar, b.reactorPct, b.quality)),
-  ),
-);
+const modelArb = fc
+  .record({
+    shortCircuitKVA: fc.double({ min: 2000, max: 200_000, noNaN: true }),
+    xOverR: fc.double({ min: 1, max: 100, noNaN: true }),
+    linearLoadKW: fc.oneof(fc.constant(0), fc.double({ min: 10, max: 2000, noNaN: true })),
+    branches: fc.array(branchArb, { minLength: 1, maxLength: 3 }),
+  })
+  .map((m) =>
+    buildBusModel(
+      { voltageV: 480, frequencyHz: 60, shortCircuitKVA: m.shortCircuitKVA, xOverR: m.xOverR, linearLoadKW: m.linearLoadKW },
+      m.branches.map((b) => capacitorBranch(480, b.kvar, b.reactorPct, b.quality)),
+    ),
+  );
 
 /** Features closer than a few grid steps are beyond the dense scan's resolution: the comparison skips such models. */
 function resolvable(orders: number[]): boolean {

@@ -1,7 +1,13 @@
 import { Complex } from "complex.js";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { buildBusModel, capacitorBranch, drivingPointImpedance, drivingPointImpedanceOhm, scanImpedance } from "../../../src/core/harmonics/harmonics-api.js";
+import {
+  buildBusModel,
+  capacitorBranch,
+  drivingPointImpedance,
+  drivingPointImpedanceOhm,
+  scanImpedance,
+} from "../../../src/core/harmonics/harmonics-api.js";
 
 /** Independent oracle: same circuit written from the raw parameters with complex.js admittances. */
 function oracle(p: {

@@ -62,7 +62,13 @@ describe("harmonic orders present and the ±10 % band", () => {
     expect(harmonicOrdersPresent([drive])).toEqual([5, 7, 11, 13]);
     expect(harmonicOrdersPresent([motor], ["twelve_pulse"])).toEqual([11, 13]);
     expect(harmonicOrdersPresent([motor], ["single_phase_electronic"])).toEqual([3]);
-    const measured = { ...motor, harmonics: [{ order: 3, pct: 12 }, { order: 9, pct: 0.5 }] };
+    const measured = {
+      ...motor,
+      harmonics: [
+        { order: 3, pct: 12 },
+        { order: 9, pct: 0.5 },
+      ],
+    };
     expect(harmonicOrdersPresent([measured])).toEqual([3]);
   });
 
@@ -102,8 +108,7 @@ function run(input: SizingInput) {
 }
 const codes = (r: ReturnType<typeof run>) => r.warnings.map((w) => w.code);
 /** Warnings about the proposed bank only (the recommended bank is screened too, with its own paths). */
-const proposedCodes = (r: ReturnType<typeof run>) =>
-  r.warnings.filter((w) => w.path?.startsWith("proposedBank")).map((w) => w.code);
+const proposedCodes = (r: ReturnType<typeof run>) => r.warnings.filter((w) => w.path?.startsWith("proposedBank")).map((w) => w.code);
 
 describe("resonance screen in size()", () => {
   it("a 350 kvar stage (h ≈ 7.05) with a drive on site → resonance_near_harmonic at the 7th", () => {

@@ -19,9 +19,16 @@ const modelArb = fc.record({
   shortCircuitKVA: logUniform(1, 1e8),
   xOverR: logUniform(0.5, 1000),
   linearLoadKW: fc.oneof(fc.constant(0), logUniform(0.1, 1e6)),
-  stages: fc.array(fc.record({ kvar: logUniform(0.01, 1e6), reactorPct: fc.oneof(fc.constant(0), fc.double({ min: 0.1, max: 20, noNaN: true })), quality: logUniform(5, 1000) }), {
-    maxLength: 6,
-  }),
+  stages: fc.array(
+    fc.record({
+      kvar: logUniform(0.01, 1e6),
+      reactorPct: fc.oneof(fc.constant(0), fc.double({ min: 0.1, max: 20, noNaN: true })),
+      quality: logUniform(5, 1000),
+    }),
+    {
+      maxLength: 6,
+    },
+  ),
   fromOrder: logUniform(0.1, 10),
   spanOrders: logUniform(0.05, 200),
 });
@@ -97,14 +104,20 @@ describe("models the range bound does not cover fall back to the reciprocal-per-
   });
 
   it("a branch of infinite reactance (a vanishing step)", () => {
-    const model = buildBusModel(network, [capacitorBranch(480, 200, 7), { capacitorReactanceOhm: Number.POSITIVE_INFINITY, reactorReactanceOhm: 0, reactorResistanceOhm: 0, reactorPct: 0 }]);
+    const model = buildBusModel(network, [
+      capacitorBranch(480, 200, 7),
+      { capacitorReactanceOhm: Number.POSITIVE_INFINITY, reactorReactanceOhm: 0, reactorResistanceOhm: 0, reactorPct: 0 },
+    ]);
     expect(planScan(model, 1, 50)).toBeNull();
   });
 
   it("very many branches (the product of their ranges exceeds the bound)", () => {
     // hand calculation: a 7 % branch with Q = 50, tuned inside 1..50, has D_min = r² and D_max ≈ (2500·X_L − X_C)²,
     // ρ = √(D_max/D_min) ≈ 1.2·10⁵ (~17 bits); 60 of them ≈ 1000 bits > 400
-    const model = buildBusModel(network, Array.from({ length: 60 }, (_, i) => capacitorBranch(480, 10 + i, 7)));
+    const model = buildBusModel(
+      network,
+      Array.from({ length: 60 }, (_, i) => capacitorBranch(480, 10 + i, 7)),
+    );
     expect(planScan(model, 1, 50)).toBeNull();
     expectReferenceScan(model);
   });

@@ -110,7 +110,12 @@ describe("single-phase sizing: the study agrees with the sizing's own single-pha
     transformer: { kVA: 25, impedancePct: 4, xOverR: 2 },
     loads: [
       // 6.9 kVA fundamental: 6 kW with √(6.9² − 6²) = 3.4073 kvar
-      { label: "kiln controller", kind: "drive", measurement: { method: "kw_kvar", kW: 6, kvar: Math.sqrt(6.9 ** 2 - 36) }, harmonics: [{ order: 3, pct: 40 }] },
+      {
+        label: "kiln controller",
+        kind: "drive",
+        measurement: { method: "kw_kvar", kW: 6, kvar: Math.sqrt(6.9 ** 2 - 36) },
+        harmonics: [{ order: 3, pct: 40 }],
+      },
       { label: "compressor", kind: "motor", measurement: { method: "kw_pf", kW: 20, pf: 0.75, sense: "lagging" } },
     ],
   });

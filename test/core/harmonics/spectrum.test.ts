@@ -22,18 +22,44 @@ describe("spectrum validation", () => {
     [[{ order: 1, pct: 5 }], "s[0].order"],
     [[{ order: 51, pct: 5 }], "s[0].order"],
     [[{ order: 5.5, pct: 5 }], "s[0].order"],
-    [[{ order: 5, pct: 20 }, { order: 7, pct: -1 }], "s[1].pct"],
-    [[{ order: 5, pct: 20 }, { order: 5, pct: 10 }], "s[1].order"],
+    [
+      [
+        { order: 5, pct: 20 },
+        { order: 7, pct: -1 },
+      ],
+      "s[1].pct",
+    ],
+    [
+      [
+        { order: 5, pct: 20 },
+        { order: 5, pct: 10 },
+      ],
+      "s[1].order",
+    ],
   ])("flags %j at %s", (spectrum, path) => {
     expect(validateSpectrum(spectrum, "s").map((i) => i.path)).toEqual([path]);
   });
 
   it("flags a spectrum summing over 300 %", () => {
     // hand calculation: 150 + 150.5 = 300.5 > 300
-    const issues = validateSpectrum([{ order: 3, pct: 150 }, { order: 5, pct: 150.5 }], "sources[2].spectrum");
+    const issues = validateSpectrum(
+      [
+        { order: 3, pct: 150 },
+        { order: 5, pct: 150.5 },
+      ],
+      "sources[2].spectrum",
+    );
     expect(issues).toEqual([{ path: "sources[2].spectrum", message: "spectrum sums to more than 300 %" }]);
     // boundary: exactly 300 % is accepted
-    expect(validateSpectrum([{ order: 3, pct: 150 }, { order: 5, pct: 150 }], "s")).toEqual([]);
+    expect(
+      validateSpectrum(
+        [
+          { order: 3, pct: 150 },
+          { order: 5, pct: 150 },
+        ],
+        "s",
+      ),
+    ).toEqual([]);
   });
 
   it("accepts the six-pulse spectrum", () => {
@@ -51,7 +77,16 @@ describe("injected currents", () => {
   it("adds same-order currents arithmetically by default, or as RSS", () => {
     const sources = [
       { label: "a", kVA: 100, phases: 3 as const, isDrive: false, spectrum: [{ order: 5, pct: 30 }] },
-      { label: "b", kVA: 200, phases: 3 as const, isDrive: false, spectrum: [{ order: 5, pct: 20 }, { order: 7, pct: 10 }] },
+      {
+        label: "b",
+        kVA: 200,
+        phases: 3 as const,
+        isDrive: false,
+        spectrum: [
+          { order: 5, pct: 20 },
+          { order: 7, pct: 10 },
+        ],
+      },
     ];
     // hand calculation: I_1a = 120.281 A, I_1b = 240.563 A; I_5a = 36.084, I_5b = 48.113
     //   arithmetic: 84.197 A; RSS: √(36.084² + 48.113²) = 60.141 A; I_7 = 24.056 A either way

@@ -64,7 +64,19 @@ describe("runHarmonicStudy", () => {
     const input: HarmonicStudyInput = {
       ...site(),
       network: { voltageV: 480, frequencyHz: 60, shortCircuitKVA: 10_000, xOverR: 8 },
-      sources: [{ label: "mix", kVA: 200, phases: 3, isDrive: false, spectrum: [{ order: 3, pct: 3 }, { order: 5, pct: 20 }, { order: 7, pct: 14 }] }],
+      sources: [
+        {
+          label: "mix",
+          kVA: 200,
+          phases: 3,
+          isDrive: false,
+          spectrum: [
+            { order: 3, pct: 3 },
+            { order: 5, pct: 20 },
+            { order: 7, pct: 14 },
+          ],
+        },
+      ],
     };
     const r = run(input);
     expect(r.thirdHarmonicSignificant).toBe(false);
@@ -79,7 +91,11 @@ describe("runHarmonicStudy", () => {
   it("chooses 14 % straight away for a significant 3rd", () => {
     // the engine's rule (no standard): I_3 ≥ 5 % of the sources' fundamental → significant; here 10 %.
     // The 17th is there so stage 1 (h ≈ 16.15, see above) resonates and a proposal is made.
-    const spectrum = [{ order: 3, pct: 10 }, { order: 5, pct: 20 }, { order: 17, pct: 6 }];
+    const spectrum = [
+      { order: 3, pct: 10 },
+      { order: 5, pct: 20 },
+      { order: 17, pct: 6 },
+    ];
     const r = run({ ...site(), sources: [{ label: "ups", kVA: 300, phases: 3, isDrive: false, spectrum }] });
     expect(r.thirdHarmonicSignificant).toBe(true);
     expect(r.proposals[0]?.design.reactorPct).toBe(14);

@@ -1,5 +1,11 @@
 import { describe, expect, it } from "vitest";
-import { buildBusModel, busDistortion, capacitorBranch, drivingPointImpedanceOhm, injectedCurrents } from "../../../src/core/harmonics/harmonics-api.js";
+import {
+  buildBusModel,
+  busDistortion,
+  capacitorBranch,
+  drivingPointImpedanceOhm,
+  injectedCurrents,
+} from "../../../src/core/harmonics/harmonics-api.js";
 
 /**
  * 480 V 60 Hz bus fed by a 1500 kVA, 5.75 % transformer (infinite upstream), X/R 8;
@@ -37,7 +43,10 @@ describe("worked example: 480 V, 1500 kVA transformer, 300 kVA drive, 300 kvar",
     //   injected 1.1411 % + background 1.0 % = 2.1411 %; 7th background only 2.0 %;
     //   THD = √(2.1411² + 2.0²) = √8.5843 = 2.9299 %; worst order 5 at 2.1411 %
     const single = injectedCurrents([{ label: "x", kVA: 300, phases: 3, isDrive: false, spectrum: [{ order: 5, pct: 20 }] }], 480);
-    const d = busDistortion(buildBusModel(network), single, [{ order: 5, pct: 1 }, { order: 7, pct: 2 }]);
+    const d = busDistortion(buildBusModel(network), single, [
+      { order: 5, pct: 1 },
+      { order: 7, pct: 2 },
+    ]);
     expect(d.lines.map((l) => l.order)).toEqual([5, 7]);
     expect(d.lines[0]!.voltagePct).toBeCloseTo(2.1411, 3);
     expect(d.lines[1]!.voltagePct).toBeCloseTo(2.0, 12);

@@ -21,7 +21,19 @@ describe("analyseIntervals — piecewise-constant day (exact percentiles)", () =
   });
 
   it("kvar percentiles: one third of intervals at 100, two thirds at 450 (nearest rank: P ≤ 33⅓ → 100)", () => {
-    expect(a.kvar.percentiles).toEqual({ P0: 100, P1: 100, P5: 100, P10: 100, P25: 100, P50: 450, P75: 450, P90: 450, P95: 450, P99: 450, P100: 450 });
+    expect(a.kvar.percentiles).toEqual({
+      P0: 100,
+      P1: 100,
+      P5: 100,
+      P10: 100,
+      P25: 100,
+      P50: 450,
+      P75: 450,
+      P90: 450,
+      P95: 450,
+      P99: 450,
+      P100: 450,
+    });
     expect(a.minimumReactiveDemand).toEqual({ minKvar: 100, p1Kvar: 100, p5Kvar: 100 });
     // the curve: 450 kvar reached in ≤ 66⅔ % of the time, 100 kvar beyond
     const c = a.kvar.durationCurve;
@@ -70,7 +82,10 @@ describe("analyseIntervals — sinusoidal reactive demand (closed-form percentil
   // Q(t) = A + B·sin(2π(k + ½)/N) at N equally spaced instants a day, P constant. For θ uniform on a circle,
   // Pr[sin θ ≤ s] = ½ + asin(s)/π, so the p-quantile is A + B·sin(π(p − ½)). The sampled nearest-rank value
   // lies within 2/N in probability of p, hence within 2πB/N in kvar (the quantile's slope is at most πB).
-  const A = 300, B = 200, N = 1440, P = 800;
+  const A = 300,
+    B = 200,
+    N = 1440,
+    P = 800;
   const s = syntheticYear(N, (k) => ({ kW: P, kvar: A + B * Math.sin((2 * Math.PI * (k + 0.5)) / N) }));
   const a = analyseIntervals(s, 0.95);
   const tol = { abs: (2 * Math.PI * B) / N };
@@ -101,7 +116,10 @@ describe("analyseIntervals — months in the series' time zone", () => {
   it("an interval at 2026-03-01T05:30Z is still February in America/Chicago (23:30 CST)", () => {
     const t = [Date.parse("2026-03-01T05:30:00Z"), Date.parse("2026-03-01T06:00:00Z"), Date.parse("2026-03-01T06:30:00Z")];
     const a = analyseIntervals(seriesOf(t, [500, 100, 100], [0, 10, 10], 30, "America/Chicago"), 0.95);
-    expect(a.monthly.map((m) => [m.month, m.intervals, m.peakKW])).toEqual([["2026-02", 1, 500], ["2026-03", 2, 100]]);
+    expect(a.monthly.map((m) => [m.month, m.intervals, m.peakKW])).toEqual([
+      ["2026-02", 1, 500],
+      ["2026-03", 2, 100],
+    ]);
     expect(a.monthly[0]!.peakKWAt).toBe("2026-02-28T23:30:00-06:00");
     // hand: March kWh = 2 × 100 kW × 0.5 h = 100; kvarh = 2 × 10 × 0.5 = 10 → PF = 100/√(100² + 10²) = 0.995037
     expectClose(a.monthly[1]!.billingPF, 100 / Math.hypot(100, 10), ITOL.pf, "March billing PF");

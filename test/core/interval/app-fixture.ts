@@ -10,7 +10,13 @@ import { newBootstrapKey, registerAdminKey } from "../../helpers/auth.js";
 export async function makeIntervalApp(): Promise<{ app: FastifyInstance; close: () => Promise<void> }> {
   const dir = mkdtempSync(join(tmpdir(), "pfc-interval-test-"));
   const key = newBootstrapKey();
-  const config = defaultConfig({ DATABASE_PATH: join(dir, "test.sqlite"), DEMO_DATA: "off", PFC_BOOTSTRAP_KEY: key, RATE_LIMIT_PER_MINUTE: 10_000_000, EVENT_LOOP_MAX_DELAY_MS: 0 });
+  const config = defaultConfig({
+    DATABASE_PATH: join(dir, "test.sqlite"),
+    DEMO_DATA: "off",
+    PFC_BOOTSTRAP_KEY: key,
+    RATE_LIMIT_PER_MINUTE: 10_000_000,
+    EVENT_LOOP_MAX_DELAY_MS: 0,
+  });
   const app = await buildApp({ config, logger: false });
   await app.ready();
   await registerAdminKey(app, key);

@@ -115,7 +115,11 @@ describe("simulateController — fixed bank on a sinusoidal demand (closed form)
   // Q = 300 + 200·sin θ, P = 800, fixed 150 kvar: leading ⇔ sin θ < −0.75, share ½ + asin(−0.75)/π = 0.230054;
   // below 0.95 ⇔ Q − 150 > 800·0.328684 ⇔ sin θ > (412.947 − 300)/200, share ½ − asin(·)/π. Each of the 365
   // sampled days can differ from the continuous share by one interval.
-  const A = 300, B = 200, N = 1440, P = 800, C = 150;
+  const A = 300,
+    B = 200,
+    N = 1440,
+    P = 800,
+    C = 150;
   const s = syntheticYear(N, (k) => ({ kW: P, kvar: A + B * Math.sin((2 * Math.PI * (k + 0.5)) / N) }));
   const sim = simulateController(s, { fixedKvar: C, stepsKvar: [] }, 0.95);
   const n = 365 * N;
@@ -133,7 +137,8 @@ describe("simulateController — fixed bank on a sinusoidal demand (closed form)
   });
 
   it("kvar after = Q − C at every percentile; no switching", () => {
-    for (const p of [0, 50, 100]) expectClose(sim.kvarAfter.percentiles[`P${p}`], A + B * Math.sin(Math.PI * (p / 100 - 0.5)) - C, { abs: (2 * Math.PI * B) / N }, `P${p}`);
+    for (const p of [0, 50, 100])
+      expectClose(sim.kvarAfter.percentiles[`P${p}`], A + B * Math.sin(Math.PI * (p / 100 - 0.5)) - C, { abs: (2 * Math.PI * B) / N }, `P${p}`);
     expect(sim.switching.totalOperations).toBe(0);
   });
 

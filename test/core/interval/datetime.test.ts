@@ -1,7 +1,15 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import {
-  daysFromCivil, isoWithOffset, monthIndexOfDays, TimestampParser, TS_AMBIGUOUS_ORDER, TS_OK, TS_RANGE, TS_SYNTAX, type DateOrder,
+  daysFromCivil,
+  isoWithOffset,
+  monthIndexOfDays,
+  TimestampParser,
+  TS_AMBIGUOUS_ORDER,
+  TS_OK,
+  TS_RANGE,
+  TS_SYNTAX,
+  type DateOrder,
 } from "../../../src/core/interval/datetime.js";
 
 /** Parse and return UTC ms (wall − offset; wall alone when no offset is written), or the error code. */
@@ -70,7 +78,17 @@ describe("TimestampParser", () => {
   });
 
   it("refuses malformed and out-of-range values", () => {
-    for (const bad of ["", "yesterday", "2026-03-01X14:15", "2026-3", "2026-03-01 14", "2026-03-01 14:1", "26/03/01 10:00", "2026-03-01 14:15 +2", "2026-03-01 14:15 junk"]) {
+    for (const bad of [
+      "",
+      "yesterday",
+      "2026-03-01X14:15",
+      "2026-3",
+      "2026-03-01 14",
+      "2026-03-01 14:1",
+      "26/03/01 10:00",
+      "2026-03-01 14:15 +2",
+      "2026-03-01 14:15 junk",
+    ]) {
       expect(parse(bad).code, bad).toBe(TS_SYNTAX);
     }
     for (const bad of ["2026-13-01 00:00", "2026-04-31 00:00", "2026-03-01 25:00", "2026-03-01 24:30", "2026-03-01 10:60", "3/1/2026 13:00 PM"]) {
@@ -95,14 +113,24 @@ describe("fast ISO path", () => {
   it("agrees with the general parser on every shape it takes, and passes the rest on (random fields; oracle: Date.UTC)", () => {
     fc.assert(
       fc.property(
-        fc.integer({ min: 1970, max: 2099 }), fc.integer({ min: 1, max: 12 }), fc.integer({ min: 1, max: 31 }),
-        fc.integer({ min: 0, max: 24 }), fc.integer({ min: 0, max: 60 }), fc.integer({ min: 0, max: 60 }),
-        fc.constantFrom("T", " "), fc.constantFrom("", "Z"), fc.boolean(),
+        fc.integer({ min: 1970, max: 2099 }),
+        fc.integer({ min: 1, max: 12 }),
+        fc.integer({ min: 1, max: 31 }),
+        fc.integer({ min: 0, max: 24 }),
+        fc.integer({ min: 0, max: 60 }),
+        fc.integer({ min: 0, max: 60 }),
+        fc.constantFrom("T", " "),
+        fc.constantFrom("", "Z"),
+        fc.boolean(),
         (y, mo, d, h, mi, s, sep, z, withSeconds) => {
           const two = (v: number) => String(v).padStart(2, "0");
           const text = `${y}-${two(mo)}-${two(d)}${sep}${two(h)}:${two(mi)}${withSeconds ? `:${two(s)}` : ""}${z}`;
           const r = parse(text);
-          const valid = d <= new Date(Date.UTC(y, mo, 0)).getUTCDate() && mi <= 59 && (!withSeconds || s <= 59) && (h <= 23 || (h === 24 && mi === 0 && (!withSeconds || s === 0)));
+          const valid =
+            d <= new Date(Date.UTC(y, mo, 0)).getUTCDate() &&
+            mi <= 59 &&
+            (!withSeconds || s <= 59) &&
+            (h <= 23 || (h === 24 && mi === 0 && (!withSeconds || s === 0)));
           expect(r.code === TS_OK, text).toBe(valid);
           if (valid) {
             expect(r.wallMs, text).toBe(Date.UTC(y, mo - 1, d, h, mi, withSeconds ? s : 0));

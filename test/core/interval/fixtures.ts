@@ -33,7 +33,13 @@ export function syntheticYear(perDay: number, f: (k: number, d: number) => { kW:
   const n = perDay * days;
   const step = DAY_MS / perDay;
   const start = Date.UTC(2025, 0, 1);
-  const s: IntervalSeries = { timestampsMs: new Float64Array(n), kW: new Float64Array(n), kvar: new Float64Array(n), length: n, intervalMinutes: 1440 / perDay };
+  const s: IntervalSeries = {
+    timestampsMs: new Float64Array(n),
+    kW: new Float64Array(n),
+    kvar: new Float64Array(n),
+    length: n,
+    intervalMinutes: 1440 / perDay,
+  };
   for (let i = 0; i < n; i++) {
     const d = Math.floor(i / perDay);
     const v = f(i - d * perDay, d);

@@ -26,7 +26,13 @@ describe("invariants on random series and banks (property tests)", () => {
         fc.double({ min: 0.8, max: 1, noNaN: true }),
         (rows, fixedKvar, stepsKvar, targetPF) => {
           const t = rows.map((_, i) => Date.UTC(2026, 0, 1) + i * 900_000);
-          const s = seriesOf(t, rows.map((r) => r[0]), rows.map((r) => r[1]), 15, "America/Chicago");
+          const s = seriesOf(
+            t,
+            rows.map((r) => r[0]),
+            rows.map((r) => r[1]),
+            15,
+            "America/Chicago",
+          );
           const a = analyseIntervals(s, targetPF);
           const sim = simulateController(s, { fixedKvar, stepsKvar }, targetPF);
           for (const x of numbers({ a, sim, summary: summarise(a) })) expect(Number.isFinite(x)).toBe(true);

@@ -18,6 +18,10 @@ export function ok(text: string, opts: ParseOptions = {}) {
 export const Z = (s: string) => Date.parse(s);
 
 /** n rows of 15-minute data from 2026-03-01 00:00Z, kW 100 + i, kvar 50 + i. */
-export function rows15(n = 20, header = "timestamp,kW,kvar", f = (i: number) => `${new Date(Z("2026-03-01T00:00:00Z") + i * 900_000).toISOString()},${100 + i},${50 + i}`) {
+export function rows15(
+  n = 20,
+  header = "timestamp,kW,kvar",
+  f = (i: number) => `${new Date(Z("2026-03-01T00:00:00Z") + i * 900_000).toISOString()},${100 + i},${50 + i}`,
+) {
   return [header, ...Array.from({ length: n }, (_, i) => f(i))].join("\n") + "\n";
 }

@@ -21,11 +21,16 @@ describe("the parser fed bytes", () => {
     const cell = fc.constantFrom("2026-03-01 00:15", "2026-03-01T00:30:00Z", "12.5", "-3", "ünï", "😀", '"4,5"', "", "x");
     const row = fc.array(cell, { minLength: 3, maxLength: 4 }).map((c) => c.join(","));
     fc.assert(
-      fc.property(fc.array(row, { maxLength: 30 }), fc.array(fc.integer({ min: 1, max: 9 }), { minLength: 1, maxLength: 5 }), fc.boolean(), (rows, cuts, crlf) => {
-        const text = ["timestamp,kW,kvar", "2026-03-01 00:00,1,1", ...rows, "2026-03-01 01:00,2,2"].join(crlf ? "\r\n" : "\n");
-        const bytes = new TextEncoder().encode(text);
-        expect(plain(parseBytes(bytes, cuts))).toEqual(plain(parse(text, { maxBadRowFraction: 1 })));
-      }),
+      fc.property(
+        fc.array(row, { maxLength: 30 }),
+        fc.array(fc.integer({ min: 1, max: 9 }), { minLength: 1, maxLength: 5 }),
+        fc.boolean(),
+        (rows, cuts, crlf) => {
+          const text = ["timestamp,kW,kvar", "2026-03-01 00:00,1,1", ...rows, "2026-03-01 01:00,2,2"].join(crlf ? "\r\n" : "\n");
+          const bytes = new TextEncoder().encode(text);
+          expect(plain(parseBytes(bytes, cuts))).toEqual(plain(parse(text, { maxBadRowFraction: 1 })));
+        },
+      ),
       { numRuns: 300 },
     );
   });
@@ -41,7 +46,10 @@ describe("the parser fed bytes", () => {
   });
 
   it("quotes a bad value's text from its bytes, cut to 40 characters (hand)", () => {
-    const out = parseBytes(new TextEncoder().encode(`timestamp,kW,kvar\n2026-03-01 00:00,1,1\n2026-03-01 00:15,${"é".repeat(50)},1\n2026-03-01 00:30,1,1\n`), [7]);
+    const out = parseBytes(
+      new TextEncoder().encode(`timestamp,kW,kvar\n2026-03-01 00:00,1,1\n2026-03-01 00:15,${"é".repeat(50)},1\n2026-03-01 00:30,1,1\n`),
+      [7],
+    );
     expect(out.report.badRows.first[0]).toMatchObject({ line: 3, column: "kW", value: "é".repeat(40) });
   });
 });

@@ -4,7 +4,10 @@ import { ok, parse, rows15 } from "./parse-helpers.js";
 
 describe("time order, duplicates, gaps", () => {
   it("detects the interval as the median step and reports gaps with the missing count", () => {
-    const text = rows15(20).split("\n").filter((_, i) => i !== 6 && i !== 7 && i !== 15).join("\n"); // drop rows 5, 6 and 14
+    const text = rows15(20)
+      .split("\n")
+      .filter((_, i) => i !== 6 && i !== 7 && i !== 15)
+      .join("\n"); // drop rows 5, 6 and 14
     const out = ok(text);
     expect(out.report.interval).toEqual({ minutes: 15, detectedMinutes: 15, source: "detected" });
     expect(out.report.steps!.gaps.count).toBe(2);
@@ -43,10 +46,14 @@ describe("time zones", () => {
   });
 
   it("local timestamps in the Chicago spring-forward gap (8 Mar 2026 02:xx) are bad rows", () => {
-    const out = ok("time,kW,kvar\n2026-03-08 01:30,1,1\n2026-03-08 02:30,1,1\n2026-03-08 03:00,1,1\n2026-03-08 03:30,1,1\n" + rows15(16).split("\n").slice(1).join("\n"), {
-      timeZone: "America/Chicago",
-      maxBadRowFraction: 0.1,
-    });
+    const out = ok(
+      "time,kW,kvar\n2026-03-08 01:30,1,1\n2026-03-08 02:30,1,1\n2026-03-08 03:00,1,1\n2026-03-08 03:30,1,1\n" +
+        rows15(16).split("\n").slice(1).join("\n"),
+      {
+        timeZone: "America/Chicago",
+        maxBadRowFraction: 0.1,
+      },
+    );
     expect(out.report.badRows.first[0]).toMatchObject({ line: 3, reason: expect.stringMatching(/does not exist in America\/Chicago/) });
   });
 
@@ -68,7 +75,9 @@ describe("time zones", () => {
 
 describe("streaming", () => {
   it("any split of the text into chunks gives the same series and report (CRLF, quotes, a bad row)", () => {
-    const text = rows15(40, '"timestamp","kW","kvar"', (i) => (i === 7 ? "bad,1,1" : `"2026-03-01 ${String(Math.floor(i / 4)).padStart(2, "0")}:${String((i % 4) * 15).padStart(2, "0")}",${100 + i},${i}`)).replace(/\n/g, "\r\n");
+    const text = rows15(40, '"timestamp","kW","kvar"', (i) =>
+      i === 7 ? "bad,1,1" : `"2026-03-01 ${String(Math.floor(i / 4)).padStart(2, "0")}:${String((i % 4) * 15).padStart(2, "0")}",${100 + i},${i}`,
+    ).replace(/\n/g, "\r\n");
     const whole = ok(text, { maxBadRowFraction: 0.05 });
     expect(whole.series.length).toBe(39);
     expect(whole.report.badRows.first[0]?.line).toBe(9);
@@ -101,7 +110,9 @@ describe("date order", () => {
   it("says when slashed dates were read month-first by default", () => {
     const out = ok("time,kW,kvar\n03/01/2026 00:00,1,1\n03/01/2026 00:15,1,1\n");
     expect(out.series.timestampsMs[0]).toBe(Date.UTC(2026, 2, 1));
-    expect(out.report.notes).toContain("dateOrder not given: 2 slashed dates like 03/01/2026 were read month-first (set dateOrder=dmy for day-first)");
+    expect(out.report.notes).toContain(
+      "dateOrder not given: 2 slashed dates like 03/01/2026 were read month-first (set dateOrder=dmy for day-first)",
+    );
     expect(ok("time,kW,kvar\n03/01/2026 00:00,1,1\n03/01/2026 00:15,1,1\n", { dateOrder: "mdy" }).report.notes.join()).not.toMatch(/dateOrder/);
   });
 });
@@ -111,12 +122,11 @@ describe("implausible numbers", () => {
     const out = parse("time,kW,kvar\n2026-03-01 00:00,1e999,1\n2026-03-01 00:15,5e12,1\n2026-03-01 00:30,1,1\n");
     expect(!out.ok && out.report.badRows.first.map((e) => e.reason)).toEqual(["unparseable number", "number out of range (|value| > 1000000000)"]);
   });
-
 });
 
 describe("robustness", () => {
   it("never throws on arbitrary text: every upload ends as a series or a stated refusal", () => {
-    const alphabet = fc.constantFrom(..."0123456789,;.-:T Z\n\r\"abkWvarPF/".split(""));
+    const alphabet = fc.constantFrom(...'0123456789,;.-:T Z\n\r"abkWvarPF/'.split(""));
     fc.assert(
       fc.property(fc.string({ unit: alphabet, maxLength: 400 }), fc.integer({ min: 1, max: 50 }), (body, chunk) => {
         const out = parse("time,kW,kvar\n" + body, {}, chunk);

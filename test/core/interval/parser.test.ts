@@ -8,7 +8,11 @@ describe("header detection", () => {
     ["Timestamp,Demand kW,kVAr", "kW_kvar", { timestamp: "Timestamp", kW: "Demand kW", kvar: "kVAr" }],
     ["time;kW;PF", "kW_pf", { timestamp: "time", kW: "kW", pf: "PF" }],
     ['"Interval End","kW (avg)","kVA"', "kW_kVA", { timestamp: "Interval End", kW: "kW (avg)", kVA: "kVA" }],
-    ["Date/Time,Active Power kW,Power Factor,PF Sense", "kW_pf", { timestamp: "Date/Time", kW: "Active Power kW", pf: "Power Factor", sense: "PF Sense" }],
+    [
+      "Date/Time,Active Power kW,Power Factor,PF Sense",
+      "kW_pf",
+      { timestamp: "Date/Time", kW: "Active Power kW", pf: "Power Factor", sense: "PF Sense" },
+    ],
   ])("%s → %s", (header, method, columns) => {
     const delim = header.includes(";") ? ";" : ",";
     const value = method === "kW_pf" ? "0.9" : method === "kW_kVA" ? "150" : "40";
@@ -58,7 +62,9 @@ describe("header detection", () => {
   });
 
   it("reads semicolon files with decimal commas", () => {
-    const out = ok("Timestamp;Wirkleistung kW;Blindleistung kvar\n01.03.2026 00:00;100,5;40,25\n01.03.2026 00:15;101;41\n", { timeZone: "Europe/Berlin" });
+    const out = ok("Timestamp;Wirkleistung kW;Blindleistung kvar\n01.03.2026 00:00;100,5;40,25\n01.03.2026 00:15;101;41\n", {
+      timeZone: "Europe/Berlin",
+    });
     expect(out.report.delimiter).toBe(";");
     expect(out.series.kW[0]).toBe(100.5);
     expect(out.series.kvar[0]).toBe(40.25);
@@ -69,7 +75,9 @@ describe("header detection", () => {
 describe("power triangle per row", () => {
   it("kW + PF with a sense column, a sense option or a signed PF", () => {
     // hand: PF 0.6 → tan φ = 0.8/0.6 = 4/3; 300 kW → 400 kvar
-    const col = ok("time,kW,PF,sense\n2026-03-01 00:00,300,0.6,lag\n2026-03-01 00:15,300,0.6,Leading\n2026-03-01 00:30,300,0.6,C\n2026-03-01 00:45,300,0.6,\n");
+    const col = ok(
+      "time,kW,PF,sense\n2026-03-01 00:00,300,0.6,lag\n2026-03-01 00:15,300,0.6,Leading\n2026-03-01 00:30,300,0.6,C\n2026-03-01 00:45,300,0.6,\n",
+    );
     expect(Array.from(col.series.kvar).map((q) => Math.round(q * 1e9) / 1e9)).toEqual([400, -400, -400, 400]);
     const signed = ok("time,kW,PF\n2026-03-01 00:00,300,-0.6\n2026-03-01 00:15,300,0.6\n");
     expectClose(signed.series.kvar[0], -400, ITOL.exact, "negative PF = leading");
@@ -103,12 +111,18 @@ describe("bad rows", () => {
     expect(b.fraction).toBe(0.05); // 5 of 100: at the limit, accepted
     expect(b.first).toEqual([
       { line: 11, column: "kW", reason: "unparseable number", value: "abc" },
-      { line: 21, column: "kW", reason: "kW above kVA by more than 1 %" , value: "510" },
+      { line: 21, column: "kW", reason: "kW above kVA by more than 1 %", value: "510" },
       { line: 31, column: "", reason: "wrong column count: 2 fields, the header has 3" },
       { line: 41, column: "time", reason: expect.stringMatching(/^bad timestamp: date or time out of range/), value: "2026-03-01 25:00" },
       { line: 51, column: "kVA", reason: "negative kVA", value: "-5" },
     ]);
-    expect(b.byReason).toEqual({ "unparseable number": 1, "kW above kVA by more than 1 %": 1, "wrong column count": 1, "bad timestamp": 1, "negative kVA": 1 });
+    expect(b.byReason).toEqual({
+      "unparseable number": 1,
+      "kW above kVA by more than 1 %": 1,
+      "wrong column count": 1,
+      "bad timestamp": 1,
+      "negative kVA": 1,
+    });
     expect(out.report.dataRows).toBe(100);
     expect(out.series.length).toBe(95);
   });
@@ -152,4 +166,3 @@ describe("bad rows", () => {
     expect((parse("time,kW,kvar\n2026-03-01 00:00,1,1\n") as { fatal: { kind: string } }).fatal.kind).toBe("too_few_intervals");
   });
 });
-

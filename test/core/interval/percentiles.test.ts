@@ -18,7 +18,14 @@ describe("nearest-rank percentiles", () => {
   it("valuesAtRanks equals a full sort at every rank asked (random data with ties and negatives; oracle: Array sort)", () => {
     fc.assert(
       fc.property(
-        fc.array(fc.oneof(fc.integer({ min: -50, max: 50 }), fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.double({ noNaN: true, noDefaultInfinity: true })), { minLength: 1, maxLength: 3000 }),
+        fc.array(
+          fc.oneof(
+            fc.integer({ min: -50, max: 50 }),
+            fc.double({ min: -1e6, max: 1e6, noNaN: true }),
+            fc.double({ noNaN: true, noDefaultInfinity: true }),
+          ),
+          { minLength: 1, maxLength: 3000 },
+        ),
         fc.array(fc.nat(), { minLength: 1, maxLength: 40 }),
         (xs, rs) => {
           const v = Float64Array.from(xs);

@@ -8,7 +8,12 @@ const sum = (a: ArrayLike<number>) => Array.from(a).reduce((s, v) => s + v, 0);
 
 /** A hand-made summary: only the fields the mapping reads matter. */
 function summaryWith(points: { kW: number[]; kvar: number[]; count: number[] }, monthly: IntervalSummary["monthly"] = []): IntervalSummary {
-  const s = summarise(analyseIntervals(syntheticYear(24, () => ({ kW: 100, kvar: 50 }), 2), 0.95));
+  const s = summarise(
+    analyseIntervals(
+      syntheticYear(24, () => ({ kW: 100, kvar: 50 }), 2),
+      0.95,
+    ),
+  );
   return { ...s, intervalMinutes: 15, loadPoints: { kWBins: 16, kvarBins: 24, ...points }, monthly };
 }
 
@@ -47,14 +52,28 @@ describe("intervalDemandOf", () => {
   });
 
   it("maps the months to the engine's MonthlyDemand", () => {
-    const month = { month: "2025-01", intervals: 2976, peakKW: 600, peakKVA: 750, kWh: 347_200, kvarhLagging: 248_000, kvarhLeading: 0, billingPF: 0.8137 };
+    const month = {
+      month: "2025-01",
+      intervals: 2976,
+      peakKW: 600,
+      peakKVA: 750,
+      kWh: 347_200,
+      kvarhLagging: 248_000,
+      kvarhLeading: 0,
+      billingPF: 0.8137,
+    };
     const d = intervalDemandOf(summaryWith({ kW: [1], kvar: [1], count: [1] }, [month]));
     expect(d.months).toEqual([{ month: "2025-01", peakKW: 600, peakKVA: 750, kWh: 347_200, kvarhLagging: 248_000, kvarhLeading: 0 }]);
   });
 
   it("a year of quarter-hours: 8 760 samples with the shares and the kvar-weighted mean of the data", () => {
     // 00–08 h 200 kW / 100 kvar (32 of 96 intervals a day), 08–24 h 600 kW / 450 kvar: 11 680 and 23 360 intervals
-    const s = summarise(analyseIntervals(syntheticYear(96, (k) => (k < 32 ? { kW: 200, kvar: 100 } : { kW: 600, kvar: 450 })), 0.95));
+    const s = summarise(
+      analyseIntervals(
+        syntheticYear(96, (k) => (k < 32 ? { kW: 200, kvar: 100 } : { kW: 600, kvar: 450 })),
+        0.95,
+      ),
+    );
     expect(s.intervalCount).toBe(35_040);
     const d = intervalDemandOf(s);
     expect(d.kW.length).toBe(INTERVAL_DEMAND_MAX_SAMPLES);

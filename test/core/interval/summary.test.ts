@@ -39,10 +39,12 @@ describe("IntervalSummary", () => {
 
   it("keeps the mean kW and kvar of every load-point cell (energy is preserved exactly)", () => {
     const lp = loadPointsOf(series);
-    let p = 0, q = 0;
+    let p = 0,
+      q = 0;
     lp.count.forEach((c, i) => ((p += c * lp.kW[i]!), (q += c * lp.kvar[i]!)));
-    let p0 = 0, q0 = 0;
-    for (let i = 0; i < series.length; i++) (p0 += series.kW[i]!), (q0 += series.kvar[i]!);
+    let p0 = 0,
+      q0 = 0;
+    for (let i = 0; i < series.length; i++) ((p0 += series.kW[i]!), (q0 += series.kvar[i]!));
     expectClose(p, p0, ITOL.sum, "Σ kW");
     expectClose(q, q0, ITOL.sum, "Σ kvar");
   });

@@ -62,7 +62,15 @@ describe("IANA zones through the platform tz database", () => {
   });
 
   it("agrees with Intl's own wall-clock rendering at every hour of 2026 (round trip, independent of the cache)", () => {
-    const f = new Intl.DateTimeFormat("en-CA", { timeZone: "America/Chicago", hourCycle: "h23", year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit" });
+    const f = new Intl.DateTimeFormat("en-CA", {
+      timeZone: "America/Chicago",
+      hourCycle: "h23",
+      year: "numeric",
+      month: "2-digit",
+      day: "2-digit",
+      hour: "2-digit",
+      minute: "2-digit",
+    });
     for (let u = Date.UTC(2026, 0, 1); u < Date.UTC(2027, 0, 1); u += H) {
       const parts = Object.fromEntries(f.formatToParts(u).map((p) => [p.type, p.value]));
       const w = Date.UTC(Number(parts.year), Number(parts.month) - 1, Number(parts.day), Number(parts.hour), Number(parts.minute));

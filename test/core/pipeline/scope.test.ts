@@ -4,7 +4,11 @@ import { size } from "../../../src/core/pipeline/size.js";
 import { expectClose, TOL } from "../../helpers/tolerance.js";
 
 const system = { voltageV: 480, frequencyHz: 60, phases: 3 } as const;
-const motor = { label: "Chiller pump", kind: "motor" as const, measurement: { method: "kw_pf" as const, kW: 40, pf: 0.8, sense: "lagging" as const } };
+const motor = {
+  label: "Chiller pump",
+  kind: "motor" as const,
+  measurement: { method: "kw_pf" as const, kW: 40, pf: 0.8, sense: "lagging" as const },
+};
 
 /** A year of hourly intervals of a whole site: 600 kW / 450 kvar by day (12 h), 200 kW / 120 kvar by night (invented). */
 function siteIntervals(): SizingInput["intervalDemand"] {

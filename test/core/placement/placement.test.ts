@@ -54,7 +54,12 @@ describe("self-excitation limit and corrected motor current", () => {
   });
 });
 
-const m = (o: Partial<PlacementLoad> & Pick<PlacementLoad, "label" | "kW" | "kvar">): PlacementLoad => ({ kind: "motor", voltageV: 480, phases: 3, ...o });
+const m = (o: Partial<PlacementLoad> & Pick<PlacementLoad, "label" | "kW" | "kvar">): PlacementLoad => ({
+  kind: "motor",
+  voltageV: 480,
+  phases: 3,
+  ...o,
+});
 
 describe("placement plan", () => {
   const siteA: PlacementLoad[] = [
@@ -77,7 +82,10 @@ describe("placement plan", () => {
     expect(plan.loads[0]?.terminal?.perMotorKvar).toBe(25);
     expectClose(plan.loads[0]?.terminal?.lineCurrentAfterA, 119.71615977818969, TOL.currentA, "compressor current");
     expect(plan.loads[0]?.terminal?.overloadNote).toContain("NFPA 70 460.9");
-    expect(plan.locations.map((l) => [l.location, l.loads])).toEqual([["terminal", ["Compressor"]], ["central", ["Compressor", "Conveyor", "Pumps", "Fan"]]]);
+    expect(plan.locations.map((l) => [l.location, l.loads])).toEqual([
+      ["terminal", ["Compressor"]],
+      ["central", ["Compressor", "Conveyor", "Pumps", "Fan"]],
+    ]);
     expectClose(plan.locations[1]?.kvar, required - 25, TOL.power, "central kvar");
     expectClose(plan.totalKvar, required, TOL.power, "total");
     expect(plan.differenceKvar).toBe(0);
@@ -123,24 +131,39 @@ describe("placement plan", () => {
     ];
     const plan = planPlacement({ loads, targetPF: 0.95, siteRequiredKvar: 30 });
     expect(plan.loads.map((l) => l.location)).toEqual(["central", "terminal"]);
-    expect(plan.locations.map((l) => [l.location, l.kvar])).toEqual([["terminal", 25], ["central", 5]]);
+    expect(plan.locations.map((l) => [l.location, l.kvar])).toEqual([
+      ["terminal", 25],
+      ["central", 5],
+    ]);
   });
 
   it("a remainder below the smallest unit is left out and explained", () => {
     // hand calculation: 25 kvar at the terminals of a site needing 26.5 → 1.5 kvar < 2.5 kvar smallest unit
-    const plan = planPlacement({ loads: [m({ label: "big", kW: 90, kvar: 67.5, starting: "across_the_line", noLoadAmps: 40 })], targetPF: 0.95, siteRequiredKvar: 26.5 });
+    const plan = planPlacement({
+      loads: [m({ label: "big", kW: 90, kvar: 67.5, starting: "across_the_line", noLoadAmps: 40 })],
+      targetPF: 0.95,
+      siteRequiredKvar: 26.5,
+    });
     expectClose(plan.differenceKvar, 1.5, DTOL.kvar, "difference");
     expect(plan.balanceNote).toContain("below the smallest unit");
   });
 
   it("a site basis above the loads' sum sends the difference to the central bank and says so", () => {
-    const plan = planPlacement({ loads: [m({ label: "F", kind: "other", kW: 100, kvar: 60 })], targetPF: 0.95, siteRequiredKvar: 60 - 100 * TAN95 + 10 });
+    const plan = planPlacement({
+      loads: [m({ label: "F", kind: "other", kW: 100, kvar: 60 })],
+      targetPF: 0.95,
+      siteRequiredKvar: 60 - 100 * TAN95 + 10,
+    });
     expectClose(plan.locations[0]?.kvar, 60 - 100 * TAN95 + 10, TOL.power, "central");
     expect(plan.balanceNote).toContain("10.0 kvar more than its loads");
   });
 
   it("asks for the starting method of a large motor that does not state it", () => {
-    const plan = planPlacement({ loads: [m({ label: "X", kW: 40, kvar: 30, noLoadAmps: 20 }), m({ label: "tiny", kW: 5, kvar: 4 })], targetPF: 0.95, siteRequiredKvar: 20 });
+    const plan = planPlacement({
+      loads: [m({ label: "X", kW: 40, kvar: 30, noLoadAmps: 20 }), m({ label: "tiny", kW: 5, kvar: 4 })],
+      targetPF: 0.95,
+      siteRequiredKvar: 20,
+    });
     expect(plan.warnings.map((w) => [w.code, w.path])).toEqual([["starting_method_needed", "loads.0.starting"]]);
     expect(plan.loads[0]?.location).toBe("central");
   });
@@ -171,7 +194,7 @@ describe("placement plan", () => {
         const terminalsOk = plan.loads.every((p, i) => {
           const l = loads[i] as PlacementLoad;
           if (p.location !== "terminal") return true;
-          const limit = 0.9 * Math.sqrt(3) * 480 * (l.noLoadAmps ?? 0) / 1000;
+          const limit = (0.9 * Math.sqrt(3) * 480 * (l.noLoadAmps ?? 0)) / 1000;
           return terminalSafety(l).safe && (p.terminal?.perMotorKvar ?? Infinity) <= limit + 1e-9;
         });
         return sumOk && terminalsOk && plan.locations.every((x) => x.kvar > 0);

@@ -54,7 +54,9 @@ describe("a reading's volts against the system (issue rule: ±10 % warns, beyond
 describe("the load's current from the reading (issue 11 point 3)", () => {
   it("a motor read at 460 V / 125 A on a 480 V bus is 125 A, worked at 460 V", () => {
     // hand: kVA = √3·460·125/1000 = 99.593 kVA; at 480 V it would be 99 593/(√3·480) = 119.79 A (the old figure)
-    const out = evaluateSite(SYS480, [{ label: "M", kind: "motor", measurement: { method: "v_i_pf", volts: 460, amps: 125, pf: 0.85, sense: "lagging" } }]);
+    const out = evaluateSite(SYS480, [
+      { label: "M", kind: "motor", measurement: { method: "v_i_pf", volts: 460, amps: 125, pf: 0.85, sense: "lagging" } },
+    ]);
     expectClose(out.loads[0]?.lineCurrentA, 125, TOL.currentA, "motor current");
     expect(out.loads[0]?.currentVoltageV).toBe(460);
     expect(out.loads[0]?.currentBasis).toBe("reading");
@@ -76,13 +78,20 @@ describe("the load's current from the reading (issue 11 point 3)", () => {
   });
 
   it("quantity multiplies the current read: 3 × 20 A at 470 V = 60 A", () => {
-    const out = evaluateSite(SYS480, [{ label: "pumps", quantity: 3, measurement: { method: "v_i_pf", volts: 470, amps: 20, pf: 0.8, sense: "lagging" } }]);
+    const out = evaluateSite(SYS480, [
+      { label: "pumps", quantity: 3, measurement: { method: "v_i_pf", volts: 470, amps: 20, pf: 0.8, sense: "lagging" } },
+    ]);
     expectClose(out.loads[0]?.lineCurrentA, 60, TOL.currentA, "3 pumps");
   });
 });
 
 describe("plausibility in the sizing", () => {
-  const motor = (over: Partial<LoadInput> = {}): LoadInput => ({ label: "press", kind: "motor", measurement: { method: "kw_pf", kW: 60, pf: 0.8, sense: "lagging" }, ...over });
+  const motor = (over: Partial<LoadInput> = {}): LoadInput => ({
+    label: "press",
+    kind: "motor",
+    measurement: { method: "kw_pf", kW: 60, pf: 0.8, sense: "lagging" },
+    ...over,
+  });
 
   it("a 277 V reading of a three-phase load on 480 V warns reading_line_to_neutral", () => {
     const out = size({ system: SYS480, loads: [motor({ measurement: { method: "v_i_pf", volts: 277, amps: 100, pf: 0.8, sense: "lagging" } })] });
@@ -90,15 +99,26 @@ describe("plausibility in the sizing", () => {
   });
 
   it("a 480 V reading on a 4160 V system is rejected at loads.0.measurement.volts", () => {
-    const out = size({ system: { voltageV: 4160, frequencyHz: 60, phases: 3 }, loads: [motor({ measurement: { method: "v_i_pf", volts: 480, amps: 100, pf: 0.8, sense: "lagging" } })] });
+    const out = size({
+      system: { voltageV: 4160, frequencyHz: 60, phases: 3 },
+      loads: [motor({ measurement: { method: "v_i_pf", volts: 480, amps: 100, pf: 0.8, sense: "lagging" } })],
+    });
     expect(out.ok).toBe(false);
     if (!out.ok) expect(out.issues.map((i) => i.path.join("."))).toEqual(["loads.0.measurement.volts"]);
   });
 
   it("the service entrance and the light-load reading are checked too", () => {
-    const main = size({ system: SYS480, loads: [motor()], serviceEntrance: { measurement: { method: "v_i_pf", volts: 100, amps: 900, pf: 0.8, sense: "lagging" } } });
+    const main = size({
+      system: SYS480,
+      loads: [motor()],
+      serviceEntrance: { measurement: { method: "v_i_pf", volts: 100, amps: 900, pf: 0.8, sense: "lagging" } },
+    });
     expect(!main.ok && main.issues.map((i) => i.path.join("."))).toEqual(["serviceEntrance.measurement.volts"]);
-    const light = size({ system: SYS480, loads: [motor()], lightLoad: { measurement: { method: "v_i_pf", volts: 2400, amps: 10, pf: 0.8, sense: "lagging" } } });
+    const light = size({
+      system: SYS480,
+      loads: [motor()],
+      lightLoad: { measurement: { method: "v_i_pf", volts: 2400, amps: 10, pf: 0.8, sense: "lagging" } },
+    });
     expect(!light.ok && light.issues.map((i) => i.path.join("."))).toEqual(["lightLoad.measurement.volts"]);
   });
 

@@ -98,7 +98,9 @@ describe("service entrance", () => {
 
 describe("mixed phases", () => {
   it("a single-phase load on a three-phase system: its line current is S/V_LL", () => {
-    const out = evaluateSite(SYSTEM, [{ label: "welder", phases: 1, measurement: { method: "v_i_pf", volts: 480, amps: 50, pf: 0.6, sense: "lagging" } }]);
+    const out = evaluateSite(SYSTEM, [
+      { label: "welder", phases: 1, measurement: { method: "v_i_pf", volts: 480, amps: 50, pf: 0.6, sense: "lagging" } },
+    ]);
     // hand calculation: S = 480·50/1000 = 24 kVA (single-phase); I = 24 000/480 = 50 A
     expectClose(out.loads[0]?.kVA, 24, TOL.power, "1φ load kVA");
     expectClose(out.loads[0]?.lineCurrentA, 50, TOL.currentA, "1φ load current");

@@ -51,9 +51,7 @@ describePostgres("PostgreSQL migrations", (baseUrl) => {
 
   it("apply once when five processes start at the same moment, with the real schema", async () => {
     const url = await freshDatabase(baseUrl);
-    const outs = await Promise.all(
-      Array.from({ length: 5 }, () => run(process.execPath, ["--import", "tsx", CHILD, url], { timeout: 60_000 })),
-    );
+    const outs = await Promise.all(Array.from({ length: 5 }, () => run(process.execPath, ["--import", "tsx", CHILD, url], { timeout: 60_000 })));
     const reports = outs.map((o) => JSON.parse(o.stdout) as MigrationReport);
     expect(reports.filter((r) => r.applied.length > 0)).toHaveLength(1);
     const rows = await poolOn(url).query<{ version: number }>("SELECT version FROM schema_migrations ORDER BY version");
@@ -87,7 +85,11 @@ describePostgres("PostgreSQL migrations", (baseUrl) => {
     try {
       expect(await store.readiness()).toEqual({ databaseReachable: true, migrationsCurrent: true });
       writeFileSync(join(dir, "002_more.sql"), "SELECT 1;");
-      expect(await store.readiness()).toMatchObject({ databaseReachable: true, migrationsCurrent: false, detail: expect.stringMatching(/version 1.*expects 2/) });
+      expect(await store.readiness()).toMatchObject({
+        databaseReachable: true,
+        migrationsCurrent: false,
+        detail: expect.stringMatching(/version 1.*expects 2/),
+      });
     } finally {
       await store.close();
     }
