@@ -8,8 +8,9 @@ import { sqliteStore, TEST_STORE_KIND } from "../helpers/store.js";
 import { buildingBody, surveyBody } from "../store/fixtures.js";
 
 /**
- * Surveys written concurrently through HTTP share COMMITs (group commit, src/store/sqlite/group-commit.ts) and are
- * sized on the worker threads; each is acknowledged only once its own COMMIT is on disk.
+ * Surveys written concurrently through HTTP share COMMITs (group commit, src/store/sqlite/group-commit.ts); each is
+ * sized before its transaction and acknowledged only once its own COMMIT is on disk. SQLite only (it reads the file
+ * from a second connection), so it sits with the store tests, which CI runs on SQLite; the API suites run on both.
  */
 
 let app: FastifyInstance;
@@ -47,7 +48,7 @@ describe.skipIf(TEST_STORE_KIND !== "sqlite")("surveys under group commit", () =
       const stored = (await inject(app, `/v1/surveys/${body.id}/revisions/1`)).json();
       expect(stored.result).toEqual(body.result);
     }
-    // the result's bytes from the worker are stored as TEXT, the same text JSON.stringify gives
+    // the result's UTF-8 bytes are stored as TEXT, the same text JSON.stringify gives
     const rows = sqliteStore(store).db.prepare("SELECT typeof(result_json) AS t, result_json AS json FROM survey_revisions").all() as {
       t: string;
       json: string;
