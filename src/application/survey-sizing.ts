@@ -1,3 +1,4 @@
+import { jsonBytes } from "./json-bytes.js";
 import type { IntervalDemandInput, SizingInput } from "../core/inputs.js";
 import { intervalDemandOf } from "../core/interval/stored-demand.js";
 import { size, type SizingResult } from "../core/pipeline/size.js";
@@ -93,8 +94,6 @@ export function computeRevision(building: BuildingRecord, inputs: SurveyInputs, 
  */
 export type SerializedRevision = NewRevision & { resultUtf8: Uint8Array };
 
-const utf8 = new TextEncoder();
-
 /** computeRevision, with the result serialised once. */
 export function computeSerializedRevision(
   building: BuildingRecord,
@@ -103,5 +102,5 @@ export function computeSerializedRevision(
   analysis?: IntervalAnalysisRecord,
 ): SerializedRevision {
   const revision = computeRevision(building, inputs, meta, analysis);
-  return { ...revision, resultUtf8: utf8.encode(JSON.stringify(revision.result)) };
+  return { ...revision, resultUtf8: jsonBytes(revision.result) };
 }

@@ -3,13 +3,13 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { twentyLoadBody } from "../../bench/bodies.js";
 import { twentyLoadBodyWithDrives } from "../../bench/engine.js";
 import { size } from "../../src/core/pipeline/size.js";
-import { jsonBytes } from "../../src/http/json-bytes.js";
+import { jsonBytes } from "../../src/application/json-bytes.js";
 import { sizingRequestSchema } from "../../src/http/schemas/sizing.js";
 import { makeTestApp } from "../helpers/app.js";
 import { api } from "../helpers/auth.js";
 
 /**
- * POST /v1/sizing writes its answer as UTF-8 bytes it serialised itself (src/http/json-bytes.ts): every field must
+ * POST /v1/sizing writes its answer as UTF-8 bytes it serialised itself (src/application/json-bytes.ts): every field must
  * survive, so the answer is byte for byte JSON.stringify's of the same result, and reads back as it.
  */
 

@@ -1,7 +1,7 @@
 import type { FastifyInstance } from "fastify";
 import * as contracts from "../contracts/sizing.js";
 import { size } from "../../core/pipeline/size.js";
-import { jsonBytes } from "../json-bytes.js";
+import { jsonBytes } from "../../application/json-bytes.js";
 import { sizingRequestSchema } from "../schemas/sizing.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
 
