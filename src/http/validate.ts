@@ -20,20 +20,27 @@ export function engineIssuesTo400(issues: InputIssue[], prefix: (string | number
  * The path of the first string (or object key) holding U+0000, or null. No field has a use for it, PostgreSQL's text
  * and jsonb cannot store it, and a terminal or CSV reader may cut the value there: refused everywhere, on both stores.
  */
-function pathOfNul(value: unknown, path: (string | number)[]): (string | number)[] | null {
-  if (typeof value === "string") return value.includes("\u0000") ? path : null;
+function pathOfNul(value: unknown, prefix: (string | number)[]): (string | number)[] | null {
+  const below = nulBelow(value);
+  return below ? [...prefix, ...below] : null;
+}
+
+/** The walk behind pathOfNul: allocates nothing until it finds one (it runs on every request body). */
+function nulBelow(value: unknown): (string | number)[] | null {
+  if (typeof value === "string") return value.includes("\u0000") ? [] : null;
   if (typeof value !== "object" || value === null) return null;
   if (Array.isArray(value)) {
     for (let i = 0; i < value.length; i++) {
-      const found = pathOfNul(value[i], [...path, i]);
-      if (found) return found;
+      const found = nulBelow(value[i]);
+      if (found) return [i, ...found];
     }
     return null;
   }
-  for (const [key, item] of Object.entries(value)) {
-    if (key.includes("\u0000")) return [...path, key];
-    const found = pathOfNul(item, [...path, key]);
-    if (found) return found;
+  for (const key in value) {
+    if (!Object.hasOwn(value, key)) continue;
+    if (key.includes("\u0000")) return [key];
+    const found = nulBelow((value as Record<string, unknown>)[key]);
+    if (found) return [key, ...found];
   }
   return null;
 }

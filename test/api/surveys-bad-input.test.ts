@@ -107,7 +107,7 @@ describe("a reading far outside the system is a 400 and stores nothing (issue 11
 
 describe("text PostgreSQL cannot store is refused on both stores, at the field", () => {
   it("U+0000 anywhere in a body, and a year outside 1900–2200, are 400s naming the field; nothing stored changes", async () => {
-    // jsonb and text refuse U+0000 and timestamptz refuses year 0000 (PostgreSQL 15 docs, §8.14 and §8.5, from memory)
+    // text refuses U+0000 (PostgreSQL 15 docs §8.3), jsonb its \u0000 escape (§8.14), timestamptz year 0000 (§8.5; from memory)
     const before = await rowCounts(store);
     const cases = [
       { req: { method: "POST", url: "/v1/buildings", payload: { ...buildingBody(), name: "Boiler\u0000house" } }, path: "name", reason: /NUL/ },
