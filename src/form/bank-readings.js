@@ -155,7 +155,7 @@ function bankPanel(bank, bi, count) {
     "tr",
     {},
     el("th", { scope: "col" }, "Step"),
-    el("th", { scope: "col" }, "In service"),
+    el("th", { scope: "col" }, "On during the readings"),
     ...ph.map((p) => el("th", { scope: "col" }, p === "one" ? "Amps" : `${p.toUpperCase()} (A)`)),
     el("th", { scope: "col" }, "Found"),
   );

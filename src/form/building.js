@@ -3,9 +3,10 @@
 import { call, problemText } from "./api.js";
 import { $, drawFields, el, placeErrors, say, setMsg, controlFor } from "./dom.js";
 import { newKey, readJson, writeJson } from "./drafts.js";
-import { BUILDING_SECTIONS, COMMON_SYSTEMS } from "./fields.js";
+import { BUILDING_SECTIONS } from "./fields.js";
 import { bankDefs, bankIssues, bankValues, renderInstalledBanks, storeBankEdit } from "./installed.js";
-import { bodyOf, errorsOf, lastSegment } from "./model.js";
+import { errorsOf, lastSegment } from "./model.js";
+import { buildingPatch, formBody, formOfBuilding } from "./building-record.js";
 
 const BUILDINGS_STORE = "pfc-form.buildings";
 const NEW_BUILDING_STORE = "pfc-form.new-building";
@@ -14,6 +15,8 @@ export const buildings = { list: readJson(BUILDINGS_STORE, []) };
 /** The new-building form's values, kept across reloads; its key is made once per building being created. */
 const nb = readJson(NEW_BUILDING_STORE, null) ?? { values: {}, idem: newKey() };
 nb.banks ??= [];
+/** The building being changed ({ id, name }), or null while the form makes a new one; `aside` keeps that one's values. */
+nb.editing ??= null;
 const saveNb = () => writeJson(NEW_BUILDING_STORE, nb);
 let creating = false;
 
@@ -37,6 +40,7 @@ export function renderBuildings(selectedId) {
   sel.replaceChildren(new Option("— choose —", ""), ...buildings.list.map((b) => new Option(b.name, b.id)));
   sel.value = buildingById(selectedId) ? selectedId : "";
   $("building-info").textContent = describeBuilding(buildingById(selectedId));
+  $("building-change").hidden = !buildingById(selectedId);
 }
 
 /** Fetch the list; offline, the saved one stays. Answers a line for the key's state, or "" when unchanged. */
@@ -54,6 +58,10 @@ const values = () => ({ ...nb.values, ...bankValues(nb.banks) });
 const idOf = (def) => `nb-${lastSegment(def.path).replace(/^_/, "")}`;
 
 export function renderNewBuilding(openFolds) {
+  const changing = nb.editing;
+  $("nb-summary").textContent = changing ? `Change ${changing.name}` : "New building";
+  $("nb-create").textContent = changing ? "Save changes" : "Create building";
+  $("nb-cancel").hidden = !changing;
   const box = $("nb-fields");
   box.replaceChildren();
   BUILDING_SECTIONS.forEach((section, i) => {
@@ -100,12 +108,93 @@ export function onNewBuildingEdit(ev, openFolds) {
   }
 }
 
-/** The body: a common system expands to its three figures; "other" sends what was typed. */
-function buildingBody() {
-  const body = bodyOf(defs(), values());
-  const common = COMMON_SYSTEMS.find((s) => s.id === nb.values._system);
-  if (common) body.system = { voltageV: common.voltageV, frequencyHz: common.frequencyHz, phases: common.phases };
-  return body;
+const buildingBody = () => formBody(nb.values, nb.banks);
+
+/** Fill the form with a stored building to change it; the new building's values wait aside. */
+export function startChange(id) {
+  const b = buildingById(id);
+  if (!b) return;
+  const { values, banks } = formOfBuilding(b);
+  if (!nb.editing) nb.aside = { values: nb.values, banks: nb.banks };
+  nb.values = values;
+  nb.banks = banks;
+  nb.editing = { id: b.id, name: b.name };
+  nb.idem = newKey();
+  saveNb();
+}
+
+/** Back to the new-building form as it was before the change began. */
+export function endChange() {
+  nb.values = nb.aside?.values ?? {};
+  nb.banks = nb.aside?.banks ?? [];
+  nb.editing = null;
+  nb.aside = null;
+  nb.idem = newKey();
+  saveNb();
+}
+
+/** The form's messages cleared, then every field's and bank's problem shown; true when there is none. */
+function formChecks() {
+  say("nb-msg", "");
+  for (const input of $("nb-fields").querySelectorAll("[data-path]")) setMsg(input, "");
+  const errors = [...errorsOf(defs(), values()), ...bankIssues(nb.banks)];
+  for (const e of errors) {
+    const input = controlFor(e.path, $("nb-fields"));
+    setMsg(input, e.message);
+    input?.closest("details")?.setAttribute("open", "");
+  }
+  if (errors.length) say("nb-msg", "Please correct the fields marked in red.", "error");
+  return errors.length === 0;
+}
+
+/** The service's refusal placed beside the fields, or a line for what it could not place. */
+function refused(r) {
+  const rest = placeErrors(r.data?.errors, $("nb-fields"));
+  say("nb-msg", `Not accepted: ${rest.length ? rest.join("; ") : "see the messages beside the fields"}`, "error");
+}
+
+const keepBuilding = (b) => {
+  buildings.list = [...buildings.list.filter((x) => x.id !== b.id), b];
+  writeJson(BUILDINGS_STORE, buildings.list);
+};
+
+/**
+ * Save the change to the building being changed: only the parts that differ, as one PATCH (a new version of the
+ * building; surveys already stored keep the version they were sized with). Answers its id, or null.
+ */
+export async function saveChange() {
+  if (creating || !nb.editing) return null;
+  creating = true;
+  $("nb-create").toggleAttribute("disabled", true);
+  try {
+    if (!formChecks()) return null;
+    const stored = buildingById(nb.editing.id);
+    if (!stored) {
+      say("nb-msg", "This building is no longer in the list: reload the buildings.", "error");
+      return null;
+    }
+    const patch = buildingPatch(stored, buildingBody(), nb.banks);
+    if (!patch) {
+      say("nb-msg", "Nothing to save: the form shows the building as stored.", "info");
+      return null;
+    }
+    const r = await call("PATCH", `/v1/buildings/${encodeURIComponent(stored.id)}`, { body: patch, headers: { "idempotency-key": nb.idem } });
+    if (r.status === 0) {
+      say("nb-msg", "No network to the service: a change can only be saved while it answers.", "error");
+      return null;
+    }
+    if (r.status !== 200) {
+      refused(r);
+      return null;
+    }
+    keepBuilding(r.data);
+    endChange();
+    say("nb-msg", `Saved the changes to ${r.data.name}.`, "ok");
+    return r.data.id;
+  } finally {
+    creating = false;
+    $("nb-create").toggleAttribute("disabled", false);
+  }
 }
 
 /** Create the building; answers its id, or null (messages are shown). One key per building, so a retry is safe. */
@@ -114,30 +203,17 @@ export async function createBuilding() {
   creating = true;
   $("nb-create").toggleAttribute("disabled", true);
   try {
-    say("nb-msg", "");
-    for (const input of $("nb-fields").querySelectorAll("[data-path]")) setMsg(input, "");
-    const errors = [...errorsOf(defs(), values()), ...bankIssues(nb.banks)];
-    for (const e of errors) {
-      const input = controlFor(e.path, $("nb-fields"));
-      setMsg(input, e.message);
-      input?.closest("details")?.setAttribute("open", "");
-    }
-    if (errors.length) {
-      say("nb-msg", "Please correct the fields marked in red.", "error");
-      return null;
-    }
+    if (!formChecks()) return null;
     const r = await call("POST", "/v1/buildings", { body: buildingBody(), headers: { "idempotency-key": nb.idem } });
     if (r.status === 0) {
       say("nb-msg", "No network to the service: a building can only be created while it answers.", "error");
       return null;
     }
     if (r.status !== 201 && r.status !== 200) {
-      const rest = placeErrors(r.data?.errors, $("nb-fields"));
-      say("nb-msg", `Not accepted: ${rest.length ? rest.join("; ") : "see the messages beside the fields"}`, "error");
+      refused(r);
       return null;
     }
-    buildings.list = [...buildings.list.filter((b) => b.id !== r.data.id), r.data];
-    writeJson(BUILDINGS_STORE, buildings.list);
+    keepBuilding(r.data);
     nb.values = {};
     nb.banks = [];
     nb.idem = newKey();

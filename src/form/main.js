@@ -3,7 +3,18 @@
 
 import { onBankClick, onBankEdit, renderBankReadings } from "./bank-readings.js";
 import { apiKey, onReachability, probe, problemText, setApiKey } from "./api.js";
-import { buildingById, createBuilding, describeBuilding, loadBuildings, onNewBuildingEdit, renderBuildings, renderNewBuilding } from "./building.js";
+import {
+  buildingById,
+  createBuilding,
+  describeBuilding,
+  endChange,
+  loadBuildings,
+  onNewBuildingEdit,
+  renderBuildings,
+  renderNewBuilding,
+  saveChange,
+  startChange,
+} from "./building.js";
 import { $, placeErrors, say, setMsg } from "./dom.js";
 import { changed, freshDraft, loadDraft, newKey, saveDraft } from "./drafts.js";
 import { enqueue, flush, readQueue, sending } from "./queue.js";
@@ -158,11 +169,25 @@ function wire() {
   }
   $("bank-readings").addEventListener("click", onBankClick);
   $("nb-create").addEventListener("click", async () => {
-    const id = await createBuilding();
+    const id = $("nb-cancel").hidden ? await createBuilding() : await saveChange();
     if (!id) return;
     /** @type {HTMLDetailsElement} */ ($("new-building")).open = false;
     renderNewBuilding(state.openFolds);
     selectBuilding(id);
+  });
+  $("building-change").addEventListener("click", () => {
+    startChange(state.draft.buildingId);
+    renderNewBuilding(state.openFolds);
+    const fold = /** @type {HTMLDetailsElement} */ ($("new-building"));
+    fold.open = true;
+    fold.scrollIntoView({ block: "start" });
+    $("nb-name")?.focus();
+  });
+  $("nb-cancel").addEventListener("click", () => {
+    endChange();
+    say("nb-msg", "");
+    /** @type {HTMLDetailsElement} */ ($("new-building")).open = false;
+    renderNewBuilding(state.openFolds);
   });
   $("loads").addEventListener("click", (ev) => {
     const btn = /** @type {HTMLElement} */ (ev.target).closest('[data-role="remove"]');

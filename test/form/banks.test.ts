@@ -209,4 +209,44 @@ describe.skipIf(!hasChromium)("installed banks on the survey page", () => {
     // Over plain HTTP Chromium says it ignores the service's Cross-Origin-Opener-Policy, which only HTTPS origins get.
     expect(problems.filter((p) => !/Cross-Origin-Opener-Policy header has been ignored|origin-keyed agent cluster/.test(p))).toEqual([]);
   });
+
+  it("changes the building later: its transformer and a bank's steps, keeping what the form does not show", async () => {
+    // a change begun and cancelled leaves the building and the new-building form as they were
+    await page.click("#building-change");
+    expect(await page.locator("#new-building").getAttribute("open")).not.toBeNull();
+    expect(await page.locator("#nb-summary").textContent()).toBe("Change Harbour cold store");
+    expect(await page.inputValue("#nb-name")).toBe("Harbour cold store");
+    await page.fill("#nb-name", "Harbour cold store (renamed by mistake)");
+    await page.click("#nb-cancel");
+    expect((await api.get(`/v1/buildings/${buildingId}`)).body.name).toBe("Harbour cold store");
+    await page.click("#new-building summary");
+    expect(await page.inputValue("#nb-name")).toBe("");
+    expect(await page.locator("#nb-create").textContent()).toBe("Create building");
+    await page.click("#new-building summary");
+
+    await page.click("#building-change");
+    expect(await page.inputValue("#nb-b0-steps")).toBe("5 × 50");
+    expect(await page.inputValue("#nb-b0-installedOn")).toBe("2019-05-14");
+    await page.evaluate(`document.querySelectorAll("#nb-fields details").forEach((d) => (d.open = true))`);
+    await page.fill("#nb-kVA", "1500");
+    await page.fill("#nb-impedancePct", "5.5");
+    await page.fill("#nb-b1-steps", "75");
+    await shoot("#new-building", "building-change");
+    await page.click("#nb-create");
+    await expect.poll(() => page.locator("#nb-msg").textContent()).toBe("Saved the changes to Harbour cold store.");
+    expect(await page.locator("#new-building").getAttribute("open")).toBeNull();
+    const stored = (await api.get(`/v1/buildings/${buildingId}`)).body;
+    expect(stored.transformer).toEqual({ kVA: 1500, impedancePct: 5.5 });
+    expect(stored.installedBanks[0]).toMatchObject({ label: "Main bank", installedOn: "2019-05-14", steps: Array(5).fill({ kvar: 50 }) });
+    expect(stored.installedBanks[1]).toMatchObject({ label: "Chiller feeder bank", steps: [{ kvar: 75 }] });
+    expect(await page.locator("#building-info").textContent()).toContain("transformer 1500 kVA at 5.5 %");
+    expect((await api.get(`/v1/buildings/${buildingId}/history`)).body.items).toHaveLength(2);
+    // saving again with nothing changed writes no new version
+    await page.click("#building-change");
+    await page.click("#nb-create");
+    expect(await page.locator("#nb-msg").textContent()).toBe("Nothing to save: the form shows the building as stored.");
+    await page.click("#nb-cancel");
+    expect((await api.get(`/v1/buildings/${buildingId}/history`)).body.items).toHaveLength(2);
+    expect(problems.filter((p) => !/Cross-Origin-Opener-Policy header has been ignored|origin-keyed agent cluster/.test(p))).toEqual([]);
+  });
 });

@@ -88,7 +88,7 @@ export function installedSection(input: ReportInput): Section {
     blocks.push({
       kind: "table",
       title: `${b.label}: steps`,
-      header: ["Step", "Nameplate (kvar)", "In service", "Expected (A)", "Measured (A)", "Capacitance (%)", "Unbalance (%)", "Status"],
+      header: ["Step", "Nameplate (kvar)", "On during the readings", "Expected (A)", "Measured (A)", "Capacitance (%)", "Unbalance (%)", "Status"],
       align: ["right", "right", "left", "right", "left", "right", "right", "left"],
       rows: b.steps.map((s) => [
         String(s.step),
