@@ -1,25 +1,18 @@
-// The recommendation after a survey is stored: the verdict in a line, then page 1's verdict (verdict.js) — what to
-// install, what to repair first, the PF and kVA after, cost, saving, payback, the risks — and the bank's steps, from
-// the stored result (src/http/schemas/results.ts); reports and the trend.
+// The recommendation after a survey is stored: the verdict in a line, then page 1 of the report — what to install,
+// what to repair first, the PF and kVA after, cost, saving, payback, the risks — in the report's own words, fetched
+// from the service (GET /v1/surveys/{id}/verdict, the same code as the report) and kept with the last survey for
+// offline viewing; and the bank's steps, from the stored result (src/http/schemas/results.ts); reports and the trend.
 
 import { call } from "./api.js";
 import { $, el, say } from "./dom.js";
 import { readJson, writeJson } from "./drafts.js";
-import { stepCount, verdictOf } from "./verdict.js";
 
 const LAST_STORE = "pfc-form.last";
 const f2 = (x) => x.toFixed(2);
 const f3 = (x) => x.toFixed(3);
+const plural = (n, word) => `${n} ${word}${n === 1 ? "" : "s"}`;
 
 export let lastSurvey = readJson(LAST_STORE, null);
-
-function money(economics, amount) {
-  try {
-    return new Intl.NumberFormat(undefined, { style: "currency", currency: economics.currency, maximumFractionDigits: 0 }).format(amount);
-  } catch {
-    return `${economics.currency} ${Math.round(amount)}`;
-  }
-}
 
 export function detunedText(bank) {
   if (!bank) return "–";
@@ -28,7 +21,34 @@ export function detunedText(bank) {
   return `Yes: ${bank.reactorPct} % reactor${tuned}`;
 }
 
-/** Show a stored survey's result: { id, buildingId, result }. */
+const lines = (id, items) =>
+  $(id).replaceChildren(...(items.length > 1 ? [el("ul", { class: "result-list" }, ...items.map((t) => el("li", {}, t)))] : items));
+
+/** Page 1's lines as the service words them; without them (no network yet), a line saying where they will be. */
+function showVerdict(v, eco) {
+  const missing = "– (shown once the service answers; the report has it)";
+  lines("r-install", v ? (v.install.length ? v.install : [v.instead ?? "nothing"]) : [missing]);
+  const repair = v?.repairFirst.join(" ") ?? "";
+  $("r-repair-dt").hidden = $("r-repair").hidden = !repair;
+  $("r-repair").textContent = repair;
+  $("r-after").textContent = v ? v.after : missing;
+  lines("r-risks", v ? (v.risks.length ? v.risks : ["none that matter"]) : [missing]);
+  const m = v?.money;
+  $("r-cost").textContent = m?.cost ?? (eco ? "– (give the building costs per kvar)" : "– (give the building a tariff and costs)");
+  $("r-saving").textContent = m?.savingPerYear ?? "–";
+  $("r-payback").textContent = m?.payback ?? "–";
+}
+
+/** Fetch the stored survey's verdict and keep it with the last survey; shown if that survey is still the one on screen. */
+async function fetchVerdict(survey) {
+  const r = await call("GET", `/v1/surveys/${encodeURIComponent(survey.id)}/verdict`);
+  if (r.status !== 200 || lastSurvey?.id !== survey.id) return;
+  lastSurvey = { ...lastSurvey, verdict: r.data };
+  writeJson(LAST_STORE, lastSurvey);
+  showVerdict(r.data, survey.result.economics);
+}
+
+/** Show a stored survey's result: { id, buildingId, result }, with its verdict when it was fetched already. */
 export function showResult(survey) {
   lastSurvey = survey;
   writeJson(LAST_STORE, survey);
@@ -38,29 +58,15 @@ export function showResult(survey) {
   $("result-section").hidden = false;
   $("r-pf").textContent = `${f3(r.site.displacementPF)} ${r.site.sense} (target ${r.correction.targetPF})`;
   $("r-kvar").textContent = `${f2(r.correction.kvarRequired)} kvar`;
-  const v = verdictOf(r);
-  const lines = (id, items) =>
-    $(id).replaceChildren(...(items.length > 1 ? [el("ul", { class: "result-list" }, ...items.map((t) => el("li", {}, t)))] : items));
-  lines("r-install", v.install);
-  $("r-repair-dt").hidden = $("r-repair").hidden = !v.repair;
-  $("r-repair").textContent = v.repair ?? "";
-  $("r-after").textContent = v.after;
   $("r-detuned").textContent = detunedText(bank);
-  $("r-cost").textContent =
-    eco?.installedCost != null
-      ? money(eco, eco.installedCost)
-      : eco
-        ? "– (give the building costs per kvar)"
-        : "– (give the building a tariff and costs)";
-  $("r-saving").textContent = eco ? `${money(eco, eco.savingPerYear)} a year` : "–";
-  $("r-payback").textContent = eco?.simplePaybackYears != null ? `${eco.simplePaybackYears.toFixed(1)} years (simple payback)` : "–";
-  lines("r-risks", v.risks.length ? v.risks : ["none that matter"]);
+  showVerdict(survey.verdict ?? null, eco);
+  if (!survey.verdict) void fetchVerdict(survey);
   $("r-warnings").textContent = r.warnings.length ? `${r.warnings.length}: see the report` : "none";
   const repairs = r.correction.repairFirst ?? [];
   $("r-verdict").textContent = bank
-    ? `${repairs.length ? `Repair ${repairs.length} installed step${repairs.length === 1 ? "" : "s"} first, then add ` : ""}${f2(bank.nameplateKvar)} kvar, ${stepCount(bank)}, ${bank.reactorPct > 0 ? "detuned" : "not detuned"}${eco?.simplePaybackYears != null ? `, pays back in ${eco.simplePaybackYears.toFixed(1)} years` : ""}.`
+    ? `${repairs.length ? `Repair ${plural(repairs.length, "installed step")} first, then add ` : ""}${f2(bank.nameplateKvar)} kvar, ${plural(bank.physicalSteps.length, "step")}, ${bank.reactorPct > 0 ? "detuned" : "not detuned"}${eco?.simplePaybackYears != null ? `, pays back in ${eco.simplePaybackYears.toFixed(1)} years` : ""}.`
     : repairs.length
-      ? `Repair ${repairs.length} installed step${repairs.length === 1 ? "" : "s"}: no new bank.`
+      ? `Repair ${plural(repairs.length, "installed step")}: no new bank.`
       : "No new bank.";
   $("r-steps").replaceChildren(
     ...(bank?.physicalSteps ?? []).map((s, i) =>

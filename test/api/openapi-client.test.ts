@@ -207,6 +207,9 @@ describe("a generated client drives every operation", () => {
       await client.GET("/v1/surveys/{id}/report", { params: { path: s.params.path, query: { revision: "1" } }, parseAs: "text" }),
     );
     expectDocumented("/v1/surveys/{id}/report.pdf", "get", 200, await client.GET("/v1/surveys/{id}/report.pdf", { ...s, parseAs: "arrayBuffer" }));
+    const verdict = await client.GET("/v1/surveys/{id}/verdict", { params: { path: s.params.path, query: { revision: "1" } } });
+    expectDocumented("/v1/surveys/{id}/verdict", "get", 200, verdict);
+    expect(verdict.data!.revision).toBe(1);
 
     const key = await client.POST("/v1/keys", { body: { role: "auditor", label: "generated client" } });
     expectDocumented("/v1/keys", "post", 201, key);

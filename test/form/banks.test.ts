@@ -196,6 +196,8 @@ describe.skipIf(!hasChromium)("installed banks on the survey page", () => {
     expect(main.steps.map((s: { status: string }) => s.status)).toEqual(["healthy", "degraded", "failed", "not_measured", "not_measured"]);
     const c = survey.result.correction;
     expect(c.repairFirst.map((r: { step: number }) => r.step).sort()).toEqual([2, 3]);
+    // page 1's lines arrive from the service just after the survey is stored
+    await expect.poll(() => page.locator("#r-after").textContent()).toMatch(/^PF /);
     const repair = await page.locator("#r-repair").textContent();
     expect(await page.locator("#r-repair-dt").isVisible()).toBe(true);
     for (const r of c.repairFirst) expect(repair).toContain(`Main bank step ${r.step} (${r.status}, ${r.restoresKvar.toFixed(1)} kvar)`);

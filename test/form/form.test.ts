@@ -310,7 +310,11 @@ describe.skipIf(!hasChromium)("survey page on a plain-HTTP LAN origin", () => {
     expect(await page.locator("#r-detuned").textContent()).toMatch(bank.reactorPct > 0 ? /^Yes/ : /^No/);
     const eco = survey.result.economics;
     expect(eco.installedCost).toBeGreaterThan(0);
-    expect((await page.locator("#r-cost").textContent())?.replace(/\D/g, "")).toBe(String(Math.round(eco.installedCost)));
+    // page 1's lines in the report's words, from the service (GET …/verdict), money formatted as the report does
+    const verdict = (await api.get(`/v1/surveys/${survey.id}/verdict`)).body;
+    await expect.poll(() => page.locator("#r-cost").textContent()).toBe(verdict.money.cost);
+    expect(verdict.money.cost.replace(/[^\d.]/g, "")).toBe(eco.installedCost.toFixed(2));
+    expect(await page.locator("#r-after").textContent()).toBe(verdict.after);
     if (eco.simplePaybackYears !== null)
       expect(await page.locator("#r-payback").textContent()).toContain(`${eco.simplePaybackYears.toFixed(1)} years`);
 

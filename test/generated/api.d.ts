@@ -355,6 +355,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/surveys/{id}/verdict": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * A stored survey's recommendation in the report's words
+         * @description Page 1 of the report as data — what to install, what to repair first, the PF and kVA after, cost, saving, payback and the risks that matter — built by the same code from what was stored, so a screen that shows it says what the signed report says.
+         */
+        get: operations["surveyVerdict"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/sizing/report": {
         parameters: {
             query?: never;
@@ -4219,6 +4239,98 @@ export interface operations {
                 };
                 content: {
                     "application/pdf": string;
+                };
+            };
+            /** @description the request is not valid: each offending field is named in errors */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description no API key, or one that is not valid */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description the key's role may not do this */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description not found (or another organisation's) */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description too many requests in a minute; see Retry-After */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    surveyVerdict: {
+        parameters: {
+            query?: {
+                /** @description a revision number: a whole number from 1 */
+                revision?: string;
+            };
+            header?: never;
+            path: {
+                /** @description the resource's id */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description the recommendation's lines */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": {
+                        surveyId: string;
+                        revision: number;
+                        /** @description what to install, one line per place; empty when nothing is to be bought */
+                        install: string[];
+                        /** @description the line when nothing is installed */
+                        instead: string | null;
+                        /** @description what to repair before anything new is bought */
+                        repairFirst: string[];
+                        /** @description the PF and kVA after, from before */
+                        after: string;
+                        /** @description formatted in the building's currency; null without a tariff */
+                        money: {
+                            cost: string | null;
+                            savingPerYear: string | null;
+                            payback: string | null;
+                        } | null;
+                        /** @description the one or two risks that matter, most serious first */
+                        risks: string[];
+                        /** @description the safety line page 1 carries */
+                        caution: string;
+                    };
                 };
             };
             /** @description the request is not valid: each offending field is named in errors */

@@ -8,6 +8,7 @@ import {
   surveyPageSchema,
   surveySchema,
   trendSchema,
+  verdictSchema,
 } from "../schemas/surveys.js";
 import { paperQuery } from "./sizing.js";
 import { html, idempotencyHeaders, idParams, json, pagingQuery, pdf, problems, rangeQuery, withKey, type RouteContract } from "./types.js";
@@ -136,4 +137,17 @@ export const surveyReportPdf: RouteContract = {
   params: idParams,
   querystring: reportQuery,
   response: { "200": pdf("the report, as an attachment"), ...problems(withKey, 400, 404) },
+};
+
+export const surveyVerdict: RouteContract = {
+  operationId: "surveyVerdict",
+  summary: "A stored survey's recommendation in the report's words",
+  description:
+    "Page 1 of the report as data — what to install, what to repair first, the PF and kVA after, cost, saving, payback and the risks that matter — " +
+    "built by the same code from what was stored, so a screen that shows it says what the signed report says.",
+  tags: ["surveys", "reports"],
+  security: withKey,
+  params: idParams,
+  querystring: z.object({ revision: revisionNumber.optional().describe("the revision (default: the latest)") }),
+  response: { "200": json("the recommendation's lines", verdictSchema), ...problems(withKey, 400, 404) },
 };

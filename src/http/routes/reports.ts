@@ -1,5 +1,6 @@
 /**
- * Report routes: a stored survey's report as HTML or PDF, and the report of a sizing request.
+ * Report routes: a stored survey's report as HTML or PDF, its first page's verdict as data, and the report of a
+ * sizing request.
  * Thin: read or size, then src/report builds the model and renders it.
  */
 import type { FastifyInstance, FastifyReply } from "fastify";
@@ -10,7 +11,8 @@ import { sizingRequestSchema } from "../schemas/sizing.js";
 import { engineIssuesTo400, parseOr400 } from "../validate.js";
 import type { Store } from "../../store/ports.js";
 import type { ReportOutput, ReportTask } from "../../heavy-work/tasks.js";
-import { surveyReportData } from "../../application/survey-reads.js";
+import { revisionOf, surveyReportData } from "../../application/survey-reads.js";
+import { VERDICT_CAUTION, verdictOf } from "../../report/sections/verdict.js";
 
 const idParams = z.object({ id: z.string() });
 const paper = z.enum(["a4", "letter"], { error: "paper must be a4 or letter" }).optional();
@@ -21,6 +23,7 @@ const surveyQuery = z.strictObject({
     .optional(),
   paper,
 });
+const verdictQuery = surveyQuery.omit({ paper: true });
 const sizingQuery = z.strictObject({ format: z.enum(["html", "pdf"], { error: "format must be html or pdf" }).optional(), paper });
 
 /** The document may not load anything (it is self-contained), nor be framed by another page, nor post or rebase links. */
@@ -61,6 +64,14 @@ export async function reportRoutes(app: FastifyInstance, opts: { store: Store })
     const q = parseOr400(surveyQuery, request.query);
     const { revision: r, input } = await surveyReportData(store, request.actor.orgId, id, q.revision === undefined ? undefined : Number(q.revision));
     return sendReport(app, reply, { input, format: "pdf", paper: sizeOf(q.paper) }, `${r.surveyId}-r${r.n}-report.pdf`);
+  });
+
+  // Page 1 as data, for the tablet: the report's own lines, so the two never word a recommendation differently.
+  app.get("/v1/surveys/:id/verdict", { schema: contracts.surveyVerdict }, async (request) => {
+    const { id } = parseOr400(idParams, request.params);
+    const q = parseOr400(verdictQuery, request.query);
+    const r = await revisionOf(store, request.actor.orgId, id, q.revision === undefined ? undefined : Number(q.revision));
+    return { surveyId: r.surveyId, revision: r.n, ...verdictOf(r.result), caution: VERDICT_CAUTION };
   });
 
   app.post("/v1/sizing/report", { schema: sizingContracts.sizingReport }, async (request, reply) => {

@@ -129,6 +129,22 @@ export const surveySummarySchema = z.object({
 
 export const surveyPageSchema = z.object({ items: z.array(surveySummarySchema), nextCursor: z.string().nullable() });
 
+/** Page 1 of a stored survey's report as data: the same lines, from the same code (src/report/sections/verdict.ts). */
+export const verdictSchema = z.object({
+  surveyId: z.string(),
+  revision: z.number().int(),
+  install: z.array(z.string()).describe("what to install, one line per place; empty when nothing is to be bought"),
+  instead: z.string().nullable().describe("the line when nothing is installed"),
+  repairFirst: z.array(z.string()).describe("what to repair before anything new is bought"),
+  after: z.string().describe("the PF and kVA after, from before"),
+  money: z
+    .object({ cost: z.string().nullable(), savingPerYear: z.string().nullable(), payback: z.string().nullable() })
+    .nullable()
+    .describe("formatted in the building's currency; null without a tariff"),
+  risks: z.array(z.string()).describe("the one or two risks that matter, most serious first"),
+  caution: z.string().describe("the safety line page 1 carries"),
+});
+
 export const trendSchema = z.object({
   buildingId: z.string(),
   order: z.literal("oldest_first"),

@@ -120,6 +120,10 @@ function risksOf(result: SizingResult): string[] {
 const ordinal = (n: number) =>
   `${n}${n % 10 === 1 && n % 100 !== 11 ? "st" : n % 10 === 2 && n % 100 !== 12 ? "nd" : n % 10 === 3 && n % 100 !== 13 ? "rd" : "th"}`;
 
+/** The safety line page 1 carries under the verdict. */
+export const VERDICT_CAUTION =
+  "Capacitors hold a lethal charge after they are switched off: lock out, tag out and wait the discharge time before touching them. This recommendation defers to local codes and to a licensed engineer's review.";
+
 export function verdictSection(input: ReportInput): Section {
   const v = verdictOf(input.result);
   const items: { key: string; value: string }[] = [];
@@ -134,10 +138,6 @@ export function verdictSection(input: ReportInput): Section {
   } else items.push({ key: "Cost and saving", value: "no tariff or costs were given for this building" });
   const blocks: Block[] = [{ kind: "keyValues", items }];
   if (v.risks.length > 0) blocks.push({ kind: "subheading", text: "Risks that matter" }, { kind: "list", items: v.risks });
-  blocks.push({
-    kind: "paragraph",
-    tone: "note",
-    text: "Capacitors hold a lethal charge after they are switched off: lock out, tag out and wait the discharge time before touching them. This recommendation defers to local codes and to a licensed engineer's review.",
-  });
+  blocks.push({ kind: "paragraph", tone: "note", text: VERDICT_CAUTION });
   return { id: "verdict", heading: "Recommendation", blocks };
 }
