@@ -191,6 +191,9 @@ export function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 
     if (gh < 0) a = h;
     else b = h;
     const newton = h - gh / dg;
+    // Newton's step below the search's resolution: converged. (Its step can round onto h, an end of the bracket:
+    // a bisection from there would only walk some 40 halvings back to h.)
+    if (dg > 0 && Math.abs(newton - h) <= REFINE_REL * h) return newton;
     const next = dg > 0 && newton > a && newton < b ? newton : (a + b) / 2;
     if (Math.abs(next - h) <= REFINE_REL * h || b - a <= REFINE_REL * b) return next;
     h = next;
