@@ -1,7 +1,7 @@
 /** Study of one bank, stage by stage (steps switched in cumulatively, in order), and its findings. */
 import { capacitorBranch, capacitorKvarAtSystem, effectiveKvar } from "./branch.js";
 import { busDistortion, type BusDistortion } from "./distortion.js";
-import { capacitorDuty, type CapacitorDutyCheck, type DutyQuantity } from "./duty.js";
+import { capacitorDutyOnBus, type CapacitorDutyCheck, type DutyQuantity } from "./duty.js";
 import type { InjectedCurrents } from "./injection.js";
 import { checkIeee519, type Ieee519Check } from "./limits.js";
 import { withBranches, type BusModel, type NetworkInput } from "./network.js";
@@ -126,21 +126,23 @@ export function studyBank(ctx: StudyContext, bank: CapacitorBankInput): BankStud
   const ratedFrequencyHz = bank.ratedFrequencyHz ?? frequencyHz;
   const stages: StageStudy[] = [];
   let nameplateKvar = 0;
-  bank.steps.forEach((step, i) => {
-    nameplateKvar += step.kvar;
+  for (let i = 0; i < bank.steps.length; i++) {
+    nameplateKvar += bank.steps[i]!.kvar;
     const qc = capacitorKvarAtSystem(nameplateKvar, bank.ratedVoltageV, ratedFrequencyHz, voltageV, frequencyHz);
     // Steps of one bank share p and voltage, so their parallel combination is one branch of ΣQ.
     const branch = capacitorBranch(voltageV, qc, bank.reactorPct, ctx.reactorQualityFactor);
     const bus = studyBus(ctx, withBranches(ctx.model, [branch]));
-    const duty = capacitorDuty({
-      voltageV,
-      frequencyHz,
-      phases: ctx.model.phases,
-      rating: { ratedVoltageV: bank.ratedVoltageV, ratedKvar: nameplateKvar, ratedFrequencyHz },
-      reactorPct: bank.reactorPct,
-      reactorQualityFactor: ctx.reactorQualityFactor,
-      busHarmonics: bus.distortion.lines.map((l) => ({ order: l.order, pct: l.voltagePct })),
-    });
+    const duty = capacitorDutyOnBus(
+      {
+        voltageV,
+        frequencyHz,
+        phases: ctx.model.phases,
+        rating: { ratedVoltageV: bank.ratedVoltageV, ratedKvar: nameplateKvar, ratedFrequencyHz },
+        reactorPct: bank.reactorPct,
+        reactorQualityFactor: ctx.reactorQualityFactor,
+      },
+      bus.distortion.lines,
+    );
     stages.push({
       ...bus,
       stageNumber: i + 1,
@@ -151,7 +153,7 @@ export function studyBank(ctx: StudyContext, bank: CapacitorBankInput): BankStud
       estimatedResonanceOrder: parallelResonanceOrder(qc, shortCircuitKVA, bank.reactorPct / 100),
       duty,
     });
-  });
+  }
   return { name: bank.name, ratedVoltageV: bank.ratedVoltageV, ratedFrequencyHz, reactorPct: bank.reactorPct, stages };
 }
 
