@@ -128,6 +128,8 @@ const PROBES = 16;
 function probedExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1): number {
   let prevH = lo;
   const gLo = signedSlope(model, lo, sign);
+  // |Y|² falling from the first probe on: the slope is negative at every probe, so none would find a peak
+  if (sign === 1 && admittanceFallsFrom(model, lo + (hi - lo) / (PROBES + 1))) return gLo >= 0 ? lo : hi;
   let prevG = gLo;
   for (let i = 1; i <= PROBES + 1; i++) {
     const h = i > PROBES ? hi : lo + ((hi - lo) * i) / (PROBES + 1);
@@ -137,6 +139,19 @@ function probedExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1): 
     prevG = gh;
   }
   return gLo >= 0 ? lo : hi;
+}
+
+/**
+ * Whether |Y(h)|² falls for every order from h up, shown term by term: each branch is inductive by more than its
+ * resistance (x = h·X_L − X_C/h ≥ r, so its conductance r/(r² + x²) and its susceptance's magnitude x/(r² + x²) both
+ * fall as x rises with h), and h·X_s ≥ R_s (likewise for the source); the load's conductance is constant. Every
+ * conductance falls and the susceptances, all of one sign, fall in magnitude together, so G² + B² falls. Plain
+ * algebra; a plain branch (x < 0) or an order below R_s/X_s gives false.
+ */
+function admittanceFallsFrom(model: BusModel, h: number): boolean {
+  if (!(h * model.source.reactanceOhm >= model.source.resistanceOhm)) return false;
+  for (const br of model.branches) if (!(h * br.reactorReactanceOhm - br.capacitorReactanceOhm / h >= br.reactorResistanceOhm)) return false;
+  return true;
 }
 
 /** sign·d|Y|²/dh: rises through 0 at the sought extremum (a module function, not a closure: the search's inner loop). */
