@@ -55,7 +55,8 @@ export interface CapacitorDutyCheck {
 }
 
 function quantity(valuePct: number, limitPct: number): DutyQuantity {
-  return { ...limitCheck(valuePct, limitPct), aboveRating: valuePct > 100 };
+  const c = limitCheck(valuePct, limitPct);
+  return { valuePct: c.valuePct, limitPct: c.limitPct, marginPct: c.marginPct, pass: c.pass, aboveRating: valuePct > 100 };
 }
 
 /** The bus side of a duty check: everything but the harmonic voltages. */

@@ -241,7 +241,7 @@ function tuningGroups(model: BusModel): number[] {
     const h = Math.sqrt(br.capacitorReactanceOhm / br.reactorReactanceOhm);
     if (Number.isFinite(h)) orders.push(h);
   }
-  orders.sort((a, b) => a - b);
+  if (orders.length > 1) orders.sort((a, b) => a - b);
   const groups: number[] = [];
   for (const h of orders) {
     const n = groups.length;
@@ -263,6 +263,9 @@ function losslessResonances(model: BusModel, groups: readonly number[], toOrder:
       live.push({ capacitorKvar: 1 / b.capacitorReactanceOhm, reactorFraction: b.reactorReactanceOhm / b.capacitorReactanceOhm });
   }
   const all = parallelResonanceOrders(live, 1 / model.source.reactanceOhm, toOrder);
+  let grouped = false;
+  for (let g = 0; g < groups.length; g += 2) grouped ||= groups[g + 1]! > groups[g]!;
+  if (!grouped) return all;
   const out: number[] = [];
   for (const r of all) {
     let inside = false;

@@ -94,7 +94,7 @@ export function injectedCurrents(
   const uses: SourceSpectrumUse[] = [];
   for (const s of sources) {
     const { lines, basis } = sourceSpectrum(s);
-    const thd = thdPct(lines.map((l) => l.pct));
+    const thd = lines === TYPICAL ? TYPICAL_SIX_PULSE_THD_PCT : thdPct(lines.map((l) => l.pct));
     const kVABasis = s.kVABasis ?? "fundamental";
     const totalA = fundamentalCurrentA(s.kVA, s.phases, voltageV, systemPhases);
     // I_rms² = I_1²·(1 + THD²) (the rms of a sum of orthogonal sinusoids): the fundamental of an rms reading.

@@ -143,16 +143,23 @@ export function studyBank(ctx: StudyContext, bank: CapacitorBankInput): BankStud
       },
       bus.distortion.lines,
     );
-    stages.push({
-      ...bus,
-      stageNumber: i + 1,
-      nameplateKvar,
-      capacitorKvarAtSystem: qc,
-      effectiveKvar: effectiveKvar(qc, bank.reactorPct),
-      tuningOrder: bank.reactorPct > 0 ? tuningOrder(bank.reactorPct / 100) : null,
-      estimatedResonanceOrder: parallelResonanceOrder(qc, shortCircuitKVA, bank.reactorPct / 100),
-      duty,
-    });
+    // the bus study's fields, then the stage's own, written out rather than spread (every stage passes here)
+    const stage = {
+      peaks: bus.peaks,
+      dips: bus.dips,
+      distortion: bus.distortion,
+      ieee519: bus.ieee519,
+      resonanceWithin10PctOf: bus.resonanceWithin10PctOf,
+    } as StageStudy;
+    if (bus.series !== undefined) stage.series = bus.series;
+    stage.stageNumber = i + 1;
+    stage.nameplateKvar = nameplateKvar;
+    stage.capacitorKvarAtSystem = qc;
+    stage.effectiveKvar = effectiveKvar(qc, bank.reactorPct);
+    stage.tuningOrder = bank.reactorPct > 0 ? tuningOrder(bank.reactorPct / 100) : null;
+    stage.estimatedResonanceOrder = parallelResonanceOrder(qc, shortCircuitKVA, bank.reactorPct / 100);
+    stage.duty = duty;
+    stages.push(stage);
   }
   return { name: bank.name, ratedVoltageV: bank.ratedVoltageV, ratedFrequencyHz, reactorPct: bank.reactorPct, stages };
 }
