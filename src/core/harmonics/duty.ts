@@ -125,8 +125,10 @@ function dutyAt(input: CapacitorDutyBasis, count: number): CapacitorDutyCheck {
   for (let i = 0; i < count; i++) {
     const h = scratchOrders[i]!;
     const busPhaseV = (scratchPcts[i]! / 100) * busBranchV;
-    // |Z_cap(h)| = |R_r + j·(h·X_L − X_C/h)| (branchImpedance), without a complex value per order
-    const currentA = busPhaseV / Math.hypot(rr, h * xl - xc / h);
+    // |Z_cap(h)| = |R_r + j·(h·X_L − X_C/h)| (branchImpedance), without a complex value per order; √(r² + x²) rather
+    // than Math.hypot, several times slower: ohms of a capacitor branch are far from overflow or underflow
+    const x = h * xl - xc / h;
+    const currentA = busPhaseV / Math.sqrt(rr * rr + x * x);
     const voltagePhaseV = (currentA * xc) / h;
     orders.push({ order: h, voltagePhaseV, currentA });
     sumV2 += voltagePhaseV ** 2;
