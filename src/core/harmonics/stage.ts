@@ -88,18 +88,27 @@ export interface Finding {
 }
 
 /** The scan range of each options object, resolved once: every stage of a study shares it. */
-const rangeOf = new WeakMap<ScanOptions, { fromOrder: number; toOrder: number }>();
+/**
+ * The scan range last resolved, by the options' values: every stage of every study shares one (sizing asks for the
+ * same figures grid each time), and resolving validates and copies the options.
+ */
+let lastRange = { from: NaN as number | undefined, to: NaN as number | undefined, step: NaN as number | undefined, fromOrder: 0, toOrder: 0 };
 
 /** The peaks and dips scanImpedance would report for these options (extremaInScanRange), the range resolved once. */
 function extremaInRange(model: BusModel, options: ScanOptions): { peaks: ResonancePeak[]; dips: ImpedanceDip[] } {
-  let range = rangeOf.get(options);
-  if (!range) {
+  const r = lastRange;
+  if (!(r.from === options.fromOrder && r.to === options.toOrder && r.step === options.stepOrder)) {
     const grid = resolveScanGrid(options);
     // the last grid point, as scanImpedance's own range ends there
-    range = { fromOrder: grid.fromOrder, toOrder: grid.fromOrder + (grid.points - 1) * grid.stepOrder };
-    rangeOf.set(options, range);
+    lastRange = {
+      from: options.fromOrder,
+      to: options.toOrder,
+      step: options.stepOrder,
+      fromOrder: grid.fromOrder,
+      toOrder: grid.fromOrder + (grid.points - 1) * grid.stepOrder,
+    };
   }
-  return impedanceExtrema(model, range.fromOrder, range.toOrder);
+  return impedanceExtrema(model, lastRange.fromOrder, lastRange.toOrder);
 }
 
 export function studyBus(ctx: StudyContext, model: BusModel): BusStudy {
