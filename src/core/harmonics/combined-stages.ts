@@ -12,6 +12,14 @@ export interface Branch {
 }
 
 /**
+ * Tuning orders closer than this, relative, count as one: under any damping the model can have, two series
+ * resonances that near make one dip (its sharpest feature is some 1e-4 wide in h/h_r: extrema.ts), and the lossless
+ * parallel resonance squeezed between them is no real one. Equal reactor percentages on capacitors of different
+ * kvar give tuning orders a rounding apart, so "equal" needs a tolerance. Own bound, no source.
+ */
+export const SAME_TUNING_REL = 2.5e-5;
+
+/**
  * Parallel resonance orders of the source with capacitor branches on one bus, lossless: the orders where the
  * branches' capacitive susceptance equals the source's inductive one, Σ Q_i·h/(1 − p_i·h²) = S_sc/h
  * (each branch X(h) = p·X_C·h − X_C/h with X_C = V²/Q_C; source X_s·h with X_s = V²/S_sc). f(h) = LHS − RHS rises
@@ -25,10 +33,16 @@ export function parallelResonanceOrders(branches: readonly Branch[], shortCircui
     const b = branches[0]!;
     return b.capacitorKvar > 0 ? singleReactorResonance(b.reactorFraction, b.capacitorKvar, shortCircuitKVA, maxOrder) : [];
   }
-  // Branches with the same p add (Q_i·h/(1 − p·h²) is linear in Q_i): one term per reactor value.
+  // Branches with the same p add (Q_i·h/(1 − p·h²) is linear in Q_i): one term per reactor value, tuning orders
+  // within SAME_TUNING_REL of each other being one value.
   const byP = new Map<number, number>();
   for (const b of branches) if (b.capacitorKvar > 0) byP.set(b.reactorFraction, (byP.get(b.reactorFraction) ?? 0) + b.capacitorKvar);
-  const live = [...byP.entries()].map(([reactorFraction, capacitorKvar]) => ({ reactorFraction, capacitorKvar }));
+  const live: Branch[] = [];
+  for (const [reactorFraction, capacitorKvar] of byP) {
+    const same = reactorFraction > 0 ? live.find((b) => b.reactorFraction > 0 && sameTuning(b.reactorFraction, reactorFraction)) : undefined;
+    if (same) same.capacitorKvar += capacitorKvar;
+    else live.push({ reactorFraction, capacitorKvar });
+  }
   if (live.length === 0) return [];
   if (live.length === 1) return singleReactorResonance(live[0]!.reactorFraction, live[0]!.capacitorKvar, shortCircuitKVA, maxOrder);
   const f = (h: number) => live.reduce((s, b) => s + (b.capacitorKvar * h) / (1 - b.reactorFraction * h * h), 0) - shortCircuitKVA / h;
@@ -42,7 +56,8 @@ export function parallelResonanceOrders(branches: readonly Branch[], shortCircui
     // bisection inside the open interval; f is monotonic there
     let lo = lo0 + (hi0 - lo0) * 1e-12 + 1e-12;
     let hi = hi0 - (hi0 - lo0) * 1e-12;
-    if (!(f(lo) < 0 && f(hi) > 0)) continue;
+    // an interval too narrow to hold a bracket would give a "root" outside it
+    if (!(lo < hi && f(lo) < 0 && f(hi) > 0)) continue;
     for (let k = 0; k < 64 && hi - lo > 1e-12; k++) {
       const mid = (lo + hi) / 2;
       if (f(mid) < 0) lo = mid;
@@ -52,6 +67,11 @@ export function parallelResonanceOrders(branches: readonly Branch[], shortCircui
     if (h <= maxOrder) roots.push(h);
   }
   return roots;
+}
+
+/** Whether reactor fractions p₁, p₂ > 0 tune within SAME_TUNING_REL of each other (h = 1/√p). */
+function sameTuning(p1: number, p2: number): boolean {
+  return Math.sqrt(Math.max(p1, p2) / Math.min(p1, p2)) - 1 <= SAME_TUNING_REL;
 }
 
 /** One reactor value: the closed form h = √(S_sc/(Q + p·S_sc)), the only root (below 1/√p when p > 0). */

@@ -8,7 +8,7 @@
 import { capacitorBranch, capacitorKvarAtSystem } from "./branch.js";
 import { forEachCombination, MAX_COMBINATIONS, type SwitchUnit } from "./combined-stages.js";
 import { busDistortion } from "./distortion.js";
-import { capacitorDuty, type CapacitorDutyCheck } from "./duty.js";
+import { capacitorDutyOnBus, type CapacitorDutyCheck } from "./duty.js";
 import { checkIeee519, type Ieee519Check } from "./limits.js";
 import { withBranches } from "./network.js";
 import type { StudyContext } from "./stage.js";
@@ -150,20 +150,21 @@ export function studyCombinedStages(ctx: StudyContext, installed: readonly Rated
     );
     const distortion = busDistortion(withBranches(ctx.model, branches), ctx.currents, ctx.background);
     const check = checkIeee519(distortion, voltageV);
-    const busHarmonics = distortion.lines.map((l) => ({ order: l.order, pct: l.voltagePct }));
     const duty = energised.map((e) =>
       dutyOf(
         e.bank,
         e.nameplateKvar,
-        capacitorDuty({
-          voltageV,
-          frequencyHz,
-          phases: ctx.model.phases,
-          rating: { ratedVoltageV: e.ratedVoltageV, ratedKvar: e.nameplateKvar, ratedFrequencyHz: e.ratedFrequencyHz },
-          reactorPct: e.reactorPct,
-          reactorQualityFactor: ctx.reactorQualityFactor,
-          busHarmonics,
-        }),
+        capacitorDutyOnBus(
+          {
+            voltageV,
+            frequencyHz,
+            phases: ctx.model.phases,
+            rating: { ratedVoltageV: e.ratedVoltageV, ratedKvar: e.nameplateKvar, ratedFrequencyHz: e.ratedFrequencyHz },
+            reactorPct: e.reactorPct,
+            reactorQualityFactor: ctx.reactorQualityFactor,
+          },
+          distortion.lines,
+        ),
       ),
     );
     const stage: CombinedStageStudy = {

@@ -7,9 +7,11 @@
  * reactors' R, the load resistance) moves and flattens these extrema but leaves that order in place: so each peak
  * is sought between two neighbouring tuning orders, each dip between the two lossless resonances around its tuning
  * order, by a safeguarded Newton search on the slope of the exact |Y(h)|² (refineExtremum), and kept only if it is a
- * true interior extremum of the range.
+ * true interior extremum of the range. Tuning orders within SAME_TUNING_REL of each other are one (equal reactor
+ * percentages on capacitors of different kvar tune a rounding apart): one dip, searched between the resonances
+ * around the group, and no peak inside it.
  */
-import { parallelResonanceOrders } from "./combined-stages.js";
+import { parallelResonanceOrders, SAME_TUNING_REL, type Branch } from "./combined-stages.js";
 import { drivingPointImpedanceOhm, sourceImpedanceOhmAt, type BusModel } from "./network.js";
 
 /** A parallel resonance: a local maximum of |Z(h)|. */
@@ -123,17 +125,39 @@ const PROBES = 16;
  * probed at PROBES interior points; a sign change there is refined like any other, otherwise the extremum lies at an
  * end (no interior extremum: the caller drops it).
  */
-function probedExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1, g: (h: number) => number): number {
+function probedExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1): number {
   let prevH = lo;
-  let prevG = g(lo);
+  const gLo = signedSlope(model, lo, sign);
+  // |Y|² falling from the first probe on: the slope is negative at every probe, so none would find a peak
+  if (sign === 1 && admittanceFallsFrom(model, lo + (hi - lo) / (PROBES + 1))) return gLo >= 0 ? lo : hi;
+  let prevG = gLo;
   for (let i = 1; i <= PROBES + 1; i++) {
     const h = i > PROBES ? hi : lo + ((hi - lo) * i) / (PROBES + 1);
-    const gh = g(h);
+    const gh = signedSlope(model, h, sign);
     if (prevG < 0 && gh > 0) return refineExtremum(model, prevH, h, sign, (prevH + h) / 2);
     prevH = h;
     prevG = gh;
   }
-  return g(lo) >= 0 ? lo : hi;
+  return gLo >= 0 ? lo : hi;
+}
+
+/**
+ * Whether |Y(h)|² falls for every order from h up, shown term by term: each branch is inductive by more than its
+ * resistance (x = h·X_L − X_C/h ≥ r, so its conductance r/(r² + x²) and its susceptance's magnitude x/(r² + x²) both
+ * fall as x rises with h), and h·X_s ≥ R_s (likewise for the source); the load's conductance is constant. Every
+ * conductance falls and the susceptances, all of one sign, fall in magnitude together, so G² + B² falls. Plain
+ * algebra; a plain branch (x < 0) or an order below R_s/X_s gives false.
+ */
+function admittanceFallsFrom(model: BusModel, h: number): boolean {
+  if (!(h * model.source.reactanceOhm >= model.source.resistanceOhm)) return false;
+  for (const br of model.branches) if (!(h * br.reactorReactanceOhm - br.capacitorReactanceOhm / h >= br.reactorResistanceOhm)) return false;
+  return true;
+}
+
+/** sign·d|Y|²/dh: rises through 0 at the sought extremum (a module function, not a closure: the search's inner loop). */
+function signedSlope(model: BusModel, h: number, sign: 1 | -1): number {
+  admittanceSlopes(model, h, slopes);
+  return sign * slopes[0]!;
 }
 
 /** Relative width in h at which the search stops: far below any figure the study reports. */
@@ -147,18 +171,13 @@ const REFINE_REL = 1e-14;
  * sign over the range, the extremum is at an end of it (the caller then finds no interior extremum there).
  */
 export function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 | -1, start?: number): number {
-  // g = sign·d|Y|²/dh rises through 0 at the sought extremum
-  const g = (h: number): number => {
-    admittanceSlopes(model, h, slopes);
-    return sign * slopes[0]!;
-  };
   let a = lo;
   let b = hi;
   // An end next to a tuning order or a resonance can sit just past the neighbouring extremum of the other kind,
   // so its slope has the wrong sign: then the start (near the sought extremum) is one end of the bracket.
-  if (!(g(a) < 0 && g(b) > 0)) {
-    if (start === undefined || !(start > lo && start < hi)) return probedExtremum(model, lo, hi, sign, g);
-    const gs = g(start);
+  if (!(signedSlope(model, a, sign) < 0 && signedSlope(model, b, sign) > 0)) {
+    if (start === undefined || !(start > lo && start < hi)) return probedExtremum(model, lo, hi, sign);
+    const gs = signedSlope(model, start, sign);
     if (gs === 0) return start;
     if (Number.isNaN(gs)) return goldenExtremum(model, lo, hi, sign);
     let found = false;
@@ -168,11 +187,11 @@ export function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 
       if (gs < 0) {
         a = start;
         b = start + (hi - start) * reach;
-        found = g(b) > 0;
+        found = signedSlope(model, b, sign) > 0;
       } else {
         a = start - (start - lo) * reach;
         b = start;
-        found = g(a) < 0;
+        found = signedSlope(model, a, sign) < 0;
       }
     }
     if (!found) return goldenExtremum(model, lo, hi, sign);
@@ -187,6 +206,9 @@ export function refineExtremum(model: BusModel, lo: number, hi: number, sign: 1 
     if (gh < 0) a = h;
     else b = h;
     const newton = h - gh / dg;
+    // Newton's step below the search's resolution: converged. (Its step can round onto h, an end of the bracket:
+    // a bisection from there would only walk some 40 halvings back to h.)
+    if (dg > 0 && Math.abs(newton - h) <= REFINE_REL * h) return newton;
     const next = dg > 0 && newton > a && newton < b ? newton : (a + b) / 2;
     if (Math.abs(next - h) <= REFINE_REL * h || b - a <= REFINE_REL * b) return next;
     h = next;
@@ -208,44 +230,113 @@ function isExtremum(model: BusModel, h: number, sign: 1 | -1, fromOrder: number,
   return z > sign * drivingPointImpedanceOhm(model, lo) && z > sign * drivingPointImpedanceOhm(model, hi);
 }
 
-/** The distinct tuning orders 1/√p of the model's detuned branches, ascending. */
-function tuningOrders(model: BusModel): number[] {
-  const out: number[] = [];
+/**
+ * The detuned branches' tuning orders 1/√p, ascending, those within SAME_TUNING_REL of the group's lowest as one
+ * group: a flat list of [lowest, highest] pairs.
+ */
+function tuningGroups(model: BusModel): number[] {
+  const orders: number[] = [];
   for (const br of model.branches) {
     if (!(br.reactorReactanceOhm > 0) || !(br.capacitorReactanceOhm > 0)) continue;
     const h = Math.sqrt(br.capacitorReactanceOhm / br.reactorReactanceOhm);
-    if (Number.isFinite(h) && !out.includes(h)) out.push(h);
+    if (Number.isFinite(h)) orders.push(h);
   }
-  return out.sort((a, b) => a - b);
+  if (orders.length > 1) orders.sort((a, b) => a - b);
+  const groups: number[] = [];
+  for (const h of orders) {
+    const n = groups.length;
+    if (n > 0 && h <= groups[n - 2]! * (1 + SAME_TUNING_REL)) groups[n - 1] = h;
+    else groups.push(h, h);
+  }
+  return groups;
+}
+
+/**
+ * The lossless parallel resonances of the bus, without any that falls inside a group of tuning orders: between two
+ * poles a rounding apart the closed form's root means nothing (and its bisection may land outside the pair).
+ */
+function losslessResonances(model: BusModel, groups: readonly number[], toOrder: number): number[] {
+  const live: Branch[] = [];
+  for (const b of model.branches) {
+    // 1/X in place of kvar and short-circuit kVA: the same equation scaled by V², so the same roots.
+    if (b.capacitorReactanceOhm > 0 && Number.isFinite(b.capacitorReactanceOhm))
+      live.push({ capacitorKvar: 1 / b.capacitorReactanceOhm, reactorFraction: b.reactorReactanceOhm / b.capacitorReactanceOhm });
+  }
+  const all = parallelResonanceOrders(live, 1 / model.source.reactanceOhm, toOrder);
+  let grouped = false;
+  for (let g = 0; g < groups.length; g += 2) grouped ||= groups[g + 1]! > groups[g]!;
+  if (!grouped) return all;
+  const out: number[] = [];
+  for (const r of all) {
+    let inside = false;
+    for (let g = 0; g < groups.length && !inside; g += 2) {
+      const lo = groups[g]!;
+      const hi = groups[g + 1]!;
+      inside = hi > lo && r >= lo * (1 - SAME_TUNING_REL) && r <= hi * (1 + SAME_TUNING_REL);
+    }
+    if (!inside) out.push(r);
+  }
+  return out;
+}
+
+/**
+ * Two extrema of a kind closer than CHECK_REL are one: searches from neighbouring tuning orders a little more than
+ * SAME_TUNING_REL apart can both end at (or beside) the one dip damping leaves there, and isExtremum's neighbours lie
+ * beyond both. The more extreme is kept.
+ */
+function oneExtremum(h1: number, h2: number): boolean {
+  return Math.abs(h2 - h1) <= CHECK_REL * Math.max(h1, h2);
+}
+
+/** The first resonance strictly inside (lo, hi), if any. */
+function resonanceWithin(resonances: readonly number[], lo: number, hi: number): number | undefined {
+  for (const r of resonances) if (r > lo && r < hi) return r;
+  return undefined;
+}
+
+/**
+ * The extremum of |Z(h)| (sign 1: a peak, −1: a dip) searched in (lo, hi) ∩ (fromOrder, toOrder) from `start`, or
+ * null when that search ends at an end of the range (no interior extremum there) or fails the extremum check.
+ */
+function extremumIn(
+  model: BusModel,
+  lo: number,
+  hi: number,
+  sign: 1 | -1,
+  start: number | undefined,
+  fromOrder: number,
+  toOrder: number,
+): number | null {
+  const a = Math.max(lo, fromOrder);
+  const b = Math.min(hi, toOrder);
+  if (!(b > a)) return null;
+  const h = refineExtremum(model, a, b, sign, start);
+  if (h === a || h === b) return null;
+  return isExtremum(model, h, sign, fromOrder, toOrder) ? h : null;
 }
 
 /** Peaks and dips of |Z(h)| strictly inside (fromOrder, toOrder), ascending by order. */
 export function impedanceExtrema(model: BusModel, fromOrder: number, toOrder: number): { peaks: ResonancePeak[]; dips: ImpedanceDip[] } {
   const peaks: ResonancePeak[] = [];
   const dips: ImpedanceDip[] = [];
-  const live = model.branches.filter((b) => b.capacitorReactanceOhm > 0 && Number.isFinite(b.capacitorReactanceOhm));
-  if (live.length === 0) return { peaks, dips };
-  const tunings = tuningOrders(model);
-  // 1/X in place of kvar and short-circuit kVA: the same equation scaled by V², so the same roots.
-  const resonances = parallelResonanceOrders(
-    live.map((b) => ({ capacitorKvar: 1 / b.capacitorReactanceOhm, reactorFraction: b.reactorReactanceOhm / b.capacitorReactanceOhm })),
-    1 / model.source.reactanceOhm,
-    toOrder,
-  );
-  const clip = (lo: number, hi: number): [number, number] | null => {
-    const a = Math.max(lo, fromOrder);
-    const b = Math.min(hi, toOrder);
-    return b > a ? [a, b] : null;
-  };
-  const edges = [0, ...tunings, Number.POSITIVE_INFINITY];
-  for (let i = 0; i + 1 < edges.length; i++) {
-    const range = clip(edges[i]!, edges[i + 1]!);
-    if (!range) continue;
+  let live = false;
+  for (const b of model.branches) live ||= b.capacitorReactanceOhm > 0 && Number.isFinite(b.capacitorReactanceOhm);
+  if (!live) return { peaks, dips };
+  const groups = tuningGroups(model);
+  const resonances = losslessResonances(model, groups, toOrder);
+  // a peak between each two neighbouring groups of tuning orders (and below the first, above the last), none inside one
+  for (let g = 0; g <= groups.length; g += 2) {
+    const lo = g === 0 ? 0 : groups[g - 1]!;
+    const hi = g === groups.length ? Number.POSITIVE_INFINITY : groups[g]!;
     // the lossless resonance in this interval, where there is one, is where the search starts
-    const guess = resonances.find((r) => r > edges[i]! && r < edges[i + 1]!);
-    const h = refineExtremum(model, range[0], range[1], 1, guess);
-    if (!isExtremum(model, h, 1, fromOrder, toOrder)) continue;
+    const h = extremumIn(model, lo, hi, 1, resonanceWithin(resonances, lo, hi), fromOrder, toOrder);
+    if (h === null) continue;
     const z = drivingPointImpedanceOhm(model, h);
+    const prev = peaks[peaks.length - 1];
+    if (prev && oneExtremum(prev.order, h)) {
+      if (prev.impedanceOhm >= z) continue;
+      peaks.pop();
+    }
     peaks.push({
       order: h,
       impedanceOhm: z,
@@ -253,13 +344,25 @@ export function impedanceExtrema(model: BusModel, fromOrder: number, toOrder: nu
       timesBaseImpedance: z / model.source.baseImpedanceOhm,
     });
   }
-  for (const ht of tunings) {
-    const below = resonances.filter((r) => r < ht).pop() ?? 0;
-    const above = resonances.find((r) => r > ht) ?? Number.POSITIVE_INFINITY;
-    const range = clip(below, above);
-    if (!range) continue;
-    const h = refineExtremum(model, range[0], range[1], -1, ht);
-    if (isExtremum(model, h, -1, fromOrder, toOrder)) dips.push({ order: h, impedanceOhm: drivingPointImpedanceOhm(model, h) });
+  // a dip at each group, between the lossless resonances around it
+  for (let g = 0; g < groups.length; g += 2) {
+    const first = groups[g]!;
+    const last = groups[g + 1]!;
+    let below = 0;
+    let above = Number.POSITIVE_INFINITY;
+    for (const r of resonances) {
+      if (r < first) below = r;
+      else if (r > last && above === Number.POSITIVE_INFINITY) above = r;
+    }
+    const h = extremumIn(model, below, above, -1, first === last ? first : (first + last) / 2, fromOrder, toOrder);
+    if (h === null) continue;
+    const z = drivingPointImpedanceOhm(model, h);
+    const prev = dips[dips.length - 1];
+    if (prev && oneExtremum(prev.order, h)) {
+      if (prev.impedanceOhm <= z) continue;
+      dips.pop();
+    }
+    dips.push({ order: h, impedanceOhm: z });
   }
   return { peaks, dips };
 }

@@ -41,7 +41,7 @@ export type CombinationMethod = "arithmetic" | "rss";
 
 export interface InjectedCurrents {
   /** Index = harmonic order (0 and 1 unused), value = current in A. */
-  byOrderA: Float64Array;
+  byOrderA: ArrayLike<number>;
   /** Σ of the sources' fundamental currents, A. */
   fundamentalA: number;
   /** Orders with a non-zero current, ascending. */
@@ -89,12 +89,14 @@ export function injectedCurrents(
   method: CombinationMethod = "arithmetic",
   systemPhases: Phases = 3,
 ): InjectedCurrents {
-  const acc = new Float64Array(MAX_HARMONIC_ORDER + 1);
+  // a plain array: a typed one this size lives outside the heap and is slow to make
+  const acc: number[] = [];
+  for (let h = 0; h <= MAX_HARMONIC_ORDER; h++) acc.push(0);
   let fundamentalA = 0;
   const uses: SourceSpectrumUse[] = [];
   for (const s of sources) {
     const { lines, basis } = sourceSpectrum(s);
-    const thd = thdPct(lines.map((l) => l.pct));
+    const thd = lines === TYPICAL ? TYPICAL_SIX_PULSE_THD_PCT : thdPct(lines.map((l) => l.pct));
     const kVABasis = s.kVABasis ?? "fundamental";
     const totalA = fundamentalCurrentA(s.kVA, s.phases, voltageV, systemPhases);
     // I_rms² = I_1²·(1 + THD²) (the rms of a sum of orthogonal sinusoids): the fundamental of an rms reading.
@@ -102,7 +104,9 @@ export function injectedCurrents(
     fundamentalA += i1;
     for (const line of lines) {
       const ih = (line.pct / 100) * i1;
-      acc[line.order] = acc[line.order]! + (method === "rss" ? ih * ih : ih);
+      // orders are validated to 2…50; any other is dropped, as a typed array would drop it
+      if (Number.isInteger(line.order) && line.order >= 0 && line.order <= MAX_HARMONIC_ORDER)
+        acc[line.order] = acc[line.order]! + (method === "rss" ? ih * ih : ih);
     }
     if (basis !== null) {
       const current =

@@ -29,6 +29,13 @@ export function checkIeee519(distortion: BusDistortion, voltageV: number): Ieee5
   const limits = ieee519VoltageLimits(voltageV);
   const thd = limitCheck(distortion.thdVPct, limits.thdPct);
   const worst = distortion.worstIndividual;
-  const individual = { ...limitCheck(worst?.pct ?? 0, limits.individualPct), order: worst?.order ?? null };
+  const check = limitCheck(worst?.pct ?? 0, limits.individualPct);
+  const individual = {
+    valuePct: check.valuePct,
+    limitPct: check.limitPct,
+    marginPct: check.marginPct,
+    pass: check.pass,
+    order: worst?.order ?? null,
+  };
   return { limits, thd, individual, pass: thd.pass && individual.pass };
 }

@@ -97,8 +97,16 @@ export function buildBusModel(network: NetworkInput, branches: readonly Capacito
   };
 }
 
+/** The model with other branches; fields written out (every stage of a study makes one), in BusModel's order. */
 export function withBranches(model: BusModel, branches: readonly CapacitorBranch[]): BusModel {
-  return { ...model, branches: [...branches] };
+  return {
+    voltageV: model.voltageV,
+    frequencyHz: model.frequencyHz,
+    phases: model.phases,
+    source: model.source,
+    loadResistanceOhm: model.loadResistanceOhm,
+    branches: branches.slice(),
+  };
 }
 
 /** Z_s(h) = R_s + j·h·X_s. */

@@ -39,9 +39,11 @@ export function nearHarmonic(h: number, orders: readonly number[], bandPct = RES
 /** Present orders n whose band holds at least one of the resonance orders. */
 export function ordersNearResonance(resonanceOrders: readonly number[], presentOrders: readonly number[], bandPct = RESONANCE_BAND_PCT): number[] {
   const out: number[] = [];
-  for (const n of presentOrders) {
-    for (const h of resonanceOrders) {
-      if (withinResonanceBand(h, n, bandPct)) {
+  // indexed loops: every stage of a study calls this, and for-of with a break allocated its iterator's results
+  for (let i = 0; i < presentOrders.length; i++) {
+    const n = presentOrders[i]!;
+    for (let j = 0; j < resonanceOrders.length; j++) {
+      if (withinResonanceBand(resonanceOrders[j]!, n, bandPct)) {
         out.push(n);
         break;
       }

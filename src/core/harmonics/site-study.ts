@@ -301,13 +301,40 @@ export type SizingHarmonics = Omit<HarmonicStudyResult, "banks" | "proposals"> &
   proposals: (Omit<Proposal, "study"> & { study: CompactBank })[];
 };
 
+/**
+ * Written out field by field, in the stage's own key order (studyBank's), rather than by rest and spread: every stage
+ * of every bank passes here, and object rest is a slow generic copy.
+ */
 function compactStage(st: Stage): CompactStage {
-  const { orders: _orders, ...duty } = st.duty;
-  return {
-    ...st,
-    distortion: { ...st.distortion, lines: st.distortion.lines.map((l) => ({ order: l.order, voltagePct: l.voltagePct })) },
-    duty,
+  const d = st.distortion;
+  const lines: { order: number; voltagePct: number }[] = [];
+  for (let i = 0; i < d.lines.length; i++) lines.push({ order: d.lines[i]!.order, voltagePct: d.lines[i]!.voltagePct });
+  const u = st.duty;
+  const out = {
+    peaks: st.peaks,
+    dips: st.dips,
+    distortion: { lines, thdVPct: d.thdVPct, worstIndividual: d.worstIndividual },
+    ieee519: st.ieee519,
+    resonanceWithin10PctOf: st.resonanceWithin10PctOf,
+  } as CompactStage;
+  if (st.series !== undefined) out.series = st.series;
+  out.stageNumber = st.stageNumber;
+  out.nameplateKvar = st.nameplateKvar;
+  out.capacitorKvarAtSystem = st.capacitorKvarAtSystem;
+  out.effectiveKvar = st.effectiveKvar;
+  out.tuningOrder = st.tuningOrder;
+  out.estimatedResonanceOrder = st.estimatedResonanceOrder;
+  out.duty = {
+    ratedPhaseV: u.ratedPhaseV,
+    ratedCurrentA: u.ratedCurrentA,
+    rmsVoltage: u.rmsVoltage,
+    peakVoltage: u.peakVoltage,
+    rmsCurrent: u.rmsCurrent,
+    reactivePower: u.reactivePower,
+    pass: u.pass,
+    aboveRating: u.aboveRating,
   };
+  return out;
 }
 
 function compactBank(b: HarmonicStudyResult["banks"][number]): CompactBank {

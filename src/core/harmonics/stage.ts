@@ -1,7 +1,7 @@
 /** Study of one bank, stage by stage (steps switched in cumulatively, in order), and its findings. */
 import { capacitorBranch, capacitorKvarAtSystem, effectiveKvar } from "./branch.js";
 import { busDistortion, type BusDistortion } from "./distortion.js";
-import { capacitorDuty, type CapacitorDutyCheck, type DutyQuantity } from "./duty.js";
+import { capacitorDutyOnBus, type CapacitorDutyCheck, type DutyQuantity } from "./duty.js";
 import type { InjectedCurrents } from "./injection.js";
 import { checkIeee519, type Ieee519Check } from "./limits.js";
 import { withBranches, type BusModel, type NetworkInput } from "./network.js";
@@ -88,18 +88,27 @@ export interface Finding {
 }
 
 /** The scan range of each options object, resolved once: every stage of a study shares it. */
-const rangeOf = new WeakMap<ScanOptions, { fromOrder: number; toOrder: number }>();
+/**
+ * The scan range last resolved, by the options' values: every stage of every study shares one (sizing asks for the
+ * same figures grid each time), and resolving validates and copies the options.
+ */
+let lastRange = { from: NaN as number | undefined, to: NaN as number | undefined, step: NaN as number | undefined, fromOrder: 0, toOrder: 0 };
 
 /** The peaks and dips scanImpedance would report for these options (extremaInScanRange), the range resolved once. */
 function extremaInRange(model: BusModel, options: ScanOptions): { peaks: ResonancePeak[]; dips: ImpedanceDip[] } {
-  let range = rangeOf.get(options);
-  if (!range) {
+  const r = lastRange;
+  if (!(r.from === options.fromOrder && r.to === options.toOrder && r.step === options.stepOrder)) {
     const grid = resolveScanGrid(options);
     // the last grid point, as scanImpedance's own range ends there
-    range = { fromOrder: grid.fromOrder, toOrder: grid.fromOrder + (grid.points - 1) * grid.stepOrder };
-    rangeOf.set(options, range);
+    lastRange = {
+      from: options.fromOrder,
+      to: options.toOrder,
+      step: options.stepOrder,
+      fromOrder: grid.fromOrder,
+      toOrder: grid.fromOrder + (grid.points - 1) * grid.stepOrder,
+    };
   }
-  return impedanceExtrema(model, range.fromOrder, range.toOrder);
+  return impedanceExtrema(model, lastRange.fromOrder, lastRange.toOrder);
 }
 
 export function studyBus(ctx: StudyContext, model: BusModel): BusStudy {
@@ -126,32 +135,41 @@ export function studyBank(ctx: StudyContext, bank: CapacitorBankInput): BankStud
   const ratedFrequencyHz = bank.ratedFrequencyHz ?? frequencyHz;
   const stages: StageStudy[] = [];
   let nameplateKvar = 0;
-  bank.steps.forEach((step, i) => {
-    nameplateKvar += step.kvar;
+  for (let i = 0; i < bank.steps.length; i++) {
+    nameplateKvar += bank.steps[i]!.kvar;
     const qc = capacitorKvarAtSystem(nameplateKvar, bank.ratedVoltageV, ratedFrequencyHz, voltageV, frequencyHz);
     // Steps of one bank share p and voltage, so their parallel combination is one branch of ΣQ.
     const branch = capacitorBranch(voltageV, qc, bank.reactorPct, ctx.reactorQualityFactor);
     const bus = studyBus(ctx, withBranches(ctx.model, [branch]));
-    const duty = capacitorDuty({
-      voltageV,
-      frequencyHz,
-      phases: ctx.model.phases,
-      rating: { ratedVoltageV: bank.ratedVoltageV, ratedKvar: nameplateKvar, ratedFrequencyHz },
-      reactorPct: bank.reactorPct,
-      reactorQualityFactor: ctx.reactorQualityFactor,
-      busHarmonics: bus.distortion.lines.map((l) => ({ order: l.order, pct: l.voltagePct })),
-    });
-    stages.push({
-      ...bus,
-      stageNumber: i + 1,
-      nameplateKvar,
-      capacitorKvarAtSystem: qc,
-      effectiveKvar: effectiveKvar(qc, bank.reactorPct),
-      tuningOrder: bank.reactorPct > 0 ? tuningOrder(bank.reactorPct / 100) : null,
-      estimatedResonanceOrder: parallelResonanceOrder(qc, shortCircuitKVA, bank.reactorPct / 100),
-      duty,
-    });
-  });
+    const duty = capacitorDutyOnBus(
+      {
+        voltageV,
+        frequencyHz,
+        phases: ctx.model.phases,
+        rating: { ratedVoltageV: bank.ratedVoltageV, ratedKvar: nameplateKvar, ratedFrequencyHz },
+        reactorPct: bank.reactorPct,
+        reactorQualityFactor: ctx.reactorQualityFactor,
+      },
+      bus.distortion.lines,
+    );
+    // the bus study's fields, then the stage's own, written out rather than spread (every stage passes here)
+    const stage = {
+      peaks: bus.peaks,
+      dips: bus.dips,
+      distortion: bus.distortion,
+      ieee519: bus.ieee519,
+      resonanceWithin10PctOf: bus.resonanceWithin10PctOf,
+    } as StageStudy;
+    if (bus.series !== undefined) stage.series = bus.series;
+    stage.stageNumber = i + 1;
+    stage.nameplateKvar = nameplateKvar;
+    stage.capacitorKvarAtSystem = qc;
+    stage.effectiveKvar = effectiveKvar(qc, bank.reactorPct);
+    stage.tuningOrder = bank.reactorPct > 0 ? tuningOrder(bank.reactorPct / 100) : null;
+    stage.estimatedResonanceOrder = parallelResonanceOrder(qc, shortCircuitKVA, bank.reactorPct / 100);
+    stage.duty = duty;
+    stages.push(stage);
+  }
   return { name: bank.name, ratedVoltageV: bank.ratedVoltageV, ratedFrequencyHz, reactorPct: bank.reactorPct, stages };
 }
 

@@ -101,7 +101,9 @@ export function studyContextOf(input: HarmonicStudyInput): StudyContext {
   const model = buildBusModel(network);
   const background = input.backgroundDistortion ?? [];
   const currents = injectedCurrents(input.sources, network.voltageV, o.combination ?? "arithmetic", model.phases);
-  const presentOrders = [...new Set([...currents.orders, ...background.filter((l) => l.pct > 0).map((l) => l.order)])].sort((a, b) => a - b);
+  const present = new Set(currents.orders);
+  for (const l of background) if (l.pct > 0) present.add(l.order);
+  const presentOrders = [...present].sort((a, b) => a - b);
   return {
     network,
     model,
