@@ -226,6 +226,11 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     const d = decoder;
     if (d === null) return header(utf8Text(s, start, end));
     if (start === end) return void report.blankLines++;
+    dataRow(d, s, start, end, false);
+  };
+
+  /** A data row in s[start, end) (CR dropped); `split`: the decoder already holds its fields (scanLine). */
+  const dataRow = (d: RowDecoder, s: Uint8Array, start: number, end: number, split: boolean): void => {
     if (report.dataRows < SIZING_ROWS) charsSoFar += end - start + 1;
     if (++report.dataRows > maxRows) {
       fatal = {
@@ -236,7 +241,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
       return;
     }
     if (report.dataRows === SIZING_ROWS && options.expectedChars) reserve();
-    if (!d.decode(s, start, end, prevUtc)) return badRow(d, s);
+    if (!(split ? d.decodeFields(s, prevUtc) : d.decode(s, start, end, prevUtc))) return badRow(d, s);
     const u = d.utcMs;
     if (!d.hadOffset) withoutOffset++;
     else if (Number.isNaN(firstOffsetMs)) firstOffsetMs = d.offsetMs;
@@ -265,17 +270,38 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     carryLength += more;
   };
 
-  /** The complete lines of chunk from pos on; returns where the unfinished last line starts. */
+  /**
+   * The complete lines of chunk from pos on; returns where the unfinished last line starts. Once the header is
+   * found, a row's line end and fields are found in one scan (scanLine); a line the scan leaves (a quoted field,
+   * an overlong line) is read as any other.
+   */
   const readLines = (chunk: Uint8Array, pos: number): number => {
     const len = chunk.length;
     while (!fatal) {
-      let nl = pos;
-      while (nl < len && chunk[nl] !== 10) nl++;
-      if (nl === len) break;
+      const d = decoder;
+      if (d !== null) {
+        const nl = d.scanLine(chunk, pos, len);
+        if (nl === -1) break;
+        if (nl >= 0 && nl - pos <= MAX_LINE_CHARS) {
+          scannedLine(d, chunk, pos, nl);
+          pos = nl + 1;
+          continue;
+        }
+      }
+      const nl = chunk.indexOf(10, pos);
+      if (nl < 0) break;
       line(chunk, pos, nl);
       pos = nl + 1;
     }
     return pos;
+  };
+
+  /** line() for a line scanLine has split (not too long, the header already found). */
+  const scannedLine = (d: RowDecoder, s: Uint8Array, start: number, end: number): void => {
+    report.lines++;
+    if (end > start && s[end - 1] === 13) end--;
+    if (start === end) return void report.blankLines++;
+    dataRow(d, s, start, end, true);
   };
 
   const pushBytes = (input: Uint8Array): boolean => {
