@@ -7,6 +7,7 @@
 import { Piscina } from "piscina";
 import { problem, ProblemError } from "../http/problem.js";
 import type { HeavyEnvelope, HeavyPayload, HeavyResult, HeavyTaskName } from "./tasks.js";
+import type { IntervalSeries } from "../core/interval/series-types.js";
 
 /** Young-generation size of each worker thread's heap, MB (measured against the interval bench's peak RSS). */
 const YOUNG_GENERATION_MB = 8;
@@ -77,4 +78,10 @@ export function createHeavyWork(o: HeavyWorkOptions): HeavyWork {
       await p?.destroy();
     },
   };
+}
+
+/** A series' buffers, to move (not copy) to the worker; distinct buffers only. */
+export function seriesTransfer(series: IntervalSeries): ArrayBuffer[] {
+  const buffers = [series.timestampsMs.buffer, series.kW.buffer, series.kvar.buffer].filter((b): b is ArrayBuffer => b instanceof ArrayBuffer);
+  return [...new Set(buffers)];
 }

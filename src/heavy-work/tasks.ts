@@ -8,9 +8,7 @@ import type { SizingInput } from "../core/inputs.js";
 import type { SizingOptions, SizingOutcome } from "../core/pipeline/size.js";
 import type { InputIssue } from "../core/warnings.js";
 import type { ReportInput } from "../report/types.js";
-import type { IntervalSimulationTask, IntervalStatisticsTask } from "./interval-task.js";
-import type { IntervalAnalysis } from "../core/interval/analyse.js";
-import type { ControllerSimulation } from "../core/interval/simulate.js";
+import type { IntervalAnalysisTask, IntervalResult } from "./interval-task.js";
 
 // Each task loads its modules on first use: a thread that only analyses interval data never loads the PDF
 // renderer and its fonts, and the event loop's thread (which needs none of them when threads run the work) neither.
@@ -73,10 +71,8 @@ export const HEAVY_TASKS = {
     if (!outcome.ok) return { issues: outcome.issues };
     return renderReport({ input: { inputs: p.inputs, result: outcome.result }, format: p.format, paper: p.paper });
   },
-  /** Demand statistics of a parsed interval series (percentiles, months, load points). */
-  intervalStatistics: async (p: IntervalStatisticsTask): Promise<IntervalAnalysis> => (await interval()).intervalStatistics(p),
-  /** The controller simulation over a parsed interval series (run beside intervalStatistics, on another thread). */
-  intervalSimulation: async (p: IntervalSimulationTask): Promise<ControllerSimulation> => (await interval()).intervalSimulation(p),
+  /** Analysis of a parsed interval series: statistics, the controller simulation and the answer. */
+  intervalAnalysis: async (p: IntervalAnalysisTask): Promise<IntervalResult> => (await interval()).intervalResult(p),
 };
 
 export type HeavyTaskName = keyof typeof HEAVY_TASKS;

@@ -1,5 +1,5 @@
 import { afterEach, describe, expect, it } from "vitest";
-import { createHeavyWork, workerEntry, type HeavyWork } from "../../src/heavy-work/pool.js";
+import { createHeavyWork, seriesTransfer, workerEntry, type HeavyWork } from "../../src/heavy-work/pool.js";
 import { ProblemError } from "../../src/http/problem.js";
 
 // Invented site: 480 V, one 200 kW motor at PF 0.75 on a 1000 kVA 5.75 % transformer.
@@ -47,5 +47,12 @@ describe("the heavy-work pool", () => {
       expect(e.problem).toMatchObject({ status: 503, type: "/problems/overloaded" });
       expect(e.headers["retry-after"]).toBe("3");
     }
+  });
+
+  it("moves a series' distinct buffers", () => {
+    const ts = new Float64Array(8);
+    const shared = new Float64Array(16);
+    const series = { timestampsMs: ts, kW: shared.subarray(0, 4), kvar: shared.subarray(4, 8), length: 4, intervalMinutes: 15 };
+    expect(seriesTransfer(series)).toEqual([ts.buffer, shared.buffer]);
   });
 });

@@ -6,9 +6,6 @@ import type { ColumnArrays } from "../../core/interval/parser.js";
  * machine that first touch, not the parsing, was most of the time spent filling the columns. Reused arrays are
  * already resident, so the resident set also stays flat from one upload to the next.
  *
- * The arrays live in shared memory: the two analysis tasks of an upload (statistics and simulation, on two worker
- * threads) read the same columns at once without a copy, and the columns stay here for the next upload.
- *
  * At most MAX_KEPT arrays and MAX_KEPT_BYTES are kept, and none once no upload has come for IDLE_MS.
  */
 const MAX_KEPT = 8;
@@ -36,11 +33,11 @@ export const columnPool: ColumnArrays = {
       const a = kept[i] as Float64Array;
       if (a.length >= length && (best < 0 || a.length < (kept[best] as Float64Array).length)) best = i;
     }
-    return best >= 0 ? (kept.splice(best, 1)[0] as Float64Array) : new Float64Array(new SharedArrayBuffer(length * 8));
+    return best >= 0 ? (kept.splice(best, 1)[0] as Float64Array) : new Float64Array(length);
   },
-  /** Keep an array whose contents are no longer needed (a whole buffer: views are widened to it); only shared ones. */
+  /** Keep an array whose contents are no longer needed (a whole buffer: views are widened to it). */
   give(array) {
-    if (!(array.buffer instanceof SharedArrayBuffer)) return; // a plain buffer (the sort's own arrays) would be copied to each task
+    if (!(array.buffer instanceof ArrayBuffer) || array.buffer.byteLength === 0) return; // shared or detached
     const whole = array.byteOffset === 0 && array.length * 8 === array.buffer.byteLength ? array : new Float64Array(array.buffer);
     if (kept.includes(whole) || kept.some((a) => a.buffer === whole.buffer)) return;
     let bytes = whole.byteLength;

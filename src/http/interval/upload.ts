@@ -3,7 +3,7 @@ import type { Readable } from "node:stream";
 import multipart from "@fastify/multipart";
 import type { FastifyInstance, FastifyRequest } from "fastify";
 import { createIntervalParser, type ParseOutcome } from "../../core/interval/parser.js";
-import { intervalAnswerOnThreads } from "../../heavy-work/interval-task.js";
+import { seriesTransfer } from "../../heavy-work/pool.js";
 import { problem, ProblemError, validationProblem } from "../problem.js";
 import { columnPool } from "./column-pool.js";
 import { fatalProblem, feedStream, INTERVAL_MAX_BYTES, INTERVAL_MAX_ROWS, tooLarge } from "./ingest.js";
@@ -80,19 +80,15 @@ async function readCsv(
 }
 
 /**
- * Analysis phase: pure computation on the parsed series, on worker threads (sorting a year of intervals for the
- * percentiles and simulating the controller over it would hold the event loop). The statistics and the simulation
- * run as two tasks at once, on the same columns (shared memory, see column-pool.ts); the columns go back to the
- * pool once both are done, whatever their outcome.
+ * Analysis phase: pure computation on the parsed series, on a worker thread (sorting a year of intervals for the
+ * percentiles and simulating the controller over it would hold the event loop); the series' arrays are moved there.
  */
 async function analyse(request: FastifyRequest, { outcome, bytes }: Read, o: IntervalRequestOptions): Promise<IntervalAnswer> {
   if (!outcome.ok) throw new ProblemError(fatalProblem(outcome));
   const { series, report } = outcome;
-  try {
-    return await intervalAnswerOnThreads(request.server.heavyWork, { bytes, series, report, options: o });
-  } finally {
-    for (const c of [series.timestampsMs, series.kW, series.kvar]) columnPool.give(c);
-  }
+  const { answer, columns } = await request.server.heavyWork.run("intervalAnalysis", { bytes, series, report, options: o }, seriesTransfer(series));
+  for (const c of columns) columnPool.give(c);
+  return answer;
 }
 
 /** Multipart: option fields first, then the file in field `file` (streamed straight into the parser). */
