@@ -64,7 +64,8 @@ export const BLOCK = 4096;
  * One pass of a RankHistogram over the needed kvar or the PF of every interval (count, or gather after
  * startGathering). The hot loops live in small functions called many times an analysis: they are compiled once and
  * reused, where loops written one after another in a long function called once would each be compiled on the fly
- * (on-stack replacement).
+ * (on-stack replacement) — and an inner loop compiled so is left, and its code thrown away, at every turn of the
+ * outer one: hence the block is filled by a function of its own, not by a loop nested in this one.
  */
 function feed(
   h: RankHistogram,
@@ -78,14 +79,21 @@ function feed(
 ): void {
   for (let from = 0; from < n; from += BLOCK) {
     const length = Math.min(BLOCK, n - from);
-    for (let j = 0; j < length; j++) {
-      const p = kW[from + j] as number,
-        q = kvar[from + j] as number;
-      block[j] = what === NEEDED ? neededKvarAt(p, q, tanTarget) : intervalPF(p, q);
-    }
+    if (what === NEEDED) neededBlock(block, kW, kvar, from, length, tanTarget);
+    else pfBlock(block, kW, kvar, from, length);
     if (gather) h.gatherSome(block, length);
     else h.countSome(block, length);
   }
+}
+
+/** block[j] = the needed kvar of interval from + j. */
+function neededBlock(block: Float64Array, kW: Float64Array, kvar: Float64Array, from: number, length: number, tanTarget: number): void {
+  for (let j = 0; j < length; j++) block[j] = neededKvarAt(kW[from + j] as number, kvar[from + j] as number, tanTarget);
+}
+
+/** block[j] = the PF of interval from + j. */
+function pfBlock(block: Float64Array, kW: Float64Array, kvar: Float64Array, from: number, length: number): void {
+  for (let j = 0; j < length; j++) block[j] = intervalPF(kW[from + j] as number, kvar[from + j] as number);
 }
 
 function fillGrid(grid: LoadPointGrid, kW: Float64Array, kvar: Float64Array, start: number, end: number): void {

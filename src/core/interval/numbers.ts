@@ -7,6 +7,8 @@ import { byteText, unitBytes } from "./text-bytes.js";
  * back to Number().
  */
 const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
+/** POW10 up to 1e15 in a typed array (an unboxed load in the plain-decimal loop). */
+const POW10_PLAIN = Float64Array.from(POW10.slice(0, 16));
 
 /** The number in s[start, end) (spaces trimmed), or NaN. `decimalComma` accepts "1,5" for 1.5. */
 export function parseDecimal(s: string, start: number, end: number, decimalComma: boolean): number {
@@ -17,6 +19,47 @@ export function parseDecimal(s: string, start: number, end: number, decimalComma
 export function parseDecimalBytes(b: Uint8Array, start: number, end: number, decimalComma: boolean): number {
   while (start < end && b[start] === 32) start++;
   while (end > start && b[end - 1] === 32) end--;
+  const plain = plainDecimal(b, start, end, decimalComma);
+  return plain === plain ? plain : general(b, start, end, decimalComma);
+}
+
+/**
+ * The common case only — [sign] digits [separator digits], at most 15 digits in all, at least one — in two tight
+ * digit loops; NaN for anything else, which the general reader then reads (or refuses) as before. Same value as
+ * the general reader's: the same mantissa divided by the same power of ten.
+ */
+function plainDecimal(b: Uint8Array, start: number, end: number, decimalComma: boolean): number {
+  let i = start;
+  const first = b[i];
+  const negative = first === 45;
+  if (negative || first === 43) i++;
+  const intStart = i;
+  let mantissa = 0;
+  let d = 0;
+  while (i < end && (d = (b[i] as number) - 48) >>> 0 <= 9) {
+    mantissa = mantissa * 10 + d;
+    i++;
+  }
+  const intDigits = i - intStart;
+  let fraction = 0;
+  if (i < end) {
+    const c = b[i];
+    if (c !== 46 && !(decimalComma && c === 44)) return Number.NaN;
+    const from = ++i;
+    while (i < end && (d = (b[i] as number) - 48) >>> 0 <= 9) {
+      mantissa = mantissa * 10 + d;
+      i++;
+    }
+    if (i < end) return Number.NaN;
+    fraction = i - from;
+  }
+  if (intDigits + fraction === 0 || intDigits + fraction > 15) return Number.NaN;
+  const value = fraction > 0 ? mantissa / (POW10_PLAIN[fraction] as number) : mantissa;
+  return negative ? -value : value;
+}
+
+/** Any decimal (trimmed): the fast path up to 15 significant digits, else Number(). */
+function general(b: Uint8Array, start: number, end: number, decimalComma: boolean): number {
   if (start === end) return Number.NaN;
   let i = start;
   let negative = false;

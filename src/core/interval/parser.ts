@@ -1,6 +1,7 @@
 import { detectDelimiter, mapColumns, splitHeader, type ColumnMapping, type ColumnOverrides, type Delimiter, type MappingIssue } from "./columns.js";
 import { isoWithOffset, type DateOrder } from "./datetime.js";
 import { checkSteps, medianStepMinutes, sortAndDedupe, type DuplicateExample, type StepReport } from "./quality.js";
+import { AcceptedRows, type ColumnArrays } from "./accepted-rows.js";
 import { RowDecoder, type SenseOption } from "./rows.js";
 import type { IntervalSeries, RowError } from "./series-types.js";
 import { utf16Length, utf8Text } from "./text-bytes.js";
@@ -12,8 +13,6 @@ export const DEFAULT_MAX_REPORTED = 50;
 /** Lines before the header (a meter's preamble) searched for a header that maps. */
 export const HEADER_SEARCH_LINES = 20;
 export const MAX_LINE_CHARS = 10_000;
-/** Data rows read before the arrays are sized from their mean length. */
-const SIZING_ROWS = 256;
 
 export interface ParseOptions extends ColumnOverrides {
   delimiter?: Delimiter;
@@ -35,11 +34,7 @@ export interface ParseOptions extends ColumnOverrides {
   columnArrays?: ColumnArrays;
 }
 
-/** A source of Float64Arrays of at least a given length, and their return. */
-export interface ColumnArrays {
-  take(length: number): Float64Array;
-  give(array: Float64Array): void;
-}
+export type { ColumnArrays } from "./accepted-rows.js";
 
 const FRESH: ColumnArrays = { take: (length) => new Float64Array(length), give: () => {} };
 
@@ -123,32 +118,6 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   let firstHeaderIssues: MappingIssue[] | null = null;
   let firstHeaderLine = 0;
   let candidates = 0;
-  // The accepted rows, column by column in typed arrays that double as they fill (no object per row).
-  const arrays = options.columnArrays ?? FRESH;
-  let tsCol = arrays.take(4096),
-    kWCol = arrays.take(4096),
-    kvarCol = arrays.take(4096),
-    lineCol = arrays.take(4096);
-  let capacity = Math.min(tsCol.length, kWCol.length, kvarCol.length, lineCol.length);
-  let n = 0;
-  const grow = (rows: number): void => {
-    if (rows <= capacity) return;
-    const bigger = (a: Float64Array) => {
-      if (a.length >= rows) return a;
-      const b = arrays.take(rows);
-      b.set(a.subarray(0, n));
-      arrays.give(a);
-      return b;
-    };
-    tsCol = bigger(tsCol);
-    kWCol = bigger(kWCol);
-    kvarCol = bigger(kvarCol);
-    lineCol = bigger(lineCol);
-    capacity = Math.min(tsCol.length, kWCol.length, kvarCol.length, lineCol.length);
-  };
-  let prevUtc = Number.NaN;
-  let withoutOffset = 0;
-  let firstOffsetMs = Number.NaN;
   // The unfinished last line of the chunks so far (bytes, copied: a caller may reuse its buffers).
   let carry = new Uint8Array(0);
   let carryLength = 0;
@@ -157,6 +126,14 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   let highSurrogate = ""; // a text chunk's last code unit when it starts a surrogate pair
   const encoder = new TextEncoder();
   const fmt = (u: number) => isoWithOffset(u, zone.offsetMsAt(u));
+  const arrays = options.columnArrays ?? FRESH;
+  const rows = new AcceptedRows(report, arrays, {
+    maxRows,
+    maxReported,
+    maxLineChars: MAX_LINE_CHARS,
+    ...(options.expectedChars ? { expectedChars: options.expectedChars } : {}),
+    fmt,
+  });
 
   const header = (text: string): void => {
     if (text.trim() === "") return void report.blankLines++;
@@ -186,26 +163,6 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     decoder = new RowDecoder(mapped.mapping, names.length, { delimiter, dateOrder: options.dateOrder ?? null, zone, sense: options.sense ?? null });
   };
 
-  let charsSoFar = 0; // characters of the first SIZING_ROWS data rows, for the size estimate
-  const reserve = (): void => {
-    const perRow = charsSoFar / SIZING_ROWS;
-    const rows = Math.min(maxRows, Math.ceil(((options.expectedChars as number) / perRow) * 1.02) + 16);
-    grow(rows);
-  };
-
-  const badRow = (d: RowDecoder, s: Uint8Array): void => {
-    const b = report.badRows;
-    b.count++;
-    const key = d.errReason.split(/[:(]/)[0]!.trim();
-    b.byReason[key] = (b.byReason[key] ?? 0) + 1;
-    if (b.first.length < maxReported) {
-      const column = d.errColumn >= 0 ? (report.header[d.errColumn] ?? "") : "";
-      const e: RowError = { line: report.lines, column, reason: d.errReason };
-      if (d.errColumn >= 0) e.value = utf8Text(s, d.errStart, d.errEnd).slice(0, 40);
-      b.first.push(e);
-    }
-  };
-
   const tooLong = (lineNumber: number): void => {
     fatal = {
       kind: "line_too_long",
@@ -226,32 +183,8 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     const d = decoder;
     if (d === null) return header(utf8Text(s, start, end));
     if (start === end) return void report.blankLines++;
-    if (report.dataRows < SIZING_ROWS) charsSoFar += end - start + 1;
-    if (++report.dataRows > maxRows) {
-      fatal = {
-        kind: "too_many_rows",
-        message: `more than ${maxRows} data rows`,
-        issues: [{ path: "body", message: `the upload has more than ${maxRows} data rows` }],
-      };
-      return;
-    }
-    if (report.dataRows === SIZING_ROWS && options.expectedChars) reserve();
-    if (!d.decode(s, start, end, prevUtc)) return badRow(d, s);
-    const u = d.utcMs;
-    if (!d.hadOffset) withoutOffset++;
-    else if (Number.isNaN(firstOffsetMs)) firstOffsetMs = d.offsetMs;
-    if (u < prevUtc) {
-      const o = report.outOfOrder;
-      o.count++;
-      if (o.first.length < maxReported) o.first.push({ line: report.lines, timestamp: fmt(u), previousTimestamp: fmt(prevUtc) });
-    }
-    prevUtc = u;
-    if (n === capacity) grow(capacity * 2);
-    tsCol[n] = u;
-    kWCol[n] = d.kW;
-    kvarCol[n] = d.kvar;
-    lineCol[n] = report.lines;
-    n++;
+    rows.row(d, s, start, end, false);
+    fatal ??= rows.fatal;
   };
 
   const keepCarry = (chunk: Uint8Array, from: number): void => {
@@ -265,13 +198,20 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
     carryLength += more;
   };
 
-  /** The complete lines of chunk from pos on; returns where the unfinished last line starts. */
+  /**
+   * The complete lines of chunk from pos on; returns where the unfinished last line starts. Once the header is
+   * found, rows are read by AcceptedRows.scanRows (a row's line end and fields in one scan); a line it leaves (a
+   * quoted field, an overlong line) is read here as any other.
+   */
   const readLines = (chunk: Uint8Array, pos: number): number => {
-    const len = chunk.length;
     while (!fatal) {
-      let nl = pos;
-      while (nl < len && chunk[nl] !== 10) nl++;
-      if (nl === len) break;
+      if (decoder !== null) {
+        pos = rows.scanRows(decoder, chunk, pos);
+        fatal ??= rows.fatal;
+        if (fatal) break;
+      }
+      const nl = chunk.indexOf(10, pos);
+      if (nl < 0) break;
       line(chunk, pos, nl);
       pos = nl + 1;
     }
@@ -328,8 +268,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
   /** The columns back to their source, except those the series holds. */
   const end = (): ParseOutcome => {
     const out = finish();
-    const held = out.ok ? [out.series.timestampsMs.buffer, out.series.kW.buffer, out.series.kvar.buffer] : [];
-    for (const a of [tsCol, kWCol, kvarCol, lineCol]) if (!held.includes(a.buffer)) arrays.give(a);
+    rows.giveBack(out.ok ? [out.series.timestampsMs.buffer, out.series.kW.buffer, out.series.kvar.buffer] : []);
     return out;
   };
 
@@ -354,7 +293,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
       return fail("header", `no header line with the needed columns (line ${firstHeaderLine} shown)`, firstHeaderIssues ?? []);
     }
     const b = report.badRows;
-    report.acceptedRows = n;
+    report.acceptedRows = rows.n;
     b.fraction = report.dataRows > 0 ? b.count / report.dataRows : 0;
     if (report.dataRows === 0)
       return fail("no_data", "no data rows after the header", [{ path: "body", message: "the header is followed by no rows" }]);
@@ -366,6 +305,7 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
         b.first.map((e) => ({ path: `line.${e.line}${e.column ? `.${e.column}` : ""}`, message: e.reason })),
       );
     }
+    const { withoutOffset, firstOffsetMs } = rows;
     if (givenZone === null && withoutOffset === 0 && !Number.isNaN(firstOffsetMs)) zone = fixedZone(firstOffsetMs);
     report.timeZone = zone.name;
     const monthFirst = (decoder as RowDecoder).ts.monthFirstByDefault;
@@ -383,20 +323,20 @@ export function createIntervalParser(options: ParseOptions = {}): IntervalParser
           : `timeZone not given: timestamps carry offsets; months are counted in the first row's offset (${zone.name})`,
       );
     }
-    const raw = { timestampsMs: tsCol, kW: kWCol, kvar: kvarCol, lines: lineCol, n };
-    const { rows, duplicates } = sortAndDedupe(raw, report.outOfOrder.count === 0, fmt, maxReported);
+    const raw = { timestampsMs: rows.timestampsMs, kW: rows.kW, kvar: rows.kvar, lines: rows.lines, n: rows.n };
+    const { rows: sorted, duplicates } = sortAndDedupe(raw, report.outOfOrder.count === 0, fmt, maxReported);
     report.duplicates = duplicates;
-    if (rows.n < 2)
+    if (sorted.n < 2)
       return fail("too_few_intervals", "fewer than two distinct timestamps", [{ path: "body", message: "at least two intervals are needed" }]);
-    const detected = medianStepMinutes(rows.timestampsMs, rows.n);
+    const detected = medianStepMinutes(sorted.timestampsMs, sorted.n);
     const minutes = options.intervalMinutes ?? detected;
     report.interval = { minutes, detectedMinutes: detected, source: options.intervalMinutes !== undefined ? "given" : "detected" };
-    report.steps = checkSteps(rows, minutes, fmt, maxReported);
+    report.steps = checkSteps(sorted, minutes, fmt, maxReported);
     const series: IntervalSeries = {
-      timestampsMs: rows.timestampsMs.subarray(0, rows.n),
-      kW: rows.kW.subarray(0, rows.n),
-      kvar: rows.kvar.subarray(0, rows.n),
-      length: rows.n,
+      timestampsMs: sorted.timestampsMs.subarray(0, sorted.n),
+      kW: sorted.kW.subarray(0, sorted.n),
+      kvar: sorted.kvar.subarray(0, sorted.n),
+      length: sorted.n,
       intervalMinutes: minutes,
       timeZone: zone.name,
     };

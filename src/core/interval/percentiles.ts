@@ -147,8 +147,15 @@ export class RankHistogram {
     let b = 0;
     let below = 0; // values in buckets before b
     let size = 0;
-    for (const { r, k } of order) {
-      while (below + (counts[b] as number) <= r) below += counts[b++] as number;
+    // one flat loop (a nested one would be compiled on the fly and left at every rank): walk the buckets up to
+    // each rank's, in rank order
+    for (let i = 0; i < order.length;) {
+      const { r, k } = order[i]!;
+      if (below + (counts[b] as number) <= r) {
+        below += counts[b++] as number;
+        continue;
+      }
+      i++;
       if (slot[b] === -1) {
         slot[b] = this.slotBase.length;
         this.slotBase.push(size);

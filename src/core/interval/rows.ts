@@ -129,10 +129,54 @@ export class RowDecoder {
     return Number.NaN;
   }
 
+  /**
+   * Find the end of the line that starts at `start` and split it into fields in the same pass (the one scan of a
+   * row's bytes in the common case): returns the index of its line feed, with the fields as split() would leave
+   * them for the line without it and without a carriage return before it. −1: no line feed before `limit` (the
+   * line continues in the next chunk); −2: a field opens with a double quote (the caller splits the line itself).
+   */
+  scanLine(s: Uint8Array, start: number, limit: number): number {
+    const delim = this.delim;
+    const columns = this.columnCount;
+    let f = 0;
+    let k = start;
+    for (;;) {
+      const fs = k;
+      if (k < limit && s[k] === 34) return -2;
+      let c = 0;
+      while (k < limit) {
+        c = s[k] as number;
+        if (c === delim || c === 10) break;
+        k++;
+      }
+      if (k >= limit) return -1;
+      let fe = c === 10 && k > fs && s[k - 1] === 13 ? k - 1 : k;
+      let from = fs;
+      while (from < fe && s[from] === 32) from++;
+      while (fe > from && s[fe - 1] === 32) fe--;
+      if (f < columns) {
+        this.starts[f] = from;
+        this.ends[f] = fe;
+      }
+      f++;
+      if (c === 10) {
+        this.fieldCount = f;
+        return k;
+      }
+      k++;
+    }
+  }
+
   /** Decode the row in s[start, end); `afterUtcMs` (previous row) resolves repeated local times. */
   decode(s: Uint8Array, start: number, end: number, afterUtcMs: number): boolean {
     this.errColumn = -1;
     if (!this.split(s, start, end)) return this.fail(-1, "unterminated double quote");
+    return this.decodeFields(s, afterUtcMs);
+  }
+
+  /** Decode the row whose fields scanLine (or split) has just found. */
+  decodeFields(s: Uint8Array, afterUtcMs: number): boolean {
+    this.errColumn = -1;
     if (this.fieldCount !== this.columnCount) {
       return this.fail(-1, `wrong column count: ${this.fieldCount} field${this.fieldCount === 1 ? "" : "s"}, the header has ${this.columnCount}`);
     }

@@ -113,16 +113,21 @@ function feedCorrected(
   n: number,
   block: Float64Array,
 ): void {
-  const { controller, masks } = r;
   for (let from = 0; from < n; from += BLOCK) {
     const length = Math.min(BLOCK, n - from);
-    for (let j = 0; j < length; j++) {
-      const i = from + j;
-      const qa = (kvar[i] as number) - controller.fixedKvar - controller.switchedKvar(masks[i] as number);
-      block[j] = pf ? intervalPF(kW[i] as number, qa) : qa;
-    }
+    correctedBlock(block, pf, r, kW, kvar, from, length); // a function of its own: see feed() in analyse.ts
     if (gather) h.gatherSome(block, length);
     else h.countSome(block, length);
+  }
+}
+
+/** block[j] = the corrected kvar (or PF) of interval from + j. */
+function correctedBlock(block: Float64Array, pf: boolean, r: Run, kW: Float64Array, kvar: Float64Array, from: number, length: number): void {
+  const { controller, masks } = r;
+  for (let j = 0; j < length; j++) {
+    const i = from + j;
+    const qa = (kvar[i] as number) - controller.fixedKvar - controller.switchedKvar(masks[i] as number);
+    block[j] = pf ? intervalPF(kW[i] as number, qa) : qa;
   }
 }
 
