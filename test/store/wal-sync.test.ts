@@ -1,3 +1,4 @@
+import { statSync } from "node:fs";
 import Database from "better-sqlite3";
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { DEFAULT_ORG_ID } from "../../src/store/ports.js";
@@ -174,5 +175,21 @@ describe("SQLite: answers wait for the sync of the write-ahead log", () => {
     await store.close();
     store = await openSqliteStore({ path });
     expect((await store.buildings.list(ORG, { limit: 10 })).map((b) => b.name).sort()).toEqual(["r1", "r2"]);
+  });
+});
+
+describe("SQLite: checkpoints on their own thread", () => {
+  it("turns SQLite's automatic checkpoint off on the store's connection and keeps the log from growing", async () => {
+    path = tempDatabasePath();
+    store = await openSqliteStore({ path, checkpointEveryMs: 0 });
+    expect(store.db.pragma("wal_autocheckpoint", { simple: true })).toBe(0);
+    const notes = "x".repeat(100_000); // about 25 pages a write
+    for (let i = 0; i < 60; i++) {
+      await store.transaction((tx) => tx.buildings.create(ORG, `bld_w${i}`, { ...data(`w${i}`), notes }, "test", at));
+    }
+    // 60 × 100 KB is about 6 MB of log without checkpoints; copied into the database after each COMMIT, the log
+    // restarts from its start and stays a few writes long
+    expect(statSync(`${path}-wal`).size).toBeLessThan(1_500_000);
+    expect(statSync(path).size).toBeGreaterThan(5_000_000);
   });
 });

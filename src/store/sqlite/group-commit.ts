@@ -11,6 +11,12 @@ interface Job<R> {
 /** Most transactions one COMMIT carries; the rest wait for the next. */
 export const MAX_GROUP = 256;
 
+/** Checkpoints off the event loop (./checkpointer.ts), each at least this long after the last one ended. */
+export interface Checkpoints {
+  run: () => Promise<void>;
+  everyMs: number;
+}
+
 /** What the groups carried so far: how well concurrent writes share a COMMIT (printed by the bench). */
 export interface GroupCommitStats {
   /** COMMITs run (groups whose BEGIN failed are not counted). */
@@ -41,11 +47,14 @@ export class GroupCommitter<R> {
   private scheduled = false;
   private open: Promise<void> | null = null;
   private readonly counts: Omit<GroupCommitStats, "syncs"> = { groups: 0, transactions: 0, largest: 0, bySize: [] };
+  private checkpointing: Promise<void> | null = null;
+  private lastCheckpoint = performance.now();
 
   constructor(
     private readonly db: Db,
     private readonly tx: R,
     private readonly durability: Durability,
+    private readonly checkpoints: Checkpoints | null = null,
   ) {}
 
   /** A copy of the counts so far. */
@@ -65,8 +74,8 @@ export class GroupCommitter<R> {
 
   /** Resolves when the queue is empty, no group is open and every committed group has been answered. */
   async drained(): Promise<void> {
-    while (this.open || this.queue.length > 0 || this.scheduled || this.durability.pending) {
-      await (this.open ?? new Promise((r) => setImmediate(r)));
+    while (this.open || this.checkpointing || this.queue.length > 0 || this.scheduled || this.durability.pending) {
+      await (this.open ?? this.checkpointing ?? new Promise((r) => setImmediate(r)));
     }
   }
 
@@ -80,7 +89,8 @@ export class GroupCommitter<R> {
   }
 
   private schedule(): void {
-    if (this.scheduled || this.open) return;
+    // no group during a checkpoint: the log restarts only if a write transaction begins with every frame copied
+    if (this.scheduled || this.open || this.checkpointing) return;
     this.scheduled = true;
     // setImmediate, not a microtask: requests whose bodies arrived while the last group ran get to queue first.
     setImmediate(() => {
@@ -106,6 +116,16 @@ export class GroupCommitter<R> {
       done();
       if (this.queue.length > 0) this.schedule();
     }
+  }
+
+  private checkpointIfDue(): void {
+    const c = this.checkpoints;
+    if (!c || this.checkpointing || performance.now() - this.lastCheckpoint < c.everyMs) return;
+    this.checkpointing = c.run().finally(() => {
+      this.checkpointing = null;
+      this.lastCheckpoint = performance.now();
+      if (this.queue.length > 0) this.schedule();
+    });
   }
 
   private count(n: number): void {
@@ -151,6 +171,7 @@ export class GroupCommitter<R> {
       return;
     }
     this.count(jobs.length);
+    this.checkpointIfDue();
     const settle = () => {
       for (const j of jobs) {
         const o = j.outcome;

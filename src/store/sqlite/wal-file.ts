@@ -24,6 +24,7 @@ import { dirname } from "node:path";
  * - Checkpoints: with NORMAL, SQLite syncs the log before a checkpoint copies frames into the database and syncs the
  *   database after, as FULL does; the log restarts only over frames that a completed checkpoint put in the synced
  *   database. So a restart never overwrites frames an acknowledged commit depends on, even while our sync runs.
+ *   The checkpoints run on their own thread and connection (./checkpointer.ts), also NORMAL, so the same holds.
  * - A failed sync: nothing since the last good one is known to be on disk, and a retry could succeed over pages the
  *   kernel dropped. The store refuses every later write and reports not ready (./durability.ts).
  *
