@@ -1,4 +1,5 @@
 import type { Db } from "./database.js";
+import type { Durability } from "./durability.js";
 
 interface Job<R> {
   fn: (tx: R) => Promise<unknown>;
@@ -10,6 +11,12 @@ interface Job<R> {
 /** Most transactions one COMMIT carries; the rest wait for the next. */
 export const MAX_GROUP = 256;
 
+/** Checkpoints off the event loop (./checkpointer.ts), each at least this long after the last one ended. */
+export interface Checkpoints {
+  run: () => Promise<void>;
+  everyMs: number;
+}
+
 /** What the groups carried so far: how well concurrent writes share a COMMIT (printed by the bench). */
 export interface GroupCommitStats {
   /** COMMITs run (groups whose BEGIN failed are not counted). */
@@ -20,14 +27,17 @@ export interface GroupCommitStats {
   largest: number;
   /** bySize[n]: groups that carried n transactions (index 0 unused). */
   bySize: number[];
+  /** Syncs of the write-ahead log completed (several COMMITs may share one). */
+  syncs: number;
 }
 
 /**
- * Group commit on one better-sqlite3 connection. Transactions asked for while another group runs or commits wait in
- * a queue; the next turn of the event loop runs all of them in one BEGIN IMMEDIATE … COMMIT, each inside its own
- * SAVEPOINT, so one that throws rolls back only its own writes. Every caller's promise settles after the shared
- * COMMIT (with synchronous = FULL, after the fsync), so nothing is acknowledged before it is durable; one fsync then
- * serves the whole group, which is where the speed comes from (the WAL write-ahead log's usual group commit).
+ * Group commit on one better-sqlite3 connection. Transactions asked for while another group runs wait in a queue; the
+ * next turn of the event loop runs all of them in one BEGIN IMMEDIATE … COMMIT, each inside its own SAVEPOINT, so one
+ * that throws rolls back only its own writes. COMMIT only writes the log (synchronous = NORMAL); every caller's
+ * promise settles after a sync of the log that started after the shared COMMIT returned (./durability.ts,
+ * ./wal-file.ts), so nothing is acknowledged before it is durable. The sync runs off the event loop, and the next
+ * group may commit while it runs; groups committed meanwhile share the next sync.
  *
  * While a group is open no other statement may run on the connection (it would join the open transaction):
  * `idle()` is what plain reads await first.
@@ -36,16 +46,20 @@ export class GroupCommitter<R> {
   private readonly queue: Job<R>[] = [];
   private scheduled = false;
   private open: Promise<void> | null = null;
-  private readonly counts: GroupCommitStats = { groups: 0, transactions: 0, largest: 0, bySize: [] };
+  private readonly counts: Omit<GroupCommitStats, "syncs"> = { groups: 0, transactions: 0, largest: 0, bySize: [] };
+  private checkpointing: Promise<void> | null = null;
+  private lastCheckpoint = performance.now();
 
   constructor(
     private readonly db: Db,
     private readonly tx: R,
+    private readonly durability: Durability,
+    private readonly checkpoints: Checkpoints | null = null,
   ) {}
 
   /** A copy of the counts so far. */
   stats(): GroupCommitStats {
-    return { ...this.counts, bySize: [...this.counts.bySize] };
+    return { ...this.counts, bySize: [...this.counts.bySize], syncs: this.durability.syncs };
   }
 
   /** True while a group's transaction is open. */
@@ -58,14 +72,16 @@ export class GroupCommitter<R> {
     while (this.open) await this.open;
   }
 
-  /** Resolves when the queue is empty and no group is open. */
+  /** Resolves when the queue is empty, no group is open and every committed group has been answered. */
   async drained(): Promise<void> {
-    while (this.open || this.queue.length > 0 || this.scheduled) {
-      await (this.open ?? new Promise((r) => setImmediate(r)));
+    while (this.open || this.checkpointing || this.queue.length > 0 || this.scheduled || this.durability.pending) {
+      await (this.open ?? this.checkpointing ?? new Promise((r) => setImmediate(r)));
     }
   }
 
   run<T>(fn: (tx: R) => Promise<T>): Promise<T> {
+    const lost = this.durability.failure;
+    if (lost) return Promise.reject(lost);
     return new Promise<T>((resolve, reject) => {
       this.queue.push({ fn, resolve: resolve as (v: unknown) => void, reject });
       this.schedule();
@@ -73,9 +89,10 @@ export class GroupCommitter<R> {
   }
 
   private schedule(): void {
-    if (this.scheduled || this.open) return;
+    // no group during a checkpoint: the log restarts only if a write transaction begins with every frame copied
+    if (this.scheduled || this.open || this.checkpointing) return;
     this.scheduled = true;
-    // setImmediate, not a microtask: requests whose bodies arrived during the last fsync get to queue first.
+    // setImmediate, not a microtask: requests whose bodies arrived while the last group ran get to queue first.
     setImmediate(() => {
       this.scheduled = false;
       void this.runGroup();
@@ -85,6 +102,11 @@ export class GroupCommitter<R> {
   private async runGroup(): Promise<void> {
     const jobs = this.queue.splice(0, MAX_GROUP);
     if (jobs.length === 0) return;
+    const lost = this.durability.failure;
+    if (lost) {
+      for (const j of [...jobs, ...this.queue.splice(0)]) j.reject(lost);
+      return;
+    }
     let done!: () => void;
     this.open = new Promise<void>((r) => (done = r));
     try {
@@ -94,6 +116,16 @@ export class GroupCommitter<R> {
       done();
       if (this.queue.length > 0) this.schedule();
     }
+  }
+
+  private checkpointIfDue(): void {
+    const c = this.checkpoints;
+    if (!c || this.checkpointing || performance.now() - this.lastCheckpoint < c.everyMs) return;
+    this.checkpointing = c.run().finally(() => {
+      this.checkpointing = null;
+      this.lastCheckpoint = performance.now();
+      if (this.queue.length > 0) this.schedule();
+    });
   }
 
   private count(n: number): void {
@@ -139,10 +171,22 @@ export class GroupCommitter<R> {
       return;
     }
     this.count(jobs.length);
-    for (const j of jobs) {
-      const o = j.outcome;
-      if (o?.ok) j.resolve(o.value);
-      else j.reject(o?.error);
+    this.checkpointIfDue();
+    const settle = () => {
+      for (const j of jobs) {
+        const o = j.outcome;
+        if (o?.ok) j.resolve(o.value);
+        else j.reject(o?.error);
+      }
+    };
+    const durable = this.durability.durable(this.durability.committedOne());
+    if (!durable) {
+      settle();
+      return;
     }
+    // not awaited: the next group may run while this one's sync is in flight
+    durable.then(settle, (lost: unknown) => {
+      for (const j of jobs) j.reject(lost);
+    });
   }
 }
