@@ -4,10 +4,10 @@
  * did (a building PATCH or another revision committed meanwhile) the survey is sized once more against the new
  * state; moved twice, the caller gets a Conflict.
  *
- * The sizing runs on the event loop, not on the worker pool: measured on the 2-core bench machine, surveys sized on
- * worker threads came back one by one and formed groups of about two per COMMIT (against six or seven sized here,
- * src/store/sqlite/group-commit.ts), each group blocking the loop for its fsync, while the threads competed with the
- * loop for the same cores; stored surveys per second fell by about a third.
+ * The sizing runs on the event loop, not on the worker pool: measured on the 2-core bench machine (when each group
+ * still blocked the loop for its fsync), surveys sized on worker threads came back one by one and formed groups of
+ * about two per COMMIT (against six or seven sized here, src/store/sqlite/group-commit.ts), while the threads
+ * competed with the loop for the same cores; stored surveys per second fell by about a third.
  */
 import { findBuilding } from "./buildings.js";
 import { Conflict, FieldRejected, NotFound } from "./errors.js";
