@@ -1,5 +1,5 @@
 /**
- * Heavy work off the event loop: /health keeps answering, over real HTTP against a listening app, while a large
+ * Heavy work off the event loop: /health keeps answering, over real HTTP against a listening app, while large
  * harmonic scans run on a worker thread; with no worker threads (the control) the same scans hold /health up.
  */
 import type { AddressInfo } from "node:net";
