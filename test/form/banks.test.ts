@@ -167,8 +167,9 @@ describe.skipIf(!hasChromium)("installed banks on the survey page", () => {
     expect(await page.locator("#br0 summary").textContent()).toContain("4 of 5 in service, 3 measured");
     // One bank at a time: the next one opens and this one folds.
     await page.click('#br0 [data-next="1"]');
-    expect(await page.locator("#br1").getAttribute("open")).not.toBeNull();
-    expect(await page.locator("#br0").getAttribute("open")).toBeNull();
+    // the page folds the other bank on the "toggle" event, which the browser fires as a task of its own: wait for it
+    await expect.poll(() => page.locator("#br1").getAttribute("open")).not.toBeNull();
+    await expect.poll(() => page.locator("#br0").getAttribute("open")).toBeNull();
     await page.click("#br0 summary");
     await shoot("#bank-readings-part", "bank-readings");
   });
