@@ -1,4 +1,16 @@
-/** Request bodies shared by the store and API tests: an invented 400 V / 50 Hz workshop. */
+/** Request bodies and records shared by the store and API tests: an invented 400 V / 50 Hz workshop. */
+import type { BuildingData } from "../../src/store/types.js";
+
+/** A building as the store keeps it, bare: the system only. */
+export const buildingData = (name: string): BuildingData => ({
+  name,
+  address: null,
+  notes: null,
+  system: { voltageV: 400, frequencyHz: 50, phases: 3 },
+  transformer: null,
+  utility: null,
+  economics: null,
+});
 
 export const buildingBody = (over: Record<string, unknown> = {}) => ({
   name: "Test workshop A",

@@ -2,20 +2,12 @@ import Database from "better-sqlite3";
 import { afterEach, beforeEach, describe, expect, it } from "vitest";
 import { DEFAULT_ORG_ID } from "../../src/store/ports.js";
 import { openSqliteStore, type SqliteStore } from "../../src/store/sqlite/sqlite-store.js";
-import type { BuildingData } from "../../src/store/types.js";
+import { buildingData } from "./fixtures.js";
 import { tempDatabasePath } from "../helpers/db.js";
 
 const ORG = DEFAULT_ORG_ID;
 const at = "2025-06-01T10:00:00.000Z";
-const data = (name: string): BuildingData => ({
-  name,
-  address: null,
-  notes: null,
-  system: { voltageV: 400, frequencyHz: 50, phases: 3 },
-  transformer: null,
-  utility: null,
-  economics: null,
-});
+const data = buildingData;
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 let store: SqliteStore;

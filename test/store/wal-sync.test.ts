@@ -4,7 +4,7 @@ import { afterEach, describe, expect, it, vi } from "vitest";
 import { DEFAULT_ORG_ID } from "../../src/store/ports.js";
 import { DurabilityUnknown } from "../../src/store/sqlite/durability.js";
 import { openSqliteStore, type SqliteStore } from "../../src/store/sqlite/sqlite-store.js";
-import type { BuildingData } from "../../src/store/types.js";
+import { buildingData } from "./fixtures.js";
 import { tempDatabasePath } from "../helpers/db.js";
 
 /**
@@ -14,15 +14,7 @@ import { tempDatabasePath } from "../helpers/db.js";
 
 const ORG = DEFAULT_ORG_ID;
 const at = "2025-06-01T10:00:00.000Z";
-const data = (name: string): BuildingData => ({
-  name,
-  address: null,
-  notes: null,
-  system: { voltageV: 400, frequencyHz: 50, phases: 3 },
-  transformer: null,
-  utility: null,
-  economics: null,
-});
+const data = buildingData;
 
 /** Each sync the store asks for waits here until the test lets it run (the real one) or fails it. */
 function heldSyncs() {

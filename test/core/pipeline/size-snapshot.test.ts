@@ -5,6 +5,8 @@ import { differences, snapshotOutputs, storedOutputs } from "./size-snapshot.js"
  * The engine's full output on varied bodies against the stored output of the same bodies (write-size-snapshot.ts):
  * a change made for speed must leave every key, its order and every figure in place. Tolerance 1e-9 relative: a
  * rewritten loop may round differently in the last bits, and no figure the engine reports means anything at 1e-9.
+ * A regression guard, not an oracle: the stored figures are the engine's own; their correctness is checked against
+ * published references and independent calculations in the other test/core suites.
  */
 const REL = 1e-9;
 
