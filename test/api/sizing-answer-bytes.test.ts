@@ -84,6 +84,9 @@ function bodies(): [string, Body][] {
   priced.serviceEntrance = { measurement: { method: "kw_pf", kW: 900, pf: 0.78, sense: "lagging" } };
   priced.lightLoad = { measurement: { method: "kw_pf", kW: 200, pf: 0.8, sense: "lagging" } };
   priced.scope = "whole_site";
+  // the engine's own texts are Latin-1 (test/core/latin1-texts.test.ts); a user's label may hold anything
+  const labelled = copy(plain);
+  labelled.loads[0]!.label = "Bomba nº 2 — sótano ≥ 3 🔧";
   return [
     ["the bench body", plain],
     ["drives (harmonic study, detuned proposal)", drives],
@@ -91,6 +94,7 @@ function bodies(): [string, Body][] {
     ["a leading site", leading],
     ["background distortion, a measured spectrum, a designed detuned bank", distorted],
     ["economics, a service entrance and a light-load reading", priced],
+    ["a label beyond Latin-1 (a two-byte answer)", labelled],
   ];
 }
 
@@ -129,6 +133,8 @@ describe("POST /v1/sizing answers JSON.stringify's bytes of the result", () => {
     expect(results.some((r) => r.economics !== undefined)).toBe(true);
     expect(results.some((r) => r.site.sense === "leading")).toBe(true);
     expect(results.every((r) => r.warnings.length > 0)).toBe(true);
-    expect(results.every((r) => !isAscii(JSON.stringify(r)))).toBe(true);
+    expect(results.filter((r) => !isAscii(JSON.stringify(r))).length).toBeGreaterThanOrEqual(3);
+    // Latin-1 answers from the engine's texts alone, and one two-byte answer from the label
+    expect(results.filter((r) => /[\u0100-\uffff]/.test(JSON.stringify(r)))).toHaveLength(1);
   });
 });

@@ -30,7 +30,7 @@ describe("severity against the IEEE Std 18 continuous limits", () => {
 
 describe("grouping helpers", () => {
   it("stage lists: runs of three or more as a range", () => {
-    expect(compactList([1, 2, 3, 5])).toBe("1–3, 5");
+    expect(compactList([1, 2, 3, 5])).toBe("1-3, 5");
     expect(compactList([4, 1, 2])).toBe("1, 2, 4");
     expect(compactList([7])).toBe("7");
   });

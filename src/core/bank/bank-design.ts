@@ -15,7 +15,7 @@ export interface DesignBankInput {
   /** kvar already placed at motor terminals or group banks, subtracted from the demand (for a central bank). */
   localCorrectionKvar?: number;
   transformerKVA?: number;
-  /** CT primary/secondary, e.g. 1000/5 → 200. */
+  /** CT primary/secondary, e.g. 1000/5 = 200. */
   ctRatio?: number;
   /** Capacitor nameplate voltage; defaults to the system voltage. */
   ratedVoltageV?: number;
@@ -113,7 +113,7 @@ export function designBank(input: DesignBankInput): DesignOutcome {
   ];
   if (perNameplate !== 1) {
     notes.push(
-      `steps are standard sizes at the ${ratedVoltageV} V rating${p > 0 ? ` behind a ${input.reactorPct} % reactor` : ""}; each delivers ${perNameplate.toFixed(4)} × its nameplate at ${system.voltageV} V: (${system.voltageV}/${ratedVoltageV})²${p > 0 ? `/(1 − ${p})` : ""} (IEEE Std 18 rating basis)`,
+      `steps are standard sizes at the ${ratedVoltageV} V rating${p > 0 ? ` behind a ${input.reactorPct} % reactor` : ""}; each delivers ${perNameplate.toFixed(4)} × its nameplate at ${system.voltageV} V: (${system.voltageV}/${ratedVoltageV})²${p > 0 ? `/(1 - ${p})` : ""} (IEEE Std 18 rating basis)`,
     );
   }
   if (p > 0 && ratedVoltageV < system.voltageV / (1 - p)) {
@@ -150,7 +150,7 @@ export function designBank(input: DesignBankInput): DesignOutcome {
       const responseA = controllerResponseA(smallest, system.voltageV, input.ctRatio, system.phases);
       controller = { ctRatio: input.ctRatio, smallestStepKvar: smallest, responseA };
       notes.push(
-        `controller C/k = ${kv(smallest)}·1000/(${system.phases === 3 ? "√3·" : ""}${system.voltageV}·${input.ctRatio}) = ${responseA.toFixed(3)} A; the CT must carry the loads' and the bank's current (on the supply side of both)`,
+        `controller C/k = ${kv(smallest)}·1000/(${system.phases === 3 ? "sqrt(3)·" : ""}${system.voltageV}·${input.ctRatio}) = ${responseA.toFixed(3)} A; the CT must carry the loads' and the bank's current (on the supply side of both)`,
       );
       const minA = input.minResponseA ?? DEFAULT_MIN_RESPONSE_A;
       if (responseA < minA)
@@ -165,7 +165,7 @@ export function designBank(input: DesignBankInput): DesignOutcome {
       warnings.push(
         warning(
           "ct_ratio_needed",
-          "give the controller CT's ratio (primary/secondary, e.g. 1000/5 → 200) to set its response threshold C/k",
+          "give the controller CT's ratio (primary/secondary, e.g. 1000/5 = 200) to set its response threshold C/k",
           "ctRatio",
         ),
       );
@@ -207,7 +207,7 @@ export function designBank(input: DesignBankInput): DesignOutcome {
     warnings.push(...whole.warnings);
     protection = { steps: stepProt, bank: whole.protection };
     notes.push(
-      "conductors and disconnect at ≥ 135 % of rated current (NFPA 70 460.8(A), (C)); the conductor must also be protected by the chosen device (NFPA 70 240.4)",
+      "conductors and disconnect at 135 % or more of rated current (NFPA 70 460.8(A), (C)); the conductor must also be protected by the chosen device (NFPA 70 240.4)",
     );
     for (const np of [...new Set(steps.map((s) => s.nameplateKvar))]) {
       const r = dischargeDesign(np, ratedVoltageV, system.frequencyHz, system.phases, input.discharge, "discharge");

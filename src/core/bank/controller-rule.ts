@@ -50,7 +50,7 @@ export interface RuleSettings {
 export function ruleSettings(targetPF: number, smallestStepKvar: number, opts: ControllerOptions = {}): RuleSettings {
   const leadingLimitPF = opts.leadingLimitPF ?? DEFAULT_LEADING_LIMIT_PF;
   const share = opts.responseThreshold ?? DEFAULT_RESPONSE_THRESHOLD;
-  if (!(share >= 0 && share <= 1)) throw new RangeError("responseThreshold must be within 0–1");
+  if (!(share >= 0 && share <= 1)) throw new RangeError("responseThreshold must be within 0 to 1");
   return {
     tanTarget: tanPhi(targetPF),
     tanLead: tanPhi(leadingLimitPF),

@@ -92,7 +92,7 @@ export interface EconomicsResult {
 
 /**
  * Savings per period and per year, installed cost and simple payback (cost / annual saving).
- * Loss savings: kWh·losses%·(1 − (PF₁/PF₂)²) (losses scale with I², common practice).
+ * Loss savings: kWh·losses%·(1 - (PF1/PF2)²) (losses scale with I², common practice).
  */
 export function economics(input: EconomicsInput): EconomicsResult {
   const assumptions = [...(input.assumptions ?? [])];
@@ -120,7 +120,7 @@ export function economics(input: EconomicsInput): EconomicsResult {
   const savingPerYear = periods.length > 0 ? (total / periods.length) * input.periodsPerYear : 0;
   if (input.losses) {
     assumptions.push(
-      `I²R losses taken as ${input.losses.lossesPct} % of energy, reduced by ${(lossFraction * 100).toFixed(1)} % (1 − (PF₁/PF₂)²), at ${input.losses.energyPricePerKWh} ${input.currency}/kWh`,
+      `I²R losses taken as ${input.losses.lossesPct} % of energy, reduced by ${(lossFraction * 100).toFixed(1)} % (1 - (PF1/PF2)²), at ${input.losses.energyPricePerKWh} ${input.currency}/kWh`,
     );
   }
 

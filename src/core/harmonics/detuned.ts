@@ -96,7 +96,7 @@ export function proposeDetunedDesign(input: DetunedDesignInput): DetunedDesign {
   const capacitorFundamentalVoltageV = input.voltageV / (1 - p);
   const ratedVoltageV = standardCapacitorVoltageV(capacitorFundamentalVoltageV * margin);
   rationale.push(
-    `capacitor voltage ${ratedVoltageV} V ≥ ${input.voltageV} V/(1 − ${p.toFixed(4)})·${margin} = ${(capacitorFundamentalVoltageV * margin).toFixed(1)} V`,
+    `capacitor voltage ${ratedVoltageV} V >= ${input.voltageV} V/(1 - ${p.toFixed(4)})·${margin} = ${(capacitorFundamentalVoltageV * margin).toFixed(1)} V`,
   );
 
   const rounding = input.kvarRounding ?? "nearest_standard";

@@ -110,7 +110,9 @@ export function injectedCurrents(
     }
     if (basis !== null) {
       const current =
-        kVABasis === "rms" ? `I_1 = I_rms/√(1 + THD²) = ${totalA.toFixed(1)}/√(1 + ${(thd / 100).toFixed(3)}²)` : "I_1 from its fundamental kVA";
+        kVABasis === "rms"
+          ? `I_1 = I_rms/sqrt(1 + THD²) = ${totalA.toFixed(1)}/sqrt(1 + ${(thd / 100).toFixed(3)}²)`
+          : "I_1 from its fundamental kVA";
       uses.push({
         label: s.label,
         spectrumBasis: basis,

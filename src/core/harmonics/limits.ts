@@ -11,9 +11,9 @@ export interface VoltageDistortionLimits {
 
 /** IEEE Std 519-2014 Table 1 (bus voltage V at the PCC, line-to-line). */
 export function ieee519VoltageLimits(voltageV: number): VoltageDistortionLimits {
-  if (voltageV <= 1_000) return { busVoltageClass: "V ≤ 1.0 kV", individualPct: 5.0, thdPct: 8.0 };
-  if (voltageV <= 69_000) return { busVoltageClass: "1 kV < V ≤ 69 kV", individualPct: 3.0, thdPct: 5.0 };
-  if (voltageV <= 161_000) return { busVoltageClass: "69 kV < V ≤ 161 kV", individualPct: 1.5, thdPct: 2.5 };
+  if (voltageV <= 1_000) return { busVoltageClass: "V <= 1.0 kV", individualPct: 5.0, thdPct: 8.0 };
+  if (voltageV <= 69_000) return { busVoltageClass: "1 kV < V <= 69 kV", individualPct: 3.0, thdPct: 5.0 };
+  if (voltageV <= 161_000) return { busVoltageClass: "69 kV < V <= 161 kV", individualPct: 1.5, thdPct: 2.5 };
   return { busVoltageClass: "161 kV < V", individualPct: 1.0, thdPct: 1.5 };
 }
 

@@ -31,7 +31,7 @@ export function validateSpectrum(spectrum: readonly SpectrumLine[], path: string
       seen.add(line.order);
     }
     if (!Number.isFinite(line.pct) || line.pct < 0) {
-      issues.push({ path: `${at}.pct`, message: "pct must be a number ≥ 0" });
+      issues.push({ path: `${at}.pct`, message: "pct must be a number >= 0" });
     } else {
       sumPct += line.pct;
     }

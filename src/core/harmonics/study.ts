@@ -222,10 +222,10 @@ function assumptions(source: SourceImpedance, ctx: StudyContext, o: HarmonicStud
     xr,
     ctx.model.loadResistanceOhm === null
       ? "No linear load given: no resistive damping branch."
-      : `Linear load modelled as a parallel resistance V²/P = ${ctx.model.loadResistanceOhm.toPrecision(4)} Ω.`,
-    `Capacitor stage: Z(h) = R_r + j(h·p·X_C − X_C/h); reactor X/R ${ctx.reactorQualityFactor}, R held constant with h.`,
+      : `Linear load modelled as a parallel resistance V²/P = ${ctx.model.loadResistanceOhm.toPrecision(4)} ohm.`,
+    `Capacitor stage: Z(h) = R_r + j(h·p·X_C - X_C/h); reactor X/R ${ctx.reactorQualityFactor}, R held constant with h.`,
     "Stages are cumulative: steps switch in in the order given; each bank is studied alone on the bus (installed and new banks together: combinedStages[].harmonics).",
-    "Drives without a measured spectrum: the ideal six-pulse shape I_h = I_1/h at 6k ± 1 (textbook), scaled to the measured current THD when one is given; an rms (V·I or kVA) reading's fundamental is I_rms/√(1 + THD_i²).",
+    "Drives without a measured spectrum: the ideal six-pulse shape I_h = I_1/h at 6k ± 1 (textbook), scaled to the measured current THD when one is given; an rms (V·I or kVA) reading's fundamental is I_rms/sqrt(1 + THD_i²).",
     o.combination === "rss"
       ? "Same-order currents of several sources combined as the square root of the sum of squares (random phase)."
       : "Same-order currents of several sources added arithmetically (all in phase: worst case).",

@@ -14,7 +14,7 @@ function positive(issues: Issue[], path: string, v: unknown, optional = false): 
 
 function nonNegative(issues: Issue[], path: string, v: unknown, optional = false): void {
   if (optional && v === undefined) return;
-  if (typeof v !== "number" || !Number.isFinite(v) || v < 0) issues.push({ path, message: "must be a finite number ≥ 0" });
+  if (typeof v !== "number" || !Number.isFinite(v) || v < 0) issues.push({ path, message: "must be a finite number >= 0" });
 }
 
 export function validateHarmonicStudyInput(input: HarmonicStudyInput): Issue[] {
@@ -57,7 +57,7 @@ export function validateHarmonicStudyInput(input: HarmonicStudyInput): Issue[] {
   issues.push(...validateScanOptions(o.scan, "options.scan"));
   positive(issues, "options.reactorQualityFactor", o.reactorQualityFactor, true);
   if (o.voltageMarginFactor !== undefined && !(Number.isFinite(o.voltageMarginFactor) && o.voltageMarginFactor >= 1))
-    issues.push({ path: "options.voltageMarginFactor", message: "must be a finite number ≥ 1" });
+    issues.push({ path: "options.voltageMarginFactor", message: "must be a finite number >= 1" });
   if (o.combination !== undefined && o.combination !== "arithmetic" && o.combination !== "rss")
     issues.push({ path: "options.combination", message: 'must be "arithmetic" or "rss"' });
   if (o.kvarRounding !== undefined && o.kvarRounding !== "nearest_standard" && o.kvarRounding !== "none")

@@ -23,7 +23,7 @@ export interface Controller {
 }
 
 export function validateBank(bank: CapacitorBank): void {
-  if (!(bank.fixedKvar >= 0 && Number.isFinite(bank.fixedKvar))) throw new RangeError("fixedKvar must be a finite number ≥ 0");
+  if (!(bank.fixedKvar >= 0 && Number.isFinite(bank.fixedKvar))) throw new RangeError("fixedKvar must be a finite number >= 0");
   if (bank.stepsKvar.length > MAX_STEPS) throw new RangeError(`at most ${MAX_STEPS} switched steps`);
   for (const s of bank.stepsKvar) if (!(s > 0 && Number.isFinite(s))) throw new RangeError("each step must be a finite kvar > 0");
 }

@@ -17,7 +17,7 @@ export const TS_RANGE = 2;
 export const TS_AMBIGUOUS_ORDER = 3;
 export const TS_REASONS: Record<number, string> = {
   [TS_SYNTAX]: "unrecognised date-time (use e.g. 2026-03-01 14:15, 2026-03-01T14:15:00Z or 03/01/2026 14:15)",
-  [TS_RANGE]: "date or time out of range (month 1–12, day within the month, hour 0–23, minute and second 0–59)",
+  [TS_RANGE]: "date or time out of range (month 1 to 12, day within the month, hour 0 to 23, minute and second 0 to 59)",
   [TS_AMBIGUOUS_ORDER]: "the first date part is above 12, so the dates are day-first: set dateOrder=dmy",
 };
 

@@ -58,7 +58,7 @@ export function assessInstalledBanks(input: SizingInput, site: SiteResult, loads
     warnings.push(
       warning(
         "installed_steps_need_repair",
-        `repair before buying new capacitors: ${list} — ${credit.kvarRestoredByRepair.toFixed(1)} kvar restored in all; after repair the installed banks give ${credit.kvarInstalledRated.toFixed(1)} kvar against ${credit.kvarRequiredTotal.toFixed(1)} kvar required, leaving ${credit.kvarAdditional.toFixed(1)} kvar to add`,
+        `repair before buying new capacitors: ${list}: ${credit.kvarRestoredByRepair.toFixed(1)} kvar restored in all; after repair the installed banks give ${credit.kvarInstalledRated.toFixed(1)} kvar against ${credit.kvarRequiredTotal.toFixed(1)} kvar required, leaving ${credit.kvarAdditional.toFixed(1)} kvar to add`,
         "installedBanks",
       ),
     );
@@ -69,7 +69,7 @@ export function assessInstalledBanks(input: SizingInput, site: SiteResult, loads
     warnings.push(
       warning(
         "installed_steps_lead",
-        `the site leads beyond the target with installed steps energised: take out ${steps} (${r.kvarRemoved.toFixed(1)} kvar) → PF ${r.pfAfter.toFixed(3)} ${r.senseAfter}${r.reachesTarget ? "" : ", still short of the target"}`,
+        `the site leads beyond the target with installed steps energised: take out ${steps} (${r.kvarRemoved.toFixed(1)} kvar) for PF ${r.pfAfter.toFixed(3)} ${r.senseAfter}${r.reachesTarget ? "" : ", still short of the target"}`,
         "bankReadings",
       ),
     );
@@ -110,12 +110,12 @@ export function clampCaution(
   const by =
     lines && lines.length > 0 && thdVPct !== null
       ? `At this bus's THD_v of ${thdVPct.toFixed(1)} % the reading is about ${clampOverReadPct(lines).toFixed(1)} % above the fundamental, so a step that reads healthy may have lost that much capacitance.`
-      : "For example, 5 % of 5th-harmonic voltage makes it read √(1 + (5 × 0.05)²) − 1 = 3.1 % high; give the bus distortion (or drives and the transformer) to have it worked for this site.";
+      : "For example, 5 % of 5th-harmonic voltage makes it read sqrt(1 + (5 × 0.05)²) - 1 = 3.1 % high; give the bus distortion (or drives and the transformer) to have it worked for this site.";
   return {
     code: "clamp_reading_plain_bank",
     title: "True-RMS current readings of a plain bank",
     text: `A plain (not detuned) capacitor draws more current at each harmonic than at the fundamental (its reactance falls as 1/h), so a true-RMS clamp on a distorted bus reads more than the fundamental current the capacitance check assumes (banks: ${plainMeasured.map((b) => b.label).join(", ")}). ${by} Use a meter that shows the fundamental, or read with the drives stopped.`,
-    reference: "I_rms/I_1 = √(1 + Σ(h·V_h/V_1)²), circuit theory",
+    reference: "I_rms/I_1 = sqrt(1 + sum over h of (h·V_h/V_1)²), circuit theory",
   };
 }
 

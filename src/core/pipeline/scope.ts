@@ -16,7 +16,7 @@ export function scopeOf(input: SizingInput, site: SiteResult, kvarRequired: numb
     const n = input.loads.length;
     const note =
       `partial survey: ${n} load${n === 1 ? "" : "s"} read (${site.kW.toFixed(1)} kW, ${site.kvar.toFixed(1)} kvar); ` +
-      `the recommendation covers only these loads and the ${kvarRequired.toFixed(1)} kvar they need to reach the target — ` +
+      `the recommendation covers only these loads and the ${kvarRequired.toFixed(1)} kvar they need to reach the target; ` +
       `the rest of the site was not read` +
       (input.intervalDemand ? "; the building's interval data (the whole site) was not used to size this bank" : "") +
       (defaulted ? " (no service-entrance reading was given: set scope to whole_site if these loads are the whole site)" : "");

@@ -224,7 +224,7 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
     warnings.push(
       warning(
         "single_phase_on_three_phase_bank",
-        `single-phase loads corrected by a balanced three-phase bank: ${list}; the bank spreads its kvar over three phases while their need sits on one or two, so the phases are corrected unevenly — if they are large, correct them at their terminals or spread them across the phases`,
+        `single-phase loads corrected by a balanced three-phase bank: ${list}; the bank spreads its kvar over three phases while their need sits on one or two, so the phases are corrected unevenly; if they are large, correct them at their terminals or spread them across the phases`,
         prefix,
       ),
     );
@@ -244,7 +244,7 @@ export function planPlacement(input: PlacementInput): PlacementPlan {
 function conductorNoteText(ratedA: number, motorConductorAmpacityA: number | undefined): string {
   const byCurrent = `${(CONDUCTOR_AMPACITY_FACTOR * 100).toFixed(0)} % of the unit's ${ratedA.toFixed(1)} A rated current = ${(ratedA * CONDUCTOR_AMPACITY_FACTOR).toFixed(1)} A`;
   if (motorConductorAmpacityA === undefined) {
-    return `conductors from the motor terminals to the capacitor: at least ${byCurrent}, and at least one third of the motor-circuit conductors' ampacity (NFPA 70 460.8(A)) — give motorConductorAmpacityA to work that floor`;
+    return `conductors from the motor terminals to the capacitor: at least ${byCurrent}, and at least one third of the motor-circuit conductors' ampacity (NFPA 70 460.8(A)); give motorConductorAmpacityA to work that floor`;
   }
   return `conductors from the motor terminals to the capacitor: at least the larger of ${byCurrent} and one third of the ${motorConductorAmpacityA} A motor-circuit conductors = ${(motorConductorAmpacityA / 3).toFixed(1)} A (NFPA 70 460.8(A))`;
 }

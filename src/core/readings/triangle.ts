@@ -122,7 +122,7 @@ export function triangleOf(m: Measurement, phases: Phases, at: (string | number)
       warnings.push(
         warning(
           "true_pf_without_thd",
-          "a true-PF reading without current THD is used as if it were displacement PF; capacitors correct only the displacement part, so the kvar may be overstated — add currentTHDPct",
+          "a true-PF reading without current THD is used as if it were displacement PF; capacitors correct only the displacement part, so the kvar may be overstated: add currentTHDPct",
           pathOf(at, "pfType"),
         ),
       );
