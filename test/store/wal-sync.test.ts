@@ -184,4 +184,20 @@ describe("SQLite: checkpoints on their own thread", () => {
     expect(statSync(`${path}-wal`).size).toBeLessThan(1_500_000);
     expect(statSync(path).size).toBeGreaterThan(5_000_000);
   });
+
+  it("checkpoints after plain autocommits too, when no group ever commits", async () => {
+    path = tempDatabasePath();
+    store = await openSqliteStore({ path, checkpointEveryMs: 0 });
+    const before = store.groupCommitStats();
+    const name = "o".repeat(100_000); // about 25 pages a write
+    for (let i = 0; i < 40; i++) {
+      await store.keys.createOrganisation(`org_plain${i}`, `${name}${i}`, at); // a plain write: its own autocommit
+      await new Promise((r) => setTimeout(r, 40)); // time for the checkpoint to end before the next write begins
+    }
+    const after = store.groupCommitStats();
+    expect(after.groups).toBe(before.groups); // no group committed: only the autocommits can have asked
+    expect(after.checkpoints).toBeGreaterThan(before.checkpoints);
+    // without a checkpoint the 40 writes leave about 4 MB of log (checked to fail so before the fix)
+    expect(statSync(`${path}-wal`).size).toBeLessThan(1_500_000);
+  });
 });

@@ -27,6 +27,8 @@ export interface GroupCommitStats {
   largest: number;
   /** bySize[n]: groups that carried n transactions (index 0 unused). */
   bySize: number[];
+  /** Checkpoints started on the checkpoint thread. */
+  checkpoints: number;
   /** Syncs of the write-ahead log completed (several COMMITs may share one). */
   syncs: number;
 }
@@ -46,7 +48,7 @@ export class GroupCommitter<R> {
   private readonly queue: Job<R>[] = [];
   private scheduled = false;
   private open: Promise<void> | null = null;
-  private readonly counts: Omit<GroupCommitStats, "syncs"> = { groups: 0, transactions: 0, largest: 0, bySize: [] };
+  private readonly counts: Omit<GroupCommitStats, "syncs"> = { groups: 0, transactions: 0, largest: 0, bySize: [], checkpoints: 0 };
   private checkpointing: Promise<void> | null = null;
   private lastCheckpoint = performance.now();
 
@@ -118,9 +120,19 @@ export class GroupCommitter<R> {
     }
   }
 
+  /**
+   * A plain statement outside any group has just written (an autocommit): its frames count toward a checkpoint
+   * too, or a service whose only writes are autocommits would grow the log without bound (the automatic
+   * checkpoint is off, ./sqlite-store.ts).
+   */
+  wroteOutsideGroup(): void {
+    if (!this.open) this.checkpointIfDue();
+  }
+
   private checkpointIfDue(): void {
     const c = this.checkpoints;
     if (!c || this.checkpointing || performance.now() - this.lastCheckpoint < c.everyMs) return;
+    this.counts.checkpoints++;
     this.checkpointing = c.run().finally(() => {
       this.checkpointing = null;
       this.lastCheckpoint = performance.now();

@@ -127,7 +127,10 @@ export async function openSqliteStore(options: SqliteStoreOptions): Promise<Sqli
     around: () => {
       const changesBefore = totalChanges.get();
       return () => {
-        if (totalChanges.get() !== changesBefore) durability.committedOne();
+        if (totalChanges.get() !== changesBefore) {
+          durability.committedOne();
+          committer.wroteOutsideGroup();
+        }
         return durability.durable();
       };
     },
