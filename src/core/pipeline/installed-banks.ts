@@ -58,7 +58,7 @@ export function assessInstalledBanks(input: SizingInput, site: SiteResult, loads
     warnings.push(
       warning(
         "installed_steps_need_repair",
-        `repair before buying new capacitors: ${list}: ${credit.kvarRestoredByRepair.toFixed(1)} kvar restored in all; after repair the installed banks give ${credit.kvarInstalledRated.toFixed(1)} kvar against ${credit.kvarRequiredTotal.toFixed(1)} kvar required, leaving ${credit.kvarAdditional.toFixed(1)} kvar to add`,
+        `repair before buying new capacitors: ${list}; ${credit.kvarRestoredByRepair.toFixed(1)} kvar restored in all; after repair the installed banks give ${credit.kvarInstalledRated.toFixed(1)} kvar against ${credit.kvarRequiredTotal.toFixed(1)} kvar required, leaving ${credit.kvarAdditional.toFixed(1)} kvar to add`,
         "installedBanks",
       ),
     );
@@ -69,7 +69,7 @@ export function assessInstalledBanks(input: SizingInput, site: SiteResult, loads
     warnings.push(
       warning(
         "installed_steps_lead",
-        `the site leads beyond the target with installed steps energised: take out ${steps} (${r.kvarRemoved.toFixed(1)} kvar) for PF ${r.pfAfter.toFixed(3)} ${r.senseAfter}${r.reachesTarget ? "" : ", still short of the target"}`,
+        `the site leads beyond the target with installed steps energised: take out ${steps} (${r.kvarRemoved.toFixed(1)} kvar); PF after ${r.pfAfter.toFixed(3)} ${r.senseAfter}${r.reachesTarget ? "" : ", still short of the target"}`,
         "bankReadings",
       ),
     );

@@ -37,7 +37,7 @@ export function checkReadingVolts(volts: number, loadPhases: Phases, system: Sys
   const neutralV = system.phases === 3 ? lineV / SQRT3 : lineV / 2;
   if (near(volts, neutralV)) {
     if (loadPhases === 1) return { issues: [], warnings: [] };
-    const msg = `${volts} V is within 10 % of the ${neutralV.toFixed(0)} V line-to-neutral voltage of the ${lineV} V system: three-phase kVA (sqrt(3)·V·I) needs line-to-line volts: read between two lines, or set the load's phases: 1 if it is a single-phase load`;
+    const msg = `${volts} V is within 10 % of the ${neutralV.toFixed(0)} V line-to-neutral voltage of the ${lineV} V system: three-phase kVA (sqrt(3)·V·I) needs line-to-line volts; read between two lines, or set the load's phases: 1 if it is a single-phase load`;
     return { issues: [], warnings: [warning("reading_line_to_neutral", msg, path.join("."))] };
   }
   const pct = (ratio - 1) * 100;
