@@ -191,8 +191,10 @@ describe("SQLite: checkpoints on their own thread", () => {
     const before = store.groupCommitStats();
     const name = "o".repeat(100_000); // about 25 pages a write
     for (let i = 0; i < 40; i++) {
+      const done = store.groupCommitStats().checkpoints;
       await store.keys.createOrganisation(`org_plain${i}`, `${name}${i}`, at); // a plain write: its own autocommit
-      await new Promise((r) => setTimeout(r, 40)); // time for the checkpoint to end before the next write begins
+      // the checkpoint it asked for ends before the next write begins, so that write restarts the log
+      await vi.waitFor(() => expect(store!.groupCommitStats().checkpoints).toBeGreaterThan(done));
     }
     const after = store.groupCommitStats();
     expect(after.groups).toBe(before.groups); // no group committed: only the autocommits can have asked

@@ -27,7 +27,7 @@ export interface GroupCommitStats {
   largest: number;
   /** bySize[n]: groups that carried n transactions (index 0 unused). */
   bySize: number[];
-  /** Checkpoints started on the checkpoint thread. */
+  /** Checkpoints the checkpoint thread has finished (or given up on). */
   checkpoints: number;
   /** Syncs of the write-ahead log completed (several COMMITs may share one). */
   syncs: number;
@@ -132,8 +132,8 @@ export class GroupCommitter<R> {
   private checkpointIfDue(): void {
     const c = this.checkpoints;
     if (!c || this.checkpointing || performance.now() - this.lastCheckpoint < c.everyMs) return;
-    this.counts.checkpoints++;
     this.checkpointing = c.run().finally(() => {
+      this.counts.checkpoints++;
       this.checkpointing = null;
       this.lastCheckpoint = performance.now();
       if (this.queue.length > 0) this.schedule();
